@@ -1,0 +1,160 @@
+package geom
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// VTK cell type numbers for the shell elements Joinery reads (VTK file
+// format documentation, Kitware: VTK_TRIANGLE = 5, VTK_QUAD = 9).
+const (
+	VTKTriangle = 5
+	VTKQuad     = 9
+)
+
+// ReadOptions are the settings every mesh reader takes.
+type ReadOptions struct {
+	// DefaultPart, when HasDefaultPart is set, is the part of every
+	// element of a file that carries no part array.
+	DefaultPart    int64
+	HasDefaultPart bool
+}
+
+// CellSet is a mesh as a VTK-style reader holds it just after reading:
+// points, cells with VTK type numbers, and the optional data arrays.
+// Conn holds point indices; cell c uses Conn[Offsets[c]:Offsets[c+1]].
+type CellSet struct {
+	File      string
+	Points    []r3.Vec
+	Types     []uint8
+	Offsets   []int64 // len(Types)+1
+	Conn      []int64
+	NodeIDs   []int64   // per point; nil means index+1
+	ElemIDs   []int64   // per cell (all cells, kept or not); nil means index+1
+	Part      []int64   // per cell; nil when the file has no part array
+	Thickness []float64 // per cell; nil when absent
+}
+
+// MeshFromCells checks a CellSet and turns it into a Mesh holding its
+// triangles (type 5) and quads (type 9). Other cell types are skipped and
+// counted in the mesh's Source. Errors name the file and the record.
+func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
+	nc := len(cs.Types)
+	if len(cs.Offsets) != nc+1 {
+		return nil, FileError(cs.File, "%d cell offsets for %d cells", len(cs.Offsets), nc)
+	}
+	for name, n := range map[string]int{"node_id": len(cs.NodeIDs)} {
+		if n != 0 && n != len(cs.Points) {
+			return nil, FileError(cs.File, "point array %s has %d values for %d points", name, n, len(cs.Points))
+		}
+	}
+	for name, n := range map[string]int{"element_id": len(cs.ElemIDs), "part": len(cs.Part), "thickness": len(cs.Thickness)} {
+		if n != 0 && n != nc {
+			return nil, FileError(cs.File, "cell array %s has %d values for %d cells", name, n, nc)
+		}
+	}
+	if cs.Part == nil && !opt.HasDefaultPart && nc > 0 {
+		return nil, FileError(cs.File, "no cell array \"part\" and no part in the parts table names this file")
+	}
+	for i, p := range cs.Points {
+		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
+			return nil, RecordError(cs.File, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
+		}
+	}
+	m := &Mesh{Coords: cs.Points}
+	if cs.NodeIDs != nil {
+		m.NodeIDs = cs.NodeIDs
+		for i, id := range m.NodeIDs {
+			if id <= 0 {
+				return nil, RecordError(cs.File, i, "point %d: node id %d is not positive", i, id)
+			}
+		}
+	} else {
+		m.NodeIDs = make([]int64, len(cs.Points))
+		for i := range m.NodeIDs {
+			m.NodeIDs[i] = int64(i) + 1
+		}
+	}
+	kept := 0
+	skipped := map[string]int{}
+	for _, t := range cs.Types {
+		if t == VTKTriangle || t == VTKQuad {
+			kept++
+		} else {
+			skipped[fmt.Sprintf("vtk-cell-%d", t)]++
+		}
+	}
+	m.ElemIDs = make([]int64, 0, kept)
+	m.ElemPart = make([]int32, 0, kept)
+	m.ElemStart = make([]int32, 1, kept+1)
+	m.Conn = make([]int32, 0, 4*kept)
+	if cs.Thickness != nil {
+		m.ElemThickness = make([]float64, 0, kept)
+	}
+	partIdx := map[int64]int32{}
+	np := int64(len(cs.Points))
+	for c, t := range cs.Types {
+		lo, hi := cs.Offsets[c], cs.Offsets[c+1]
+		if lo < 0 || hi < lo || hi > int64(len(cs.Conn)) {
+			return nil, RecordError(cs.File, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(cs.Conn))
+		}
+		if t != VTKTriangle && t != VTKQuad {
+			continue
+		}
+		want := int64(3)
+		if t == VTKQuad {
+			want = 4
+		}
+		if hi-lo != want {
+			return nil, RecordError(cs.File, c, "cell %d: type %d needs %d points, has %d", c, t, want, hi-lo)
+		}
+		for _, p := range cs.Conn[lo:hi] {
+			if p < 0 || p >= np {
+				return nil, RecordError(cs.File, c, "cell %d references point %d; the file has %d points", c, p, np)
+			}
+			m.Conn = append(m.Conn, int32(p))
+		}
+		m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
+		id := int64(c) + 1
+		if cs.ElemIDs != nil {
+			id = cs.ElemIDs[c]
+			if id <= 0 {
+				return nil, RecordError(cs.File, c, "cell %d: element id %d is not positive", c, id)
+			}
+		}
+		m.ElemIDs = append(m.ElemIDs, id)
+		pid := opt.DefaultPart
+		if cs.Part != nil {
+			pid = cs.Part[c]
+			if pid <= 0 {
+				return nil, RecordError(cs.File, c, "cell %d: part id %d is not positive", c, pid)
+			}
+		}
+		pi, ok := partIdx[pid]
+		if !ok {
+			pi = int32(len(m.Parts))
+			partIdx[pid] = pi
+			m.Parts = append(m.Parts, Part{ID: pid})
+		}
+		m.ElemPart = append(m.ElemPart, pi)
+		if cs.Thickness != nil {
+			th := cs.Thickness[c]
+			if !(th > 0) || math.IsInf(th, 0) {
+				return nil, RecordError(cs.File, c, "cell %d: thickness %g is not a positive number", c, th)
+			}
+			m.ElemThickness = append(m.ElemThickness, th)
+		}
+	}
+	if len(skipped) == 0 {
+		skipped = nil
+	}
+	m.Sources = []Source{{File: cs.File, Skipped: skipped}}
+	if err := m.Index(); err != nil {
+		return nil, FileError(cs.File, "%w", err)
+	}
+	return m, nil
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
