@@ -1,0 +1,110 @@
+package geom
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// Corner returns the coordinates of corner k of element e.
+func (m *Mesh) Corner(e, k int) r3.Vec { return m.Coords[m.Conn[int(m.ElemStart[e])+k]] }
+
+// Centroid returns the mean of the corner nodes of element e.
+func (m *Mesh) Centroid(e int) r3.Vec {
+	nc := m.Type(e).Corners()
+	var c r3.Vec
+	for k := 0; k < nc; k++ {
+		c = r3.Add(c, m.Corner(e, k))
+	}
+	return r3.Scale(1/float64(nc), c)
+}
+
+// areaVector returns a vector normal to element e whose length is its area:
+// (b-a)x(c-a)/2 for a triangle, and (c-a)x(d-b)/2 for a quad (the cross
+// product of the diagonals, exact for planar quads and the area of the
+// quad's projection onto its mean plane for warped ones).
+func (m *Mesh) areaVector(e int) r3.Vec {
+	a, b, c := m.Corner(e, 0), m.Corner(e, 1), m.Corner(e, 2)
+	if m.Type(e).Corners() == 3 {
+		return r3.Scale(0.5, r3.Cross(r3.Sub(b, a), r3.Sub(c, a)))
+	}
+	d := m.Corner(e, 3)
+	return r3.Scale(0.5, r3.Cross(r3.Sub(c, a), r3.Sub(d, b)))
+}
+
+// Normal returns the unit normal of element e by the right-hand rule over
+// its node order (for quads, the normal of the mean plane through the
+// diagonals). It returns the zero vector for a degenerate element.
+func (m *Mesh) Normal(e int) r3.Vec {
+	v := m.areaVector(e)
+	n := r3.Norm(v)
+	if n == 0 {
+		return r3.Vec{}
+	}
+	return r3.Scale(1/n, v)
+}
+
+// Area returns the area of element e in mm² (see areaVector for warped quads).
+func (m *Mesh) Area(e int) float64 { return r3.Norm(m.areaVector(e)) }
+
+// ElemBox returns the axis-aligned bounding box of element e's corners.
+func (m *Mesh) ElemBox(e int) r3.Box {
+	nc := m.Type(e).Corners()
+	b := r3.Box{Min: m.Corner(e, 0), Max: m.Corner(e, 0)}
+	for k := 1; k < nc; k++ {
+		b = growBox(b, m.Corner(e, k))
+	}
+	return b
+}
+
+// EmptyBox is the box that contains nothing; growing it by a point gives
+// that point's box.
+func EmptyBox() r3.Box {
+	inf := math.Inf(1)
+	return r3.Box{Min: r3.Vec{X: inf, Y: inf, Z: inf}, Max: r3.Vec{X: -inf, Y: -inf, Z: -inf}}
+}
+
+func growBox(b r3.Box, p r3.Vec) r3.Box {
+	b.Min = r3.Vec{X: math.Min(b.Min.X, p.X), Y: math.Min(b.Min.Y, p.Y), Z: math.Min(b.Min.Z, p.Z)}
+	b.Max = r3.Vec{X: math.Max(b.Max.X, p.X), Y: math.Max(b.Max.Y, p.Y), Z: math.Max(b.Max.Z, p.Z)}
+	return b
+}
+
+// BoxContains reports whether p lies in b grown by margin on every side.
+func BoxContains(b r3.Box, p r3.Vec, margin float64) bool {
+	return p.X >= b.Min.X-margin && p.X <= b.Max.X+margin &&
+		p.Y >= b.Min.Y-margin && p.Y <= b.Max.Y+margin &&
+		p.Z >= b.Min.Z-margin && p.Z <= b.Max.Z+margin
+}
+
+// PartStats holds per-part totals.
+type PartStats struct {
+	Elems int
+	Tris  int
+	Quads int
+	Area  float64 // mm²
+	Box   r3.Box  // bounding box of the part's element corners
+}
+
+// PartStats returns element counts, areas and bounding boxes per part,
+// aligned with m.Parts. It runs in one pass over the elements.
+func (m *Mesh) PartStats() []PartStats {
+	st := make([]PartStats, len(m.Parts))
+	for i := range st {
+		st[i].Box = EmptyBox()
+	}
+	for e := range m.ElemIDs {
+		s := &st[m.ElemPart[e]]
+		s.Elems++
+		if m.Type(e).Corners() == 3 {
+			s.Tris++
+		} else {
+			s.Quads++
+		}
+		s.Area += m.Area(e)
+		for _, n := range m.ElemNodes(e) {
+			s.Box = growBox(s.Box, m.Coords[n])
+		}
+	}
+	return st
+}

@@ -1,0 +1,205 @@
+package geom
+
+import (
+	"cmp"
+	"slices"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// Adjacency lists, for every node, the elements that use it (compressed
+// rows: the elements of node n are Elems[Start[n]:Start[n+1]], in
+// increasing order).
+type Adjacency struct {
+	Start []int32
+	Elems []int32
+}
+
+// NodeElements builds the node-to-element adjacency of m in O(n) time.
+func NodeElements(m *Mesh) Adjacency {
+	nn := m.NumNodes()
+	start := make([]int32, nn+1)
+	for _, n := range m.Conn {
+		start[n+1]++
+	}
+	for i := 1; i <= nn; i++ {
+		start[i] += start[i-1]
+	}
+	fill := make([]int32, nn)
+	elems := make([]int32, len(m.Conn))
+	for e := range m.ElemIDs {
+		for _, n := range m.ElemNodes(e) {
+			elems[start[n]+fill[n]] = int32(e)
+			fill[n]++
+		}
+	}
+	return Adjacency{Start: start, Elems: elems}
+}
+
+// Of returns the elements that use node n. The slice aliases a: do not
+// modify it.
+func (a Adjacency) Of(n int32) []int32 { return a.Elems[a.Start[n]:a.Start[n+1]] }
+
+// Edge is one edge of one element: from corner Local to the next corner,
+// joining nodes A and B (node indices).
+type Edge struct {
+	Elem  int32
+	Local int8
+	A, B  int32
+}
+
+// ElemEdge returns edge k of element e.
+func (m *Mesh) ElemEdge(e, k int) Edge {
+	nodes := m.ElemNodes(e)
+	nc := m.Type(e).Corners()
+	return Edge{Elem: int32(e), Local: int8(k), A: nodes[k], B: nodes[(k+1)%nc]}
+}
+
+// EdgeNeighbors appends to dst the elements other than e that share edge
+// k of element e, of any part, in increasing order.
+func EdgeNeighbors(m *Mesh, adj Adjacency, e, k int, dst []int32) []int32 {
+	ed := m.ElemEdge(e, k)
+	for _, f := range adj.Of(ed.A) {
+		if int(f) != e && usesNode(m, int(f), ed.B) {
+			dst = append(dst, f)
+		}
+	}
+	return dst
+}
+
+func usesNode(m *Mesh, e int, n int32) bool {
+	return slices.Contains(m.ElemNodes(e)[:m.Type(e).Corners()], n)
+}
+
+// FreeEdges returns the boundary edges of every part: the element edges no
+// other element of the same part shares. Edges where two parts meet are
+// free edges of both parts. The result is in element order.
+func FreeEdges(m *Mesh, adj Adjacency) []Edge {
+	var out []Edge
+	for e := range m.ElemIDs {
+		nc := m.Type(e).Corners()
+		part := m.ElemPart[e]
+		for k := 0; k < nc; k++ {
+			ed := m.ElemEdge(e, k)
+			shared := false
+			for _, f := range adj.Of(ed.A) {
+				if int(f) != e && m.ElemPart[f] == part && usesNode(m, int(f), ed.B) {
+					shared = true
+					break
+				}
+			}
+			if !shared {
+				out = append(out, ed)
+			}
+		}
+	}
+	return out
+}
+
+// Loop is a chain of free edges of one part.
+type Loop struct {
+	Part   int32   // index into Mesh.Parts
+	Nodes  []int32 // node indices in order; a closed loop does not repeat the first node
+	Closed bool
+	Length float64 // mm
+	// Outline marks the longest loop of each part (its outer boundary);
+	// the part's other loops are holes or cut-outs.
+	Outline bool
+}
+
+// FreeEdgeLoops chains free edges into loops, part by part. Edges are
+// followed regardless of their direction, so parts with inconsistently
+// oriented elements still give closed loops. Where more than two free
+// edges meet at a node (a pinch point), the unused edge of lowest index is
+// taken. Loops come sorted by part index, then by their first edge.
+func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
+	// Incidence lists of free edges per node.
+	type inc struct {
+		node int32
+		edge int32
+	}
+	incs := make([]inc, 0, 2*len(edges))
+	for i, ed := range edges {
+		incs = append(incs, inc{ed.A, int32(i)}, inc{ed.B, int32(i)})
+	}
+	slices.SortFunc(incs, func(a, b inc) int {
+		return cmp.Or(cmp.Compare(a.node, b.node), cmp.Compare(a.edge, b.edge))
+	})
+	at := func(n int32) []inc {
+		lo, _ := slices.BinarySearchFunc(incs, n, func(a inc, n int32) int { return cmp.Compare(a.node, n) })
+		hi := lo
+		for hi < len(incs) && incs[hi].node == n {
+			hi++
+		}
+		return incs[lo:hi]
+	}
+	order := make([]int32, len(edges))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	slices.SortStableFunc(order, func(a, b int32) int {
+		return cmp.Compare(m.ElemPart[edges[a].Elem], m.ElemPart[edges[b].Elem])
+	})
+	used := make([]bool, len(edges))
+	var loops []Loop
+	for _, first := range order {
+		if used[first] {
+			continue
+		}
+		part := m.ElemPart[edges[first].Elem]
+		used[first] = true
+		start := edges[first].A
+		// walk follows unused free edges of the part from node v until it
+		// comes back to start or reaches a dead end; it returns the nodes
+		// visited after v and the length walked.
+		walk := func(v int32) (nodes []int32, length float64) {
+			for v != start {
+				next := int32(-1)
+				for _, c := range at(v) {
+					if !used[c.edge] && m.ElemPart[edges[c.edge].Elem] == part {
+						next = c.edge
+						break
+					}
+				}
+				if next < 0 {
+					return nodes, length
+				}
+				used[next] = true
+				w := edges[next].A
+				if w == v {
+					w = edges[next].B
+				}
+				length += r3.Norm(r3.Sub(m.Coords[w], m.Coords[v]))
+				nodes = append(nodes, w)
+				v = w
+			}
+			return nodes, length
+		}
+		b := edges[first].B
+		fwd, length := walk(b)
+		lp := Loop{Part: part, Length: length + r3.Norm(r3.Sub(m.Coords[b], m.Coords[start]))}
+		lp.Closed = len(fwd) > 0 && fwd[len(fwd)-1] == start
+		lp.Nodes = append([]int32{start, b}, fwd...)
+		if lp.Closed {
+			lp.Nodes = lp.Nodes[:len(lp.Nodes)-1]
+		} else {
+			// An open chain: extend it backwards from the first edge's start.
+			start = b // walk stops only at dead ends now (b is already passed)
+			back, blen := walk(lp.Nodes[0])
+			slices.Reverse(back)
+			lp.Nodes = append(back, lp.Nodes...)
+			lp.Length += blen
+		}
+		loops = append(loops, lp)
+	}
+	best := map[int32]int{}
+	for i, lp := range loops {
+		if j, ok := best[lp.Part]; !ok || lp.Length > loops[j].Length {
+			best[lp.Part] = i
+		}
+	}
+	for _, i := range best {
+		loops[i].Outline = true
+	}
+	return loops
+}
