@@ -102,8 +102,10 @@ type Loop struct {
 	Nodes  []int32 // node indices in order; a closed loop does not repeat the first node
 	Closed bool
 	Length float64 // mm
-	// Outline marks the longest loop of each part (its outer boundary);
-	// the part's other loops are holes or cut-outs.
+	// Outline marks a loop that bounds its part from outside; a loop whose
+	// bounding box lies inside the box of another loop of the same part is
+	// a hole or cut-out instead. A part made of several separate pieces
+	// has several outlines.
 	Outline bool
 }
 
@@ -192,14 +194,40 @@ func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
 		}
 		loops = append(loops, lp)
 	}
-	best := map[int32]int{}
+	markOutlines(m, loops)
+	return loops
+}
+
+// markOutlines sets Outline on every loop whose bounding box is not
+// contained in the box of a longer loop of the same part.
+func markOutlines(m *Mesh, loops []Loop) {
+	boxes := make([]r3.Box, len(loops))
 	for i, lp := range loops {
-		if j, ok := best[lp.Part]; !ok || lp.Length > loops[j].Length {
-			best[lp.Part] = i
+		b := EmptyBox()
+		for _, n := range lp.Nodes {
+			b = growBox(b, m.Coords[n])
+		}
+		boxes[i] = b
+	}
+	byPart := map[int32][]int{}
+	for i, lp := range loops {
+		byPart[lp.Part] = append(byPart[lp.Part], i)
+	}
+	for _, idx := range byPart {
+		for _, i := range idx {
+			loops[i].Outline = true
+			for _, j := range idx {
+				if j != i && loops[j].Length > loops[i].Length && boxInside(boxes[i], boxes[j]) {
+					loops[i].Outline = false
+					break
+				}
+			}
 		}
 	}
-	for _, i := range best {
-		loops[i].Outline = true
-	}
-	return loops
+}
+
+// boxInside reports whether box a lies within box b.
+func boxInside(a, b r3.Box) bool {
+	return a.Min.X >= b.Min.X && a.Min.Y >= b.Min.Y && a.Min.Z >= b.Min.Z &&
+		a.Max.X <= b.Max.X && a.Max.Y <= b.Max.Y && a.Max.Z <= b.Max.Z
 }

@@ -99,3 +99,12 @@ func contains(ids []int64, id int64) bool {
 	}
 	return false
 }
+
+func TestSeparatePiecesAreOutlines(t *testing.T) {
+	// Two 1x1 pieces of one part with a gap between them: two outlines.
+	m := quadGrid(3, 1, 1, func(i, j int) bool { return i == 1 })
+	loops := FreeEdgeLoops(m, FreeEdges(m, NodeElements(m)))
+	if len(loops) != 2 || !loops[0].Outline || !loops[1].Outline {
+		t.Fatalf("loops %+v", loops)
+	}
+}

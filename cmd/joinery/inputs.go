@@ -1,0 +1,42 @@
+package main
+
+import (
+	"github.com/spf13/pflag"
+
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// inputOptions are the input flags shared by the commands that read a
+// model: they override the same fields of a job file.
+type inputOptions struct {
+	meshes   []string
+	parts    string
+	joints   []string
+	renumber bool
+	flags    *pflag.FlagSet
+}
+
+// AddFlags registers the input flags.
+func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
+	o.flags = fs
+	fs.StringArrayVarP(&o.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu or .jmesh); repeat for several files")
+	fs.StringVarP(&o.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
+	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
+	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
+}
+
+// apply overrides the job's inputs with the flags the user set.
+func (o *inputOptions) apply(job *joints.Job) {
+	if o.flags.Changed("mesh") {
+		job.Meshes = o.meshes
+	}
+	if o.flags.Changed("parts") {
+		job.Parts = o.parts
+	}
+	if o.flags.Changed("joints") {
+		job.Joints = o.joints
+	}
+	if o.flags.Changed("renumber") {
+		job.Renumber = &o.renumber
+	}
+}

@@ -1,0 +1,70 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/writers"
+)
+
+// globalOptions are the flags every command shares, and the streams.
+type globalOptions struct {
+	quiet    bool
+	json     bool
+	stdout   io.Writer
+	stderr   io.Writer
+	terminal bool // stderr is a terminal: progress bars allowed
+}
+
+// progress returns a terminal bar when stderr is a terminal and output is
+// neither quiet nor JSON, else a no-op.
+func (g *globalOptions) progress() geom.Progress {
+	if g.terminal && !g.quiet && !g.json {
+		return &writers.Bar{W: g.stderr}
+	}
+	return geom.NoProgress{}
+}
+
+// note prints a diagnostic line to stderr unless --quiet.
+func (g *globalOptions) note(format string, args ...any) {
+	if !g.quiet {
+		fmt.Fprintf(g.stderr, format+"\n", args...)
+	}
+}
+
+func newRootCommand(g *globalOptions) *cobra.Command {
+	root := &cobra.Command{
+		Use:   "joinery",
+		Short: "Build and check spot-weld and bolt connectors for shell models of sheet-metal assemblies",
+		Long: `joinery reads shell meshes of sheet-metal parts (VTK legacy .vtk, VTK XML .vtu,
+or joinery's native .jmesh), a parts table and a joint list (spot welds and
+bolts), finds the sheets each joint joins, and writes connector definitions
+and a connectivity report in joinery's own documented formats.
+
+joinery is a modelling aid. Joints in crash structures, seat and belt
+anchorages or lifting points need physical test, the applicable codes and
+qualified engineering judgement; joinery's output is no substitute.`,
+		Version:       version,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+	}
+	root.SetOut(g.stdout)
+	root.SetErr(g.stderr)
+	pf := root.PersistentFlags()
+	pf.BoolVarP(&g.quiet, "quiet", "q", false, "print nothing on stderr but errors")
+	pf.BoolVar(&g.json, "json", false, "print results on stdout as JSON")
+	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
+		return usageError{fmt.Errorf("%w (see '%s --help')", err, c.CommandPath())}
+	})
+	root.AddCommand(newInspectCommand(g), newBuildCommand(g))
+	return root
+}
+
+// usageError marks a command-line mistake (exit status 2).
+type usageError struct{ err error }
+
+func (e usageError) Error() string { return e.err.Error() }
+func (e usageError) Unwrap() error { return e.err }

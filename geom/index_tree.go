@@ -1,0 +1,403 @@
+package geom
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// treeFan is the number of children of each node of a packedTree.
+const treeFan = 16
+
+// box32 is an axis-aligned box in single precision, rounded outwards so
+// that it contains the double-precision box it was made from.
+type box32 struct {
+	lo, hi [3]float32
+}
+
+// emptyBox32 contains nothing; union with it is the identity.
+var emptyBox32 = box32{
+	lo: [3]float32{float32(math.Inf(1)), float32(math.Inf(1)), float32(math.Inf(1))},
+	hi: [3]float32{float32(math.Inf(-1)), float32(math.Inf(-1)), float32(math.Inf(-1))},
+}
+
+// down32 and up32 round x to a float32 not above (below) it.
+func down32(x float64) float32 {
+	f := float32(x)
+	if float64(f) > x {
+		f = math.Nextafter32(f, float32(math.Inf(-1)))
+	}
+	return f
+}
+
+func up32(x float64) float32 {
+	f := float32(x)
+	if float64(f) < x {
+		f = math.Nextafter32(f, float32(math.Inf(1)))
+	}
+	return f
+}
+
+// box32Of returns the float32 box around a double-precision box.
+func box32Of(lo, hi r3.Vec) box32 {
+	return box32{
+		lo: [3]float32{down32(lo.X), down32(lo.Y), down32(lo.Z)},
+		hi: [3]float32{up32(hi.X), up32(hi.Y), up32(hi.Z)},
+	}
+}
+
+// union grows b to contain c. NaN bounds are ignored.
+func (b *box32) union(c *box32) {
+	for k := range 3 {
+		if c.lo[k] < b.lo[k] {
+			b.lo[k] = c.lo[k]
+		}
+		if c.hi[k] > b.hi[k] {
+			b.hi[k] = c.hi[k]
+		}
+	}
+}
+
+// dist2 returns the squared distance from p to the box (0 inside). An
+// empty box (lo = +Inf, hi = -Inf) is infinitely far from a finite p.
+func (b *box32) dist2(p *[3]float64) float64 {
+	return axisDist2(p[0], b.lo[0], b.hi[0]) + axisDist2(p[1], b.lo[1], b.hi[1]) + axisDist2(p[2], b.lo[2], b.hi[2])
+}
+
+func axisDist2(v float64, lo, hi float32) float64 {
+	if d := float64(lo) - v; d > 0 {
+		return d * d
+	}
+	if d := v - float64(hi); d > 0 {
+		return d * d
+	}
+	return 0
+}
+
+// packedTree is a static bounding-box hierarchy over n items, packed in
+// the manner of a packed R-tree: the items are sorted along a Morton
+// (Z-order) curve of their box centres, consecutive runs of treeFan items
+// form the leaves, runs of treeFan leaves the next level, and so on up to
+// a single root. Level l occupies boxes[level[l]:level[l+1]]; the children
+// of node i of level l are nodes i*treeFan .. i*treeFan+treeFan-1 of level
+// l-1; level 0 holds the item boxes, ids[i] being the item of box i.
+//
+// A packedTree is read-only after construction and safe for concurrent
+// queries.
+type packedTree struct {
+	ids   []int32
+	boxes []box32
+	level []int
+}
+
+// treeItems describes the items a packedTree is built over.
+type treeItems interface {
+	// Len returns the number of items.
+	Len() int
+	// Box returns the double-precision bounding box of item i.
+	Box(i int) (lo, hi r3.Vec)
+}
+
+// newPackedTree builds a packedTree over the items in O(n) time (one
+// radix sort) and 28 bytes per item.
+func newPackedTree(items treeItems) packedTree {
+	n := items.Len()
+	if n == 0 {
+		return packedTree{level: []int{0, 0}}
+	}
+	// Bounds of the box centres, then Morton codes of the centres.
+	clo := r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
+	chi := r3.Vec{X: math.Inf(-1), Y: math.Inf(-1), Z: math.Inf(-1)}
+	for i := range n {
+		lo, hi := items.Box(i)
+		c := r3.Scale(0.5, r3.Add(lo, hi))
+		clo.X, chi.X = minIgnoreNaN(clo.X, c.X), maxIgnoreNaN(chi.X, c.X)
+		clo.Y, chi.Y = minIgnoreNaN(clo.Y, c.Y), maxIgnoreNaN(chi.Y, c.Y)
+		clo.Z, chi.Z = minIgnoreNaN(clo.Z, c.Z), maxIgnoreNaN(chi.Z, c.Z)
+	}
+	// One scale for all axes, so that the curve's cells are cubes: a
+	// scale per axis would stretch the cells of a flat model.
+	var scale float64
+	if d := max(chi.X-clo.X, chi.Y-clo.Y, chi.Z-clo.Z); d > 0 && !math.IsInf(d, 0) {
+		scale = mortonMax / d
+	}
+	sx, sy, sz := scale, scale, scale
+	codes := make([]uint64, n)
+	ids := make([]int32, n)
+	for i := range n {
+		lo, hi := items.Box(i)
+		c := r3.Scale(0.5, r3.Add(lo, hi))
+		codes[i] = morton3(quantize(c.X, clo.X, sx), quantize(c.Y, clo.Y, sy), quantize(c.Z, clo.Z, sz))
+		ids[i] = int32(i)
+	}
+	radixSort(codes, ids)
+
+	// Levels: count the nodes, then fill the item boxes and the unions.
+	t := packedTree{ids: ids, level: []int{0}}
+	total := 0
+	for c := n; ; c = (c + treeFan - 1) / treeFan {
+		total += c
+		t.level = append(t.level, total)
+		if c == 1 {
+			break
+		}
+	}
+	t.boxes = make([]box32, total)
+	for i, id := range ids {
+		lo, hi := items.Box(int(id))
+		t.boxes[i] = box32Of(lo, hi)
+	}
+	for l := 1; l+1 < len(t.level); l++ {
+		child := t.boxes[t.level[l-1]:t.level[l]]
+		for i := range t.level[l+1] - t.level[l] {
+			b := emptyBox32
+			for j := i * treeFan; j < min(i*treeFan+treeFan, len(child)); j++ {
+				b.union(&child[j])
+			}
+			t.boxes[t.level[l]+i] = b
+		}
+	}
+	return t
+}
+
+// levels returns the number of levels; the root is node 0 of level
+// levels()-1.
+func (t *packedTree) levels() int { return len(t.level) - 1 }
+
+// count returns the number of nodes of level l.
+func (t *packedTree) count(l int) int { return t.level[l+1] - t.level[l] }
+
+// box returns node i of level l.
+func (t *packedTree) box(l, i int) *box32 { return &t.boxes[t.level[l]+i] }
+
+// children returns the range of child indices of node i of level l >= 1.
+func (t *packedTree) children(l, i int) (lo, hi int) {
+	return i * treeFan, min(i*treeFan+treeFan, t.count(l-1))
+}
+
+// treeRef names node i of level l.
+type treeRef struct {
+	l, i int32
+}
+
+// appendWithin appends to dst the items whose float32 box lies within
+// squared distance r2 of p, in tree order. The float32 boxes are rounded
+// outwards, so callers apply their exact test to the result.
+func (t *packedTree) appendWithin(dst []int32, p *[3]float64, r2 float64) []int32 {
+	if len(t.ids) == 0 {
+		return dst
+	}
+	var buf [8 * treeFan]treeRef
+	stack := buf[:0]
+	top := t.levels() - 1
+	if t.box(top, 0).dist2(p) > r2 {
+		return dst
+	}
+	stack = append(stack, treeRef{int32(top), 0})
+	for len(stack) > 0 {
+		n := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		if n.l == 0 {
+			dst = append(dst, t.ids[n.i])
+			continue
+		}
+		lo, hi := t.children(int(n.l), int(n.i))
+		if n.l == 1 {
+			items := t.boxes[lo:hi] // level 0 starts at 0
+			for j := range items {
+				if items[j].dist2(p) <= r2 {
+					dst = append(dst, t.ids[lo+j])
+				}
+			}
+			continue
+		}
+		base := t.level[n.l-1]
+		for j := lo; j < hi; j++ {
+			if t.boxes[base+j].dist2(p) <= r2 {
+				stack = append(stack, treeRef{n.l - 1, int32(j)})
+			}
+		}
+	}
+	return dst
+}
+
+// queued is a tree node waiting in a best-first search, with the squared
+// distance from the query point to its box.
+type queued struct {
+	d2 float64
+	n  treeRef
+}
+
+// nodeQueue is a binary min-heap of queued nodes by d2.
+type nodeQueue []queued
+
+func (q *nodeQueue) push(x queued) {
+	h := append(*q, x)
+	i := len(h) - 1
+	for i > 0 {
+		parent := (i - 1) / 2
+		if h[parent].d2 <= h[i].d2 {
+			break
+		}
+		h[parent], h[i] = h[i], h[parent]
+		i = parent
+	}
+	*q = h
+}
+
+func (q *nodeQueue) pop() queued {
+	h := *q
+	top := h[0]
+	last := len(h) - 1
+	h[0] = h[last]
+	h = h[:last]
+	i := 0
+	for {
+		l := 2*i + 1
+		if l >= len(h) {
+			break
+		}
+		if r := l + 1; r < len(h) && h[r].d2 < h[l].d2 {
+			l = r
+		}
+		if h[i].d2 <= h[l].d2 {
+			break
+		}
+		h[i], h[l] = h[l], h[i]
+		i = l
+	}
+	*q = h
+	return top
+}
+
+// nearestSearch visits the items of t in increasing order of their box
+// distance to p, by leaf: it calls leaf for the item range [lo, hi) of
+// level 0 of every leaf whose box is within bound() of p, nearest leaf
+// first, and stops when the next leaf is farther than bound(), which the
+// callback may lower as it finds items.
+func (t *packedTree) nearestSearch(p *[3]float64, bound func() float64, leaf func(lo, hi int)) {
+	if len(t.ids) == 0 {
+		return
+	}
+	top := t.levels() - 1
+	if top == 0 {
+		leaf(0, len(t.ids))
+		return
+	}
+	var buf [64]queued
+	q := nodeQueue(buf[:0])
+	if d := t.box(top, 0).dist2(p); d <= bound() {
+		q.push(queued{d, treeRef{int32(top), 0}})
+	}
+	for len(q) > 0 {
+		n := q.pop()
+		if n.d2 > bound() {
+			break
+		}
+		lo, hi := t.children(int(n.n.l), int(n.n.i))
+		if n.n.l == 1 {
+			leaf(lo, hi)
+			continue
+		}
+		base := t.level[n.n.l-1]
+		b := bound()
+		for j := lo; j < hi; j++ {
+			if d := t.boxes[base+j].dist2(p); d <= b {
+				q.push(queued{d, treeRef{n.n.l - 1, int32(j)}})
+			}
+		}
+	}
+}
+
+// Bytes returns the memory held by the tree.
+func (t *packedTree) Bytes() int { return 4*len(t.ids) + 24*len(t.boxes) + 8*len(t.level) }
+
+func minIgnoreNaN(a, b float64) float64 {
+	if b < a {
+		return b
+	}
+	return a
+}
+
+func maxIgnoreNaN(a, b float64) float64 {
+	if b > a {
+		return b
+	}
+	return a
+}
+
+// mortonBits is the resolution of a Morton code per axis.
+const (
+	mortonBits = 16
+	mortonMax  = 1<<mortonBits - 1
+)
+
+// quantize maps v in [lo, lo+mortonMax/scale] to 0..mortonMax; NaN maps
+// to 0.
+func quantize(v, lo, scale float64) uint64 {
+	t := (v - lo) * scale
+	if !(t > 0) {
+		return 0
+	}
+	if t >= mortonMax {
+		return mortonMax
+	}
+	return uint64(t)
+}
+
+// spread3 inserts two zero bits after each of the low 16 bits of x.
+func spread3(x uint64) uint64 {
+	x &= 0xffff
+	x = (x | x<<16) & 0x0000ff0000ff
+	x = (x | x<<8) & 0x00f00f00f00f
+	x = (x | x<<4) & 0x0c30c30c30c3
+	x = (x | x<<2) & 0x249249249249
+	return x
+}
+
+// morton3 interleaves the bits of three 16-bit coordinates into a 48-bit
+// Z-order code, x in the lowest bit.
+func morton3(x, y, z uint64) uint64 {
+	return spread3(x) | spread3(y)<<1 | spread3(z)<<2
+}
+
+// radixSort sorts keys (48-bit) ascending, permuting ids alongside; the
+// sort is stable.
+func radixSort(keys []uint64, ids []int32) {
+	const bits = 12
+	const buckets = 1 << bits
+	n := len(keys)
+	if n < 2 {
+		return
+	}
+	origK, origI := keys, ids
+	tk := make([]uint64, n)
+	ti := make([]int32, n)
+	var count [buckets]int
+	for shift := 0; shift < 48; shift += bits {
+		clear(count[:])
+		for _, k := range keys {
+			count[(k>>shift)&(buckets-1)]++
+		}
+		if count[(keys[0]>>shift)&(buckets-1)] == n {
+			continue // every key has the same digit
+		}
+		sum := 0
+		for b, c := range count {
+			count[b] = sum
+			sum += c
+		}
+		for i, k := range keys {
+			b := (k >> shift) & (buckets - 1)
+			tk[count[b]] = k
+			ti[count[b]] = ids[i]
+			count[b]++
+		}
+		keys, tk = tk, keys
+		ids, ti = ti, ids
+	}
+	if &keys[0] != &origK[0] {
+		copy(origK, keys)
+		copy(origI, ids)
+	}
+}

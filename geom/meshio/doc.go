@@ -1,0 +1,29 @@
+// Package meshio loads a model: it reads mesh files of any supported
+// format (chosen by extension), reads the parts table that gives parts
+// their names, thicknesses, materials and reference surfaces, and merges
+// everything into one geom.Mesh.
+//
+// Supported mesh formats: VTK legacy (.vtk, package geom/vtk), VTK XML
+// unstructured grid (.vtu, package geom/vtu) and Joinery's native text
+// format (.jmesh, package geom/native).
+//
+// The parts table is YAML (.yaml or .yml):
+//
+//	parts:
+//	  - id: 10               # positive integer, unique
+//	    name: floor panel    # optional
+//	    thickness: 0.8       # mm, required, > 0
+//	    material: DC04       # optional
+//	    surface: mid         # mid (default), top or bottom
+//	    mesh: floor.vtk      # optional: every element of this file
+//
+// or CSV (.csv) with a header row naming the same columns in any order
+// (id and thickness required):
+//
+//	id,name,thickness,material,surface,mesh
+//	10,floor panel,0.8,DC04,mid,floor.vtk
+//
+// The mesh key names a mesh file by its base name; its elements all belong
+// to the part when the file itself carries no part ids (a part array in
+// the file wins). Unknown keys and columns are errors.
+package meshio

@@ -1,0 +1,251 @@
+package meshio
+
+import (
+	"errors"
+	"fmt"
+	"path/filepath"
+	"runtime"
+	"slices"
+	"sync"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// LoadOptions say which files make up a model.
+type LoadOptions struct {
+	// Meshes are the mesh files, merged in this order.
+	Meshes []string
+	// Parts is the parts table; "" for none.
+	Parts string
+	// Renumber shifts the ids of files whose ids clash with earlier files
+	// instead of failing (see geom.Merge).
+	Renumber bool
+	// Workers bounds the number of files read at once; 0 means
+	// runtime.GOMAXPROCS(0).
+	Workers int
+	// Read reads one mesh file; nil means ReadMesh. Tests and callers with
+	// meshes from elsewhere may replace it.
+	Read func(path string, opt geom.ReadOptions) (*geom.Mesh, error)
+}
+
+// Model is a loaded model: one merged mesh and what happened on the way.
+type Model struct {
+	Mesh *geom.Mesh
+	// Renumbered lists the id shifts applied to files (LoadOptions.Renumber).
+	Renumbered []geom.Renumbering
+	// Skipped counts the cells skipped in all files, by type name
+	// ("vtk-cell-12"); nil when none were.
+	Skipped map[string]int
+	// UnusedParts lists, in increasing order, the ids of parts in the
+	// parts table that no element belongs to.
+	UnusedParts []int64
+}
+
+// Load reads the parts table (when given) and every mesh file, merges the
+// meshes with geom.Merge, and applies the table.
+//
+// A part whose Mesh is the base name of a mesh file becomes that file's
+// default part (geom.ReadOptions.DefaultPart), so files without a part
+// array can still be loaded. Files are read concurrently, but results and
+// errors are those of a sequential read in argument order.
+//
+// With a parts table, each part of the mesh takes its name, thickness,
+// material, reference surface and mesh name from the table, replacing
+// what the mesh files said; a part of the mesh missing from the table is
+// an error naming the part and a file it appears in. Without a table,
+// parts keep what the files gave, thickness 0 meaning unknown; a part that
+// two files give different thicknesses is an error.
+//
+// Load does not require thicknesses: commands that need them call
+// Model.MissingThickness.
+func Load(opts LoadOptions) (*Model, error) {
+	if len(opts.Meshes) == 0 {
+		return nil, errors.New("meshio: no mesh files given")
+	}
+	seen := make(map[string]int, len(opts.Meshes))
+	for i, p := range opts.Meshes {
+		c := filepath.Clean(p)
+		if prev, dup := seen[c]; dup {
+			return nil, fmt.Errorf("meshio: mesh file %s given twice (arguments %d and %d): %w", p, prev+1, i+1, geom.ErrInput)
+		}
+		seen[c] = i
+	}
+	var table []geom.Part
+	defaults := map[string]int64{}
+	if opts.Parts != "" {
+		var err error
+		if table, err = ReadParts(opts.Parts); err != nil {
+			return nil, err
+		}
+		for _, p := range table {
+			if p.Mesh != "" {
+				defaults[p.Mesh] = p.ID
+			}
+		}
+	}
+	meshes, err := readAll(opts, defaults)
+	if err != nil {
+		return nil, err
+	}
+	if table == nil {
+		if err := checkPartConflicts(meshes); err != nil {
+			return nil, err
+		}
+	}
+	m, shifts, err := geom.Merge(meshes, opts.Renumber)
+	if err != nil {
+		return nil, err
+	}
+	model := &Model{Mesh: m, Renumbered: shifts}
+	for _, s := range m.Sources {
+		for name, n := range s.Skipped {
+			if model.Skipped == nil {
+				model.Skipped = map[string]int{}
+			}
+			model.Skipped[name] += n
+		}
+	}
+	if table != nil {
+		if model.UnusedParts, err = applyTable(m, table, opts.Parts); err != nil {
+			return nil, err
+		}
+	}
+	return model, nil
+}
+
+// readAll reads the mesh files with at most opts.Workers at a time and
+// returns them in argument order, or the error of the first file that
+// failed.
+func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) {
+	read := opts.Read
+	if read == nil {
+		read = ReadMesh
+	}
+	workers := opts.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, len(opts.Meshes))
+	meshes := make([]*geom.Mesh, len(opts.Meshes))
+	errs := make([]error, len(opts.Meshes))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Go(func() {
+			for i := range next {
+				path := opts.Meshes[i]
+				var ro geom.ReadOptions
+				if id, ok := defaults[filepath.Base(path)]; ok {
+					ro = geom.ReadOptions{DefaultPart: id, HasDefaultPart: true}
+				}
+				meshes[i], errs[i] = read(path, ro)
+				if errs[i] == nil && meshes[i] == nil {
+					errs[i] = fmt.Errorf("meshio: reading %s returned no mesh", path)
+				}
+			}
+		})
+	}
+	for i := range opts.Meshes {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	return meshes, nil
+}
+
+// checkPartConflicts fails when two files give one part different
+// positive thicknesses, which Merge would silently resolve to the first.
+func checkPartConflicts(meshes []*geom.Mesh) error {
+	type origin struct {
+		thickness float64
+		file      string
+	}
+	first := map[int64]origin{}
+	for _, m := range meshes {
+		file := "input"
+		if len(m.Sources) > 0 {
+			file = m.Sources[0].File
+		}
+		for _, p := range m.Parts {
+			if p.Thickness <= 0 {
+				continue
+			}
+			o, ok := first[p.ID]
+			if !ok {
+				first[p.ID] = origin{p.Thickness, file}
+				continue
+			}
+			if o.thickness != p.Thickness {
+				return geom.FileError(file, "part %d has thickness %g mm here and %g mm in %s; give the thickness in a parts table", p.ID, p.Thickness, o.thickness, o.file)
+			}
+		}
+	}
+	return nil
+}
+
+// applyTable copies the table's data into the parts of m and returns the
+// ids of table parts m does not use.
+func applyTable(m *geom.Mesh, table []geom.Part, tableFile string) ([]int64, error) {
+	byID := make(map[int64]int, len(table))
+	for i, p := range table {
+		byID[p.ID] = i
+	}
+	for i := range m.Parts {
+		p := &m.Parts[i]
+		t, ok := byID[p.ID]
+		if !ok {
+			return nil, geom.FileError(partFile(m, i), "part %d is not in the parts table %s", p.ID, tableFile)
+		}
+		p.Name = table[t].Name
+		p.Thickness = table[t].Thickness
+		p.Material = table[t].Material
+		p.Surface = table[t].Surface
+		p.Mesh = table[t].Mesh
+	}
+	var unused []int64
+	for _, p := range table {
+		if _, ok := m.PartIndex(p.ID); !ok {
+			unused = append(unused, p.ID)
+		}
+	}
+	slices.Sort(unused)
+	return unused, nil
+}
+
+// partFile returns the file of the first element of part index pi.
+func partFile(m *geom.Mesh, pi int) string {
+	e := slices.Index(m.ElemPart, int32(pi))
+	file := "input"
+	for _, s := range m.Sources {
+		if e >= 0 && s.ElemStart <= e {
+			file = s.File
+		}
+	}
+	return file
+}
+
+// MissingThickness returns, in increasing order, the ids of parts with at
+// least one element that has no positive thickness of its own or from
+// its part.
+func (md *Model) MissingThickness() []int64 {
+	m := md.Mesh
+	missing := make([]bool, len(m.Parts))
+	for e := range m.NumElems() {
+		if !(m.Thickness(e) > 0) {
+			missing[m.ElemPart[e]] = true
+		}
+	}
+	var ids []int64
+	for i, miss := range missing {
+		if miss {
+			ids = append(ids, m.Parts[i].ID)
+		}
+	}
+	slices.Sort(ids)
+	return ids
+}

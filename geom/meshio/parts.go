@@ -1,0 +1,230 @@
+package meshio
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"gopkg.in/yaml.v3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/meshio/tabular"
+)
+
+// partKeys returns the keys of a parts table entry, which are also the
+// columns of its CSV form.
+func partKeys() []string {
+	return []string{"id", "name", "thickness", "material", "surface", "mesh"}
+}
+
+// ReadParts reads the parts table in the named file: YAML for .yaml and
+// .yml, CSV for .csv (see the package documentation for both forms).
+// Parts are returned in file order.
+func ReadParts(path string) ([]geom.Part, error) {
+	var read func(io.Reader, string) ([]geom.Part, error)
+	switch ext := strings.ToLower(filepath.Ext(path)); ext {
+	case ".yaml", ".yml":
+		read = ReadPartsYAML
+	case ".csv":
+		read = ReadPartsCSV
+	default:
+		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", ext)
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("meshio: reading parts table: %w", err)
+	}
+	defer f.Close()
+	return read(f, path)
+}
+
+// ReadPartsYAML reads a parts table in YAML from r; name is the file name
+// used in errors. The document is a map with the single key "parts"
+// holding a list of maps; an empty document or list is an empty table.
+func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
+	y := tabular.YAML{File: name}
+	root, err := y.Parse(r)
+	if err != nil {
+		return nil, err
+	}
+	var items []*yaml.Node
+	err = y.Map(root, "parts table", []string{"parts"}, func(_ string, _, v *yaml.Node) error {
+		items, err = y.List(v, "parts")
+		return err
+	})
+	if err != nil {
+		return nil, err
+	}
+	t := newPartTable(name, len(items))
+	keys := partKeys()
+	for _, it := range items {
+		var (
+			p              geom.Part
+			hasID, hasT    bool
+			idLine, meshLn int
+		)
+		err := y.Map(it, "part", keys, func(key string, _, v *yaml.Node) (err error) {
+			switch key {
+			case "id":
+				hasID, idLine = true, v.Line
+				if p.ID, err = y.Int(v, "id"); err == nil && p.ID <= 0 {
+					err = y.Errorf(v, "id: part id %d is not positive", p.ID)
+				}
+			case "name":
+				p.Name, err = y.String(v, "name")
+			case "thickness":
+				hasT = true
+				if p.Thickness, err = y.Float(v, "thickness"); err == nil && p.Thickness <= 0 {
+					err = y.Errorf(v, "thickness: %g mm is not positive", p.Thickness)
+				}
+			case "material":
+				p.Material, err = y.String(v, "material")
+			case "surface":
+				var s string
+				if s, err = y.String(v, "surface"); err == nil {
+					if p.Surface, err = geom.ParseSurface(strings.ToLower(s)); err != nil {
+						err = y.Errorf(v, "surface: %w", err)
+					}
+				}
+			case "mesh":
+				meshLn = v.Line
+				if p.Mesh, err = y.String(v, "mesh"); err == nil {
+					err = checkMeshName(p.Mesh)
+					if err != nil {
+						err = y.Errorf(v, "mesh: %w", err)
+					}
+				}
+			}
+			return err
+		})
+		if err != nil {
+			return nil, err
+		}
+		if !hasID {
+			return nil, y.Errorf(it, "part has no id")
+		}
+		if !hasT {
+			return nil, y.Errorf(it, "part %d has no thickness", p.ID)
+		}
+		if err := t.add(p, idLine, meshLn); err != nil {
+			return nil, err
+		}
+	}
+	return t.parts, nil
+}
+
+// ReadPartsCSV reads a parts table in CSV from r; name is the file name
+// used in errors. The header names the columns in any order and case;
+// id and thickness are required, the other columns optional, and an
+// empty cell of an optional column means not given.
+func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
+	c, err := tabular.NewCSV(r, name)
+	if err != nil {
+		return nil, err
+	}
+	keys := partKeys()
+	at, unknown := c.Columns(keys)
+	if len(unknown) > 0 {
+		return nil, c.UnknownColumn(unknown[0], keys)
+	}
+	const (
+		kID = iota
+		kName
+		kThickness
+		kMaterial
+		kSurface
+		kMesh
+	)
+	if err := c.Require(at, keys, kID, kThickness); err != nil {
+		return nil, err
+	}
+	t := newPartTable(name, 0)
+	for {
+		rec, err := c.Read()
+		if err == io.EOF {
+			return t.parts, nil
+		}
+		if err != nil {
+			return nil, err
+		}
+		var p geom.Part
+		ci, ct := at[kID], at[kThickness]
+		if p.ID, err = c.Int(rec, ci); err != nil {
+			return nil, err
+		}
+		if p.ID <= 0 {
+			return nil, c.Errorf(ci, "id: part id %d is not positive", p.ID)
+		}
+		if rec[ct] == "" {
+			return nil, c.Errorf(ct, "part %d has no thickness", p.ID)
+		}
+		if p.Thickness, err = c.Float(rec, ct); err != nil {
+			return nil, err
+		}
+		if p.Thickness <= 0 {
+			return nil, c.Errorf(ct, "thickness: %g mm is not positive", p.Thickness)
+		}
+		if col := at[kName]; col >= 0 {
+			p.Name = rec[col]
+		}
+		if col := at[kMaterial]; col >= 0 {
+			p.Material = rec[col]
+		}
+		if col := at[kSurface]; col >= 0 {
+			if p.Surface, err = geom.ParseSurface(strings.ToLower(rec[col])); err != nil {
+				return nil, c.Errorf(col, "surface: %w", err)
+			}
+		}
+		if col := at[kMesh]; col >= 0 {
+			p.Mesh = rec[col]
+			if err := checkMeshName(p.Mesh); err != nil {
+				return nil, c.Errorf(col, "mesh: %w", err)
+			}
+		}
+		if err := t.add(p, c.Line(ci), c.Line(max(at[kMesh], 0))); err != nil {
+			return nil, err
+		}
+	}
+}
+
+// checkMeshName accepts "" and file base names.
+func checkMeshName(s string) error {
+	if strings.ContainsAny(s, `/\`) {
+		return fmt.Errorf("%q is not a file base name (write floor.vtk, not a path)", s)
+	}
+	return nil
+}
+
+// partTable collects parts and checks that ids and mesh names are unique.
+type partTable struct {
+	file     string
+	parts    []geom.Part
+	idLine   map[int64]int
+	meshLine map[string]int
+}
+
+func newPartTable(file string, n int) *partTable {
+	return &partTable{
+		file:     file,
+		parts:    make([]geom.Part, 0, n),
+		idLine:   make(map[int64]int, n),
+		meshLine: map[string]int{},
+	}
+}
+
+func (t *partTable) add(p geom.Part, idLine, meshLine int) error {
+	if prev, dup := t.idLine[p.ID]; dup {
+		return geom.LineError(t.file, idLine, "part id %d given twice (lines %d and %d)", p.ID, prev, idLine)
+	}
+	t.idLine[p.ID] = idLine
+	if p.Mesh != "" {
+		if prev, dup := t.meshLine[p.Mesh]; dup {
+			return geom.LineError(t.file, meshLine, "mesh %q given to two parts (lines %d and %d)", p.Mesh, prev, meshLine)
+		}
+		t.meshLine[p.Mesh] = meshLine
+	}
+	t.parts = append(t.parts, p)
+	return nil
+}

@@ -1,0 +1,27 @@
+package meshio
+
+import (
+	"path/filepath"
+	"strings"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/native"
+	"github.com/joinery-cae/joinery/geom/vtk"
+	"github.com/joinery-cae/joinery/geom/vtu"
+)
+
+// ReadMesh reads the mesh in the named file, choosing the reader by the
+// file's extension (in any case): .vtk, .vtu or .jmesh. Any other
+// extension is an input error.
+func ReadMesh(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
+	switch ext := strings.ToLower(filepath.Ext(path)); ext {
+	case ".vtk":
+		return vtk.ReadFile(path, opt)
+	case ".vtu":
+		return vtu.ReadFile(path, opt)
+	case ".jmesh":
+		return native.ReadFile(path, opt)
+	default:
+		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu or .jmesh)", ext)
+	}
+}

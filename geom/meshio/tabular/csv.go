@@ -1,0 +1,170 @@
+package tabular
+
+import (
+	"bufio"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// CSV reads a comma-separated table whose first row names the columns.
+// Lines starting with '#' and blank lines are skipped anywhere; fields are
+// trimmed of surrounding white space; a UTF-8 byte-order mark before the
+// header is ignored. Quoting follows RFC 4180, as encoding/csv reads it.
+type CSV struct {
+	// File names the table in messages.
+	File string
+	// Header holds the trimmed column names as written.
+	Header []string
+	// HeaderLine is the line of the header row.
+	HeaderLine int
+
+	r *csv.Reader
+}
+
+// NewCSV reads the header row of a table from r. The names must be
+// non-empty and distinct (ignoring case).
+func NewCSV(r io.Reader, file string) (*CSV, error) {
+	br := bufio.NewReader(r)
+	if bom, err := br.Peek(3); err == nil && string(bom) == "\ufeff" {
+		br.Discard(3)
+	}
+	c := &CSV{File: file, r: csv.NewReader(br)}
+	c.r.Comment = '#'
+	c.r.FieldsPerRecord = -1
+	c.r.TrimLeadingSpace = true
+	c.r.ReuseRecord = true
+	rec, err := c.next()
+	if errors.Is(err, io.EOF) {
+		return nil, geom.FileError(file, "empty table: want a header row naming the columns")
+	}
+	if err != nil {
+		return nil, err
+	}
+	c.HeaderLine = c.Line(0)
+	c.Header = make([]string, len(rec))
+	seen := make(map[string]int, len(rec))
+	for i, name := range rec {
+		name = strings.TrimSpace(name)
+		if name == "" {
+			return nil, geom.LineError(file, c.HeaderLine, "column %d of the header has no name", i+1)
+		}
+		low := strings.ToLower(name)
+		if prev, dup := seen[low]; dup {
+			return nil, geom.LineError(file, c.HeaderLine, "column %q given twice (columns %d and %d)", name, prev+1, i+1)
+		}
+		seen[low] = i
+		c.Header[i] = name
+	}
+	return c, nil
+}
+
+// Columns finds the names of known in the header, comparing without
+// regard to case. at[k] is the column of known[k], -1 when the header
+// lacks it; unknown lists the other columns in header order.
+func (c *CSV) Columns(known []string) (at, unknown []int) {
+	at = make([]int, len(known))
+	for k := range at {
+		at[k] = -1
+	}
+	for col, h := range c.Header {
+		k := slices.IndexFunc(known, func(name string) bool { return strings.EqualFold(h, name) })
+		if k < 0 {
+			unknown = append(unknown, col)
+			continue
+		}
+		at[k] = col
+	}
+	return at, unknown
+}
+
+// Require returns an input error at the header naming the first of the
+// required names (indices into known) that at lacks.
+func (c *CSV) Require(at []int, known []string, required ...int) error {
+	for _, k := range required {
+		if at[k] < 0 {
+			return geom.LineError(c.File, c.HeaderLine, "missing required column %q", known[k])
+		}
+	}
+	return nil
+}
+
+// UnknownColumn returns the error for a header column that is not in
+// known, suggesting the known name it resembles.
+func (c *CSV) UnknownColumn(col int, known []string) error {
+	return geom.LineError(c.File, c.HeaderLine, "unknown column %q%s", c.Header[col], didYouMean(c.Header[col], known))
+}
+
+// Read returns the next data row, trimmed, with exactly one field per
+// header column, or io.EOF after the last row. The slice is reused by the
+// next call; the strings are not.
+func (c *CSV) Read() ([]string, error) {
+	rec, err := c.next()
+	if err != nil {
+		return nil, err
+	}
+	if len(rec) != len(c.Header) {
+		return nil, geom.LineError(c.File, c.Line(0), "row has %d fields; the header has %d columns", len(rec), len(c.Header))
+	}
+	return rec, nil
+}
+
+// next returns the next record that is not blank, its fields trimmed.
+func (c *CSV) next() ([]string, error) {
+	for {
+		rec, err := c.r.Read()
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				return nil, geom.LineError(c.File, max(pe.Line, 1), "CSV: %v", pe.Err)
+			}
+			if errors.Is(err, io.EOF) {
+				return nil, io.EOF
+			}
+			return nil, fmt.Errorf("reading %s: %w", c.File, err)
+		}
+		for i, f := range rec {
+			rec[i] = strings.TrimSpace(f)
+		}
+		if len(rec) == 1 && rec[0] == "" {
+			continue // a line of white space only
+		}
+		return rec, nil
+	}
+}
+
+// Line returns the line on which field col of the last row starts.
+func (c *CSV) Line(col int) int {
+	line, _ := c.r.FieldPos(col)
+	return line
+}
+
+// Errorf returns an input error at the line of field col of the last row.
+func (c *CSV) Errorf(col int, format string, args ...any) error {
+	return geom.LineError(c.File, c.Line(col), format, args...)
+}
+
+// Float parses the field rec[col] of the last row as a finite number.
+func (c *CSV) Float(rec []string, col int) (float64, error) {
+	v, err := strconv.ParseFloat(rec[col], 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, c.Errorf(col, "%s: %q is not a finite number", c.Header[col], rec[col])
+	}
+	return v, nil
+}
+
+// Int parses the field rec[col] of the last row as a 64-bit integer.
+func (c *CSV) Int(rec []string, col int) (int64, error) {
+	v, err := strconv.ParseInt(rec[col], 10, 64)
+	if err != nil {
+		return 0, c.Errorf(col, "%s: %q is not an integer", c.Header[col], rec[col])
+	}
+	return v, nil
+}

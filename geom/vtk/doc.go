@@ -1,0 +1,25 @@
+// Package vtk reads shell meshes from VTK legacy files (".vtk", the
+// format published by Kitware in the VTK User's Guide and the VTK
+// file-format documentation).
+//
+// Read and ReadFile accept DATASET UNSTRUCTURED_GRID files of versions 2.0
+// to 5.1, ASCII or BINARY (big-endian, as the format specifies), with the
+// classic "CELLS n size" layout (point counts inline) or the 5.x layout
+// ("CELLS nOffsets nConn" followed by OFFSETS and CONNECTIVITY arrays).
+// Triangles (cell type 5) and quads (cell type 9) become elements; other
+// cells are skipped and counted in the mesh's Source.
+//
+// The arrays Joinery uses are, in CELL_DATA, "part" (integer),
+// "thickness" (real) and "element_id" (integer) and, in POINT_DATA,
+// "node_id" (integer). Each may be written as SCALARS (with or without a
+// LOOKUP_TABLE line) or as an array of a FIELD; any numeric VTK data type
+// is accepted and converted, integer arrays stored as reals must hold
+// whole numbers. Every other array, attribute or section (VECTORS,
+// NORMALS, METADATA blocks, dataset-level FIELD data, ...) is skipped.
+// Arrays of type string or variant are not supported. The VTK types long
+// and unsigned_long are taken as 8 bytes wide in binary files, as written
+// on 64-bit Linux and macOS.
+//
+// Errors in ASCII files name the file and line, errors in BINARY files the
+// file and byte offset; all of them satisfy errors.Is(err, geom.ErrInput).
+package vtk

@@ -1,0 +1,296 @@
+package vtk
+
+import (
+	"math"
+	"strconv"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// isSpace reports whether c separates tokens: space, \t, \n, \v, \f, \r.
+func isSpace(c byte) bool { return c == ' ' || c-'\t' <= '\r'-'\t' }
+
+// skipSpace returns the index of the first non-space byte of b at or after i.
+func skipSpace(b []byte, i int) int {
+	for i < len(b) && isSpace(b[i]) {
+		i++
+	}
+	return i
+}
+
+// tokenEnd returns the index just past the token that starts at i.
+func tokenEnd(b []byte, i int) int {
+	for i < len(b) && !isSpace(b[i]) {
+		i++
+	}
+	return i
+}
+
+// pow10 holds the powers of ten that float64 represents exactly.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// scanInt parses the decimal integer token that starts at b[i] (i is not
+// at a space). It returns the value and the index after the token, or
+// ok=false when the token is not an integer that fits in int64.
+func scanInt(b []byte, i int) (v int64, j int, ok bool) {
+	start := i
+	neg := false
+	if i < len(b) && (b[i] == '-' || b[i] == '+') {
+		neg = b[i] == '-'
+		i++
+	}
+	ds := i
+	var u uint64
+	for i < len(b) {
+		c := b[i] - '0'
+		if c > 9 {
+			break
+		}
+		u = u*10 + uint64(c)
+		i++
+	}
+	if n := i - ds; n == 0 || n > 18 || (i < len(b) && !isSpace(b[i])) {
+		return scanIntSlow(b, start)
+	}
+	if neg {
+		return -int64(u), i, true
+	}
+	return int64(u), i, true
+}
+
+// scanIntSlow is scanInt's general path, through strconv.
+func scanIntSlow(b []byte, i int) (int64, int, bool) {
+	j := tokenEnd(b, i)
+	v, err := strconv.ParseInt(string(b[i:j]), 10, 64)
+	return v, j, err == nil
+}
+
+// scanFloat parses the real-number token that starts at b[i] (i is not at
+// a space). Plain decimals with at most 15 significant digits and small
+// exponents, which is what mesh files mostly hold, are converted exactly
+// by a single multiplication or division by an exact power of ten (the
+// fast path of W. D. Clinger, "How to read floating point numbers
+// accurately", PLDI 1990); everything else goes through
+// strconv.ParseFloat. Infinities and NaN are accepted in the forms
+// strconv.ParseFloat accepts; overflowing values become infinite.
+func scanFloat(b []byte, i int) (v float64, j int, ok bool) {
+	start := i
+	neg := false
+	if i < len(b) && (b[i] == '-' || b[i] == '+') {
+		neg = b[i] == '-'
+		i++
+	}
+	var mant uint64
+	nd, exp := 0, 0 // significant digits in mant; decimal exponent
+	digits := false
+	for i < len(b) {
+		c := b[i] - '0'
+		if c > 9 {
+			break
+		}
+		digits = true
+		if mant != 0 || c != 0 {
+			mant = mant*10 + uint64(c)
+			nd++
+		}
+		i++
+	}
+	if i < len(b) && b[i] == '.' {
+		i++
+		for i < len(b) {
+			c := b[i] - '0'
+			if c > 9 {
+				break
+			}
+			digits = true
+			if mant != 0 || c != 0 {
+				mant = mant*10 + uint64(c)
+				nd++
+			}
+			exp--
+			i++
+		}
+	}
+	if !digits || nd > 15 {
+		return scanFloatSlow(b, start)
+	}
+	if i < len(b) && (b[i] == 'e' || b[i] == 'E') {
+		i++
+		eneg := false
+		if i < len(b) && (b[i] == '-' || b[i] == '+') {
+			eneg = b[i] == '-'
+			i++
+		}
+		es, e := i, 0
+		for i < len(b) && i-es < 4 {
+			c := b[i] - '0'
+			if c > 9 {
+				break
+			}
+			e = e*10 + int(c)
+			i++
+		}
+		if i == es {
+			return scanFloatSlow(b, start)
+		}
+		if eneg {
+			e = -e
+		}
+		exp += e
+	}
+	if i < len(b) && !isSpace(b[i]) {
+		return scanFloatSlow(b, start)
+	}
+	// mant < 10^15 < 2^53 is exact as a float64.
+	switch f := float64(mant); {
+	case mant == 0:
+		v = 0
+	case exp == 0:
+		v = f
+	case exp > 0 && exp <= 22:
+		v = f * pow10[exp]
+	case exp < 0 && exp >= -22:
+		v = f / pow10[-exp]
+	default:
+		return scanFloatSlow(b, start)
+	}
+	if neg {
+		v = -v
+	}
+	return v, i, true
+}
+
+// scanFloatSlow is scanFloat's general path, through strconv.
+func scanFloatSlow(b []byte, i int) (float64, int, bool) {
+	j := tokenEnd(b, i)
+	v, err := strconv.ParseFloat(string(b[i:j]), 64)
+	if err != nil {
+		if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
+			return 0, j, false
+		}
+	}
+	return v, j, true
+}
+
+// scanInts parses len(dst) integer tokens from b starting at i. It returns
+// the index after the last one; on failure it returns the start of the
+// offending token (len(b) at the end of the data), how many values were
+// read and ok=false.
+func scanInts(b []byte, i int, dst []int64) (int, int, bool) {
+	for k := range dst {
+		i = skipSpace(b, i)
+		v, j, ok := scanInt(b, i)
+		if !ok {
+			return i, k, false
+		}
+		dst[k] = v
+		i = j
+	}
+	return i, len(dst), true
+}
+
+// scanWholeFloats is scanInts for integer arrays stored as reals: every
+// value must be a whole number.
+func scanWholeFloats(b []byte, i int, dst []int64) (int, int, bool) {
+	for k := range dst {
+		i = skipSpace(b, i)
+		v, j, ok := scanFloat(b, i)
+		if !ok {
+			return i, k, false
+		}
+		w, ok := wholeNumber(v)
+		if !ok {
+			return i, k, false
+		}
+		dst[k] = w
+		i = j
+	}
+	return i, len(dst), true
+}
+
+// scanFloats parses len(dst) real tokens from b starting at i, with the
+// results of scanInts.
+func scanFloats(b []byte, i int, dst []float64) (int, int, bool) {
+	for k := range dst {
+		i = skipSpace(b, i)
+		v, j, ok := scanFloat(b, i)
+		if !ok {
+			return i, k, false
+		}
+		dst[k] = v
+		i = j
+	}
+	return i, len(dst), true
+}
+
+// scanPoints parses 3*len(dst) real tokens into points, with the results
+// of scanInts, counting values (not points). A NaN or infinite coordinate
+// fails like a bad token.
+func scanPoints(b []byte, i int, dst []r3.Vec) (int, int, bool) {
+	var xyz [3]float64
+	for k := range dst {
+		for c := range xyz {
+			i = skipSpace(b, i)
+			v, j, ok := scanFloat(b, i)
+			if !ok || math.IsNaN(v) || math.IsInf(v, 0) {
+				return i, 3*k + c, false
+			}
+			xyz[c] = v
+			i = j
+		}
+		dst[k] = r3.Vec{X: xyz[0], Y: xyz[1], Z: xyz[2]}
+	}
+	return i, 3 * len(dst), true
+}
+
+// skipNumbers skips n number tokens from b starting at i, with the
+// results of scanInts. Tokens are not converted, only checked to look
+// like numbers (a digit, sign or point first, or a spelling of NaN or
+// infinity), so that a short array is not read past the next keyword.
+func skipNumbers(b []byte, i, n int) (int, int, bool) {
+	for k := 0; k < n; k++ {
+		i = skipSpace(b, i)
+		if i >= len(b) {
+			return i, k, false
+		}
+		j := tokenEnd(b, i)
+		if !looksNumeric(b[i:j]) {
+			return i, k, false
+		}
+		i = j
+	}
+	return i, n, true
+}
+
+// looksNumeric reports whether tok may be a number: it starts with a
+// digit, a sign or a point, or spells NaN or infinity.
+func looksNumeric(tok []byte) bool {
+	c := tok[0]
+	if c >= '0' && c <= '9' || c == '-' || c == '+' || c == '.' {
+		return true
+	}
+	switch string(lower(tok)) {
+	case "nan", "inf", "infinity":
+		return true
+	}
+	return false
+}
+
+// lower returns tok in lower case (ASCII), reusing tok when it has no
+// upper-case letters.
+func lower(tok []byte) []byte {
+	for i, c := range tok {
+		if c >= 'A' && c <= 'Z' {
+			out := make([]byte, len(tok))
+			copy(out, tok)
+			for j := i; j < len(out); j++ {
+				if out[j] >= 'A' && out[j] <= 'Z' {
+					out[j] += 'a' - 'A'
+				}
+			}
+			return out
+		}
+	}
+	return tok
+}

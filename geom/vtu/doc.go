@@ -1,0 +1,17 @@
+// Package vtu reads shell meshes from VTK XML unstructured-grid files
+// (.vtu), as described in the VTK file-format documentation (Kitware).
+//
+// Every data-array layout of the format is read: ascii, inline binary
+// (base64) and appended data (raw bytes or base64), with UInt32 or UInt64
+// size headers, either byte order, and optionally compressed with the
+// blocked zlib layout. Several pieces in one file are concatenated.
+//
+// The reader keeps triangles (VTK type 5) and quads (type 9); other cells
+// are skipped and counted in the mesh's Source. It takes node ids from the
+// point array "node_id" and element ids, parts and thicknesses from the
+// cell arrays "element_id", "part" and "thickness"; other arrays are
+// skipped without being decoded.
+//
+// The whole file is held in memory while it is read; raw appended data is
+// decoded straight from it without further copies.
+package vtu

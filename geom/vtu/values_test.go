@@ -1,0 +1,92 @@
+package vtu
+
+import (
+	"math"
+	"strconv"
+	"testing"
+)
+
+func TestParseInt(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want int64
+		ok   bool
+	}{
+		{"0", 0, true},
+		{"-0", 0, true},
+		{"+17", 17, true},
+		{"-42", -42, true},
+		{"000000000000000000000123", 123, true},
+		{"9223372036854775807", math.MaxInt64, true},
+		{"-9223372036854775808", math.MinInt64, true},
+		{"9223372036854775808", 0, false},
+		{"-9223372036854775809", 0, false},
+		{"99999999999999999999", 0, false},
+		{"", 0, false},
+		{"-", 0, false},
+		{"1.0", 0, false},
+		{"1e3", 0, false},
+		{"0x10", 0, false},
+		{"12a", 0, false},
+	} {
+		got, ok := parseInt([]byte(c.in))
+		if got != c.want || ok != c.ok {
+			t.Errorf("parseInt(%q) = %d, %v; want %d, %v", c.in, got, ok, c.want, c.ok)
+		}
+		// Agrees with the standard library where both accept the text.
+		if v, err := strconv.ParseInt(c.in, 10, 64); (err == nil) != ok || (ok && v != got) {
+			t.Errorf("parseInt(%q) = %d, %v; strconv says %d, %v", c.in, got, ok, v, err)
+		}
+	}
+}
+
+func TestASCIIValue(t *testing.T) {
+	for _, c := range []struct {
+		tok   string
+		typ   dtype
+		asInt bool
+		i     int64
+		f     float64
+		err   string
+	}{
+		{"300", typeUInt8, true, 0, 0, "300 is out of range for UInt8"},
+		{"-1", typeUInt32, true, 0, 0, "-1 is out of range for UInt32"},
+		{"-128", typeInt8, true, -128, -128, ""},
+		{"65535", typeUInt16, true, 65535, 65535, ""},
+		{"18446744073709551615", typeUInt64, true, 0, 0, "18446744073709551615 does not fit a signed 64-bit integer"},
+		{"2.0", typeFloat64, true, 2, 0, ""},
+		{"2.5", typeFloat64, true, 0, 0, `"2.5" is not an integer`},
+		{"2.5", typeInt32, true, 0, 0, `"2.5" is not an integer, as type Int32 requires`},
+		{"0.1", typeFloat32, false, 0, float64(float32(0.1)), ""}, // Float32 arrays hold single-precision values
+		{"0.1", typeFloat64, false, 0, 0.1, ""},
+		{"1e400", typeFloat64, false, 0, 0, `"1e400" is out of range for Float64`},
+		{"abc", typeFloat64, false, 0, 0, `"abc" is not a number`},
+	} {
+		i, f, err := asciiValue([]byte(c.tok), c.typ, c.asInt)
+		switch {
+		case c.err != "":
+			if err == nil || err.Error() != c.err {
+				t.Errorf("asciiValue(%q, %s) error = %v, want %q", c.tok, c.typ, err, c.err)
+			}
+		case err != nil:
+			t.Errorf("asciiValue(%q, %s): %v", c.tok, c.typ, err)
+		case c.asInt && i != c.i, !c.asInt && f != c.f:
+			t.Errorf("asciiValue(%q, %s) = %d, %g; want %d, %g", c.tok, c.typ, i, f, c.i, c.f)
+		}
+	}
+}
+
+func TestParseType(t *testing.T) {
+	for typ := typeInt8; typ < typeUnknown; typ++ {
+		if got := parseType(typ.String()); got != typ {
+			t.Errorf("parseType(%q) = %v", typ.String(), got)
+		}
+	}
+	// Type names of the VTK XML format (VTK file-format documentation,
+	// Kitware); others are not numeric arrays Joinery reads.
+	for _, name := range []string{"String", "Bit", "Float128", ""} {
+		if got := parseType(name); got != -1 {
+			t.Errorf("parseType(%q) = %v, want -1", name, got)
+		}
+	}
+}

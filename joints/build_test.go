@@ -1,0 +1,237 @@
+package joints
+
+import (
+	"context"
+	"math"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+func buildOne1(t *testing.T, m *geom.Mesh, j Joint, o BuildOptions) Connector {
+	t.Helper()
+	res, err := Build(context.Background(), geom.NewIndex(m), []Joint{j}, o, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res.Connectors[0]
+}
+
+func codes(c Connector) []string {
+	var out []string
+	for _, f := range c.Findings {
+		out = append(out, f.Code)
+	}
+	slices.Sort(out)
+	return out
+}
+
+// Stack cases on flat plates. Mid-surface meshes of sheets in contact lie
+// (t1+t2)/2 apart (shell mid-surface geometry, common practice): a 0.8 mm
+// sheet at z=0 and a 1.2 mm sheet on top of it at z=1.0.
+func TestStacks(t *testing.T) {
+	at := r3.Vec{X: 25, Y: 25, Z: 0.5}
+	cases := []struct {
+		name   string
+		plates []plate
+		joint  Joint
+		opt    BuildOptions
+		status Status
+		parts  []int64 // expected stack, in order
+		codes  []string
+	}{
+		{
+			name:   "two sheets in contact",
+			plates: []plate{{Part: 1, T: 0.8, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1.2, Z: 1, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W1", Point: at},
+			status: StatusOK, parts: []int64{1, 2},
+		},
+		{
+			name: "three sheets, mixed meshes",
+			plates: []plate{
+				{Part: 1, T: 0.8, NX: 10, NY: 10, H: 5},
+				{Part: 2, T: 1.2, Z: 1, NX: 12, NY: 12, H: 4.2, X0: 0.3, Tri: true},
+				{Part: 3, T: 1.5, Z: 2.35, NX: 7, NY: 7, H: 7, Y0: -0.5},
+			},
+			joint:  Joint{ID: "W2", Point: r3.Vec{X: 24, Y: 26, Z: 1}},
+			status: StatusOK, parts: []int64{1, 2, 3},
+		},
+		{
+			name: "decoy panel just outside the search distance",
+			plates: []plate{
+				{Part: 1, T: 1, NX: 10, NY: 10, H: 5},
+				{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5},
+				{Part: 9, T: 1, Z: 1 + 3.01, NX: 10, NY: 10, H: 5},
+			},
+			joint:  Joint{ID: "W3", Point: at},
+			opt:    BuildOptions{SearchDistance: 3.5}, // decoy at 3.51 mm from the point
+			status: StatusOK, parts: []int64{1, 2},
+		},
+		{
+			name:   "weld over one sheet only",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, X0: 40, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W4", Point: r3.Vec{X: 10, Y: 25, Z: 0.5}},
+			status: StatusFailed, parts: []int64{1}, codes: []string{CodeSingleSheet},
+		},
+		{
+			name:   "weld in open air",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W5", Point: r3.Vec{X: 25, Y: 25, Z: 40}},
+			status: StatusFailed, codes: []string{CodeNoSheet},
+		},
+		{
+			name:   "sheets too far apart",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 2.5, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W6", Point: r3.Vec{X: 25, Y: 25, Z: 1.25}},
+			status: StatusWarning, parts: []int64{1, 2}, codes: []string{CodeGapOpen},
+		},
+		{
+			name:   "penetrating sheets",
+			plates: []plate{{Part: 1, T: 1.5, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1.5, Z: 0.5, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W7", Point: r3.Vec{X: 25, Y: 25, Z: 0.25}},
+			status: StatusWarning, parts: []int64{1, 2}, codes: []string{CodeGapClosed},
+		},
+		{
+			name: "outer-surface meshes in contact",
+			// Part 1 meshed on its top surface (z=0), part 2 on its bottom
+			// surface (z=0 too): the sheets touch, mid-surfaces 1 mm apart.
+			plates: []plate{
+				{Part: 1, T: 1, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceTop},
+				{Part: 2, T: 1, Z: 0, NX: 10, NY: 10, H: 5, X0: 2.5, Surface: geom.SurfaceBottom},
+			},
+			joint:  Joint{ID: "W8", Point: r3.Vec{X: 25, Y: 25}},
+			status: StatusOK, parts: []int64{1, 2},
+		},
+		{
+			name:   "listed part missing",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5}, {Part: 3, T: 1, Z: 30, NX: 2, NY: 2, H: 5}},
+			joint:  Joint{ID: "W9", Point: at, Parts: []int64{1, 3}},
+			status: StatusFailed, parts: []int64{1}, codes: []string{CodePartNotFound},
+		},
+		{
+			name:   "listed parts chosen over a closer sheet",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5}, {Part: 3, T: 1, Z: 2, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W10", Point: r3.Vec{X: 25, Y: 25, Z: 1}, Parts: []int64{3, 1}},
+			status: StatusWarning, parts: []int64{1, 3}, codes: []string{CodeGapOpen},
+		},
+		{
+			name:   "weld near a flange edge",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W11", Point: r3.Vec{X: 47, Y: 25, Z: 0.5}},
+			status: StatusWarning, parts: []int64{1, 2}, codes: []string{CodeEdgeClose, CodeEdgeClose},
+		},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			con := buildOne1(t, plates(c.plates...), c.joint, c.opt)
+			if con.Status != c.status {
+				t.Errorf("status %v, want %v (findings %v)", con.Status, c.status, con.Findings)
+			}
+			if got := con.Stack.Parts(); !slices.Equal(got, c.parts) && !(len(got) == 0 && len(c.parts) == 0) {
+				t.Errorf("stack %v, want %v", got, c.parts)
+			}
+			if got := codes(con); !slices.Equal(got, c.codes) {
+				t.Errorf("findings %v, want %v: %v", got, c.codes, con.Findings)
+			}
+		})
+	}
+}
+
+func TestGapValues(t *testing.T) {
+	// 0.8 mm at z=0 and 1.5 mm at z=1.15: in contact, (0.8+1.5)/2 = 1.15.
+	m := plates(plate{Part: 1, T: 0.8, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1.5, Z: 1.15, NX: 10, NY: 10, H: 5})
+	c := buildOne1(t, m, Joint{ID: "1", Point: r3.Vec{X: 22, Y: 27, Z: 0.3}}, BuildOptions{})
+	if c.Status != StatusOK || len(c.Links) != 1 {
+		t.Fatalf("status %v links %d findings %v", c.Status, len(c.Links), c.Findings)
+	}
+	l := c.Links[0]
+	if math.Abs(l.Length-1.15) > 1e-12 || math.Abs(l.Contact-1.15) > 1e-12 {
+		t.Errorf("link length %g contact %g, want 1.15", l.Length, l.Contact)
+	}
+	// Nugget from the governing (thinner) sheet, 5*sqrt(0.8) (AWS D8.1M
+	// governing thickness; 5*sqrt(t) rule, common practice).
+	if want := 5 * math.Sqrt(0.8); math.Abs(c.Diameter-want) > 1e-12 || c.DiameterSource != "5sqrt" {
+		t.Errorf("diameter %g (%s), want %g", c.Diameter, c.DiameterSource, want)
+	}
+}
+
+func TestAttachments(t *testing.T) {
+	// Matching 5 mm meshes: the weld at (22, 27) lies inside element
+	// (4,5); its nearest node is (20, 25).
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5})
+	p := r3.Vec{X: 22, Y: 27, Z: 0.5}
+	for _, a := range []Attach{Interpolated, NodePair, Patch} {
+		c := buildOne1(t, m, Joint{ID: "1", Point: p}, BuildOptions{Attach: a})
+		if c.Status != StatusOK {
+			t.Fatalf("%v: status %v %v", a, c.Status, c.Findings)
+		}
+		for i, e := range c.Ends {
+			sum := 0.0
+			var pt r3.Vec
+			for k, n := range e.Nodes {
+				sum += e.Weights[k]
+				pt = r3.Add(pt, r3.Scale(e.Weights[k], m.Coords[n]))
+			}
+			if math.Abs(sum-1) > 1e-12 {
+				t.Errorf("%v end %d: weights sum %g", a, i, sum)
+			}
+			if r3.Norm(r3.Sub(pt, e.Point)) > 1e-9 {
+				t.Errorf("%v end %d: weights give %v, end at %v", a, i, pt, e.Point)
+			}
+			want := r3.Vec{X: 22, Y: 27, Z: float64(i)}
+			if a == NodePair {
+				want = r3.Vec{X: 20, Y: 25, Z: float64(i)}
+			}
+			if r3.Norm(r3.Sub(e.Point, want)) > 1e-9 {
+				t.Errorf("%v end %d at %v, want %v", a, i, e.Point, want)
+			}
+		}
+		if a == Patch {
+			// Nugget radius 2.5 mm around (22,27): the host element's four
+			// corners; the nearest node (20,25) lies at 2.83 mm, so no
+			// extra nodes join.
+			if n := len(c.Ends[0].Nodes); n != 4 {
+				t.Errorf("patch: %d nodes, want 4", n)
+			}
+		}
+	}
+}
+
+func TestNodePairNotFacing(t *testing.T) {
+	// Meshes offset by half an element: nearest nodes 3.54 mm apart
+	// across the axis, above the limit 0.5 * 2.5 mm.
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, X0: -2.5, Y0: -2.5, NX: 11, NY: 11, H: 5})
+	c := buildOne1(t, m, Joint{ID: "1", Point: r3.Vec{X: 21, Y: 21, Z: 0.5}}, BuildOptions{Attach: NodePair})
+	if got := codes(c); !slices.Equal(got, []string{CodeNodesApart}) {
+		t.Fatalf("findings %v", c.Findings)
+	}
+}
+
+func TestBoltNotSupported(t *testing.T) {
+	m := plates(plate{Part: 1, T: 1, NX: 2, NY: 2, H: 5})
+	c := buildOne1(t, m, Joint{ID: "B1", Kind: Bolt, Point: r3.Vec{X: 5, Y: 5}}, BuildOptions{})
+	if c.Status != StatusFailed || !slices.Equal(codes(c), []string{CodeNotSupported}) {
+		t.Fatalf("status %v findings %v", c.Status, c.Findings)
+	}
+}
+
+func TestIDsStableAndAboveMesh(t *testing.T) {
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5})
+	js := []Joint{{ID: "W10", Point: r3.Vec{X: 10, Y: 10, Z: .5}}, {ID: "W2", Point: r3.Vec{X: 30, Y: 30, Z: .5}}}
+	res, err := Build(context.Background(), geom.NewIndex(m), js, BuildOptions{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Largest id in the mesh is 200121 (node of part 2): ids start at
+	// 300000. W2 sorts before W10 (natural order).
+	if res.IDStart != 300000 || res.Connectors[0].Joint.ID != "W2" {
+		t.Fatalf("id start %d, first %s", res.IDStart, res.Connectors[0].Joint.ID)
+	}
+	c := res.Connectors[0]
+	if !slices.Equal(c.EndIDs, []int64{300000, 300001}) || c.Links[0].ID != 300002 || res.NextID != 300006 {
+		t.Fatalf("ids %v link %d next %d", c.EndIDs, c.Links[0].ID, res.NextID)
+	}
+}

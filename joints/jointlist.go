@@ -1,0 +1,517 @@
+package joints
+
+import (
+	"cmp"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"unicode"
+
+	"gopkg.in/yaml.v3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/meshio/tabular"
+)
+
+// InputWarning is a problem in an input that does not stop the run.
+type InputWarning struct {
+	File    string
+	Line    int // 1-based; 0 when the warning concerns the whole file
+	Message string
+}
+
+// String formats the warning as "file:line: message".
+func (w InputWarning) String() string {
+	if w.Line > 0 {
+		return fmt.Sprintf("%s:%d: %s", w.File, w.Line, w.Message)
+	}
+	return fmt.Sprintf("%s: %s", w.File, w.Message)
+}
+
+// ParseKind reads "spot" or "bolt" in any case; "" is spot.
+func ParseKind(s string) (Kind, error) {
+	switch strings.ToLower(s) {
+	case "", "spot":
+		return Spot, nil
+	case "bolt":
+		return Bolt, nil
+	}
+	return Spot, fmt.Errorf("unknown joint kind %q (want spot or bolt)", s)
+}
+
+// jointKeys returns the known CSV columns, which are also the YAML keys.
+func jointKeys() []string {
+	return []string{"id", "x", "y", "z", "kind", "parts", "diameter", "washer", "hole", "group"}
+}
+
+// Indices into jointKeys.
+const (
+	jlID = iota
+	jlX
+	jlY
+	jlZ
+	jlKind
+	jlParts
+	jlDiameter
+	jlWasher
+	jlHole
+	jlGroup
+)
+
+// ReadJoints reads the joint list in the named file: CSV for .csv, YAML
+// for .yaml and .yml. It returns the joints in file order and warnings
+// about likely mistakes that are not errors.
+//
+// CSV: a header row, then one joint per row. Columns may come in any
+// order; header names are trimmed and compared without regard to case.
+//
+//	id        required; text, unique in the list ("W17", "1042")
+//	x, y, z   required; the joint's point, mm
+//	kind      spot (default) or bolt
+//	parts     part ids the joint joins, separated by ';' ("10;20;30")
+//	diameter  spot: nugget diameter; bolt: nominal shank diameter; mm
+//	washer    bolt: washer or head outer diameter, mm
+//	hole      bolt: hole diameter, mm
+//	group     free tag, e.g. to select build settings in a job file
+//
+// An empty cell of an optional column means not given. Columns with
+// other names are kept in Joint.Tags; one whose name resembles a known
+// column ("diamter", "Part_s") gives a warning. Lines starting with '#'
+// and blank lines are skipped; a header without rows is an empty list.
+//
+// YAML: a map with the single key "joints" holding a list of maps with the
+// same keys, except that parts is a list of integers, the point is given
+// either as x, y and z or as point: [x, y, z], and free keys go in a
+// "tags" map of single values:
+//
+//	joints:
+//	  - {id: W1, point: [120.5, -340, 88.25], parts: [10, 20]}
+//	  - id: B1
+//	    kind: bolt
+//	    x: 410
+//	    y: -352.5
+//	    z: 91
+//	    diameter: 10
+//	    washer: 20
+//	    hole: 11
+//	    tags: {torque: 45}
+//
+// Other keys are errors. (The bolt is an M10 with an ISO 7089 washer in
+// an ISO 273 medium clearance hole.)
+//
+// In both forms a bolt's hole must not be smaller than its diameter and
+// its washer must be larger than both; washer or hole on a spot weld gives
+// a warning.
+func ReadJoints(path string) ([]Joint, []InputWarning, error) {
+	var read func(io.Reader, string) ([]Joint, []InputWarning, error)
+	switch ext := strings.ToLower(filepath.Ext(path)); ext {
+	case ".csv":
+		read = ReadJointsCSV
+	case ".yaml", ".yml":
+		read = ReadJointsYAML
+	default:
+		return nil, nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", ext)
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, fmt.Errorf("joints: reading joint list: %w", err)
+	}
+	defer f.Close()
+	return read(f, path)
+}
+
+// ReadJointsCSV reads a joint list in CSV from r; name is the file name
+// used in errors, warnings and Joint.File.
+func ReadJointsCSV(r io.Reader, name string) ([]Joint, []InputWarning, error) {
+	c, err := tabular.NewCSV(r, name)
+	if err != nil {
+		return nil, nil, err
+	}
+	keys := jointKeys()
+	at, tags := c.Columns(keys) // unknown columns are kept as tags
+	var warns []InputWarning
+	for _, col := range tags {
+		if s := tabular.Suggest(c.Header[col], keys); s != "" {
+			warns = append(warns, InputWarning{name, c.HeaderLine, fmt.Sprintf("column %q is not a known column (did you mean %q?); its values are kept as tags", c.Header[col], s)})
+		}
+	}
+	if err := c.Require(at, keys, jlID, jlX, jlY, jlZ); err != nil {
+		return nil, warns, err
+	}
+	l := newJointList(name)
+	for {
+		rec, err := c.Read()
+		if err == io.EOF {
+			return l.joints, append(warns, l.warns...), nil
+		}
+		if err != nil {
+			return nil, warns, err
+		}
+		j := Joint{File: name, Line: c.Line(0)}
+		if err := l.csvRow(c, rec, at, &j); err != nil {
+			return nil, warns, err
+		}
+		for _, col := range tags {
+			if rec[col] == "" {
+				continue
+			}
+			if j.Tags == nil {
+				j.Tags = make(map[string]string, len(tags))
+			}
+			j.Tags[c.Header[col]] = rec[col]
+		}
+		if err := l.add(j, c.Line(at[jlID])); err != nil {
+			return nil, warns, err
+		}
+	}
+}
+
+// csvRow fills j from the known columns of one row.
+func (l *jointList) csvRow(c *tabular.CSV, rec []string, at []int, j *Joint) error {
+	j.ID = strings.Clone(rec[at[jlID]])
+	var err error
+	keys := jointKeys()
+	for _, k := range []int{jlX, jlY, jlZ} {
+		col := at[k]
+		if rec[col] == "" {
+			return c.Errorf(col, "%s is empty", c.Header[col])
+		}
+		if *numField(j, keys[k]), err = c.Float(rec, col); err != nil {
+			return err
+		}
+	}
+	if col := at[jlKind]; col >= 0 {
+		if j.Kind, err = ParseKind(rec[col]); err != nil {
+			return c.Errorf(col, "kind: %w", err)
+		}
+	}
+	if col := at[jlParts]; col >= 0 && rec[col] != "" {
+		for s := range strings.SplitSeq(rec[col], ";") {
+			id, err := strconv.ParseInt(strings.TrimSpace(s), 10, 64)
+			if err != nil {
+				return c.Errorf(col, "parts: %q is not a list of part ids separated by ';'", rec[col])
+			}
+			if err := addPart(j, id); err != nil {
+				return c.Errorf(col, "parts: %w", err)
+			}
+		}
+	}
+	for _, k := range []int{jlDiameter, jlWasher, jlHole} {
+		col := at[k]
+		if col < 0 || rec[col] == "" {
+			continue
+		}
+		size := numField(j, keys[k])
+		if *size, err = c.Float(rec, col); err != nil {
+			return err
+		}
+		if *size < 0 {
+			return c.Errorf(col, "%s: %g mm is negative", c.Header[col], *size)
+		}
+	}
+	if col := at[jlGroup]; col >= 0 {
+		j.Group = strings.Clone(rec[col])
+	}
+	return nil
+}
+
+// addPart appends a part id to j.Parts, refusing non-positive ids and
+// repeats.
+func addPart(j *Joint, id int64) error {
+	if id <= 0 {
+		return fmt.Errorf("part id %d is not positive", id)
+	}
+	if slices.Contains(j.Parts, id) {
+		return fmt.Errorf("part %d listed twice", id)
+	}
+	j.Parts = append(j.Parts, id)
+	return nil
+}
+
+// ReadJointsYAML reads a joint list in YAML from r; name is the file name
+// used in errors, warnings and Joint.File.
+func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
+	y := tabular.YAML{File: name}
+	root, err := y.Parse(r)
+	if err != nil {
+		return nil, nil, err
+	}
+	var items []*yaml.Node
+	err = y.Map(root, "joint list", []string{"joints"}, func(_ string, _, v *yaml.Node) error {
+		items, err = y.List(v, "joints")
+		return err
+	})
+	if err != nil {
+		return nil, nil, err
+	}
+	keys := append(jointKeys(), "point", "tags")
+	l := newJointList(name)
+	l.joints = make([]Joint, 0, len(items))
+	for _, it := range items {
+		j := Joint{File: name, Line: it.Line}
+		idLine, err := l.yamlJoint(y, it, keys, &j)
+		if err != nil {
+			return nil, nil, err
+		}
+		if err := l.add(j, idLine); err != nil {
+			return nil, nil, err
+		}
+	}
+	return l.joints, l.warns, nil
+}
+
+// yamlJoint fills j from one map of the list and returns the line of its
+// id.
+func (l *jointList) yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, error) {
+	var (
+		idLine int
+		coords [3]bool // x, y, z given
+		point  bool
+	)
+	err := y.Map(it, "joint", keys, func(key string, k, v *yaml.Node) (err error) {
+		switch key {
+		case "id":
+			idLine = v.Line
+			j.ID, err = y.String(v, "id")
+		case "x", "y", "z":
+			coords[key[0]-'x'] = true
+			*numField(j, key), err = y.Float(v, key)
+		case "point":
+			point = true
+			items, err := y.List(v, "point")
+			if err != nil {
+				return err
+			}
+			if len(items) != 3 {
+				return y.Errorf(v, "point: want [x, y, z], got %d values", len(items))
+			}
+			for i, c := range []string{"x", "y", "z"} {
+				if *numField(j, c), err = y.Float(items[i], "point"); err != nil {
+					return err
+				}
+			}
+		case "kind":
+			var s string
+			if s, err = y.String(v, "kind"); err == nil {
+				if j.Kind, err = ParseKind(s); err != nil {
+					err = y.Errorf(v, "kind: %w", err)
+				}
+			}
+		case "parts":
+			items, err := y.List(v, "parts")
+			if err != nil {
+				return err
+			}
+			for _, p := range items {
+				id, err := y.Int(p, "parts")
+				if err != nil {
+					return err
+				}
+				if err := addPart(j, id); err != nil {
+					return y.Errorf(p, "parts: %w", err)
+				}
+			}
+		case "diameter", "washer", "hole":
+			if tabular.IsNull(v) {
+				return nil
+			}
+			size := numField(j, key)
+			if *size, err = y.Float(v, key); err == nil && *size < 0 {
+				err = y.Errorf(v, "%s: %g mm is negative", key, *size)
+			}
+		case "group":
+			j.Group, err = y.String(v, "group")
+		case "tags":
+			err = y.Map(v, "tags", nil, func(tag string, _, tv *yaml.Node) error {
+				s, err := y.String(tv, "tags: "+tag)
+				if err != nil {
+					return err
+				}
+				if j.Tags == nil {
+					j.Tags = map[string]string{}
+				}
+				j.Tags[tag] = s
+				return nil
+			})
+		}
+		return err
+	})
+	if err != nil {
+		return 0, err
+	}
+	switch {
+	case idLine == 0:
+		return 0, y.Errorf(it, "joint has no id")
+	case point && (coords[0] || coords[1] || coords[2]):
+		return 0, y.Errorf(it, "joint %q: give either point or x, y and z, not both", j.ID)
+	case !point && !(coords[0] && coords[1] && coords[2]):
+		return 0, y.Errorf(it, "joint %q: no point (give point: [x, y, z] or x, y and z)", j.ID)
+	}
+	return idLine, nil
+}
+
+// numField returns the number of j that a key or column names: x, y, z,
+// diameter, washer or hole.
+func numField(j *Joint, key string) *float64 {
+	switch key {
+	case "x":
+		return &j.Point.X
+	case "y":
+		return &j.Point.Y
+	case "z":
+		return &j.Point.Z
+	case "diameter":
+		return &j.Diameter
+	case "washer":
+		return &j.Washer
+	}
+	return &j.Hole
+}
+
+// jointList collects the joints of one file and checks each as it comes.
+type jointList struct {
+	file   string
+	joints []Joint
+	idLine map[string]int
+	warns  []InputWarning
+}
+
+func newJointList(file string) *jointList {
+	return &jointList{file: file, idLine: map[string]int{}}
+}
+
+// add checks j and appends it; idLine is the line of its id.
+func (l *jointList) add(j Joint, idLine int) error {
+	switch {
+	case j.ID == "":
+		return geom.LineError(l.file, idLine, "joint id is empty")
+	case strings.ContainsFunc(j.ID, unicode.IsControl):
+		return geom.LineError(l.file, idLine, "joint id %q holds a control character", j.ID)
+	}
+	if prev, dup := l.idLine[j.ID]; dup {
+		return geom.LineError(l.file, idLine, "joint id %q given twice (lines %d and %d)", j.ID, prev, idLine)
+	}
+	l.idLine[j.ID] = idLine
+	if j.Kind == Bolt {
+		switch {
+		case j.Hole > 0 && j.Diameter > 0 && j.Hole < j.Diameter:
+			return geom.LineError(l.file, j.Line, "bolt %q: hole diameter %g mm is smaller than the bolt diameter %g mm", j.ID, j.Hole, j.Diameter)
+		case j.Washer > 0 && j.Washer <= max(j.Hole, j.Diameter):
+			return geom.LineError(l.file, j.Line, "bolt %q: washer diameter %g mm is not larger than the hole or bolt diameter %g mm", j.ID, j.Washer, max(j.Hole, j.Diameter))
+		}
+	} else if j.Washer > 0 || j.Hole > 0 {
+		l.warns = append(l.warns, InputWarning{l.file, j.Line, fmt.Sprintf("spot weld %q: washer and hole apply to bolts and are ignored", j.ID)})
+	}
+	l.joints = append(l.joints, j)
+	return nil
+}
+
+// CheckParts checks that every part id the joints list exists in m. It
+// returns one input error, located at the first joint that names an
+// unknown part, that lists every unknown id with the first joint naming
+// it.
+func CheckParts(js []Joint, m *geom.Mesh) error {
+	type use struct {
+		id int64
+		j  *Joint
+	}
+	var unknown []use
+	seen := map[int64]bool{}
+	for i := range js {
+		for _, id := range js[i].Parts {
+			if _, ok := m.PartIndex(id); ok || seen[id] {
+				continue
+			}
+			seen[id] = true
+			unknown = append(unknown, use{id, &js[i]})
+		}
+	}
+	if len(unknown) == 0 {
+		return nil
+	}
+	first := unknown[0].j
+	var b strings.Builder
+	const show = 10
+	for i, u := range unknown[:min(len(unknown), show)] {
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		where := strconv.Itoa(u.j.Line)
+		if u.j.File != first.File {
+			where = u.j.File + ":" + where
+		}
+		fmt.Fprintf(&b, "%d (joint %q, line %s)", u.id, u.j.ID, where)
+	}
+	if len(unknown) > show {
+		fmt.Fprintf(&b, " and %d more", len(unknown)-show)
+	}
+	return geom.LineError(first.File, first.Line, "unknown part ids in the joint list: %s", b.String())
+}
+
+// SortJoints sorts joints by id in natural order (see CompareIDs). The
+// sort is stable, so joints with equal ids keep their order.
+func SortJoints(js []Joint) {
+	// Sorting indices and permuting once moves each (large) Joint once
+	// instead of O(log n) times.
+	idx := make([]int32, len(js))
+	for i := range idx {
+		idx[i] = int32(i)
+	}
+	slices.SortFunc(idx, func(a, b int32) int {
+		if c := CompareIDs(js[a].ID, js[b].ID); c != 0 {
+			return c
+		}
+		return cmp.Compare(a, b)
+	})
+	sorted := make([]Joint, len(js))
+	for i, k := range idx {
+		sorted[i] = js[k]
+	}
+	copy(js, sorted)
+}
+
+// CompareIDs compares joint ids in natural order and returns -1, 0 or +1.
+// Runs of decimal digits compare by value ("W2" < "W10", "9" < "10"),
+// everything else byte by byte; ids equal by value ("W7", "W007") fall
+// back to plain string order, so the order is total and only equal
+// strings compare 0.
+func CompareIDs(a, b string) int {
+	i, j := 0, 0
+	for i < len(a) && j < len(b) {
+		if idDigit(a[i]) && idDigit(b[j]) {
+			ea, eb := idDigitsEnd(a, i), idDigitsEnd(b, j)
+			na := strings.TrimLeft(a[i:ea], "0")
+			nb := strings.TrimLeft(b[j:eb], "0")
+			if len(na) != len(nb) {
+				return cmp.Compare(len(na), len(nb))
+			}
+			if c := strings.Compare(na, nb); c != 0 {
+				return c
+			}
+			i, j = ea, eb
+			continue
+		}
+		if a[i] != b[j] {
+			return cmp.Compare(a[i], b[j])
+		}
+		i++
+		j++
+	}
+	if c := cmp.Compare(len(a)-i, len(b)-j); c != 0 {
+		return c
+	}
+	return strings.Compare(a, b)
+}
+
+func idDigit(c byte) bool { return '0' <= c && c <= '9' }
+
+func idDigitsEnd(s string, i int) int {
+	for i < len(s) && idDigit(s[i]) {
+		i++
+	}
+	return i
+}

@@ -1,0 +1,76 @@
+package writers
+
+import (
+	"encoding/csv"
+	"io"
+	"strconv"
+	"strings"
+)
+
+// ConnectorsCSVHeader is the header of connectors.csv: one row per
+// connector end. nodes and weights hold ';'-separated lists.
+var connectorsCSVHeader = []string{
+	"joint", "kind", "status", "group", "sheet", "part", "element", "end_node",
+	"x", "y", "z", "distance", "thickness", "edge_distance", "diameter", "attach", "dofs", "nodes", "weights",
+}
+
+// WriteConnectorsCSV writes one row per connector end (sheet); failed
+// connectors get one row with the sheet columns empty.
+func WriteConnectorsCSV(w io.Writer, doc *ConnectorsDoc) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(connectorsCSVHeader); err != nil {
+		return err
+	}
+	for _, c := range doc.Connectors {
+		base := []string{c.ID, c.Kind, c.Status, c.Group}
+		dia := ""
+		if c.Diameter != nil {
+			dia = f64(*c.Diameter)
+		}
+		tail := []string{dia, c.Attach, strings.Join(c.DOFs, ";")}
+		if c.Status == "failed" || len(c.Sheets) == 0 {
+			row := append(append(slicesClone(base), make([]string, 10)...), tail...)
+			row = append(row, "", "")
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+			continue
+		}
+		for i, s := range c.Sheets {
+			end, p := "", s.Point
+			if s.EndNode != nil {
+				end = strconv.FormatInt(*s.EndNode, 10)
+			} else if len(s.Nodes) == 1 {
+				end = strconv.FormatInt(s.Nodes[0], 10)
+			}
+			if s.EndPoint != nil {
+				p = *s.EndPoint
+			}
+			ed := ""
+			if s.EdgeDistance != nil {
+				ed = f64(*s.EdgeDistance)
+			}
+			nodes := make([]string, len(s.Nodes))
+			for k, n := range s.Nodes {
+				nodes[k] = strconv.FormatInt(n, 10)
+			}
+			weights := make([]string, len(s.Weights))
+			for k, v := range s.Weights {
+				weights[k] = f64(v)
+			}
+			row := append(slicesClone(base), strconv.Itoa(i), strconv.FormatInt(s.Part, 10), strconv.FormatInt(s.Element, 10), end,
+				f64(p[0]), f64(p[1]), f64(p[2]), f64(s.Distance), f64(s.Thickness), ed)
+			row = append(row, tail...)
+			row = append(row, strings.Join(nodes, ";"), strings.Join(weights, ";"))
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func f64(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+func slicesClone(s []string) []string { return append([]string(nil), s...) }
