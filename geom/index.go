@@ -140,8 +140,12 @@ func (x *Index) ProjectNear(p r3.Vec, r float64, filter func(e int) bool) []Proj
 		return nil
 	}
 	var buf [256]int32
-	var out []Projection
-	for _, e := range x.elems.appendWithin(buf[:0], &q, r2) {
+	cand := x.elems.appendWithin(buf[:0], &q, r2*pruneSlack)
+	if len(cand) == 0 {
+		return nil
+	}
+	out := make([]Projection, 0, len(cand))
+	for _, e := range cand {
 		if filter != nil && !filter(int(e)) {
 			continue
 		}
@@ -158,9 +162,9 @@ func (x *Index) ProjectNear(p r3.Vec, r float64, filter func(e int) bool) []Proj
 	return out
 }
 
-// pruneSlack widens the pruning bound of nearest searches by a relative
-// 1e-9, so that rounding in the box distances cannot drop an element
-// tied with the best one.
+// pruneSlack widens the box tests made before exact distances by a
+// relative 1e-9, so that rounding in the box distances cannot drop an
+// element at the query radius or tied with the best one.
 const pruneSlack = 1 + 1e-9
 
 // ProjectNearest returns the projection of p onto the nearest element
@@ -175,7 +179,7 @@ func (x *Index) ProjectNearest(p r3.Vec, r float64, filter func(e int) bool) (Pr
 	best := Projection{Elem: -1, Dist: math.Inf(1)}
 	bound := func() float64 {
 		if best.Elem < 0 {
-			return r2
+			return r2 * pruneSlack
 		}
 		return best.Dist * best.Dist * pruneSlack
 	}
@@ -297,8 +301,9 @@ func (x *Index) NodesWithin(p r3.Vec, r float64, filter func(n int) bool) []int3
 		return nil
 	}
 	var buf [256]int32
-	var found []nodeDist
-	for _, n := range x.nodes.appendWithin(buf[:0], &q, r2) {
+	cand := x.nodes.appendWithin(buf[:0], &q, r2)
+	found := make([]nodeDist, 0, len(cand))
+	for _, n := range cand {
 		if filter != nil && !filter(int(n)) {
 			continue
 		}

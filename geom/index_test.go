@@ -58,6 +58,15 @@ func nodeIDs(nd []nodeDist) []int32 {
 	return out
 }
 
+// numQueries is the number of random queries per mesh: 300, or 60 with
+// -short.
+func numQueries() int {
+	if testing.Short() {
+		return 60
+	}
+	return 300
+}
+
 // testMeshes returns the meshes the index is checked on, with a query
 // radius scale for each.
 func testMeshes() []struct {
@@ -101,7 +110,7 @@ func TestIndexElemsNear(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	for _, tm := range testMeshes() {
 		x := NewIndex(tm.m)
-		for i := range 300 {
+		for i := range numQueries() {
 			p := queryPoint(rng, tm.m, tm.r)
 			r := tm.r * rng.Float64()
 			prefix := []int32{-7}
@@ -118,7 +127,7 @@ func TestIndexProjectNear(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	for _, tm := range testMeshes() {
 		x := NewIndex(tm.m)
-		for i := range 300 {
+		for i := range numQueries() {
 			p := queryPoint(rng, tm.m, tm.r)
 			r := tm.r * rng.Float64()
 			var filter func(int) bool
@@ -148,7 +157,7 @@ func TestIndexNearestNodes(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	for _, tm := range testMeshes() {
 		x := NewIndex(tm.m)
-		for i := range 300 {
+		for i := range numQueries() {
 			p := queryPoint(rng, tm.m, tm.r)
 			var filter func(int) bool
 			if i%3 == 0 {
@@ -295,7 +304,7 @@ func TestMorton(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(1, 1))
 	for range 10000 {
-		x, y, z := rng.Uint64N(mortonMax+1), rng.Uint64N(mortonMax+1), rng.Uint64N(mortonMax+1)
+		x, y, z := rng.Uint64N(1<<mortonBits), rng.Uint64N(1<<mortonBits), rng.Uint64N(1<<mortonBits)
 		if got, want := morton3(x, y, z), naive(x, y, z); got != want {
 			t.Fatalf("morton3(%d, %d, %d) = %x, want %x", x, y, z, got, want)
 		}
@@ -304,9 +313,9 @@ func TestMorton(t *testing.T) {
 		v, lo, scale float64
 		want         uint64
 	}{
-		{5, 0, 1, 5}, {-1, 0, 1, 0}, {1e9, 0, 1, mortonMax}, {math.NaN(), 0, 1, 0}, {3, 3, 0, 0},
+		{5, 0, 1, 5}, {-1, 0, 1, 0}, {1e9, 0, 1, 1023}, {math.NaN(), 0, 1, 0}, {3, 3, 0, 0}, {7.5, 2, 2, 11},
 	} {
-		if got := quantize(tt.v, tt.lo, tt.scale); got != tt.want {
+		if got := quantize(tt.v, tt.lo, tt.scale, 1023); got != tt.want {
 			t.Errorf("quantize(%g, %g, %g) = %d, want %d", tt.v, tt.lo, tt.scale, got, tt.want)
 		}
 	}
@@ -329,7 +338,7 @@ func TestRadixSort(t *testing.T) {
 				ref[i] = pair{keys[i], int32(i)}
 			}
 			slices.SortStableFunc(ref, func(a, b pair) int { return cmp.Compare(a.k, b.k) })
-			radixSort(keys, ids)
+			radixSort(keys, ids, 48)
 			for i := range ref {
 				if keys[i] != ref[i].k || ids[i] != ref[i].id {
 					t.Fatalf("n=%d spread=%d: position %d has (%d, %d), want (%d, %d)", n, spread, i, keys[i], ids[i], ref[i].k, ref[i].id)

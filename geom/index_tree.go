@@ -2,6 +2,7 @@ package geom
 
 import (
 	"math"
+	mbits "math/bits"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -99,38 +100,47 @@ type treeItems interface {
 }
 
 // newPackedTree builds a packedTree over the items in O(n) time (one
-// radix sort) and 28 bytes per item.
+// radix sort), holding 28 bytes per item and needing about 40 more while
+// it builds.
 func newPackedTree(items treeItems) packedTree {
 	n := items.Len()
 	if n == 0 {
 		return packedTree{level: []int{0, 0}}
 	}
-	// Bounds of the box centres, then Morton codes of the centres.
-	clo := r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
-	chi := r3.Vec{X: math.Inf(-1), Y: math.Inf(-1), Z: math.Inf(-1)}
-	for i := range n {
+	// Item boxes in input order, and the bounds of their centres.
+	boxes := make([]box32, n)
+	clo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
+	chi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
+	for i := range boxes {
 		lo, hi := items.Box(i)
-		c := r3.Scale(0.5, r3.Add(lo, hi))
-		clo.X, chi.X = minIgnoreNaN(clo.X, c.X), maxIgnoreNaN(chi.X, c.X)
-		clo.Y, chi.Y = minIgnoreNaN(clo.Y, c.Y), maxIgnoreNaN(chi.Y, c.Y)
-		clo.Z, chi.Z = minIgnoreNaN(clo.Z, c.Z), maxIgnoreNaN(chi.Z, c.Z)
+		b := box32Of(lo, hi)
+		boxes[i] = b
+		for k := range 3 {
+			c := (float64(b.lo[k]) + float64(b.hi[k])) / 2
+			clo[k], chi[k] = minIgnoreNaN(clo[k], c), maxIgnoreNaN(chi[k], c)
+		}
 	}
-	// One scale for all axes, so that the curve's cells are cubes: a
-	// scale per axis would stretch the cells of a flat model.
+	// Morton codes of the centres, with one scale for all axes so that
+	// the curve's cells are cubes: a scale per axis would stretch the
+	// cells of a flat model.
+	// The resolution grows with n: a few cells per item along each axis.
+	bits := min(mortonBits, max(6, (mbits.Len(uint(n))+2)/3+4))
+	top := uint64(1)<<bits - 1
 	var scale float64
-	if d := max(chi.X-clo.X, chi.Y-clo.Y, chi.Z-clo.Z); d > 0 && !math.IsInf(d, 0) {
-		scale = mortonMax / d
+	if d := max(chi[0]-clo[0], chi[1]-clo[1], chi[2]-clo[2]); d > 0 && !math.IsInf(d, 0) {
+		scale = float64(top) / d
 	}
-	sx, sy, sz := scale, scale, scale
 	codes := make([]uint64, n)
 	ids := make([]int32, n)
-	for i := range n {
-		lo, hi := items.Box(i)
-		c := r3.Scale(0.5, r3.Add(lo, hi))
-		codes[i] = morton3(quantize(c.X, clo.X, sx), quantize(c.Y, clo.Y, sy), quantize(c.Z, clo.Z, sz))
+	for i, b := range boxes {
+		var q [3]uint64
+		for k := range 3 {
+			q[k] = quantize((float64(b.lo[k])+float64(b.hi[k]))/2, clo[k], scale, top)
+		}
+		codes[i] = morton3(q[0], q[1], q[2])
 		ids[i] = int32(i)
 	}
-	radixSort(codes, ids)
+	radixSort(codes, ids, 3*bits)
 
 	// Levels: count the nodes, then fill the item boxes and the unions.
 	t := packedTree{ids: ids, level: []int{0}}
@@ -144,8 +154,7 @@ func newPackedTree(items treeItems) packedTree {
 	}
 	t.boxes = make([]box32, total)
 	for i, id := range ids {
-		lo, hi := items.Box(int(id))
-		t.boxes[i] = box32Of(lo, hi)
+		t.boxes[i] = boxes[id]
 	}
 	for l := 1; l+1 < len(t.level); l++ {
 		child := t.boxes[t.level[l-1]:t.level[l]]
@@ -326,21 +335,17 @@ func maxIgnoreNaN(a, b float64) float64 {
 	return a
 }
 
-// mortonBits is the resolution of a Morton code per axis.
-const (
-	mortonBits = 16
-	mortonMax  = 1<<mortonBits - 1
-)
+// mortonBits is the largest resolution of a Morton code per axis.
+const mortonBits = 16
 
-// quantize maps v in [lo, lo+mortonMax/scale] to 0..mortonMax; NaN maps
-// to 0.
-func quantize(v, lo, scale float64) uint64 {
+// quantize maps v in [lo, lo+top/scale] to 0..top; NaN maps to 0.
+func quantize(v, lo, scale float64, top uint64) uint64 {
 	t := (v - lo) * scale
 	if !(t > 0) {
 		return 0
 	}
-	if t >= mortonMax {
-		return mortonMax
+	if t >= float64(top) {
+		return top
 	}
 	return uint64(t)
 }
@@ -361,24 +366,29 @@ func morton3(x, y, z uint64) uint64 {
 	return spread3(x) | spread3(y)<<1 | spread3(z)<<2
 }
 
-// radixSort sorts keys (48-bit) ascending, permuting ids alongside; the
-// sort is stable.
-func radixSort(keys []uint64, ids []int32) {
-	const bits = 12
-	const buckets = 1 << bits
+// radixSort sorts keys of at most keyBits bits ascending, permuting ids
+// alongside; the sort is stable. It is a least-significant-digit radix
+// sort with 11-bit digits whose histograms are all counted in one pass.
+func radixSort(keys []uint64, ids []int32, keyBits int) {
+	const digit = 11
+	const buckets = 1 << digit
 	n := len(keys)
 	if n < 2 {
 		return
 	}
+	passes := (keyBits + digit - 1) / digit
+	counts := make([][buckets]int, passes)
+	for _, k := range keys {
+		for p := range counts {
+			counts[p][(k>>(p*digit))&(buckets-1)]++
+		}
+	}
 	origK, origI := keys, ids
 	tk := make([]uint64, n)
 	ti := make([]int32, n)
-	var count [buckets]int
-	for shift := 0; shift < 48; shift += bits {
-		clear(count[:])
-		for _, k := range keys {
-			count[(k>>shift)&(buckets-1)]++
-		}
+	for p := range counts {
+		count := &counts[p]
+		shift := p * digit
 		if count[(keys[0]>>shift)&(buckets-1)] == n {
 			continue // every key has the same digit
 		}

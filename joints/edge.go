@@ -2,7 +2,6 @@ package joints
 
 import (
 	"math"
-	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -11,48 +10,44 @@ import (
 
 // edgeDistance returns the distance from q to the nearest free edge of
 // part pi (an element edge no other element of the part shares) within
-// radius r, or +Inf when there is none. It looks only at elements near q,
-// through the index, so it needs no global edge table.
+// radius r, or +Inf when there is none.
+//
+// It needs no global edge table: an edge within r of q has every element
+// that uses it within r too (their bounding boxes hold the edge), so one
+// query gives the elements, and counting edge uses among them tells which
+// edges are free.
 func edgeDistance(x *geom.Index, q r3.Vec, pi int32, r float64) float64 {
 	m := x.Mesh()
-	best := math.Inf(1)
-	var buf, nbuf [64]int32
-	for _, e := range x.ElemsNear(q, r, buf[:0]) {
+	var buf [128]int32
+	type key struct{ a, b int32 }
+	uses := map[key]int{}
+	near := x.ElemsNear(q, r, buf[:0])
+	local := near[:0]
+	for _, e := range near {
 		if m.ElemPart[e] != pi {
 			continue
 		}
+		local = append(local, e)
 		nc := m.Type(int(e)).Corners()
 		for k := 0; k < nc; k++ {
 			ed := m.ElemEdge(int(e), k)
-			d := segmentDistance(q, m.Coords[ed.A], m.Coords[ed.B])
-			if d > r || d >= best {
+			uses[key{min(ed.A, ed.B), max(ed.A, ed.B)}]++
+		}
+	}
+	best := math.Inf(1)
+	for _, e := range local {
+		nc := m.Type(int(e)).Corners()
+		for k := 0; k < nc; k++ {
+			ed := m.ElemEdge(int(e), k)
+			if uses[key{min(ed.A, ed.B), max(ed.A, ed.B)}] != 1 {
 				continue
 			}
-			if isFreeEdge(x, ed, nbuf[:0]) {
+			if d := segmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
 				best = d
 			}
 		}
 	}
 	return best
-}
-
-// isFreeEdge reports whether no element of the edge's part other than its
-// own uses both its nodes.
-func isFreeEdge(x *geom.Index, ed geom.Edge, buf []int32) bool {
-	m := x.Mesh()
-	a, b := m.Coords[ed.A], m.Coords[ed.B]
-	mid := r3.Scale(0.5, r3.Add(a, b))
-	part := m.ElemPart[ed.Elem]
-	for _, f := range x.ElemsNear(mid, 1e-9*(1+r3.Norm(mid)), buf) {
-		if f == ed.Elem || m.ElemPart[f] != part {
-			continue
-		}
-		nodes := m.ElemNodes(int(f))
-		if slices.Contains(nodes, ed.A) && slices.Contains(nodes, ed.B) {
-			return false
-		}
-	}
-	return true
 }
 
 // segmentDistance returns the distance from p to the segment ab.

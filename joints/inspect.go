@@ -92,14 +92,14 @@ type PartSummary struct {
 
 // PartDeep is the deeper look at one part.
 type PartDeep struct {
-	Loops      []LoopSummary  `json:"free_edge_loops"`
-	Warped     int            `json:"warped"`
-	Degenerate int            `json:"degenerate"`
-	WorstWarp  float64        `json:"worst_warp_deg"`
-	WorstElem  int64          `json:"worst_warp_element,omitempty"`
-	MaxAspect  float64        `json:"worst_aspect"`
-	MinEdge    float64        `json:"shortest_edge_mm"`
-	Listed     []ElemQuality  `json:"listed,omitempty"`
+	Loops      []LoopSummary `json:"free_edge_loops"`
+	Warped     int           `json:"warped"`
+	Degenerate int           `json:"degenerate"`
+	WorstWarp  float64       `json:"worst_warp_deg"`
+	WorstElem  int64         `json:"worst_warp_element,omitempty"`
+	MaxAspect  float64       `json:"worst_aspect"`
+	MinEdge    float64       `json:"shortest_edge_mm"`
+	Listed     []ElemQuality `json:"listed,omitempty"`
 }
 
 // LoopSummary describes one free-edge loop.

@@ -152,7 +152,7 @@ func ReadJointsCSV(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 			return nil, warns, err
 		}
 		j := Joint{File: name, Line: c.Line(0)}
-		if err := l.csvRow(c, rec, at, &j); err != nil {
+		if err := csvJoint(c, rec, keys, at, &j); err != nil {
 			return nil, warns, err
 		}
 		for _, col := range tags {
@@ -170,11 +170,11 @@ func ReadJointsCSV(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 	}
 }
 
-// csvRow fills j from the known columns of one row.
-func (l *jointList) csvRow(c *tabular.CSV, rec []string, at []int, j *Joint) error {
+// csvJoint fills j from the known columns of one row; at[k] is the column
+// of keys[k].
+func csvJoint(c *tabular.CSV, rec, keys []string, at []int, j *Joint) error {
 	j.ID = strings.Clone(rec[at[jlID]])
 	var err error
-	keys := jointKeys()
 	for _, k := range []int{jlX, jlY, jlZ} {
 		col := at[k]
 		if rec[col] == "" {
@@ -253,7 +253,7 @@ func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 	l.joints = make([]Joint, 0, len(items))
 	for _, it := range items {
 		j := Joint{File: name, Line: it.Line}
-		idLine, err := l.yamlJoint(y, it, keys, &j)
+		idLine, err := yamlJoint(y, it, keys, &j)
 		if err != nil {
 			return nil, nil, err
 		}
@@ -266,7 +266,7 @@ func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 
 // yamlJoint fills j from one map of the list and returns the line of its
 // id.
-func (l *jointList) yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, error) {
+func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, error) {
 	var (
 		idLine int
 		coords [3]bool // x, y, z given

@@ -59,6 +59,13 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 	}
 	t := newPartTable(name, len(items))
 	keys := partKeys()
+	// at locates a field check's error at node v.
+	at := func(v *yaml.Node, err error) error {
+		if err != nil {
+			return y.Errorf(v, "%w", err)
+		}
+		return nil
+	}
 	for _, it := range items {
 		var (
 			p              geom.Part
@@ -69,32 +76,28 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 			switch key {
 			case "id":
 				hasID, idLine = true, v.Line
-				if p.ID, err = y.Int(v, "id"); err == nil && p.ID <= 0 {
-					err = y.Errorf(v, "id: part id %d is not positive", p.ID)
+				if p.ID, err = y.Int(v, "id"); err == nil {
+					err = at(v, checkID(p.ID))
 				}
 			case "name":
 				p.Name, err = y.String(v, "name")
 			case "thickness":
 				hasT = true
-				if p.Thickness, err = y.Float(v, "thickness"); err == nil && p.Thickness <= 0 {
-					err = y.Errorf(v, "thickness: %g mm is not positive", p.Thickness)
+				if p.Thickness, err = y.Float(v, "thickness"); err == nil {
+					err = at(v, checkThickness(p.Thickness))
 				}
 			case "material":
 				p.Material, err = y.String(v, "material")
 			case "surface":
 				var s string
 				if s, err = y.String(v, "surface"); err == nil {
-					if p.Surface, err = geom.ParseSurface(strings.ToLower(s)); err != nil {
-						err = y.Errorf(v, "surface: %w", err)
-					}
+					p.Surface, err = parseSurface(s)
+					err = at(v, err)
 				}
 			case "mesh":
 				meshLn = v.Line
 				if p.Mesh, err = y.String(v, "mesh"); err == nil {
-					err = checkMeshName(p.Mesh)
-					if err != nil {
-						err = y.Errorf(v, "mesh: %w", err)
-					}
+					err = at(v, checkMeshName(p.Mesh))
 				}
 			}
 			return err
@@ -154,8 +157,8 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 		if p.ID, err = c.Int(rec, ci); err != nil {
 			return nil, err
 		}
-		if p.ID <= 0 {
-			return nil, c.Errorf(ci, "id: part id %d is not positive", p.ID)
+		if err := checkID(p.ID); err != nil {
+			return nil, c.Errorf(ci, "%w", err)
 		}
 		if rec[ct] == "" {
 			return nil, c.Errorf(ct, "part %d has no thickness", p.ID)
@@ -163,8 +166,8 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 		if p.Thickness, err = c.Float(rec, ct); err != nil {
 			return nil, err
 		}
-		if p.Thickness <= 0 {
-			return nil, c.Errorf(ct, "thickness: %g mm is not positive", p.Thickness)
+		if err := checkThickness(p.Thickness); err != nil {
+			return nil, c.Errorf(ct, "%w", err)
 		}
 		if col := at[kName]; col >= 0 {
 			p.Name = rec[col]
@@ -173,14 +176,14 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 			p.Material = rec[col]
 		}
 		if col := at[kSurface]; col >= 0 {
-			if p.Surface, err = geom.ParseSurface(strings.ToLower(rec[col])); err != nil {
-				return nil, c.Errorf(col, "surface: %w", err)
+			if p.Surface, err = parseSurface(rec[col]); err != nil {
+				return nil, c.Errorf(col, "%w", err)
 			}
 		}
 		if col := at[kMesh]; col >= 0 {
 			p.Mesh = rec[col]
 			if err := checkMeshName(p.Mesh); err != nil {
-				return nil, c.Errorf(col, "mesh: %w", err)
+				return nil, c.Errorf(col, "%w", err)
 			}
 		}
 		if err := t.add(p, c.Line(ci), c.Line(max(at[kMesh], 0))); err != nil {
@@ -189,10 +192,35 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 	}
 }
 
+// Checks of table fields shared by the YAML and CSV forms; the caller
+// adds the location.
+
+func checkID(id int64) error {
+	if id <= 0 {
+		return fmt.Errorf("id: part id %d is not positive", id)
+	}
+	return nil
+}
+
+func checkThickness(t float64) error {
+	if t <= 0 {
+		return fmt.Errorf("thickness: %g mm is not positive", t)
+	}
+	return nil
+}
+
+func parseSurface(s string) (geom.Surface, error) {
+	surf, err := geom.ParseSurface(strings.ToLower(s))
+	if err != nil {
+		return surf, fmt.Errorf("surface: %w", err)
+	}
+	return surf, nil
+}
+
 // checkMeshName accepts "" and file base names.
 func checkMeshName(s string) error {
 	if strings.ContainsAny(s, `/\`) {
-		return fmt.Errorf("%q is not a file base name (write floor.vtk, not a path)", s)
+		return fmt.Errorf("mesh: %q is not a file base name (write floor.vtk, not a path)", s)
 	}
 	return nil
 }

@@ -1,9 +1,15 @@
 package vtu
 
 import (
+	"bytes"
+	"fmt"
 	"math"
 	"strconv"
 	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 func TestParseInt(t *testing.T) {
@@ -87,6 +93,58 @@ func TestParseType(t *testing.T) {
 	for _, name := range []string{"String", "Bit", "Float128", ""} {
 		if got := parseType(name); got != -1 {
 			t.Errorf("parseType(%q) = %v, want -1", name, got)
+		}
+	}
+}
+
+// TestEveryType reads a two-triangle mesh whose arrays all have one
+// numeric type, for every type and several layouts.
+func TestEveryType(t *testing.T) {
+	layouts := []wOpts{
+		{format: "ascii"},
+		{format: "binary", bigEndian: true},
+		{format: "appended"},
+		{format: "appended", encoding: "base64", compress: true, header64: true},
+	}
+	for typ := typeInt8; typ < typeUnknown; typ++ {
+		for _, o := range layouts {
+			pc := wPiece{
+				np: 4, nc: 2,
+				points:    wArray{name: "Points", typ: typ, ncomp: 3, ints: []int64{0, 0, 0, 1, 0, 0, 1, 1, 0, 0, 1, 1}},
+				conn:      wArray{name: "connectivity", typ: typ, ints: []int64{0, 1, 2, 0, 2, 3}},
+				offsets:   wArray{name: "offsets", typ: typ, ints: []int64{3, 6}},
+				types:     wArray{name: "types", typ: typ, ints: []int64{5, 5}},
+				pointData: []wArray{{name: "node_id", typ: typ, ints: []int64{4, 3, 2, 1}}},
+				cellData: []wArray{
+					{name: "element_id", typ: typ, ints: []int64{7, 9}},
+					{name: "part", typ: typ, ints: []int64{2, 1}},
+					{name: "thickness", typ: typ, ints: []int64{1, 2}},
+				},
+			}
+			var b bytes.Buffer
+			if err := writeVTU(&b, []wPiece{pc}, o); err != nil {
+				t.Fatal(err)
+			}
+			name := fmt.Sprintf("%s/%s/%v", typ, o.format, o.bigEndian)
+			m, err := Read(&b, name, geom.ReadOptions{})
+			if err != nil {
+				t.Errorf("%s: %v", name, err)
+				continue
+			}
+			want := &geom.Mesh{
+				Parts:         []geom.Part{{ID: 2}, {ID: 1}},
+				NodeIDs:       []int64{4, 3, 2, 1},
+				Coords:        []r3.Vec{{X: 0, Y: 0, Z: 0}, {X: 1, Y: 0, Z: 0}, {X: 1, Y: 1, Z: 0}, {X: 0, Y: 1, Z: 1}},
+				ElemIDs:       []int64{7, 9},
+				ElemPart:      []int32{0, 1},
+				ElemStart:     []int32{0, 3, 6},
+				Conn:          []int32{0, 1, 2, 0, 2, 3},
+				ElemThickness: []float64{1, 2},
+				Sources:       []geom.Source{{File: name}},
+			}
+			if d := meshDiff(m, want); d != "" {
+				t.Errorf("%s:\n%s", name, d)
+			}
 		}
 	}
 }

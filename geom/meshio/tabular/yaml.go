@@ -54,7 +54,45 @@ func (y YAML) Parse(r io.Reader) (root *yaml.Node, err error) {
 	if len(doc.Content) == 0 {
 		return nil, nil
 	}
+	if n, raw := expandedSize(&doc, map[*yaml.Node]int{}), countNodes(&doc); n > maxExpanded && n > 10*raw {
+		return nil, geom.FileError(y.File, "YAML aliases expand the document from %d to over %d nodes", raw, maxExpanded)
+	}
 	return resolve(doc.Content[0]), nil
+}
+
+// maxExpanded bounds the nodes a document may expand to through aliases
+// when that is more than ten times its size, so that a small file cannot
+// make the readers walk a huge tree.
+const maxExpanded = 1_000_000
+
+// expandedSize returns the number of nodes of n with aliases expanded,
+// at most maxExpanded+1; memo holds the sizes already known.
+func expandedSize(n *yaml.Node, memo map[*yaml.Node]int) int {
+	if n.Kind == yaml.AliasNode {
+		if n.Alias == nil {
+			return 1
+		}
+		n = n.Alias
+	}
+	if s, ok := memo[n]; ok {
+		return s
+	}
+	memo[n] = 1 // cut cycles
+	s := 1
+	for _, c := range n.Content {
+		s = min(s+expandedSize(c, memo), maxExpanded+1)
+	}
+	memo[n] = s
+	return s
+}
+
+// countNodes returns the number of nodes written in the document.
+func countNodes(n *yaml.Node) int {
+	s := 1
+	for _, c := range n.Content {
+		s += countNodes(c)
+	}
+	return s
 }
 
 // syntax turns a yaml.v3 error ("yaml: line 3: msg") into an input error.

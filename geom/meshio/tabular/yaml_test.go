@@ -2,6 +2,7 @@ package tabular
 
 import (
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -30,6 +31,27 @@ func TestYAMLParseErrors(t *testing.T) {
 				t.Errorf("errors.Is(err, geom.ErrInput) = false for %v", err)
 			}
 		})
+	}
+}
+
+func TestYAMLAliasBomb(t *testing.T) {
+	// 1000 aliases of a 2000-key map expand to 4 million nodes.
+	var b strings.Builder
+	b.WriteString("tags: &t {")
+	for i := range 2000 {
+		fmt.Fprintf(&b, "k%d: v, ", i)
+	}
+	b.WriteString("}\nlist:\n")
+	for range 1000 {
+		b.WriteString("  - *t\n")
+	}
+	_, err := YAML{File: "t.yaml"}.Parse(strings.NewReader(b.String()))
+	if err == nil || !strings.Contains(err.Error(), "YAML aliases expand the document") || !errors.Is(err, geom.ErrInput) {
+		t.Fatalf("err = %v", err)
+	}
+	// A few aliases are fine.
+	if _, err := (YAML{}).Parse(strings.NewReader("a: &x {k: 1}\nb: *x\nc: *x\n")); err != nil {
+		t.Fatal(err)
 	}
 }
 
