@@ -42,6 +42,12 @@ func (pr *Projection) Offset(q r3.Vec) float64 {
 func ClosestOnTriangle(p, a, b, c r3.Vec) (q r3.Vec, l [3]float64) {
 	ab := r3.Sub(b, a)
 	ac := r3.Sub(c, a)
+	// The region tests assume a proper triangle; a degenerate one (its
+	// area tiny against its edges, here sin(angle at a) < 1e-8) is the
+	// union of its edges.
+	if !(r3.Norm2(r3.Cross(ab, ac)) > 1e-16*r3.Norm2(ab)*r3.Norm2(ac)) {
+		return closestOnTriangleEdges(p, a, b, c)
+	}
 	ap := r3.Sub(p, a)
 	d1 := r3.Dot(ab, ap)
 	d2 := r3.Dot(ac, ap)
@@ -75,11 +81,9 @@ func ClosestOnTriangle(p, a, b, c r3.Vec) (q r3.Vec, l [3]float64) {
 		w := ratio(d4-d3, (d4-d3)+(d5-d6)) // edge region bc
 		return r3.Add(b, r3.Scale(w, r3.Sub(c, b))), [3]float64{0, 1 - w, w}
 	}
-	// Face region. va+vb+vc is |ab x ac|^2; when it is tiny against
-	// |ab|^2 |ac|^2 the triangle is degenerate and the ratios below are
-	// meaningless, so take the best of the edges instead.
+	// Face region. va+vb+vc is |ab x ac|^2 up to rounding.
 	den := va + vb + vc
-	if !(den > 1e-16*r3.Norm2(ab)*r3.Norm2(ac)) {
+	if !(den > 0) {
 		return closestOnTriangleEdges(p, a, b, c)
 	}
 	v := vb / den

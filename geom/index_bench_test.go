@@ -155,14 +155,16 @@ func TestAlternativeIndexes(t *testing.T) {
 	}
 }
 
-// benchSizes are the grid sizes (elements) of the benchmarks; 2M is
-// skipped with -short.
-var benchSizes = []struct {
+// benchSize is a grid size (elements) of the benchmarks.
+type benchSize struct {
 	name   string
 	nx, ny int
-}{
-	{"200k", 500, 400},
-	{"2M", 1600, 1250},
+}
+
+// benchSizes returns the grid sizes of the benchmarks, 200k and 2M
+// elements; 2M is skipped with -short.
+func benchSizes() []benchSize {
+	return []benchSize{{"200k", 500, 400}, {"2M", 1600, 1250}}
 }
 
 // benchQueries returns query points within 3 mm of the 5 mm grid, the
@@ -177,7 +179,7 @@ func benchQueries(m *Mesh, n int) []r3.Vec {
 }
 
 func BenchmarkIndexBuild(b *testing.B) {
-	for _, s := range benchSizes {
+	for _, s := range benchSizes() {
 		b.Run(s.name, func(b *testing.B) {
 			if s.name == "2M" && testing.Short() {
 				b.Skip("2M elements skipped with -short")
@@ -216,7 +218,7 @@ type elemsNearer interface {
 // BenchmarkElemsNear compares the three structures for elements within
 // r = 8 mm of points near a 5 mm grid (about 12 answers per query).
 func BenchmarkElemsNear(b *testing.B) {
-	for _, s := range benchSizes {
+	for _, s := range benchSizes() {
 		if s.name == "2M" && testing.Short() {
 			continue
 		}
@@ -249,7 +251,7 @@ func BenchmarkElemsNear(b *testing.B) {
 }
 
 func BenchmarkProjectNear(b *testing.B) {
-	for _, s := range benchSizes {
+	for _, s := range benchSizes() {
 		b.Run(s.name, func(b *testing.B) {
 			if s.name == "2M" && testing.Short() {
 				b.Skip("2M elements skipped with -short")
@@ -281,7 +283,7 @@ func BenchmarkProjectNearest(b *testing.B) {
 }
 
 func BenchmarkNearestNodes(b *testing.B) {
-	for _, s := range benchSizes {
+	for _, s := range benchSizes() {
 		if s.name == "2M" && testing.Short() {
 			continue
 		}

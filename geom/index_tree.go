@@ -16,10 +16,11 @@ type box32 struct {
 	lo, hi [3]float32
 }
 
-// emptyBox32 contains nothing; union with it is the identity.
-var emptyBox32 = box32{
-	lo: [3]float32{float32(math.Inf(1)), float32(math.Inf(1)), float32(math.Inf(1))},
-	hi: [3]float32{float32(math.Inf(-1)), float32(math.Inf(-1)), float32(math.Inf(-1))},
+// emptyBox32 returns a box that contains nothing; union with it is the
+// identity.
+func emptyBox32() box32 {
+	inf := float32(math.Inf(1))
+	return box32{lo: [3]float32{inf, inf, inf}, hi: [3]float32{-inf, -inf, -inf}}
 }
 
 // down32 and up32 round x to a float32 not above (below) it.
@@ -159,7 +160,7 @@ func newPackedTree(items treeItems) packedTree {
 	for l := 1; l+1 < len(t.level); l++ {
 		child := t.boxes[t.level[l-1]:t.level[l]]
 		for i := range t.level[l+1] - t.level[l] {
-			b := emptyBox32
+			b := emptyBox32()
 			for j := i * treeFan; j < min(i*treeFan+treeFan, len(child)); j++ {
 				b.union(&child[j])
 			}

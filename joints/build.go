@@ -93,6 +93,10 @@ func MaxThickness(m *geom.Mesh) float64 {
 func Build(ctx context.Context, x *geom.Index, js []Joint, o BuildOptions, prog geom.Progress) (*Result, error) {
 	m := x.Mesh()
 	o = o.Defaults(MaxThickness(m))
+	maxID := max(m.MaxNodeID(), m.MaxElemID())
+	if o.IDStart > 0 && o.IDStart <= maxID {
+		return nil, fmt.Errorf("joints: id start %d would collide with mesh ids (the largest is %d)", o.IDStart, maxID)
+	}
 	if prog == nil {
 		prog = geom.NoProgress{}
 	}
@@ -140,7 +144,7 @@ func Build(ctx context.Context, x *geom.Index, js []Joint, o BuildOptions, prog 
 	// New ids, in joint order.
 	res.IDStart = o.IDStart
 	if res.IDStart <= 0 {
-		res.IDStart = DefaultIDStart(max(m.MaxNodeID(), m.MaxElemID()))
+		res.IDStart = DefaultIDStart(maxID)
 	}
 	id := res.IDStart
 	for i := range res.Connectors {

@@ -200,6 +200,41 @@ func TestAttachments(t *testing.T) {
 	}
 }
 
+func TestPatchWithManyNodes(t *testing.T) {
+	// A 12 mm nugget over 2 mm elements: the patch takes every node within
+	// 6 mm; the weights must still sum to 1 and reproduce the point.
+	m := plates(plate{Part: 1, T: 1, NX: 25, NY: 25, H: 2}, plate{Part: 2, T: 1, Z: 1, NX: 20, NY: 20, H: 2.5, Tri: true})
+	p := r3.Vec{X: 23.3, Y: 26.1, Z: 0.5}
+	c := buildOne1(t, m, Joint{ID: "1", Point: p, Diameter: 12}, BuildOptions{Attach: Patch})
+	if c.Status != StatusOK {
+		t.Fatalf("status %v %v", c.Status, c.Findings)
+	}
+	for i, e := range c.Ends {
+		if len(e.Nodes) < 15 { // about pi*6²/h² nodes: 28 for h=2, 18 for h=2.5
+			t.Errorf("end %d: only %d nodes", i, len(e.Nodes))
+		}
+		sum := 0.0
+		var pt r3.Vec
+		for k, n := range e.Nodes {
+			sum += e.Weights[k]
+			pt = r3.Add(pt, r3.Scale(e.Weights[k], m.Coords[n]))
+			if d := r3.Norm(r3.Sub(m.Coords[n], e.Point)); d > 6+1e-9 {
+				t.Errorf("end %d: node %d at %g mm, beyond the 6 mm radius", i, m.NodeIDs[n], d)
+			}
+		}
+		if math.Abs(sum-1) > 1e-12 || r3.Norm(r3.Sub(pt, e.Point)) > 1e-9 {
+			t.Errorf("end %d: weights sum %g, give %v for %v", i, sum, pt, e.Point)
+		}
+	}
+}
+
+func TestIDStartCollision(t *testing.T) {
+	m := plates(plate{Part: 1, T: 1, NX: 2, NY: 2, H: 5})
+	if _, err := Build(context.Background(), geom.NewIndex(m), nil, BuildOptions{IDStart: 100001}, nil); err == nil {
+		t.Fatal("no error for an id start below the mesh ids")
+	}
+}
+
 func TestNodePairNotFacing(t *testing.T) {
 	// Meshes offset by half an element: nearest nodes 3.54 mm apart
 	// across the axis, above the limit 0.5 * 2.5 mm.
