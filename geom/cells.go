@@ -94,6 +94,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		m.ElemThickness = make([]float64, 0, kept)
 	}
 	partIdx := map[int64]int32{}
+	lastPID, lastPI := int64(0), int32(-1) // elements of a part come in runs
 	np := int64(len(cs.Points))
 	for c, t := range cs.Types {
 		lo, hi := cs.Offsets[c], cs.Offsets[c+1]
@@ -132,13 +133,16 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 				return nil, RecordError(cs.File, c, "cell %d: part id %d is not positive", c, pid)
 			}
 		}
-		pi, ok := partIdx[pid]
-		if !ok {
-			pi = int32(len(m.Parts))
-			partIdx[pid] = pi
-			m.Parts = append(m.Parts, Part{ID: pid})
+		if pid != lastPID || lastPI < 0 {
+			pi, ok := partIdx[pid]
+			if !ok {
+				pi = int32(len(m.Parts))
+				partIdx[pid] = pi
+				m.Parts = append(m.Parts, Part{ID: pid})
+			}
+			lastPID, lastPI = pid, pi
 		}
-		m.ElemPart = append(m.ElemPart, pi)
+		m.ElemPart = append(m.ElemPart, lastPI)
 		if cs.Thickness != nil {
 			th := cs.Thickness[c]
 			if !(th > 0) || math.IsInf(th, 0) {

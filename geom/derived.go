@@ -2,6 +2,9 @@ package geom
 
 import (
 	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -87,13 +90,53 @@ type PartStats struct {
 }
 
 // PartStats returns element counts, areas and bounding boxes per part,
-// aligned with m.Parts. It runs in one pass over the elements.
+// aligned with m.Parts. The elements are split into fixed blocks that are
+// summed concurrently and merged in block order, so the result does not
+// depend on GOMAXPROCS.
 func (m *Mesh) PartStats() []PartStats {
+	const block = 1 << 16
+	nb := (m.NumElems() + block - 1) / block
+	parts := make([][]PartStats, nb)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < min(runtime.GOMAXPROCS(0), nb); w++ {
+		wg.Go(func() {
+			for {
+				b := int(next.Add(1) - 1)
+				if b >= nb {
+					return
+				}
+				parts[b] = m.partStats(b*block, min((b+1)*block, m.NumElems()))
+			}
+		})
+	}
+	wg.Wait()
 	st := make([]PartStats, len(m.Parts))
 	for i := range st {
 		st[i].Box = EmptyBox()
 	}
-	for e := range m.ElemIDs {
+	for _, ps := range parts {
+		for i, s := range ps {
+			if s.Elems == 0 {
+				continue
+			}
+			st[i].Elems += s.Elems
+			st[i].Tris += s.Tris
+			st[i].Quads += s.Quads
+			st[i].Area += s.Area
+			st[i].Box = unionBox(st[i].Box, s.Box)
+		}
+	}
+	return st
+}
+
+// partStats sums elements lo..hi-1.
+func (m *Mesh) partStats(lo, hi int) []PartStats {
+	st := make([]PartStats, len(m.Parts))
+	for i := range st {
+		st[i].Box = EmptyBox()
+	}
+	for e := lo; e < hi; e++ {
 		s := &st[m.ElemPart[e]]
 		s.Elems++
 		if m.Type(e).Corners() == 3 {
@@ -102,9 +145,33 @@ func (m *Mesh) PartStats() []PartStats {
 			s.Quads++
 		}
 		s.Area += m.Area(e)
+		b := &s.Box
 		for _, n := range m.ElemNodes(e) {
-			s.Box = growBox(s.Box, m.Coords[n])
+			p := m.Coords[n]
+			if p.X < b.Min.X {
+				b.Min.X = p.X
+			}
+			if p.X > b.Max.X {
+				b.Max.X = p.X
+			}
+			if p.Y < b.Min.Y {
+				b.Min.Y = p.Y
+			}
+			if p.Y > b.Max.Y {
+				b.Max.Y = p.Y
+			}
+			if p.Z < b.Min.Z {
+				b.Min.Z = p.Z
+			}
+			if p.Z > b.Max.Z {
+				b.Max.Z = p.Z
+			}
 		}
 	}
 	return st
+}
+
+func unionBox(a, b r3.Box) r3.Box {
+	a = growBox(a, b.Min)
+	return growBox(a, b.Max)
 }

@@ -10,14 +10,19 @@ import (
 // (id = base + index, the common case of files without explicit ids) need
 // no memory at all; ids spread over a range at most four times their count
 // use a direct table of int32 (4 bytes per id in the range); anything
-// sparser uses a sorted copy searched by bisection (12 bytes per id).
+// sparser uses a sorted copy searched by bisection (12 bytes per id; none
+// when the ids already come in increasing order, as they usually do).
 // Lookups are O(1) for the first two and O(log n) for the last.
 type IDIndex struct {
 	n      int
 	base   int64   // contiguous and table layouts: smallest id
 	table  []int32 // table layout: index+1 per id-base, 0 = absent
 	sorted []int64 // sorted layout: ids in increasing order
-	perm   []int32 // sorted layout: index of sorted[i]
+	perm   []int32 // sorted layout: index of sorted[i]; nil when ids came sorted
+	// Sorted layout: ids in [base + b<<shift, base + (b+1)<<shift) lie in
+	// sorted[bucket[b]:bucket[b+1]], so a lookup bisects a short run.
+	bucket []int32
+	shift  uint
 }
 
 // Duplicate reports two indices that carry the same id.
@@ -27,7 +32,8 @@ type Duplicate struct {
 	Second int
 }
 
-// NewIDIndex builds an index over ids; ids[i] is the id of index i. When
+// NewIDIndex builds an index over ids; ids[i] is the id of index i. The
+// index may keep ids itself: do not change it while the index is in use. When
 // two indices share an id it returns the first such pair found (lowest id
 // first in the sorted layout) and ok=false.
 func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
@@ -64,6 +70,12 @@ func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
 		}
 		return x, Duplicate{}, true
 	}
+	if increasing(ids) {
+		// Already sorted, as ids in files usually are: no copy, no sort.
+		x.sorted = ids
+		x.buildBuckets(hi)
+		return x, Duplicate{}, true
+	}
 	x.perm = make([]int32, len(ids))
 	for i := range x.perm {
 		x.perm[i] = int32(i)
@@ -84,7 +96,34 @@ func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
 			return IDIndex{}, Duplicate{ID: ids[p], First: int(x.perm[i-1]), Second: int(p)}, false
 		}
 	}
+	x.buildBuckets(hi)
 	return x, Duplicate{}, true
+}
+
+// buildBuckets makes the bucket table of the sorted layout: about one
+// bucket per id (4 bytes per id), each spanning a power of two of ids.
+func (x *IDIndex) buildBuckets(hi int64) {
+	span := uint64(hi - x.base)
+	for x.shift = 0; span>>x.shift >= uint64(len(x.sorted)); x.shift++ {
+	}
+	nb := int(span>>x.shift) + 1
+	x.bucket = make([]int32, nb+1)
+	for _, id := range x.sorted {
+		x.bucket[uint64(id-x.base)>>x.shift+1]++
+	}
+	for b := 1; b <= nb; b++ {
+		x.bucket[b] += x.bucket[b-1]
+	}
+}
+
+// increasing reports whether ids are in strictly increasing order.
+func increasing(ids []int64) bool {
+	for i := 1; i < len(ids); i++ {
+		if ids[i] <= ids[i-1] {
+			return false
+		}
+	}
+	return true
 }
 
 // Len returns the number of ids indexed.
@@ -94,9 +133,34 @@ func (x *IDIndex) Len() int { return x.n }
 func (x *IDIndex) Lookup(id int64) (int32, bool) {
 	switch {
 	case x.sorted != nil:
-		i, found := slices.BinarySearch(x.sorted, id)
-		if !found {
+		if id < x.base {
 			return -1, false
+		}
+		b := uint64(id-x.base) >> x.shift
+		if b >= uint64(len(x.bucket)-1) {
+			return -1, false
+		}
+		lo, hi := int(x.bucket[b]), int(x.bucket[b+1])
+		if lo == hi {
+			return -1, false
+		}
+		var i int
+		if first := x.sorted[lo]; x.sorted[hi-1]-first == int64(hi-1-lo) {
+			// The bucket holds a run of consecutive ids: no search.
+			k := id - first
+			if k < 0 || k > int64(hi-1-lo) {
+				return -1, false
+			}
+			i = lo + int(k)
+		} else {
+			j, found := slices.BinarySearch(x.sorted[lo:hi], id)
+			if !found {
+				return -1, false
+			}
+			i = lo + j
+		}
+		if x.perm == nil {
+			return int32(i), true
 		}
 		return x.perm[i], true
 	case x.table != nil:
@@ -114,7 +178,12 @@ func (x *IDIndex) Lookup(id int64) (int32, bool) {
 	}
 }
 
-// Bytes returns the memory held by the index, in bytes.
+// Bytes returns the memory held by the index, in bytes (a sorted layout
+// that shares the caller's id slice holds none of its own).
 func (x *IDIndex) Bytes() int {
-	return 4*len(x.table) + 8*len(x.sorted) + 4*len(x.perm)
+	b := 4*len(x.table) + 4*len(x.perm) + 4*len(x.bucket)
+	if x.perm != nil {
+		b += 8 * len(x.sorted)
+	}
+	return b
 }

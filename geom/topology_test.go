@@ -63,6 +63,8 @@ func TestIDIndexLayouts(t *testing.T) {
 		{"contiguous", []int64{5, 6, 7, 8}, false},
 		{"table", []int64{9, 3, 4, 10, 1}, false},
 		{"sparse", []int64{5_000_001, 12, 3_000_000_000, 7}, false},
+		{"sparse increasing", []int64{7, 12, 5_000_001, 3_000_000_000}, false},
+		{"sparse increasing duplicate", []int64{7, 12, 12, 3_000_000_000}, true},
 		{"table duplicate", []int64{3, 4, 3}, true},
 		{"sparse duplicate", []int64{1, 9_000_000, 9_000_000}, true},
 	}

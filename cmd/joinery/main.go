@@ -13,6 +13,7 @@ import (
 	"os"
 	"os/signal"
 
+	"github.com/spf13/cobra"
 	"golang.org/x/term"
 )
 
@@ -39,7 +40,9 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer, stderrIsT
 	g := &globalOptions{stdout: stdout, stderr: stderr, terminal: stderrIsTerminal}
 	root := newRootCommand(g)
 	root.SetArgs(args)
+	root.PersistentPreRunE = func(*cobra.Command, []string) error { return g.startProfile() }
 	err := root.ExecuteContext(ctx)
+	g.stopProfile()
 	if err == nil {
 		return exitOK
 	}

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"os"
 
 	"github.com/spf13/cobra"
 
@@ -14,6 +15,8 @@ import (
 type globalOptions struct {
 	quiet    bool
 	json     bool
+	cpuProf  string // file for a CPU profile of the run; hidden flag
+	profFile *os.File
 	stdout   io.Writer
 	stderr   io.Writer
 	terminal bool // stderr is a terminal: progress bars allowed
@@ -56,6 +59,8 @@ qualified engineering judgement; joinery's output is no substitute.`,
 	pf := root.PersistentFlags()
 	pf.BoolVarP(&g.quiet, "quiet", "q", false, "print nothing on stderr but errors")
 	pf.BoolVar(&g.json, "json", false, "print results on stdout as JSON")
+	pf.StringVar(&g.cpuProf, "cpu-profile", "", "write a CPU profile of the run to this file (for developers)")
+	pf.MarkHidden("cpu-profile")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return usageError{fmt.Errorf("%w (see '%s --help')", err, c.CommandPath())}
 	})
