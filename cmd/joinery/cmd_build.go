@@ -1,10 +1,12 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
 	"path/filepath"
+	"sync"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -131,7 +133,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	}
 	prog := g.progress()
 	prog.Start("indexing elements", 0)
-	index := geom.NewIndex(model.Mesh)
+	index := joints.IndexFor(model.Mesh, js, bo)
 	prog.Done()
 	res, err := joints.Build(c.Context(), index, js, bo, prog)
 	if err != nil {
@@ -152,10 +154,16 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 		{"report.json", func(w io.Writer) error { return writers.WriteReportJSON(w, rep) }},
 		{"report.txt", func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
 	}
-	for _, f := range files {
-		if err := writers.WriteFileAtomic(filepath.Join(out, f.name), f.write); err != nil {
-			return err
-		}
+	// The files are independent: write them concurrently, report the
+	// first error in file order.
+	errs := make([]error, len(files))
+	var wg sync.WaitGroup
+	for i, f := range files {
+		wg.Go(func() { errs[i] = writers.WriteFileAtomic(filepath.Join(out, f.name), f.write) })
+	}
+	wg.Wait()
+	if err := errors.Join(errs...); err != nil {
+		return err
 	}
 	if g.json {
 		if err := writers.WriteJSON(g.stdout, rep.Summary); err != nil {

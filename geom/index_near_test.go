@@ -1,0 +1,73 @@
+package geom
+
+import (
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// TestIndexNearMatchesFullIndex: for queries whose ball lies within the
+// margin of one of the points, the partial index must give exactly the
+// full index's answers.
+func TestIndexNearMatchesFullIndex(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for _, m := range []*Mesh{gridMesh(120, 80, 2.5, 1.5), soupMesh(rng, 5000)} {
+		full := NewIndex(m)
+		used := make([]bool, m.NumNodes())
+		for _, n := range m.Conn {
+			used[n] = true
+		}
+		inElem := func(n int) bool { return used[n] } // the partial index holds no orphan node
+		lo, hi := m.Coords[0], m.Coords[0]
+		for _, c := range m.Coords {
+			lo = r3.Vec{X: min(lo.X, c.X), Y: min(lo.Y, c.Y), Z: min(lo.Z, c.Z)}
+			hi = r3.Vec{X: max(hi.X, c.X), Y: max(hi.Y, c.Y), Z: max(hi.Z, c.Z)}
+		}
+		randPt := func() r3.Vec {
+			return r3.Vec{X: lo.X + rng.Float64()*(hi.X-lo.X), Y: lo.Y + rng.Float64()*(hi.Y-lo.Y), Z: lo.Z + rng.Float64()*(hi.Z-lo.Z)}
+		}
+		pts := make([]r3.Vec, 40)
+		for i := range pts {
+			pts[i] = randPt()
+		}
+		const margin = 12.0
+		near := NewIndexNear(m, pts, margin, true)
+		if near.elems.count(0) >= m.NumElems() {
+			t.Errorf("partial index holds every element (%d)", m.NumElems())
+		}
+		for q := 0; q < 2000; q++ {
+			p := pts[rng.IntN(len(pts))]
+			r := rng.Float64() * margin
+			dir := r3.Unit(r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
+			c := r3.Add(p, r3.Scale(rng.Float64()*(margin-r), dir))
+			a, b := full.ProjectNear(c, r, nil), near.ProjectNear(c, r, nil)
+			if len(a) != len(b) {
+				t.Fatalf("query %d: full %d projections, near %d", q, len(a), len(b))
+			}
+			for i := range a {
+				if a[i].Elem != b[i].Elem || a[i].Dist != b[i].Dist {
+					t.Fatalf("query %d: projection %d differs", q, i)
+				}
+			}
+			if ea, eb := full.ElemsNear(c, r, nil), near.ElemsNear(c, r, nil); !slices.Equal(ea, eb) {
+				t.Fatalf("query %d: ElemsNear differs: %v vs %v", q, ea, eb)
+			}
+			if na, nb := full.NodesWithin(c, r, inElem), near.NodesWithin(c, r, nil); !slices.Equal(na, nb) {
+				t.Fatalf("query %d: NodesWithin differs", q)
+			}
+		}
+	}
+}
+
+func TestIndexNearWithoutNodes(t *testing.T) {
+	m := gridMesh(10, 10, 1, 0)
+	x := NewIndexNear(m, []r3.Vec{{X: 5, Y: 5}}, 2, false)
+	if got := x.NearestNodes(r3.Vec{X: 5, Y: 5}, 3, nil); len(got) != 0 {
+		t.Fatalf("node query on an element-only index found %v", got)
+	}
+	if got := x.ElemsNear(r3.Vec{X: 5, Y: 5}, 0.5, nil); len(got) == 0 {
+		t.Fatal("element query found nothing")
+	}
+}
