@@ -89,6 +89,27 @@ func TestStacks(t *testing.T) {
 			status: StatusWarning, parts: []int64{1, 2}, codes: []string{CodeGapOpen},
 		},
 		{
+			name: "small gap within the default tolerance",
+			// Two 1 mm sheets 1.2 mm apart: 0.2 mm off contact, within
+			// 0.25*(1+1)/2 = 0.25 mm.
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1.2, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W6a", Point: r3.Vec{X: 25, Y: 25, Z: 0.6}},
+			status: StatusOK, parts: []int64{1, 2},
+		},
+		{
+			name:   "gap just beyond the default tolerance",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1.3, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W6b", Point: r3.Vec{X: 25, Y: 25, Z: 0.65}},
+			status: StatusWarning, parts: []int64{1, 2}, codes: []string{CodeGapOpen},
+		},
+		{
+			name:   "gap within an explicit tolerance",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1.3, NX: 10, NY: 10, H: 5}},
+			joint:  Joint{ID: "W6c", Point: r3.Vec{X: 25, Y: 25, Z: 0.65}},
+			opt:    BuildOptions{GapTolerance: 0.4},
+			status: StatusOK, parts: []int64{1, 2},
+		},
+		{
 			name:   "penetrating sheets",
 			plates: []plate{{Part: 1, T: 1.5, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1.5, Z: 0.5, NX: 10, NY: 10, H: 5}},
 			joint:  Joint{ID: "W7", Point: r3.Vec{X: 25, Y: 25, Z: 0.25}},

@@ -62,7 +62,7 @@ type Inputs struct {
 // OptionsDoc records the options of a build, defaults resolved.
 type OptionsDoc struct {
 	SearchDistance float64           `json:"search_distance"`
-	GapTolerance   *float64          `json:"gap_tolerance"` // null: half the thinner sheet of each pair
+	GapTolerance   *float64          `json:"gap_tolerance"` // null: a quarter of the contact gap (t1+t2)/2 of each pair
 	AngleTolerance float64           `json:"angle_tolerance"`
 	LateralFactor  float64           `json:"lateral_factor"`
 	EdgeFactor     float64           `json:"edge_factor"`

@@ -34,7 +34,7 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	o.in.AddFlags(fs)
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./joinery-out)")
 	fs.Float64Var(&o.searchDistance, "search-distance", 0, "mm; sheets farther from a weld are ignored (0: 3 x the largest thickness)")
-	fs.Float64Var(&o.gapTolerance, "gap-tolerance", 0, "mm; allowed deviation of a gap from contact (0: half the thinner sheet)")
+	fs.Float64Var(&o.gapTolerance, "gap-tolerance", 0, "mm; allowed deviation of a gap from contact (0: a quarter of the contact gap (t1+t2)/2)")
 	fs.StringVar(&o.attach, "attach", "interpolated", "how connector ends tie to sheets: interpolated, node-pair or patch")
 	fs.StringVar(&o.spotDOFs, "spot-dofs", "tx,ty,tz,rx,ry,rz", "degrees of freedom a spot weld couples")
 	fs.Int64Var(&o.idStart, "id-start", 0, "first id for new nodes and elements (0: the round number above every mesh id)")
