@@ -12,6 +12,7 @@ import (
 	"testing"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
 	"github.com/joinery-cae/joinery/geom/native"
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -283,33 +284,16 @@ func TestWriteNativeWriteError(t *testing.T) {
 // gridMesh returns an nx by ny grid of quads with coordinates of up to
 // three decimals, ids from 1000001 (nodes) and 5000001 (elements).
 func gridMesh(nx, ny int) *geom.Mesh {
-	nn, ne := (nx+1)*(ny+1), nx*ny
-	m := &geom.Mesh{
-		Parts:     []geom.Part{{ID: 1, Thickness: 0.8, Material: "DC04", Name: "grid"}},
-		NodeIDs:   make([]int64, 0, nn),
-		Coords:    make([]r3.Vec, 0, nn),
-		ElemIDs:   make([]int64, 0, ne),
-		ElemPart:  make([]int32, ne),
-		ElemStart: make([]int32, 1, ne+1),
-		Conn:      make([]int32, 0, 4*ne),
-	}
-	for j := 0; j <= ny; j++ {
-		for i := 0; i <= nx; i++ {
+	return geomtest.Grid(geomtest.GridSpec{
+		NX: nx, NY: ny,
+		Node: func(i, j int) r3.Vec {
 			x, y := float64(i)*4.75, float64(j)*5.125
-			z := math.Round(1000*10*math.Sin(x/300)*math.Cos(y/200)) / 1000
-			m.NodeIDs = append(m.NodeIDs, 1000001+int64(len(m.NodeIDs)))
-			m.Coords = append(m.Coords, r3.Vec{X: x, Y: y, Z: z})
-		}
-	}
-	for j := 0; j < ny; j++ {
-		for i := 0; i < nx; i++ {
-			n := int32(j*(nx+1) + i)
-			m.Conn = append(m.Conn, n, n+1, n+int32(nx)+2, n+int32(nx)+1)
-			m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
-			m.ElemIDs = append(m.ElemIDs, 5000001+int64(len(m.ElemIDs)))
-		}
-	}
-	return m
+			return r3.Vec{X: x, Y: y, Z: math.Round(1000*10*math.Sin(x/300)*math.Cos(y/200)) / 1000}
+		},
+		Parts:       []geom.Part{{ID: 1, Thickness: 0.8, Material: "DC04", Name: "grid"}},
+		FirstNodeID: 1000001,
+		FirstElemID: 5000001,
+	})
 }
 
 func benchmarkWriteNative(b *testing.B, nx, ny int) {

@@ -1,20 +1,18 @@
 package native
 
 import (
-	"os"
 	"path/filepath"
 	"testing"
+
+	"github.com/joinery-cae/joinery/geom/geomtest"
 )
 
 // FuzzRead checks that no input makes the reader panic, that every input
 // reads the same (mesh or error message) whether parsed whole or in
-// pieces, and that every mesh it returns is consistent.
+// pieces, that every error is an input error and that every mesh it
+// returns is consistent.
 func FuzzRead(f *testing.F) {
-	small, err := os.ReadFile(filepath.Join("..", "..", "testdata", "native", "small.jmesh"))
-	if err != nil {
-		f.Fatal(err)
-	}
-	f.Add(small)
+	geomtest.AddFiles(f, filepath.Join("..", "..", "testdata", "native", "small.jmesh"))
 	f.Add(gridFile(3, 2, true))
 	for _, s := range []string{
 		"",
@@ -32,6 +30,9 @@ func FuzzRead(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		whole, errWhole := parseSplit(data, "f", 1)
 		split, errSplit := parseSplit(data, "f", 3)
+		if err := geomtest.CheckRead(whole, errWhole); err != nil {
+			t.Fatal(err)
+		}
 		if (errWhole == nil) != (errSplit == nil) {
 			t.Fatalf("whole: %v; in pieces: %v", errWhole, errSplit)
 		}
@@ -41,37 +42,8 @@ func FuzzRead(f *testing.F) {
 			}
 			return
 		}
-		if d := sameMesh(split, whole); d != "" {
+		if d := geomtest.Diff(split, whole); d != "" {
 			t.Fatalf("pieces differ from whole: %s", d)
-		}
-		m := whole
-		ne := m.NumElems()
-		if len(m.NodeIDs) != m.NumNodes() || len(m.ElemPart) != ne || len(m.ElemStart) != ne+1 || int(m.ElemStart[ne]) != len(m.Conn) {
-			t.Fatalf("inconsistent slices: %d nodes, %d elements, %d starts, %d conn", m.NumNodes(), ne, len(m.ElemStart), len(m.Conn))
-		}
-		if m.ElemThickness != nil && len(m.ElemThickness) != ne {
-			t.Fatalf("%d thicknesses for %d elements", len(m.ElemThickness), ne)
-		}
-		for e := range ne {
-			if k := m.Type(e).Corners(); k != len(m.ElemNodes(e)) {
-				t.Fatalf("element %d has %d nodes", e, len(m.ElemNodes(e)))
-			}
-			for _, n := range m.ElemNodes(e) {
-				if n < 0 || int(n) >= m.NumNodes() {
-					t.Fatalf("element %d: node index %d out of range", e, n)
-				}
-			}
-			if p := m.ElemPart[e]; p < 0 || int(p) >= len(m.Parts) {
-				t.Fatalf("element %d: part index %d out of range", e, p)
-			}
-			if i, ok := m.ElemIndex(m.ElemIDs[e]); !ok || int(i) != e {
-				t.Fatalf("ElemIndex(%d) = %d, %v; want %d", m.ElemIDs[e], i, ok, e)
-			}
-		}
-		for i, id := range m.NodeIDs {
-			if j, ok := m.NodeIndex(id); !ok || int(j) != i {
-				t.Fatalf("NodeIndex(%d) = %d, %v; want %d", id, j, ok, i)
-			}
 		}
 	})
 }

@@ -5,71 +5,26 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
-	"reflect"
 	"slices"
 	"strings"
 	"testing"
 
-	"github.com/joinery-cae/joinery/geom"
 	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
 )
 
 // smallMesh is the shared "small" fixture (prompts/fixture.md of the
-// project brief) without its vertex cell: 12 nodes, four quads of part 10
-// and a triangle of part 20.
-func smallMesh() *geom.Mesh {
-	return &geom.Mesh{
-		Parts:   []geom.Part{{ID: 10, Thickness: 1}, {ID: 20, Thickness: 1.5}},
-		NodeIDs: []int64{101, 102, 103, 104, 105, 106, 107, 108, 109, 110, 111, 112},
-		Coords: []r3.Vec{
-			{X: 0, Y: 0, Z: 0}, {X: 10.5, Y: 0, Z: 0}, {X: 21.25, Y: 0, Z: 0},
-			{X: 0, Y: 10.5, Z: 0}, {X: 10.5, Y: 10.5, Z: 0.125}, {X: 21.25, Y: 10.5, Z: 0},
-			{X: 0, Y: 21.25, Z: 0}, {X: 10.5, Y: 21.25, Z: 0}, {X: 21.25, Y: 21.25, Z: 0},
-			{X: 0, Y: 0, Z: 2.5}, {X: 10.5, Y: 0, Z: 2.5}, {X: 0, Y: 10.5, Z: 2.5},
-		},
-		ElemIDs:   []int64{1001, 1002, 1003, 1004, 2001},
-		ElemPart:  []int32{0, 0, 0, 0, 1},
-		ElemStart: []int32{0, 4, 8, 12, 16, 19},
-		Conn:      []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 7, 6, 4, 5, 8, 7, 9, 10, 11},
-	}
-}
-
-// sameMesh reports the first difference between the exported fields of
-// two meshes, or "" when they are equal (NaN equal to NaN).
-func sameMesh(got, want *geom.Mesh) string {
-	gv, wv := reflect.ValueOf(got).Elem(), reflect.ValueOf(want).Elem()
-	for i := range gv.NumField() {
-		f := gv.Type().Field(i)
-		if !f.IsExported() || f.Name == "Sources" {
-			continue
-		}
-		if f.Name == "ElemThickness" {
-			if !sameFloats(got.ElemThickness, want.ElemThickness) {
-				return fmt.Sprintf("ElemThickness = %v, want %v", got.ElemThickness, want.ElemThickness)
-			}
-			continue
-		}
-		g, w := gv.Field(i).Interface(), wv.Field(i).Interface()
-		if gv.Field(i).Len() == 0 && wv.Field(i).Len() == 0 {
-			continue
-		}
-		if !reflect.DeepEqual(g, w) {
-			return fmt.Sprintf("%s = %v, want %v", f.Name, g, w)
-		}
-	}
-	return ""
-}
-
-func sameFloats(a, b []float64) bool {
-	if (a == nil) != (b == nil) || len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if math.Float64bits(a[i]) != math.Float64bits(b[i]) && !(math.IsNaN(a[i]) && math.IsNaN(b[i])) {
-			return false
-		}
-	}
-	return true
+// project brief) as testdata/native/small.jmesh at path holds it: without
+// its vertex cell, so nothing skipped, and with the thickness per part
+// (10: 1, 20: 1.5) instead of per element.
+func smallMesh(path string) *geom.Mesh {
+	m := geomtest.Small(path)
+	m.Parts[0].Thickness, m.Parts[1].Thickness = 1, 1.5
+	m.ElemThickness = nil
+	m.Sources[0].Skipped = nil
+	return m
 }
 
 func TestReadSmall(t *testing.T) {
@@ -78,7 +33,7 @@ func TestReadSmall(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if d := sameMesh(m, smallMesh()); d != "" {
+	if d := geomtest.Diff(m, smallMesh(path)); d != "" {
 		t.Fatal(d)
 	}
 	if len(m.Sources) != 1 || m.Sources[0].File != path || m.Sources[0].Skipped != nil {
@@ -162,14 +117,14 @@ func TestReadLayout(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			want := &geom.Mesh{}
+			want := &geom.Mesh{Sources: []geom.Source{{File: "t.jmesh"}}}
 			tt.want(want)
 			for n := 1; n <= 5; n++ {
 				m, err := parseSplit([]byte(tt.input), "t.jmesh", n)
 				if err != nil {
 					t.Fatalf("%d pieces: %v", n, err)
 				}
-				if d := sameMesh(m, want); d != "" {
+				if d := geomtest.Diff(m, want); d != "" {
 					t.Fatalf("%d pieces: %s", n, d)
 				}
 			}
@@ -270,7 +225,7 @@ func TestReadSplit(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if d := sameMesh(m, want); d != "" {
+		if d := geomtest.Diff(m, want); d != "" {
 			t.Fatalf("%d pieces: %s", n, d)
 		}
 	}
@@ -292,7 +247,7 @@ func TestReadSplit(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
 		}
-		if d := sameMesh(m, want); d != "" {
+		if d := geomtest.Diff(m, want); d != "" {
 			t.Fatalf("%s: %s", name, d)
 		}
 	}

@@ -13,6 +13,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
 	"github.com/joinery-cae/joinery/writers"
 )
 
@@ -21,33 +22,19 @@ import (
 // element.
 func gridMesh(nx, ny int) *geom.Mesh {
 	thick := []float64{0.7, 0.8, 1, 1.2, 1.5, 2}
-	m := &geom.Mesh{
-		NodeIDs:   make([]int64, 0, (nx+1)*(ny+1)),
-		Coords:    make([]r3.Vec, 0, (nx+1)*(ny+1)),
-		ElemIDs:   make([]int64, 0, nx*ny),
-		ElemPart:  make([]int32, 0, nx*ny),
-		ElemStart: make([]int32, 1, nx*ny+1),
-		Conn:      make([]int32, 0, 4*nx*ny),
+	parts := make([]geom.Part, 20)
+	for k := range parts {
+		parts[k] = geom.Part{ID: int64(100 + k), Thickness: thick[k%len(thick)]}
 	}
-	for k := range 20 {
-		m.Parts = append(m.Parts, geom.Part{ID: int64(100 + k), Thickness: thick[k%len(thick)]})
-	}
-	for j := 0; j <= ny; j++ {
-		for i := 0; i <= nx; i++ {
-			m.NodeIDs = append(m.NodeIDs, int64(1_000_001+len(m.NodeIDs)))
-			m.Coords = append(m.Coords, r3.Vec{X: float64(i) * 2.5, Y: float64(j) * 2.5, Z: float64((i*j)%7) * 0.125})
-		}
-	}
-	for j := range ny {
-		for i := range nx {
-			n := int32(j*(nx+1) + i)
-			m.Conn = append(m.Conn, n, n+1, n+int32(nx)+2, n+int32(nx)+1)
-			m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
-			m.ElemIDs = append(m.ElemIDs, int64(len(m.ElemIDs)+1))
-			m.ElemPart = append(m.ElemPart, int32(i*20/nx))
-		}
-	}
-	return m
+	return geomtest.Grid(geomtest.GridSpec{
+		NX: nx, NY: ny,
+		Node: func(i, j int) r3.Vec {
+			return r3.Vec{X: float64(i) * 2.5, Y: float64(j) * 2.5, Z: float64((i*j)%7) * 0.125}
+		},
+		Parts:       parts,
+		Part:        func(i, _ int) int32 { return int32(i * 20 / nx) },
+		FirstNodeID: 1_000_001,
+	})
 }
 
 // benchFile writes the grid mesh to a temporary VTK file.

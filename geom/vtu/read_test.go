@@ -14,6 +14,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
 )
 
 var update = flag.Bool("update", false, "rewrite the testdata/formats/small_*.vtu fixtures")
@@ -55,44 +56,6 @@ func smallVariants() []smallVariant {
 	}
 }
 
-// smallMesh returns the mesh the "small" fixture must read to (the shared
-// fixture specification of the project), for a file of the given name.
-func smallMesh(file string) *geom.Mesh {
-	return &geom.Mesh{
-		Parts:   []geom.Part{{ID: 10}, {ID: 20}},
-		NodeIDs: []int64{101, 102, 103, 104, 105, 106, 107, 108, 109, 110, 111, 112},
-		Coords: []r3.Vec{
-			{X: 0, Y: 0, Z: 0}, {X: 10.5, Y: 0, Z: 0}, {X: 21.25, Y: 0, Z: 0},
-			{X: 0, Y: 10.5, Z: 0}, {X: 10.5, Y: 10.5, Z: 0.125}, {X: 21.25, Y: 10.5, Z: 0},
-			{X: 0, Y: 21.25, Z: 0}, {X: 10.5, Y: 21.25, Z: 0}, {X: 21.25, Y: 21.25, Z: 0},
-			{X: 0, Y: 0, Z: 2.5}, {X: 10.5, Y: 0, Z: 2.5}, {X: 0, Y: 10.5, Z: 2.5},
-		},
-		ElemIDs:       []int64{1001, 1002, 1003, 1004, 2001},
-		ElemPart:      []int32{0, 0, 0, 0, 1},
-		ElemStart:     []int32{0, 4, 8, 12, 16, 19},
-		Conn:          []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 7, 6, 4, 5, 8, 7, 9, 10, 11},
-		ElemThickness: []float64{1, 1, 1, 1, 1.5},
-		Sources:       []geom.Source{{File: file, Skipped: map[string]int{"vtk-cell-1": 1}}},
-	}
-}
-
-// meshDiff describes how two meshes differ in their exported fields, or
-// returns "" when they are equal.
-func meshDiff(got, want *geom.Mesh) string {
-	var d []string
-	g, w := reflect.ValueOf(got).Elem(), reflect.ValueOf(want).Elem()
-	for i := range g.NumField() {
-		f := g.Type().Field(i)
-		if !f.IsExported() {
-			continue
-		}
-		if !reflect.DeepEqual(g.Field(i).Interface(), w.Field(i).Interface()) {
-			d = append(d, fmt.Sprintf("%s: got %v, want %v", f.Name, g.Field(i).Interface(), w.Field(i).Interface()))
-		}
-	}
-	return strings.Join(d, "\n")
-}
-
 func TestSmallFixtures(t *testing.T) {
 	var first *geom.Mesh
 	for _, v := range smallVariants() {
@@ -111,7 +74,7 @@ func TestSmallFixtures(t *testing.T) {
 			t.Errorf("%s: %v", v.file, err)
 			continue
 		}
-		if d := meshDiff(m, smallMesh(path)); d != "" {
+		if d := geomtest.Diff(m, geomtest.Small(path)); d != "" {
 			t.Errorf("%s differs from the fixture specification:\n%s", v.file, d)
 		}
 		if first == nil {
@@ -119,7 +82,7 @@ func TestSmallFixtures(t *testing.T) {
 			continue
 		}
 		m.Sources[0].File = first.Sources[0].File
-		if d := meshDiff(m, first); d != "" {
+		if d := geomtest.Diff(m, first); d != "" {
 			t.Errorf("%s differs from %s:\n%s", v.file, smallVariants()[0].file, d)
 		}
 		if id, ok := m.ElemIndex(2001); !ok || id != 4 {
@@ -153,7 +116,7 @@ func TestHandwritten(t *testing.T) {
 		ElemThickness: []float64{0.8, 0.8, 1.2},
 		Sources:       []geom.Source{{File: path, Skipped: map[string]int{"vtk-cell-3": 1, "vtk-cell-12": 1}}},
 	}
-	if d := meshDiff(m, want); d != "" {
+	if d := geomtest.Diff(m, want); d != "" {
 		t.Errorf("handwritten file:\n%s", d)
 	}
 }
@@ -314,7 +277,7 @@ func TestXMLForms(t *testing.T) {
 		Conn:      []int32{0, 1, 2, 0, 2, 3},
 		Sources:   []geom.Source{{File: "forms.vtu"}},
 	}
-	if d := meshDiff(m, want); d != "" {
+	if d := geomtest.Diff(m, want); d != "" {
 		t.Error(d)
 	}
 }

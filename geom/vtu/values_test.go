@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
 )
 
 func TestParseInt(t *testing.T) {
@@ -142,7 +143,7 @@ func TestEveryType(t *testing.T) {
 				ElemThickness: []float64{1, 2},
 				Sources:       []geom.Source{{File: name}},
 			}
-			if d := meshDiff(m, want); d != "" {
+			if d := geomtest.Diff(m, want); d != "" {
 				t.Errorf("%s:\n%s", name, d)
 			}
 		}
