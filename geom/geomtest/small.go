@@ -7,8 +7,8 @@ import (
 )
 
 // Small returns the mesh that every VTK and VTK XML variant of the shared
-// "small" fixture reads to, as the project's fixture specification
-// (/work/prompts/fixture.md) gives it: 12 nodes with ids 101 to 112, four
+// "small" fixture reads to, as testdata/formats/README.md specifies it:
+// 12 nodes with ids 101 to 112, four
 // quads of part 10 and a triangle of part 20 (ids 1001 to 1004 and 2001),
 // parts in first-seen order without a part thickness, thickness 1, 1, 1,
 // 1, 1.5 per element, and one source, named file, that skipped one vertex

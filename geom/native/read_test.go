@@ -15,8 +15,7 @@ import (
 	"github.com/joinery-cae/joinery/geom/geomtest"
 )
 
-// smallMesh is the shared "small" fixture (prompts/fixture.md of the
-// project brief) as testdata/native/small.jmesh at path holds it: without
+// smallMesh is the shared "small" fixture (testdata/formats/README.md) as testdata/native/small.jmesh at path holds it: without
 // its vertex cell, so nothing skipped, and with the thickness per part
 // (10: 1, 20: 1.5) instead of per element.
 func smallMesh(path string) *geom.Mesh {
