@@ -112,27 +112,38 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 			}
 		}
 	}
-	var sel []int32
-	for e := range m.ElemIDs {
-		blo, bhi := elemBox(m, e)
-		if bhi.X < lo.X || blo.X > hi.X || bhi.Y < lo.Y || blo.Y > hi.Y || bhi.Z < lo.Z || blo.Z > hi.Z {
-			continue
-		}
-		i0, i1 := cell(blo.X, lo.X, nx), cell(bhi.X, lo.X, nx)
-		j0, j1 := cell(blo.Y, lo.Y, ny), cell(bhi.Y, lo.Y, ny)
-		k0, k1 := cell(blo.Z, lo.Z, nz), cell(bhi.Z, lo.Z, nz)
-	scan:
-		for i := i0; i <= i1; i++ {
-			for j := j0; j <= j1; j++ {
-				for k := k0; k <= k1; k++ {
-					c := (i*ny+j)*nz + k
-					if marked[c/64]&(1<<(c%64)) != 0 {
-						sel = append(sel, int32(e))
-						break scan
+	// Blocks of elements are scanned concurrently and joined in block
+	// order, so the selection comes out in increasing element order.
+	ne := m.NumElems()
+	parts := make([][]int32, (ne+parallelBlock-1)/parallelBlock)
+	parallelBlocks(ne, func(from, to int) {
+		var sel []int32
+		for e := from; e < to; e++ {
+			blo, bhi := elemBox(m, e)
+			if bhi.X < lo.X || blo.X > hi.X || bhi.Y < lo.Y || blo.Y > hi.Y || bhi.Z < lo.Z || blo.Z > hi.Z {
+				continue
+			}
+			i0, i1 := cell(blo.X, lo.X, nx), cell(bhi.X, lo.X, nx)
+			j0, j1 := cell(blo.Y, lo.Y, ny), cell(bhi.Y, lo.Y, ny)
+			k0, k1 := cell(blo.Z, lo.Z, nz), cell(bhi.Z, lo.Z, nz)
+		scan:
+			for i := i0; i <= i1; i++ {
+				for j := j0; j <= j1; j++ {
+					for k := k0; k <= k1; k++ {
+						c := (i*ny+j)*nz + k
+						if marked[c/64]&(1<<(c%64)) != 0 {
+							sel = append(sel, int32(e))
+							break scan
+						}
 					}
 				}
 			}
 		}
+		parts[from/parallelBlock] = sel
+	})
+	var sel []int32
+	for _, p := range parts {
+		sel = append(sel, p...)
 	}
 	return sel
 }

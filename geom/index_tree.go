@@ -3,6 +3,9 @@ package geom
 import (
 	"math"
 	mbits "math/bits"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -100,6 +103,31 @@ type treeItems interface {
 	Box(i int) (lo, hi r3.Vec)
 }
 
+// parallelBlock is the block size of parallelBlocks: block b covers
+// [b*parallelBlock, (b+1)*parallelBlock).
+const parallelBlock = 1 << 15
+
+// parallelBlocks calls fn on consecutive blocks of [0, n), from up to
+// GOMAXPROCS goroutines, and returns when all are done.
+func parallelBlocks(n int, fn func(from, to int)) {
+	const block = parallelBlock
+	nb := (n + block - 1) / block
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), nb) {
+		wg.Go(func() {
+			for {
+				b := int(next.Add(1) - 1)
+				if b >= nb {
+					return
+				}
+				fn(b*block, min((b+1)*block, n))
+			}
+		})
+	}
+	wg.Wait()
+}
+
 // newPackedTree builds a packedTree over the items in O(n) time (one
 // radix sort), holding 28 bytes per item and needing about 40 more while
 // it builds.
@@ -109,18 +137,31 @@ func newPackedTree(items treeItems) packedTree {
 		return packedTree{level: []int{0, 0}}
 	}
 	// Item boxes in input order, and the bounds of their centres.
+	// Blocks of items run concurrently; each item's box depends on the
+	// item alone and min/max merge in any order, so the result does not
+	// depend on the number of goroutines.
 	boxes := make([]box32, n)
 	clo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
 	chi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
-	for i := range boxes {
-		lo, hi := items.Box(i)
-		b := box32Of(lo, hi)
-		boxes[i] = b
-		for k := range 3 {
-			c := (float64(b.lo[k]) + float64(b.hi[k])) / 2
-			clo[k], chi[k] = minIgnoreNaN(clo[k], c), maxIgnoreNaN(chi[k], c)
+	var mu sync.Mutex
+	parallelBlocks(n, func(from, to int) {
+		blo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
+		bhi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
+		for i := from; i < to; i++ {
+			lo, hi := items.Box(i)
+			b := box32Of(lo, hi)
+			boxes[i] = b
+			for k := range 3 {
+				c := (float64(b.lo[k]) + float64(b.hi[k])) / 2
+				blo[k], bhi[k] = minIgnoreNaN(blo[k], c), maxIgnoreNaN(bhi[k], c)
+			}
 		}
-	}
+		mu.Lock()
+		for k := range 3 {
+			clo[k], chi[k] = minIgnoreNaN(clo[k], blo[k]), maxIgnoreNaN(chi[k], bhi[k])
+		}
+		mu.Unlock()
+	})
 	// Morton codes of the centres, with one scale for all axes so that
 	// the curve's cells are cubes: a scale per axis would stretch the
 	// cells of a flat model.
@@ -133,14 +174,17 @@ func newPackedTree(items treeItems) packedTree {
 	}
 	codes := make([]uint64, n)
 	ids := make([]int32, n)
-	for i, b := range boxes {
-		var q [3]uint64
-		for k := range 3 {
-			q[k] = quantize((float64(b.lo[k])+float64(b.hi[k]))/2, clo[k], scale, top)
+	parallelBlocks(n, func(from, to int) {
+		for i := from; i < to; i++ {
+			b := &boxes[i]
+			var q [3]uint64
+			for k := range 3 {
+				q[k] = quantize((float64(b.lo[k])+float64(b.hi[k]))/2, clo[k], scale, top)
+			}
+			codes[i] = morton3(q[0], q[1], q[2])
+			ids[i] = int32(i)
 		}
-		codes[i] = morton3(q[0], q[1], q[2])
-		ids[i] = int32(i)
-	}
+	})
 	radixSort(codes, ids, 3*bits)
 
 	// Levels: count the nodes, then fill the item boxes and the unions.

@@ -2,6 +2,7 @@ package joints
 
 import (
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -19,10 +20,10 @@ import (
 func edgeDistance(x *geom.Index, q r3.Vec, pi int32, r float64) float64 {
 	m := x.Mesh()
 	var buf [128]int32
-	type key struct{ a, b int32 }
-	uses := map[key]int{}
+	var kbuf [512]uint64
 	near := x.ElemsNear(q, r, buf[:0])
 	local := near[:0]
+	keys := kbuf[:0]
 	for _, e := range near {
 		if m.ElemPart[e] != pi {
 			continue
@@ -30,17 +31,19 @@ func edgeDistance(x *geom.Index, q r3.Vec, pi int32, r float64) float64 {
 		local = append(local, e)
 		nc := m.Type(int(e)).Corners()
 		for k := 0; k < nc; k++ {
-			ed := m.ElemEdge(int(e), k)
-			uses[key{min(ed.A, ed.B), max(ed.A, ed.B)}]++
+			keys = append(keys, edgeKey(m.ElemEdge(int(e), k)))
 		}
 	}
+	slices.Sort(keys)
 	best := math.Inf(1)
 	for _, e := range local {
 		nc := m.Type(int(e)).Corners()
 		for k := 0; k < nc; k++ {
 			ed := m.ElemEdge(int(e), k)
-			if uses[key{min(ed.A, ed.B), max(ed.A, ed.B)}] != 1 {
-				continue
+			key := edgeKey(ed)
+			i, _ := slices.BinarySearch(keys, key)
+			if i+1 < len(keys) && keys[i+1] == key {
+				continue // shared by another element of the part
 			}
 			if d := segmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
 				best = d
@@ -48,6 +51,15 @@ func edgeDistance(x *geom.Index, q r3.Vec, pi int32, r float64) float64 {
 		}
 	}
 	return best
+}
+
+// edgeKey identifies an edge by its two nodes, in either direction.
+func edgeKey(ed geom.Edge) uint64 {
+	a, b := uint32(ed.A), uint32(ed.B)
+	if a > b {
+		a, b = b, a
+	}
+	return uint64(a)<<32 | uint64(b)
 }
 
 // segmentDistance returns the distance from p to the segment ab.
