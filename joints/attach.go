@@ -156,14 +156,22 @@ func tangents(n r3.Vec) (r3.Vec, r3.Vec, bool) {
 	return t1, t2, true
 }
 
-// checkFacing reports node-pair ends of consecutive sheets whose nodes are
-// offset across the stack axis by more than tol.
-func checkFacing(st *Stack, ends []End, tol float64, j *Joint) []Finding {
+// checkFacing reports node-pair ends that stray from the weld: a node
+// outside the nugget (farther than radius from the stack axis through the
+// weld point), and nodes of consecutive sheets offset from each other
+// across the axis by more than tol.
+func checkFacing(st *Stack, ends []End, radius, tol float64, j *Joint) []Finding {
+	across := func(d r3.Vec) float64 { return r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, st.Axis), st.Axis))) }
 	var out []Finding
+	for i, e := range ends {
+		if lat := across(r3.Sub(e.Point, j.Point)); lat > radius {
+			p := st.Sheets[i].Part
+			out = append(out, jointFinding(j, Warning, CodeNodesApart, []int64{p},
+				fmt.Sprintf("nearest node of part %d lies %s mm from the weld axis, outside the nugget (radius %s mm): the connector moves off the weld", p, mm(lat), mm(radius))))
+		}
+	}
 	for i := 0; i+1 < len(ends); i++ {
-		d := r3.Sub(ends[i+1].Point, ends[i].Point)
-		lat := r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, st.Axis), st.Axis)))
-		if lat > tol {
+		if lat := across(r3.Sub(ends[i+1].Point, ends[i].Point)); lat > tol {
 			a, b := st.Sheets[i].Part, st.Sheets[i+1].Part
 			out = append(out, jointFinding(j, Warning, CodeNodesApart, []int64{a, b},
 				fmt.Sprintf("nearest nodes of parts %d and %d are %s mm apart across the stack (limit %s mm): the meshes do not face each other here", a, b, mm(lat), mm(tol))))

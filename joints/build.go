@@ -43,9 +43,14 @@ type Link struct {
 	Start     r3.Vec
 	End       r3.Vec
 	Length    float64 // mm
-	Direction r3.Vec  // unit, Start to End; zero for a zero-length link
+	Direction r3.Vec  // unit, Start to End; the zero vector for a zero-length link
 	// Contact is the mid-surface gap of sheets in contact, (t1+t2)/2, mm.
 	Contact float64
+	// MidGap is the gap between the two sheets' mid-surfaces along the
+	// stack axis, mm: the figure to compare with Contact. It differs from
+	// Length when a part is meshed on an outer surface, when the ends are
+	// nodes (node-pair), or when the sheets are tilted to the axis.
+	MidGap float64
 }
 
 // Connector is what a build makes of one joint.
@@ -66,7 +71,7 @@ type Connector struct {
 // Result is the outcome of a build.
 type Result struct {
 	Connectors []Connector // sorted by joint id
-	Findings   []Finding   // every finding, sorted by joint id, then code
+	Findings   []Finding   // every finding, by joint id, each joint's in the order of the checks
 	Options    BuildOptions
 	IDStart    int64 // first new id
 	NextID     int64 // one past the last new id used
@@ -92,6 +97,9 @@ func MaxThickness(m *geom.Mesh) float64 {
 // id, and new ids are handed out in that order.
 func Build(ctx context.Context, x *geom.Index, js []Joint, o BuildOptions, prog geom.Progress) (*Result, error) {
 	m := x.Mesh()
+	if err := o.Validate(); err != nil {
+		return nil, fmt.Errorf("joints: %w", err)
+	}
 	o = o.Defaults(MaxThickness(m))
 	maxID := max(m.MaxNodeID(), m.MaxElemID())
 	if o.IDStart > 0 && o.IDStart <= maxID {
@@ -141,10 +149,25 @@ func Build(ctx context.Context, x *geom.Index, js []Joint, o BuildOptions, prog 
 		return nil, fmt.Errorf("joints: build interrupted: %w", err)
 	}
 
-	// New ids, in joint order.
+	// New ids, in joint order; first make sure they fit in an int64.
 	res.IDStart = o.IDStart
 	if res.IDStart <= 0 {
 		res.IDStart = DefaultIDStart(maxID)
+	}
+	need := int64(0)
+	for _, c := range res.Connectors {
+		if c.Status == StatusFailed {
+			continue
+		}
+		need += int64(len(c.Links))
+		for _, e := range c.Ends {
+			if e.NodeIndex < 0 {
+				need++
+			}
+		}
+	}
+	if res.IDStart <= 0 || res.IDStart-1 > math.MaxInt64-need {
+		return nil, fmt.Errorf("joints: %d new ids do not fit between the mesh's largest id %d (or the id start) and the largest int64", need, maxID)
 	}
 	id := res.IDStart
 	for i := range res.Connectors {
@@ -191,6 +214,12 @@ func buildOne(x *geom.Index, j *Joint, o *BuildOptions) Connector {
 		}
 	} else {
 		c.Stack = autoStack(m, cands, j.Point, o, j.Diameter, o.Rule)
+		var dropped []Sheet
+		c.Stack, dropped = splitStack(&c.Stack)
+		for _, s := range dropped {
+			c.Findings = append(c.Findings, jointFinding(j, Info, CodeSheetApart, []int64{s.Part},
+				fmt.Sprintf("part %d lies parallel %s mm from the weld, apart from the sheets in contact: not joined", s.Part, mm(math.Abs(s.Position)))))
+		}
 	}
 	switch n := len(c.Stack.Sheets); {
 	case n == 0 && len(c.Findings) == 0:
@@ -218,13 +247,26 @@ func buildOne(x *geom.Index, j *Joint, o *BuildOptions) Connector {
 				fmt.Sprintf("part %d has no thickness: give it one in the parts table", c.Stack.Sheets[i].Part)))
 		}
 	}
-	if hasError(c.Findings) {
-		c.Status = StatusFailed
-		return c
-	}
 	c.Diameter, c.DiameterSource = j.Diameter, "list"
 	if c.Diameter <= 0 {
 		c.Diameter, c.DiameterSource = o.Rule.Diameter(GoverningThickness(ts)), o.Rule.String()
+	}
+	for _, s := range c.Stack.Sheets {
+		switch {
+		case r3.Norm2(s.Proj.Normal) == 0:
+			c.Findings = append(c.Findings, jointFinding(j, Error, CodeDegenerate, []int64{s.Part},
+				fmt.Sprintf("the element of part %d under the weld (id %d) has no area, so no normal", s.Part, m.ElemIDs[s.Proj.Elem])))
+		case len(j.Parts) > 0 && s.Lateral > o.LateralFactor*c.Diameter/2:
+			// Automatic stacks only hold sheets near the axis; listed ones
+			// are held to the same limit here: the weld must lie over them.
+			c.Findings = append(c.Findings, jointFinding(j, Error, CodeOffSheet, []int64{s.Part},
+				fmt.Sprintf("listed part %d does not lie under the weld: its nearest point is %s mm off the weld axis (limit %s mm)",
+					s.Part, mm(s.Lateral), mm(o.LateralFactor*c.Diameter/2))))
+		}
+	}
+	if hasError(c.Findings) {
+		c.Status = StatusFailed
+		return c
 	}
 	if why := OutsideISO14373(ts); why != "" {
 		c.Findings = append(c.Findings, jointFinding(j, Warning, CodeThicknessRange, c.Stack.Parts(),
@@ -254,7 +296,7 @@ func buildOne(x *geom.Index, j *Joint, o *BuildOptions) Connector {
 		}
 	}
 	if c.Attach == NodePair {
-		c.Findings = append(c.Findings, checkFacing(&c.Stack, c.Ends, o.NodeFactor*c.Diameter/2, j)...)
+		c.Findings = append(c.Findings, checkFacing(&c.Stack, c.Ends, c.Diameter/2, o.NodeFactor*c.Diameter/2, j)...)
 	}
 	for i := 0; i+1 < len(c.Ends); i++ {
 		a, b := c.Ends[i].Point, c.Ends[i+1].Point
@@ -265,7 +307,7 @@ func buildOne(x *geom.Index, j *Joint, o *BuildOptions) Connector {
 			dir = r3.Scale(1/l, d)
 		}
 		c.Links = append(c.Links, Link{From: i, To: i + 1, Start: a, End: b, Length: l, Direction: dir,
-			Contact: (ts[i] + ts[i+1]) / 2})
+			Contact: (ts[i] + ts[i+1]) / 2, MidGap: c.Stack.Sheets[i+1].Position - c.Stack.Sheets[i].Position})
 	}
 	c.Status = StatusOK
 	if len(c.Findings) > 0 && maxSeverity(c.Findings) >= Warning {

@@ -110,6 +110,24 @@ func TestStacks(t *testing.T) {
 			status: StatusOK, parts: []int64{1, 2},
 		},
 		{
+			name: "parallel panel within reach but apart",
+			// A pair in contact and a third panel 2 mm above it: the weld
+			// joins the pair; the panel is reported, not joined.
+			plates: []plate{
+				{Part: 1, T: 1, NX: 10, NY: 10, H: 5},
+				{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5},
+				{Part: 9, T: 1, Z: 4, NX: 10, NY: 10, H: 5},
+			},
+			joint:  Joint{ID: "W3b", Point: at},
+			status: StatusOK, parts: []int64{1, 2}, codes: []string{CodeSheetApart},
+		},
+		{
+			name:   "listed flange ending short of the weld",
+			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 4, NY: 10, H: 5}},
+			joint:  Joint{ID: "W3c", Point: r3.Vec{X: 22, Y: 25, Z: 0.5}, Parts: []int64{1, 2}},
+			status: StatusFailed, parts: []int64{1, 2}, codes: []string{CodeOffSheet},
+		},
+		{
 			name:   "penetrating sheets",
 			plates: []plate{{Part: 1, T: 1.5, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1.5, Z: 0.5, NX: 10, NY: 10, H: 5}},
 			joint:  Joint{ID: "W7", Point: r3.Vec{X: 25, Y: 25, Z: 0.25}},
@@ -180,10 +198,11 @@ func TestGapValues(t *testing.T) {
 }
 
 func TestAttachments(t *testing.T) {
-	// Matching 5 mm meshes: the weld at (22, 27) lies inside element
-	// (4,5); its nearest node is (20, 25).
+	// Matching 5 mm meshes: the weld at (21.5, 26.5) lies inside element
+	// (4,5); its nearest node is (20, 25), 2.12 mm away: inside the
+	// 2.5 mm nugget radius.
 	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5})
-	p := r3.Vec{X: 22, Y: 27, Z: 0.5}
+	p := r3.Vec{X: 21.5, Y: 26.5, Z: 0.5}
 	for _, a := range []Attach{Interpolated, NodePair, Patch} {
 		c := buildOne1(t, m, Joint{ID: "1", Point: p}, BuildOptions{Attach: a})
 		if c.Status != StatusOK {
@@ -202,7 +221,7 @@ func TestAttachments(t *testing.T) {
 			if r3.Norm(r3.Sub(pt, e.Point)) > 1e-9 {
 				t.Errorf("%v end %d: weights give %v, end at %v", a, i, pt, e.Point)
 			}
-			want := r3.Vec{X: 22, Y: 27, Z: float64(i)}
+			want := r3.Vec{X: 21.5, Y: 26.5, Z: float64(i)}
 			if a == NodePair {
 				want = r3.Vec{X: 20, Y: 25, Z: float64(i)}
 			}
@@ -211,13 +230,41 @@ func TestAttachments(t *testing.T) {
 			}
 		}
 		if a == Patch {
-			// Nugget radius 2.5 mm around (22,27): the host element's four
-			// corners; the nearest node (20,25) lies at 2.83 mm, so no
-			// extra nodes join.
+			// Nugget radius 2.5 mm around (21.5,26.5): the host element's
+			// four corners and no other node (the next nearest lie at
+			// 6.67 mm).
 			if n := len(c.Ends[0].Nodes); n != 4 {
 				t.Errorf("patch: %d nodes, want 4", n)
 			}
 		}
+	}
+}
+
+func TestMidGapOuterSurfaces(t *testing.T) {
+	// Part 1 meshed on its top surface and part 2 on its bottom surface,
+	// both at z=0: the sheets touch; the link joins the meshed surfaces
+	// (length 0) but the mid-surface gap equals contact, 1 mm.
+	m := plates(
+		plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceTop},
+		plate{Part: 2, T: 1, NX: 10, NY: 10, H: 5, X0: 2.5, Surface: geom.SurfaceBottom},
+	)
+	c := buildOne1(t, m, Joint{ID: "1", Point: r3.Vec{X: 25, Y: 25}}, BuildOptions{})
+	if c.Status != StatusOK || len(c.Links) != 1 {
+		t.Fatalf("status %v findings %v", c.Status, c.Findings)
+	}
+	if l := c.Links[0]; math.Abs(l.MidGap-1) > 1e-12 || l.Length != 0 || l.Contact != 1 {
+		t.Errorf("link %+v", l)
+	}
+}
+
+func TestNodePairOffWeld(t *testing.T) {
+	// Weld at (22.4, 27.4) on a 5 mm mesh: the nearest node (20, 25) lies
+	// 3.39 mm away, outside the 2.5 mm nugget: the connector would move
+	// off the weld.
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5})
+	c := buildOne1(t, m, Joint{ID: "1", Point: r3.Vec{X: 22.4, Y: 27.4, Z: 0.5}}, BuildOptions{Attach: NodePair})
+	if got := codes(c); !slices.Equal(got, []string{CodeNodesApart, CodeNodesApart}) {
+		t.Fatalf("findings %v", c.Findings)
 	}
 }
 

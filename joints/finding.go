@@ -56,6 +56,9 @@ const (
 	CodeStackSize      = "stack-size"      // more than four sheets
 	CodeNodesApart     = "nodes-apart"     // node-pair attachment: nodes do not face each other
 	CodeNoThickness    = "no-thickness"    // a sheet of the stack has no thickness
+	CodeSheetApart     = "sheet-apart"     // a parallel sheet within reach but apart from the stack: left out
+	CodeOffSheet       = "off-sheet"       // a listed sheet's nearest point lies off the weld axis
+	CodeDegenerate     = "degenerate-host" // the host element has no area, so no normal
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

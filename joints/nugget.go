@@ -10,10 +10,12 @@ import (
 // thickness, d = K*sqrt(t) with d and t in mm.
 //
 // The rule d = 4*sqrt(t) is the conventional minimum and d = 5*sqrt(t) the
-// larger value used for important welds; both are common practice in
+// larger value used for important welds. Both are common practice in
 // resistance-welding literature, where the constant varies between 4 and
-// 5. Joinery's default is 5*sqrt(t), which also lies close to the
-// electrode-tip diameters of ISO 14373 at the top of each thickness band.
+// 5; we know of no single source that fixes it. Joinery's default is
+// 5*sqrt(t), which also lies close to the electrode-tip diameters of
+// ISO 14373 (secondary copy of its table) at the top of each thickness
+// band.
 type NuggetRule float64
 
 // The two rules in use.

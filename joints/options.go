@@ -2,6 +2,7 @@ package joints
 
 import (
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 )
@@ -96,9 +97,11 @@ func (d DOFs) Names() []string {
 // documented defaults (see Defaults).
 type BuildOptions struct {
 	// SearchDistance, mm: sheets farther than this from a weld point are
-	// not considered. Default 3 times the largest thickness in the model:
-	// enough to reach every sheet of a four-sheet stack of the thickest
-	// parts from a point on an outer sheet's mid-surface.
+	// not considered. Default 4.5 times the largest thickness t in the
+	// model: from a point on the outer surface of a four-sheet stack of
+	// the thickest parts the far mid-surface lies 3.5 t away, plus three
+	// gaps at the limit of the default tolerance (0.75 t) and 0.25 t to
+	// spare.
 	SearchDistance float64
 	// GapTolerance, mm: how far a measured gap between consecutive
 	// mid-surfaces may differ from contact, (t1+t2)/2, before it is
@@ -143,7 +146,7 @@ type BuildOptions struct {
 // is the largest sheet thickness of the model, mm.
 func (o BuildOptions) Defaults(maxThickness float64) BuildOptions {
 	if o.SearchDistance <= 0 {
-		o.SearchDistance = 3 * maxThickness
+		o.SearchDistance = 4.5 * maxThickness
 		if o.SearchDistance <= 0 {
 			o.SearchDistance = 5
 		}
@@ -187,15 +190,45 @@ func (o *BuildOptions) attachFor(group string) Attach {
 }
 
 // DefaultIDStart returns the first id for new nodes and elements: the
-// smallest multiple of the leading power of ten of maxID+1 that exceeds
-// maxID (412345 -> 500000, 99 -> 100, 0 -> 1).
+// smallest multiple of the leading power of ten of maxID that exceeds
+// maxID (412345 -> 500000, 99 -> 100, 0 -> 1), or maxID+1 when that
+// multiple would not fit in an int64. It returns 0 when maxID is the
+// largest int64: no id is left above it.
 func DefaultIDStart(maxID int64) int64 {
 	if maxID <= 0 {
 		return 1
+	}
+	if maxID == math.MaxInt64 {
+		return 0
 	}
 	step := int64(1)
 	for step <= maxID/10 {
 		step *= 10
 	}
-	return (maxID/step + 1) * step
+	if q := maxID/step + 1; q <= math.MaxInt64/step {
+		return q * step
+	}
+	return maxID + 1
+}
+
+// Validate checks the options a user gave: distances and tolerances must
+// be finite and not negative (0 means the default), factors and angles
+// likewise, and the id start not negative.
+func (o *BuildOptions) Validate() error {
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{
+		{"search distance", o.SearchDistance}, {"gap tolerance", o.GapTolerance},
+		{"angle tolerance", o.AngleTolerance}, {"lateral factor", o.LateralFactor},
+		{"edge factor", o.EdgeFactor}, {"node factor", o.NodeFactor},
+	} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 {
+			return fmt.Errorf("%s %g: want a finite number, 0 or more (0 for the default)", f.name, f.v)
+		}
+	}
+	if o.IDStart < 0 {
+		return fmt.Errorf("id start %d: want a positive id, or 0 for the default", o.IDStart)
+	}
+	return nil
 }

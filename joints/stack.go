@@ -157,6 +157,49 @@ func listedStack(m *geom.Mesh, cands []Sheet, p r3.Vec, listed []int64) (Stack, 
 	return st, missing
 }
 
+// splitStack keeps, of an automatically found stack, the sheets in
+// contact around the weld: where the gap between two consecutive
+// mid-surfaces exceeds contact by more than the average of their
+// thicknesses, the stack is split, and the group holding the weld point
+// (or, failing that, the group nearest to it) is kept when it has two
+// sheets or more. The sheets left out are returned. When no such group
+// exists the stack is kept whole, so its gaps are reported.
+func splitStack(st *Stack) (kept Stack, dropped []Sheet) {
+	var groups [][]Sheet
+	start := 0
+	for i := 0; i+1 < len(st.Sheets); i++ {
+		a, b := st.Sheets[i], st.Sheets[i+1]
+		contact := (a.Thickness + b.Thickness) / 2
+		if b.Position-a.Position-contact > contact {
+			groups = append(groups, st.Sheets[start:i+1])
+			start = i + 1
+		}
+	}
+	groups = append(groups, st.Sheets[start:])
+	if len(groups) == 1 {
+		return *st, nil
+	}
+	best, bestDist := -1, math.Inf(1)
+	for g, grp := range groups {
+		lo := grp[0].Position - grp[0].Thickness/2
+		hi := grp[len(grp)-1].Position + grp[len(grp)-1].Thickness/2
+		d := math.Max(0, math.Max(lo, -hi)) // distance of the weld point (0) from the group
+		if d < bestDist {
+			best, bestDist = g, d
+		}
+	}
+	if len(groups[best]) < 2 {
+		return *st, nil
+	}
+	kept = Stack{Axis: st.Axis, Sheets: slices.Clone(groups[best])}
+	for g, grp := range groups {
+		if g != best {
+			dropped = append(dropped, grp...)
+		}
+	}
+	return kept, dropped
+}
+
 // orderStack sorts sheets along the axis (ties by part id).
 func orderStack(st *Stack) {
 	slices.SortStableFunc(st.Sheets, func(a, b Sheet) int {

@@ -125,6 +125,7 @@ type LinkDoc struct {
 	Length     float64 `json:"length"`
 	Direction  Vec     `json:"direction"`
 	ContactGap float64 `json:"contact_gap"`
+	MidGap     float64 `json:"mid_gap"`
 }
 
 // Vec is a point or direction, [x, y, z].
@@ -209,7 +210,7 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 	}
 	for _, l := range c.Links {
 		d.Links = append(d.Links, LinkDoc{ID: l.ID, From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
-			Length: l.Length, Direction: vecOf(l.Direction), ContactGap: l.Contact})
+			Length: l.Length, Direction: vecOf(l.Direction), ContactGap: l.Contact, MidGap: clean(l.MidGap)})
 	}
 	seen := map[string]bool{}
 	for _, f := range c.Findings {

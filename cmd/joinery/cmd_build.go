@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -33,7 +34,7 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddFlags(fs)
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./joinery-out)")
-	fs.Float64Var(&o.searchDistance, "search-distance", 0, "mm; sheets farther from a weld are ignored (0: 3 x the largest thickness)")
+	fs.Float64Var(&o.searchDistance, "search-distance", 0, "mm; sheets farther from a weld are ignored (0: 4.5 x the largest thickness)")
 	fs.Float64Var(&o.gapTolerance, "gap-tolerance", 0, "mm; allowed deviation of a gap from contact (0: a quarter of the contact gap (t1+t2)/2)")
 	fs.StringVar(&o.attach, "attach", "interpolated", "how connector ends tie to sheets: interpolated, node-pair or patch")
 	fs.StringVar(&o.spotDOFs, "spot-dofs", "tx,ty,tz,rx,ry,rz", "degrees of freedom a spot weld couples")
@@ -116,6 +117,9 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	if err := job.Build.Apply(&bo); err != nil {
 		return usageError{err}
 	}
+	if err := bo.Validate(); err != nil {
+		return usageError{err}
+	}
 	failOn, fail, err := joints.ParseFailOn(job.Build.FailOn)
 	if err != nil {
 		return usageError{err}
@@ -142,24 +146,37 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	info := writers.RunInfo{Generator: "joinery " + version, Meshes: job.Meshes, Parts: job.Parts, Joints: job.Joints}
 	conn := writers.NewConnectorsDoc(model.Mesh, res, info)
 	rep := writers.NewReportDoc(res, info)
+	// Render every file in memory first: a failure then leaves nothing
+	// written. The files are then written concurrently, each through a
+	// temporary file renamed into place.
+	files := []struct {
+		name   string
+		render func(w io.Writer) error
+		data   bytes.Buffer
+	}{
+		{name: "connectors.json", render: func(w io.Writer) error { return writers.WriteConnectorsJSON(w, conn) }},
+		{name: "connectors.csv", render: func(w io.Writer) error { return writers.WriteConnectorsCSV(w, conn) }},
+		{name: "report.json", render: func(w io.Writer) error { return writers.WriteReportJSON(w, rep) }},
+		{name: "report.txt", render: func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
+	}
+	for i := range files {
+		if err := files[i].render(&files[i].data); err != nil {
+			return fmt.Errorf("rendering %s: %w", files[i].name, err)
+		}
+	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return fmt.Errorf("creating output directory: %w", err)
 	}
-	files := []struct {
-		name  string
-		write func(w io.Writer) error
-	}{
-		{"connectors.json", func(w io.Writer) error { return writers.WriteConnectorsJSON(w, conn) }},
-		{"connectors.csv", func(w io.Writer) error { return writers.WriteConnectorsCSV(w, conn) }},
-		{"report.json", func(w io.Writer) error { return writers.WriteReportJSON(w, rep) }},
-		{"report.txt", func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
-	}
-	// The files are independent: write them concurrently, report the
-	// first error in file order.
 	errs := make([]error, len(files))
 	var wg sync.WaitGroup
-	for i, f := range files {
-		wg.Go(func() { errs[i] = writers.WriteFileAtomic(filepath.Join(out, f.name), f.write) })
+	for i := range files {
+		f := &files[i]
+		wg.Go(func() {
+			errs[i] = writers.WriteFileAtomic(filepath.Join(out, f.name), func(w io.Writer) error {
+				_, err := w.Write(f.data.Bytes())
+				return err
+			})
+		})
 	}
 	wg.Wait()
 	if err := errors.Join(errs...); err != nil {
