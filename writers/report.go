@@ -117,7 +117,7 @@ func WriteReportText(w io.Writer, doc *ReportDoc) error {
 func WriteBuildSummary(w io.Writer, doc *ReportDoc, outDir string) error {
 	ew := &errWriter{w: w}
 	summaryLines(ew, doc)
-	ew.printf("written     %s/{connectors.json,connectors.csv,report.json,report.txt}\n", outDir)
+	ew.printf("written     %s/{connectors.json,connectors.csv,connectors.vtk,report.json,report.txt}\n", outDir)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err
 }

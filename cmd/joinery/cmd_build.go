@@ -87,6 +87,7 @@ directory:
   connectors.csv    one row per connector end, for spreadsheets
   report.json       summary and findings (schema joinery/report, version 1)
   report.txt        the same for a person
+  connectors.vtk    links and failed joints as VTK lines and points, for viewing
 
 Inputs and settings come from a job file, from flags, or both (flags win).
 Bolts are reported as not yet supported.
@@ -158,6 +159,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 		{name: "connectors.csv", render: func(w io.Writer) error { return writers.WriteConnectorsCSV(w, conn) }},
 		{name: "report.json", render: func(w io.Writer) error { return writers.WriteReportJSON(w, rep) }},
 		{name: "report.txt", render: func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
+		{name: "connectors.vtk", render: func(w io.Writer) error { return writers.WriteConnectorsVTK(w, conn) }},
 	}
 	for i := range files {
 		if err := files[i].render(&files[i].data); err != nil {

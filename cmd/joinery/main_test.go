@@ -114,7 +114,7 @@ func TestInspectExampleGolden(t *testing.T) {
 	}
 }
 
-var buildOutputs = []string{"connectors.json", "connectors.csv", "report.json", "report.txt"}
+var buildOutputs = []string{"connectors.json", "connectors.csv", "connectors.vtk", "report.json", "report.txt"}
 
 func TestBuildExampleGolden(t *testing.T) {
 	skipWithoutExample(t)

@@ -1,0 +1,89 @@
+package writers
+
+import (
+	"fmt"
+	"io"
+	"strconv"
+)
+
+// VTK cell types used for viewing connectors (VTK file-format
+// documentation, Kitware: VTK_VERTEX = 1, VTK_LINE = 3).
+const (
+	vtkVertex = 1
+	vtkLine   = 3
+)
+
+// WriteConnectorsVTK writes the connectors for viewing beside the mesh in
+// any VTK viewer: a VTK legacy ASCII unstructured grid with one line cell
+// per link and one vertex cell at the joint point of every connector that
+// was not built. Cell data: "status" (0 ok, 1 warning, 2 failed),
+// "sheets" (stack size), "connector" (index into connectors.json's
+// connectors array) and "gap_offset" (the link's mid_gap minus its
+// contact_gap, mm; 0 on vertices). Output is deterministic.
+func WriteConnectorsVTK(w io.Writer, doc *ConnectorsDoc) error {
+	type cell struct {
+		typ       int
+		pts       []Vec
+		status    int
+		sheets    int
+		connector int
+		gap       float64
+	}
+	var cells []cell
+	for i, c := range doc.Connectors {
+		st := map[string]int{"ok": 0, "warning": 1, "failed": 2}[c.Status]
+		if len(c.Links) == 0 {
+			cells = append(cells, cell{typ: vtkVertex, pts: []Vec{c.Point}, status: st, sheets: len(c.Sheets), connector: i})
+			continue
+		}
+		for _, l := range c.Links {
+			cells = append(cells, cell{typ: vtkLine, pts: []Vec{l.Start, l.End}, status: st, sheets: len(c.Sheets),
+				connector: i, gap: clean(l.MidGap - l.ContactGap)})
+		}
+	}
+	ew := &errWriter{w: w}
+	npts, nconn := 0, 0
+	for _, c := range cells {
+		npts += len(c.pts)
+		nconn += len(c.pts) + 1
+	}
+	ew.printf("# vtk DataFile Version 3.0\njoinery connectors (%s)\nASCII\nDATASET UNSTRUCTURED_GRID\n", doc.Generator)
+	ew.printf("POINTS %d double\n", npts)
+	for _, c := range cells {
+		for _, p := range c.pts {
+			ew.printf("%s %s %s\n", f64(p[0]), f64(p[1]), f64(p[2]))
+		}
+	}
+	ew.printf("CELLS %d %d\n", len(cells), nconn)
+	k := 0
+	for _, c := range cells {
+		ew.printf("%d", len(c.pts))
+		for range c.pts {
+			ew.printf(" %d", k)
+			k++
+		}
+		ew.printf("\n")
+	}
+	ew.printf("CELL_TYPES %d\n", len(cells))
+	for _, c := range cells {
+		ew.printf("%d\n", c.typ)
+	}
+	ew.printf("CELL_DATA %d\n", len(cells))
+	ints := func(name string, get func(c cell) int) {
+		ew.printf("SCALARS %s int 1\nLOOKUP_TABLE default\n", name)
+		for _, c := range cells {
+			ew.printf("%s\n", strconv.Itoa(get(c)))
+		}
+	}
+	ints("status", func(c cell) int { return c.status })
+	ints("sheets", func(c cell) int { return c.sheets })
+	ints("connector", func(c cell) int { return c.connector })
+	ew.printf("SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
+	for _, c := range cells {
+		ew.printf("%s\n", f64(c.gap))
+	}
+	if ew.err != nil {
+		return fmt.Errorf("writing connectors VTK: %w", ew.err)
+	}
+	return nil
+}
