@@ -1,6 +1,8 @@
 package writers
 
 import (
+	"bytes"
+	"encoding/json"
 	"io"
 	"math"
 	"sort"
@@ -230,5 +232,53 @@ func nonNil(s []string) []string {
 	return s
 }
 
-// WriteConnectorsJSON writes the connectors document.
-func WriteConnectorsJSON(w io.Writer, doc *ConnectorsDoc) error { return WriteJSON(w, doc) }
+// WriteConnectorsJSON writes the connectors document: its header fields
+// one per line, then one connector per line, so that a diff between two
+// builds shows one line per changed connector and the file stays a
+// third of its fully indented size.
+func WriteConnectorsJSON(w io.Writer, doc *ConnectorsDoc) error {
+	ew := &errWriter{w: w}
+	head := []struct {
+		key string
+		v   any
+	}{
+		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"units", doc.Units},
+		{"inputs", doc.Inputs}, {"options", doc.Options}, {"new_ids", doc.IDs},
+	}
+	ew.printf("{\n")
+	for _, h := range head {
+		b, err := compactJSON(h.v)
+		if err != nil {
+			return err
+		}
+		ew.printf("  %q: %s,\n", h.key, b)
+	}
+	ew.printf("  \"connectors\": [")
+	for i := range doc.Connectors {
+		b, err := compactJSON(&doc.Connectors[i])
+		if err != nil {
+			return err
+		}
+		sep := ","
+		if i == len(doc.Connectors)-1 {
+			sep = ""
+		}
+		ew.printf("\n    %s%s", b, sep)
+	}
+	if len(doc.Connectors) > 0 {
+		ew.printf("\n  ")
+	}
+	ew.printf("]\n}\n")
+	return ew.err
+}
+
+// compactJSON marshals v on one line, without HTML escaping.
+func compactJSON(v any) ([]byte, error) {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return bytes.TrimRight(buf.Bytes(), "\n"), nil
+}

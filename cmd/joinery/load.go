@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"runtime"
 
 	"github.com/joinery-cae/joinery/geom/meshio"
 	"github.com/joinery-cae/joinery/joints"
@@ -26,6 +27,10 @@ func loadInputs(ctx context.Context, job *joints.Job, g *globalOptions) (*meshio
 	if err != nil {
 		return nil, nil, err
 	}
+	// The readers' file buffers, often larger than the model, are garbage
+	// now; collect them before the next steps grow the heap, so that the
+	// process reuses their memory instead of asking the system for more.
+	runtime.GC()
 	js, warnings, err := joints.ReadJointLists(job.Joints)
 	if err != nil {
 		return nil, nil, err
