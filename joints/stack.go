@@ -54,25 +54,61 @@ func (s *Stack) Parts() []int64 {
 	return ps
 }
 
-// candidates projects p onto every element within r and keeps the closest
-// projection per part, ordered by distance, then part id.
+// candidates returns, for every part with an element within r of p, the
+// closest projection of p onto that part (ties to the lower element
+// index), ordered by distance, then part id. Elements are visited in
+// order of their bounding-box distance, and an element whose box lies
+// farther than its part's best projection so far is not projected: the
+// box distance is a lower bound of the true one.
 func candidates(x *geom.Index, p r3.Vec, r float64) []Sheet {
 	m := x.Mesh()
-	projs := x.ProjectNear(p, r, nil)
-	seen := map[int32]bool{}
+	var buf [256]int32
+	type near struct {
+		e  int32
+		d2 float64 // squared distance from p to the element's box
+	}
+	elems := x.ElemsNear(p, r, buf[:0])
+	list := make([]near, len(elems))
+	for i, e := range elems {
+		list[i] = near{e, boxDist2(m.ElemBox(int(e)), p)}
+	}
+	slices.SortFunc(list, func(a, b near) int { return cmp.Or(cmp.Compare(a.d2, b.d2), cmp.Compare(a.e, b.e)) })
 	var out []Sheet
-	for _, pr := range projs {
-		pi := m.ElemPart[pr.Elem]
-		if seen[pi] {
+	for _, c := range list {
+		pi := m.ElemPart[c.e]
+		k := slices.IndexFunc(out, func(s Sheet) bool { return m.ElemPart[s.Proj.Elem] == pi })
+		if k >= 0 && c.d2 > out[k].Proj.Dist*out[k].Proj.Dist {
 			continue
 		}
-		seen[pi] = true
-		out = append(out, Sheet{Part: m.Parts[pi].ID, Proj: pr, Thickness: m.Thickness(pr.Elem), EdgeDistance: math.Inf(1)})
+		pr := m.Project(int(c.e), p)
+		if !(pr.Dist <= r) {
+			continue
+		}
+		switch {
+		case k < 0:
+			out = append(out, Sheet{Part: m.Parts[pi].ID, Proj: pr, Thickness: m.Thickness(pr.Elem), EdgeDistance: math.Inf(1)})
+		case pr.Dist < out[k].Proj.Dist || pr.Dist == out[k].Proj.Dist && pr.Elem < out[k].Proj.Elem:
+			out[k].Proj, out[k].Thickness = pr, m.Thickness(pr.Elem)
+		}
 	}
 	slices.SortStableFunc(out, func(a, b Sheet) int {
 		return cmp.Or(cmp.Compare(a.Proj.Dist, b.Proj.Dist), cmp.Compare(a.Part, b.Part))
 	})
 	return out
+}
+
+// boxDist2 returns the squared distance from p to box b (0 inside).
+func boxDist2(b r3.Box, p r3.Vec) float64 {
+	axis := func(v, lo, hi float64) float64 {
+		switch {
+		case v < lo:
+			return (lo - v) * (lo - v)
+		case v > hi:
+			return (v - hi) * (v - hi)
+		}
+		return 0
+	}
+	return axis(p.X, b.Min.X, b.Max.X) + axis(p.Y, b.Min.Y, b.Max.Y) + axis(p.Z, b.Min.Z, b.Max.Z)
 }
 
 // place sets a sheet's Position and Lateral for a stack axis through p.
