@@ -273,10 +273,18 @@ func buildOne(x *geom.Index, j *Joint, o *BuildOptions) Connector {
 			"stack outside the scope of ISO 14373: "+why))
 	}
 	c.Findings = append(c.Findings, checkGaps(&c.Stack, o, j)...)
+	// One element query around the weld serves the edge check of every
+	// sheet: it reaches 2*edgeLimit around each projection point.
 	edgeLimit := o.EdgeFactor * c.Diameter
+	reach := 0.0
+	for _, s := range c.Stack.Sheets {
+		reach = math.Max(reach, s.Proj.Dist)
+	}
+	var nbuf [256]int32
+	near := x.ElemsNear(j.Point, reach+2*edgeLimit, nbuf[:0])
 	for i := range c.Stack.Sheets {
 		s := &c.Stack.Sheets[i]
-		s.EdgeDistance = edgeDistance(x, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
+		s.EdgeDistance = edgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
 		if s.EdgeDistance < edgeLimit {
 			c.Findings = append(c.Findings, jointFinding(j, Warning, CodeEdgeClose, []int64{s.Part},
 				fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",

@@ -11,18 +11,17 @@ import (
 
 // edgeDistance returns the distance from q to the nearest free edge of
 // part pi (an element edge no other element of the part shares) within
-// radius r, or +Inf when there is none.
+// radius r, or +Inf when there is none. near must hold every element
+// within r of q (it may hold more).
 //
 // It needs no global edge table: an edge within r of q has every element
-// that uses it within r too (their bounding boxes hold the edge), so one
-// query gives the elements, and counting edge uses among them tells which
+// that uses it within r too (their bounding boxes hold the edge), so the
+// near elements suffice, and counting edge uses among them tells which
 // edges are free.
-func edgeDistance(x *geom.Index, q r3.Vec, pi int32, r float64) float64 {
-	m := x.Mesh()
-	var buf [128]int32
+func edgeDistance(m *geom.Mesh, near []int32, q r3.Vec, pi int32, r float64) float64 {
+	var lbuf [128]int32
 	var kbuf [512]uint64
-	near := x.ElemsNear(q, r, buf[:0])
-	local := near[:0]
+	local := lbuf[:0]
 	keys := kbuf[:0]
 	for _, e := range near {
 		if m.ElemPart[e] != pi {

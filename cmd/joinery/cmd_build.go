@@ -147,9 +147,9 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	info := writers.RunInfo{Generator: "joinery " + version, Meshes: job.Meshes, Parts: job.Parts, Joints: job.Joints}
 	conn := writers.NewConnectorsDoc(model.Mesh, res, info)
 	rep := writers.NewReportDoc(res, info)
-	// Render every file in memory first: a failure then leaves nothing
-	// written. The files are then written concurrently, each through a
-	// temporary file renamed into place.
+	// Render every file in memory first (concurrently: they are
+	// independent), so that a failure leaves nothing written; then write
+	// them, each through a temporary file renamed into place.
 	files := []struct {
 		name   string
 		render func(w io.Writer) error
@@ -161,8 +161,14 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 		{name: "report.txt", render: func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
 		{name: "connectors.vtk", render: func(w io.Writer) error { return writers.WriteConnectorsVTK(w, conn) }},
 	}
+	renderErrs := make([]error, len(files))
+	var rg sync.WaitGroup
 	for i := range files {
-		if err := files[i].render(&files[i].data); err != nil {
+		rg.Go(func() { renderErrs[i] = files[i].render(&files[i].data) })
+	}
+	rg.Wait()
+	for i, err := range renderErrs {
+		if err != nil {
 			return fmt.Errorf("rendering %s: %w", files[i].name, err)
 		}
 	}
