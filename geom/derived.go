@@ -2,6 +2,7 @@ package geom
 
 import (
 	"math"
+	"slices"
 	"runtime"
 	"sync"
 	"sync/atomic"
@@ -174,4 +175,24 @@ func (m *Mesh) partStats(lo, hi int) []PartStats {
 func unionBox(a, b r3.Box) r3.Box {
 	a = growBox(a, b.Min)
 	return growBox(a, b.Max)
+}
+
+// PartsWithoutThickness returns, in increasing order, the ids of parts
+// with at least one element that has no positive thickness (neither its
+// own nor its part's).
+func (m *Mesh) PartsWithoutThickness() []int64 {
+	missing := make([]bool, len(m.Parts))
+	for e := range m.ElemIDs {
+		if !(m.Thickness(e) > 0) {
+			missing[m.ElemPart[e]] = true
+		}
+	}
+	var ids []int64
+	for i, miss := range missing {
+		if miss {
+			ids = append(ids, m.Parts[i].ID)
+		}
+	}
+	slices.Sort(ids)
+	return ids
 }

@@ -71,6 +71,9 @@ func Merge(meshes []*Mesh, renumber bool) (*Mesh, []Renumbering, error) {
 			if src.NodeOffset != 0 || src.ElemOffset != 0 {
 				shifts = append(shifts, Renumbering{File: src.File, NodeOffset: src.NodeOffset, ElemOffset: src.ElemOffset})
 			}
+			if (len(m.Coords) > 0 && nhi > math.MaxInt64-src.NodeOffset) || (len(m.ElemIDs) > 0 && ehi > math.MaxInt64-src.ElemOffset) {
+				return nil, nil, FileError(src.File, "renumbering: ids shifted above the ids of the files before it would not fit in 64 bits; renumber the files before merging")
+			}
 		}
 		if len(m.Coords) > 0 {
 			nodeLo, nodeHi = min(nodeLo, nlo+src.NodeOffset), max(nodeHi, nhi+src.NodeOffset)
@@ -124,10 +127,20 @@ func idRange(ids []int64) (lo, hi int64) {
 // roundOffset returns the smallest multiple of 10^k that is >= hi, where
 // 10^k is the largest power of ten not above hi (hi >= 1): 48213 -> 50000,
 // 999 -> 1000, 7 -> 7.
+//
+// Near the top of the int64 range, where that multiple does not fit, it
+// returns hi itself.
 func roundOffset(hi int64) int64 {
 	step := int64(1)
 	for step <= hi/10 {
 		step *= 10
 	}
-	return (hi + step - 1) / step * step
+	q := hi / step
+	if hi%step != 0 {
+		q++
+	}
+	if q > math.MaxInt64/step {
+		return hi
+	}
+	return q * step
 }

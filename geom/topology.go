@@ -102,10 +102,12 @@ type Loop struct {
 	Nodes  []int32 // node indices in order; a closed loop does not repeat the first node
 	Closed bool
 	Length float64 // mm
-	// Outline marks a loop that bounds its part from outside; a loop whose
-	// bounding box lies inside the box of another loop of the same part is
-	// a hole or cut-out instead. A part made of several separate pieces
-	// has several outlines.
+	// Piece labels the connected piece of the part the loop bounds
+	// (elements of the part joined through shared nodes).
+	Piece int32
+	// Outline marks the loop that bounds its piece from outside: the one
+	// with the largest bounding box. The piece's other loops bound holes
+	// or cut-outs. A part made of several pieces has several outlines.
 	Outline bool
 }
 
@@ -144,6 +146,7 @@ func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
 	})
 	used := make([]bool, len(edges))
 	var loops []Loop
+	var firsts []int32 // the first edge of each loop
 	for _, first := range order {
 		if used[first] {
 			continue
@@ -193,41 +196,75 @@ func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
 			lp.Length += blen
 		}
 		loops = append(loops, lp)
+		firsts = append(firsts, first)
 	}
-	markOutlines(m, loops)
+	markOutlines(m, loops, edges, firsts)
 	return loops
 }
 
-// markOutlines sets Outline on every loop whose bounding box is not
-// contained in the box of a longer loop of the same part.
-func markOutlines(m *Mesh, loops []Loop) {
-	boxes := make([]r3.Box, len(loops))
-	for i, lp := range loops {
+// markOutlines sets Outline on one loop of every connected piece of a
+// part (elements of the part joined through shared nodes): the loop with
+// the largest bounding box, ties to the longer, then the first. The
+// piece's other loops bound holes or cut-outs.
+func markOutlines(m *Mesh, loops []Loop, edges []Edge, first []int32) {
+	piece := pieces(m)
+	diag := func(lp *Loop) float64 {
 		b := EmptyBox()
 		for _, n := range lp.Nodes {
 			b = growBox(b, m.Coords[n])
 		}
-		boxes[i] = b
+		return r3.Norm(r3.Sub(b.Max, b.Min))
 	}
-	byPart := map[int32][]int{}
-	for i, lp := range loops {
-		byPart[lp.Part] = append(byPart[lp.Part], i)
+	best := map[int32]int{} // piece -> loop
+	sizes := make([]float64, len(loops))
+	for i := range loops {
+		sizes[i] = diag(&loops[i])
+		p := piece[edges[first[i]].Elem]
+		loops[i].Piece = p
+		j, ok := best[p]
+		if !ok || sizes[i] > sizes[j] || sizes[i] == sizes[j] && loops[i].Length > loops[j].Length {
+			best[p] = i
+		}
 	}
-	for _, idx := range byPart {
-		for _, i := range idx {
-			loops[i].Outline = true
-			for _, j := range idx {
-				if j != i && loops[j].Length > loops[i].Length && boxInside(boxes[i], boxes[j]) {
-					loops[i].Outline = false
+	for _, i := range best {
+		loops[i].Outline = true
+	}
+}
+
+// pieces labels every element with its connected piece: elements of one
+// part that share a node are in the same piece. A label is the smallest
+// element index of its piece.
+func pieces(m *Mesh) []int32 {
+	parent := make([]int32, m.NumElems())
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	var find func(e int32) int32
+	find = func(e int32) int32 {
+		for parent[e] != e {
+			parent[e] = parent[parent[e]]
+			e = parent[e]
+		}
+		return e
+	}
+	adj := NodeElements(m)
+	for n := range m.Coords {
+		es := adj.Of(int32(n))
+		for i, a := range es {
+			for _, b := range es[:i] {
+				if m.ElemPart[a] == m.ElemPart[b] {
+					ra, rb := find(a), find(b)
+					if ra != rb {
+						parent[max(ra, rb)] = min(ra, rb)
+					}
 					break
 				}
 			}
 		}
 	}
+	for e := range parent {
+		parent[e] = find(int32(e))
+	}
+	return parent
 }
 
-// boxInside reports whether box a lies within box b.
-func boxInside(a, b r3.Box) bool {
-	return a.Min.X >= b.Min.X && a.Min.Y >= b.Min.Y && a.Min.Z >= b.Min.Z &&
-		a.Max.X <= b.Max.X && a.Max.Y <= b.Max.Y && a.Max.Z <= b.Max.Z
-}

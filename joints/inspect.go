@@ -2,13 +2,15 @@ package joints
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"slices"
 
 	"github.com/joinery-cae/joinery/geom"
 )
 
-// InspectOptions set what Inspect looks at.
+// InspectOptions set what Inspect looks at. Start from
+// DefaultInspectOptions: zero values are taken as given.
 type InspectOptions struct {
 	// Deep adds free-edge loops and element-quality findings per part.
 	Deep bool
@@ -22,22 +24,27 @@ type InspectOptions struct {
 	// boxes have no thickness) still counts as inside. Default 5 mm, our
 	// own choice: a few sheet thicknesses.
 	BoxMargin float64
-	// MaxListed caps the elements listed per part and finding kind.
+	// MaxListed caps the elements listed per part.
 	MaxListed int
 }
 
-// Defaults fills zero fields with the documented defaults.
-func (o InspectOptions) Defaults() InspectOptions {
-	if o.WarpLimit == 0 {
-		o.WarpLimit = 10
+// DefaultInspectOptions returns the documented defaults.
+func DefaultInspectOptions() InspectOptions {
+	return InspectOptions{WarpLimit: 10, BoxMargin: 5, MaxListed: 10}
+}
+
+// Validate checks that the limits are finite and not negative.
+func (o InspectOptions) Validate() error {
+	if math.IsNaN(o.WarpLimit) || math.IsInf(o.WarpLimit, 0) || o.WarpLimit < 0 {
+		return fmt.Errorf("warp-limit %g: want a finite angle, 0 or more", o.WarpLimit)
 	}
-	if o.BoxMargin == 0 {
-		o.BoxMargin = 5
+	if math.IsNaN(o.BoxMargin) || math.IsInf(o.BoxMargin, 0) || o.BoxMargin < 0 {
+		return fmt.Errorf("box-margin %g: want a finite length, 0 or more", o.BoxMargin)
 	}
-	if o.MaxListed == 0 {
-		o.MaxListed = 10
+	if o.MaxListed < 0 {
+		return fmt.Errorf("max-listed %d: want 0 or more", o.MaxListed)
 	}
-	return o
+	return nil
 }
 
 // Inspection is what `joinery inspect` reports about a model and its joints.
@@ -52,7 +59,7 @@ type Inspection struct {
 	Renumbered   []Shift        `json:"renumbered,omitempty"`
 	Joints       JointSummary   `json:"joints"`
 	Deep         bool           `json:"deep"`
-	WarpLimit    float64        `json:"warp_limit_deg,omitempty"`
+	WarpLimit    *float64       `json:"warp_limit_deg,omitempty"` // set with Deep
 	BoxMarginMM  float64        `json:"box_margin_mm"`
 	MemoryBytes  int            `json:"mesh_bytes"`
 	UnusedParts  []int64        `json:"unused_table_parts,omitempty"`
@@ -85,8 +92,8 @@ type PartSummary struct {
 	Triangles int        `json:"triangles"`
 	Quads     int        `json:"quads"`
 	Area      float64    `json:"area_mm2"`
-	BoxMin    [3]float64 `json:"box_min"`
-	BoxMax    [3]float64 `json:"box_max"`
+	BoxMin    *[3]float64 `json:"box_min"` // null for a part without elements
+	BoxMax    *[3]float64 `json:"box_max"`
 	Deep      *PartDeep  `json:"deep,omitempty"`
 }
 
@@ -134,7 +141,6 @@ type ModelInfo struct {
 
 // Inspect summarises a model and its joints.
 func Inspect(mi ModelInfo, js []Joint, opt InspectOptions) *Inspection {
-	opt = opt.Defaults()
 	m := mi.Mesh
 	in := &Inspection{
 		Nodes:       m.NumNodes(),
@@ -146,7 +152,8 @@ func Inspect(mi ModelInfo, js []Joint, opt InspectOptions) *Inspection {
 		UnusedParts: mi.UnusedParts,
 	}
 	if opt.Deep {
-		in.WarpLimit = opt.WarpLimit
+		w := opt.WarpLimit
+		in.WarpLimit = &w
 	}
 	for i, s := range m.Sources {
 		nEnd, eEnd := m.NumNodes(), m.NumElems()
@@ -169,19 +176,18 @@ func Inspect(mi ModelInfo, js []Joint, opt InspectOptions) *Inspection {
 		ps := PartSummary{
 			ID: p.ID, Name: p.Name, Material: p.Material, Surface: p.Surface.String(), Thickness: p.Thickness,
 			Elements: s.Elems, Triangles: s.Tris, Quads: s.Quads, Area: s.Area,
-			BoxMin: [3]float64{s.Box.Min.X, s.Box.Min.Y, s.Box.Min.Z},
-			BoxMax: [3]float64{s.Box.Max.X, s.Box.Max.Y, s.Box.Max.Z},
 		}
-		if p.Thickness <= 0 && m.ElemThickness == nil {
-			in.MissingThick = append(in.MissingThick, p.ID)
+		if s.Elems > 0 {
+			ps.BoxMin = &[3]float64{s.Box.Min.X, s.Box.Min.Y, s.Box.Min.Z}
+			ps.BoxMax = &[3]float64{s.Box.Max.X, s.Box.Max.Y, s.Box.Max.Z}
 		}
 		in.Parts = append(in.Parts, ps)
 	}
+	in.MissingThick = m.PartsWithoutThickness()
 	if opt.Deep {
 		deepLook(m, in, opt)
 	}
 	slices.SortFunc(in.Parts, func(a, b PartSummary) int { return cmp.Compare(a.ID, b.ID) })
-	slices.Sort(in.MissingThick)
 
 	in.Joints.ByKind = map[string]int{}
 	in.Joints.Outside = []string{}

@@ -24,7 +24,7 @@ func WriteInspectText(w io.Writer, in *joints.Inspection) error {
 		ew.printf("  renumbered %s: node ids +%d, element ids +%d\n", r.File, r.NodeOffset, r.ElemOffset)
 	}
 	if len(in.Skipped) > 0 {
-		ew.printf("skipped cells (not triangles or quads):%s\n", skippedText(in.Skipped))
+		ew.printf("cells skipped (not triangles or quads):%s\n", strings.TrimSuffix(strings.TrimPrefix(skippedText(in.Skipped), " (skipped"), ")"))
 	}
 	ew.printf("\nparts\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
@@ -41,7 +41,7 @@ func WriteInspectText(w io.Writer, in *joints.Inspection) error {
 		ew.printf("parts in the table with no elements: %s\n", ints(in.UnusedParts))
 	}
 	if in.Deep {
-		ew.printf("\nfree-edge loops and element quality (warp limit %s°)\n", num(in.WarpLimit, 1))
+		ew.printf("\nfree-edge loops and element quality (warp limit %s°)\n", num(*in.WarpLimit, 1))
 		for _, p := range in.Parts {
 			d := p.Deep
 			ew.printf("part %d: %d loop(s)", p.ID, len(d.Loops))
@@ -49,7 +49,7 @@ func WriteInspectText(w io.Writer, in *joints.Inspection) error {
 				ew.printf(" [%s %s mm, %d nodes]", lp.Kind, num(lp.Length, 1), lp.Nodes)
 			}
 			ew.printf("\n  warped %d, degenerate %d, worst warp %s°", d.Warped, d.Degenerate, num(d.WorstWarp, 2))
-			if d.WorstElem != 0 {
+			if d.WorstElem != 0 && d.WorstWarp >= 0.005 {
 				ew.printf(" (element %d)", d.WorstElem)
 			}
 			ew.printf(", worst aspect %s, shortest edge %s mm\n", num(d.MaxAspect, 2), num(d.MinEdge, 3))
@@ -114,7 +114,10 @@ func thick(t float64) string {
 	return strconv.FormatFloat(t, 'g', -1, 64)
 }
 
-func vec(v [3]float64) string {
+func vec(v *[3]float64) string {
+	if v == nil {
+		return "-"
+	}
 	return num(v[0], 1) + "," + num(v[1], 1) + "," + num(v[2], 1)
 }
 

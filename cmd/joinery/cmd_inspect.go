@@ -16,12 +16,12 @@ type inspectOptions struct {
 func (o *inspectOptions) AddFlags(fs *pflag.FlagSet) {
 	o.in.AddFlags(fs)
 	fs.BoolVar(&o.inspect.Deep, "deep", false, "also list free-edge loops per part and warped or degenerate elements")
-	fs.Float64Var(&o.inspect.WarpLimit, "warp-limit", 10, "with --deep: warp angle in degrees above which a quad is listed")
-	fs.Float64Var(&o.inspect.BoxMargin, "box-margin", 5, "margin in mm added to part bounding boxes when testing joints")
+	fs.Float64Var(&o.inspect.WarpLimit, "warp-limit", o.inspect.WarpLimit, "with --deep: warp angle in degrees above which a quad is listed")
+	fs.Float64Var(&o.inspect.BoxMargin, "box-margin", o.inspect.BoxMargin, "margin in mm added to part bounding boxes when testing joints")
 }
 
 func newInspectCommand(g *globalOptions) *cobra.Command {
-	o := &inspectOptions{}
+	o := &inspectOptions{inspect: joints.DefaultInspectOptions()}
 	c := &cobra.Command{
 		Use:   "inspect [JOB.yaml]",
 		Short: "Read meshes, parts and joints and summarise them",
@@ -49,6 +49,9 @@ EXIT STATUS
 }
 
 func runInspect(c *cobra.Command, o *inspectOptions, g *globalOptions, args []string) error {
+	if err := o.inspect.Validate(); err != nil {
+		return usageError{err}
+	}
 	job, err := loadJob(args)
 	if err != nil {
 		return err

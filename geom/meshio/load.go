@@ -232,20 +232,4 @@ func partFile(m *geom.Mesh, pi int) string {
 // MissingThickness returns, in increasing order, the ids of parts with at
 // least one element that has no positive thickness of its own or from
 // its part.
-func (md *Model) MissingThickness() []int64 {
-	m := md.Mesh
-	missing := make([]bool, len(m.Parts))
-	for e := range m.NumElems() {
-		if !(m.Thickness(e) > 0) {
-			missing[m.ElemPart[e]] = true
-		}
-	}
-	var ids []int64
-	for i, miss := range missing {
-		if miss {
-			ids = append(ids, m.Parts[i].ID)
-		}
-	}
-	slices.Sort(ids)
-	return ids
-}
+func (md *Model) MissingThickness() []int64 { return md.Mesh.PartsWithoutThickness() }

@@ -225,11 +225,63 @@ func (y YAML) Float(n *yaml.Node, what string) (float64, error) {
 	if !isNumber(n) {
 		return 0, y.Errorf(n, "%s: want a number, got %s", what, describe(n))
 	}
-	var v float64
-	if err := n.Decode(&v); err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+	if l := strings.ToLower(n.Value); strings.Contains(l, "nan") || strings.Contains(l, "inf") {
+		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
+	}
+	if !plainDecimal(n.Value, true) {
+		return 0, y.Errorf(n, "%s: %q: write numbers as plain decimals (like 1.5 or -2e-3)", what, n.Value)
+	}
+	v, err := strconv.ParseFloat(n.Value, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
 	}
 	return v, nil
+}
+
+// plainDecimal reports whether s is a plain decimal number: an optional
+// sign, digits with at most one point (only when real is set), and for
+// reals an optional exponent. YAML's other spellings (1_000, 0x10, 0o17,
+// .inf) are refused, so that a typo such as 1_0 for 1.0 cannot pass as 10.
+func plainDecimal(s string, real bool) bool {
+	i := 0
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	digits, point := 0, false
+	for ; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= '0' && c <= '9':
+			digits++
+		case c == '.' && real && !point:
+			point = true
+		default:
+			goto exponent
+		}
+	}
+exponent:
+	if digits == 0 {
+		return false
+	}
+	if i == len(s) {
+		return true
+	}
+	if !real || (s[i] != 'e' && s[i] != 'E') {
+		return false
+	}
+	i++
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	if i == len(s) {
+		return false
+	}
+	for ; i < len(s); i++ {
+		if s[i] < '0' || s[i] > '9' {
+			return false
+		}
+	}
+	return true
 }
 
 // Int returns the integer in the scalar n.
@@ -238,8 +290,11 @@ func (y YAML) Int(n *yaml.Node, what string) (int64, error) {
 	if n == nil || n.Kind != yaml.ScalarNode || n.ShortTag() != "!!int" {
 		return 0, y.Errorf(n, "%s: want an integer, got %s", what, describe(n))
 	}
-	var v int64
-	if err := n.Decode(&v); err != nil {
+	if !plainDecimal(n.Value, false) {
+		return 0, y.Errorf(n, "%s: %q: write integers as plain decimals (like 1042)", what, n.Value)
+	}
+	v, err := strconv.ParseInt(n.Value, 10, 64)
+	if err != nil {
 		return 0, y.Errorf(n, "%s: %q is not a 64-bit integer", what, n.Value)
 	}
 	return v, nil

@@ -161,3 +161,20 @@ ref: *a
 }
 
 func second[T any](_ T, err error) error { return err }
+
+func TestPlainDecimal(t *testing.T) {
+	for _, c := range []struct {
+		s    string
+		real bool
+		ok   bool
+	}{
+		{"1.5", true, true}, {"-2e-3", true, true}, {"+7", true, true}, {"10", false, true}, {"-3", false, true},
+		{"1_0", true, false}, {"0x10", true, false}, {"0x10", false, false}, {"0o17", false, false},
+		{".inf", true, false}, {"1.5", false, false}, {"1e", true, false}, {"", true, false}, {"-", false, false},
+		{"1.2.3", true, false}, {".5", true, true}, {"5.", true, true},
+	} {
+		if got := plainDecimal(c.s, c.real); got != c.ok {
+			t.Errorf("plainDecimal(%q, %v) = %v, want %v", c.s, c.real, got, c.ok)
+		}
+	}
+}

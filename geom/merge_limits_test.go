@@ -5,11 +5,9 @@ import (
 	"testing"
 )
 
-// Review: --renumber with ids near the int64 maximum. roundOffset overflows
-// (hi + step - 1 wraps) and Merge adds offsets without checking, so the
-// merged model silently gets negative (or wrapped) ids instead of an
-// input error.
-func TestReviewMergeRenumberNearMaxID(t *testing.T) {
+// Renumbering with ids near the int64 maximum must either fail with an
+// input error or give positive ids: never wrap around.
+func TestMergeRenumberNearMaxID(t *testing.T) {
 	big := fileMesh("big.vtk", 2)
 	big.NodeIDs[len(big.NodeIDs)-1] = math.MaxInt64
 	small := fileMesh("small.vtk", 2)
@@ -29,7 +27,7 @@ func TestReviewMergeRenumberNearMaxID(t *testing.T) {
 	}
 }
 
-func TestReviewRoundOffsetNoOverflow(t *testing.T) {
+func TestRoundOffsetNoOverflow(t *testing.T) {
 	for _, hi := range []int64{8_300_000_000_000_000_000, math.MaxInt64} {
 		if got := roundOffset(hi); got < hi {
 			t.Errorf("roundOffset(%d) = %d, below hi", hi, got)
