@@ -2,8 +2,8 @@ package geom
 
 import (
 	"math"
-	"slices"
 	"runtime"
+	"slices"
 	"sync"
 	"sync/atomic"
 

@@ -267,4 +267,3 @@ func pieces(m *Mesh) []int32 {
 	}
 	return parent
 }
-

@@ -83,18 +83,18 @@ type Shift struct {
 
 // PartSummary describes one part.
 type PartSummary struct {
-	ID        int64      `json:"id"`
-	Name      string     `json:"name,omitempty"`
-	Material  string     `json:"material,omitempty"`
-	Surface   string     `json:"surface"`
-	Thickness float64    `json:"thickness"`
-	Elements  int        `json:"elements"`
-	Triangles int        `json:"triangles"`
-	Quads     int        `json:"quads"`
-	Area      float64    `json:"area_mm2"`
+	ID        int64       `json:"id"`
+	Name      string      `json:"name,omitempty"`
+	Material  string      `json:"material,omitempty"`
+	Surface   string      `json:"surface"`
+	Thickness float64     `json:"thickness"`
+	Elements  int         `json:"elements"`
+	Triangles int         `json:"triangles"`
+	Quads     int         `json:"quads"`
+	Area      float64     `json:"area_mm2"`
 	BoxMin    *[3]float64 `json:"box_min"` // null for a part without elements
 	BoxMax    *[3]float64 `json:"box_max"`
-	Deep      *PartDeep  `json:"deep,omitempty"`
+	Deep      *PartDeep   `json:"deep,omitempty"`
 }
 
 // PartDeep is the deeper look at one part.
