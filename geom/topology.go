@@ -72,7 +72,8 @@ func usesNode(m *Mesh, e int, n int32) bool {
 }
 
 // FreeEdges returns the boundary edges of every part: the element edges no
-// other element of the same part shares. Edges where two parts meet are
+// other element of the same part shares (collapsed edges, whose two ends
+// are one node, are left out). Edges where two parts meet are
 // free edges of both parts. The result is in element order.
 func FreeEdges(m *Mesh, adj Adjacency) []Edge {
 	var out []Edge
@@ -81,6 +82,9 @@ func FreeEdges(m *Mesh, adj Adjacency) []Edge {
 		part := m.ElemPart[e]
 		for k := 0; k < nc; k++ {
 			ed := m.ElemEdge(e, k)
+			if ed.A == ed.B {
+				continue // a collapsed edge of a degenerate element bounds nothing
+			}
 			shared := false
 			for _, f := range adj.Of(ed.A) {
 				if int(f) != e && m.ElemPart[f] == part && usesNode(m, int(f), ed.B) {

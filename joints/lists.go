@@ -1,6 +1,8 @@
 package joints
 
 import (
+	"path/filepath"
+
 	"github.com/joinery-cae/joinery/geom"
 )
 
@@ -12,7 +14,12 @@ func ReadJointLists(paths []string) ([]Joint, []InputWarning, error) {
 		warnings []InputWarning
 	)
 	first := map[string]*Joint{}
+	seenPath := map[string]bool{}
 	for _, p := range paths {
+		if seenPath[filepath.Clean(p)] {
+			return nil, nil, geom.FileError(p, "joint list given twice")
+		}
+		seenPath[filepath.Clean(p)] = true
 		js, ws, err := ReadJoints(p)
 		if err != nil {
 			return nil, nil, err
