@@ -35,24 +35,79 @@ type CellSet struct {
 	ElemIDs   []int64   // per cell (all cells, kept or not); nil means index+1
 	Part      []int64   // per cell; nil when the file has no part array
 	Thickness []float64 // per cell; nil when absent
+
+	// Locate, when set, tells where value index of array a is written in
+	// the file: a 1-based line in text data; else line 0 and a byte
+	// offset in binary data; else 0 and -1 when the reader cannot tell,
+	// and the error names the record instead. MeshFromCells calls it only
+	// to report an error.
+	Locate func(a CellArray, index int) (line int, offset int64)
+}
+
+// CellArray names an array of a CellSet as written in the file, for
+// CellSet.Locate.
+type CellArray uint8
+
+// The arrays of a CellSet. The index given with each is the one named.
+const (
+	ArrayPoints    CellArray = iota // point coordinates; index: point
+	ArrayConn                       // connectivity; index: entry of Conn
+	ArrayOffsets                    // the end of a cell in the cell list; index: cell
+	ArrayTypes                      // cell types; index: cell
+	ArrayNodeIDs                    // index: point
+	ArrayElemIDs                    // index: cell
+	ArrayPart                       // index: cell
+	ArrayThickness                  // index: cell
+)
+
+// errAt returns an input error about value index of array a: at its line
+// or byte offset when cs.Locate knows them, else at record.
+func (cs *CellSet) errAt(a CellArray, index, record int, format string, args ...any) error {
+	if cs.Locate != nil {
+		line, off := cs.Locate(a, index)
+		switch {
+		case line > 0:
+			return LineError(cs.File, line, format, args...)
+		case off >= 0:
+			return OffsetError(cs.File, off, format, args...)
+		}
+	}
+	return RecordError(cs.File, record, format, args...)
+}
+
+// where returns "; first at line N" or "; first at byte N" for value index
+// of array a, or "" when cs.Locate cannot tell.
+func (cs *CellSet) where(a CellArray, index int) string {
+	if cs.Locate == nil {
+		return ""
+	}
+	switch line, off := cs.Locate(a, index); {
+	case line > 0:
+		return fmt.Sprintf("; first at line %d", line)
+	case off >= 0:
+		return fmt.Sprintf("; first at byte %d", off)
+	}
+	return ""
 }
 
 // MeshFromCells checks a CellSet and turns it into a Mesh holding its
 // triangles (type 5) and quads (type 9). Other cell types are skipped and
-// counted in the mesh's Source. Errors name the file and the record.
+// counted in the mesh's Source. Errors name the file and the line or byte
+// offset of the bad value when cs.Locate can tell them, else its record.
 func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	nc := len(cs.Types)
 	if len(cs.Offsets) != nc+1 {
 		return nil, FileError(cs.File, "%d cell offsets for %d cells", len(cs.Offsets), nc)
 	}
-	for name, n := range map[string]int{"node_id": len(cs.NodeIDs)} {
-		if n != 0 && n != len(cs.Points) {
-			return nil, FileError(cs.File, "point array %s has %d values for %d points", name, n, len(cs.Points))
-		}
+	if n := len(cs.NodeIDs); n != 0 && n != len(cs.Points) {
+		return nil, FileError(cs.File, "point array node_id has %d values for %d points", n, len(cs.Points))
 	}
-	for name, n := range map[string]int{"element_id": len(cs.ElemIDs), "part": len(cs.Part), "thickness": len(cs.Thickness)} {
-		if n != 0 && n != nc {
-			return nil, FileError(cs.File, "cell array %s has %d values for %d cells", name, n, nc)
+	for _, a := range [...]struct {
+		name string
+		n    int
+	}{{"element_id", len(cs.ElemIDs)}, {"part", len(cs.Part)}, {"thickness", len(cs.Thickness)}} {
+		if a.n != 0 && a.n != nc {
+			return nil, FileError(cs.File, "cell array %s has %d values for %d cells", a.name, a.n, nc)
 		}
 	}
 	if cs.Part == nil && !opt.HasDefaultPart && nc > 0 {
@@ -60,7 +115,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	}
 	for i, p := range cs.Points {
 		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
-			return nil, RecordError(cs.File, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
+			return nil, cs.errAt(ArrayPoints, i, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
 		}
 	}
 	m := &Mesh{Coords: cs.Points}
@@ -68,7 +123,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		m.NodeIDs = cs.NodeIDs
 		for i, id := range m.NodeIDs {
 			if id <= 0 {
-				return nil, RecordError(cs.File, i, "point %d: node id %d is not positive", i, id)
+				return nil, cs.errAt(ArrayNodeIDs, i, i, "point %d: node id %d is not positive", i, id)
 			}
 		}
 	} else {
@@ -99,7 +154,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	for c, t := range cs.Types {
 		lo, hi := cs.Offsets[c], cs.Offsets[c+1]
 		if lo < 0 || hi < lo || hi > int64(len(cs.Conn)) {
-			return nil, RecordError(cs.File, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(cs.Conn))
+			return nil, cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(cs.Conn))
 		}
 		if t != VTKTriangle && t != VTKQuad {
 			continue
@@ -109,11 +164,11 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			want = 4
 		}
 		if hi-lo != want {
-			return nil, RecordError(cs.File, c, "cell %d: type %d needs %d points, has %d", c, t, want, hi-lo)
+			return nil, cs.errAt(ArrayTypes, c, c, "cell %d: type %d needs %d points, has %d", c, t, want, hi-lo)
 		}
-		for _, p := range cs.Conn[lo:hi] {
+		for k, p := range cs.Conn[lo:hi] {
 			if p < 0 || p >= np {
-				return nil, RecordError(cs.File, c, "cell %d references point %d; the file has %d points", c, p, np)
+				return nil, cs.errAt(ArrayConn, int(lo)+k, c, "cell %d references point %d; the file has %d points", c, p, np)
 			}
 			m.Conn = append(m.Conn, int32(p))
 		}
@@ -122,7 +177,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		if cs.ElemIDs != nil {
 			id = cs.ElemIDs[c]
 			if id <= 0 {
-				return nil, RecordError(cs.File, c, "cell %d: element id %d is not positive", c, id)
+				return nil, cs.errAt(ArrayElemIDs, c, c, "cell %d: element id %d is not positive", c, id)
 			}
 		}
 		m.ElemIDs = append(m.ElemIDs, id)
@@ -130,7 +185,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		if cs.Part != nil {
 			pid = cs.Part[c]
 			if pid <= 0 {
-				return nil, RecordError(cs.File, c, "cell %d: part id %d is not positive", c, pid)
+				return nil, cs.errAt(ArrayPart, c, c, "cell %d: part id %d is not positive", c, pid)
 			}
 		}
 		if pid != lastPID || lastPI < 0 {
@@ -146,7 +201,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		if cs.Thickness != nil {
 			th := cs.Thickness[c]
 			if !(th > 0) || math.IsInf(th, 0) {
-				return nil, RecordError(cs.File, c, "cell %d: thickness %g is not a positive number", c, th)
+				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: thickness %g is not a positive number", c, th)
 			}
 			m.ElemThickness = append(m.ElemThickness, th)
 		}
@@ -156,9 +211,39 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	}
 	m.Sources = []Source{{File: cs.File, Skipped: skipped}}
 	if err := m.Index(); err != nil {
-		return nil, FileError(cs.File, "%w", err)
+		return nil, cs.duplicateError(m, err)
 	}
 	return m, nil
+}
+
+// duplicateError turns the error of m.Index, for a mesh read from cs, into
+// one that names the two points or cells that share an id, located at the
+// second. It repeats the id check, which is only done once reading failed.
+func (cs *CellSet) duplicateError(m *Mesh, err error) error {
+	if _, dup, ok := NewIDIndex(m.NodeIDs); !ok {
+		return cs.errAt(ArrayNodeIDs, dup.Second, dup.Second, "node id %d appears twice (points %d and %d%s)",
+			dup.ID, dup.First, dup.Second, cs.where(ArrayNodeIDs, dup.First))
+	}
+	if _, dup, ok := NewIDIndex(m.ElemIDs); !ok {
+		first, second := cs.cellOfElem(dup.First), cs.cellOfElem(dup.Second)
+		return cs.errAt(ArrayElemIDs, second, second, "element id %d appears twice (cells %d and %d%s)",
+			dup.ID, first, second, cs.where(ArrayElemIDs, first))
+	}
+	return FileError(cs.File, "%w", err)
+}
+
+// cellOfElem returns the cell that became element e: the e-th triangle or
+// quad.
+func (cs *CellSet) cellOfElem(e int) int {
+	for c, t := range cs.Types {
+		if t == VTKTriangle || t == VTKQuad {
+			if e == 0 {
+				return c
+			}
+			e--
+		}
+	}
+	return -1
 }
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

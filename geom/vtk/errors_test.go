@@ -76,8 +76,8 @@ func TestErrorsASCII(t *testing.T) {
 		{"second part", repl(small, "SCALARS element_id", "SCALARS part"), "bad.vtk:39: a second array part"},
 		{"unknown keyword", repl(small, "CELL_DATA 6", "CELL_STUFF 6"), "bad.vtk:32: unknown keyword \"CELL_STUFF\""},
 		{"scalars too early", repl(small, "CELL_DATA 6\n", ""), "bad.vtk:32: SCALARS before POINT_DATA or CELL_DATA"},
-		{"zero thickness", repl(small, "1 1 1 1 1.5 1.5", "1 1 0 1 1.5 1.5"), "bad.vtk: record 2: cell 2: thickness 0 is not a positive number"},
-		{"duplicate node id", repl(small, "101 102 103", "101 101 103"), "bad.vtk: node id 101 appears twice"},
+		{"zero thickness", repl(small, "1 1 1 1 1.5 1.5", "1 1 0 1 1.5 1.5"), "bad.vtk:38: cell 2: thickness 0 is not a positive number"},
+		{"duplicate node id", repl(small, "101 102 103", "101 101 103"), "bad.vtk:45: node id 101 appears twice (points 0 and 1; first at line 45)"},
 		{"offsets not rising", repl(small51, "0 4 8 12", "0 4 3 12"), "bad.vtk:20: OFFSETS: offset 2 is 3; offsets must rise from 0 to 20"},
 		{"offsets last", repl(small51, "16 19 20", "16 19 19"), "bad.vtk:20: OFFSETS: the last offset is 19, the connectivity size 20"},
 		{"no connectivity", repl(small51, "CONNECTIVITY vtktypeint64", "CONNECTIONS vtktypeint64"), "bad.vtk:21: want connectivity, found \"CONNECTIONS\""},
@@ -91,6 +91,95 @@ func TestErrorsASCII(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			checkErr(t, []byte(tc.in), tc.want)
 		})
+	}
+}
+
+// TestErrorsASCIIValues checks that values found wrong after parsing
+// (by geom.MeshFromCells) are reported at the line where they are written.
+func TestErrorsASCIIValues(t *testing.T) {
+	small := readFixture(t, "small_ascii.vtk")
+	small51 := readFixture(t, "small_51_ascii.vtk")
+	repl := func(src string, oldNew ...string) string {
+		for i := 0; i < len(oldNew); i += 2 {
+			if !strings.Contains(src, oldNew[i]) {
+				t.Fatalf("fixture lacks %q", oldNew[i])
+			}
+			src = strings.Replace(src, oldNew[i], oldNew[i+1], 1)
+		}
+		return src
+	}
+	// cellsFirst moves the POINTS section after the cells, so that
+	// connectivity is checked only once the mesh is built.
+	lines := strings.SplitAfter(small, "\n")
+	cellsFirst := strings.Join(lines[:4], "") + strings.Join(lines[17:31], "") + strings.Join(lines[4:17], "") + strings.Join(lines[31:], "")
+	// A minimal quad, as in the review that asked for these lines.
+	head := "# vtk DataFile Version 3.0\nt\nASCII\nDATASET UNSTRUCTURED_GRID\n" +
+		"POINTS 4 float\n0 0 0\n1 0 0\n1 1 0\n0 1 0\nCELLS 1 5\n4 0 1 2 3\nCELL_TYPES 1\n9\nCELL_DATA 1\n"
+	tests := []struct {
+		name, in, want string
+	}{
+		{"quad thickness", head + "SCALARS part int 1\n1\nSCALARS thickness float 1\n-0.5\n", "bad.vtk:18: cell 0: thickness -0.5 is not a positive number"},
+		{"quad part", head + "SCALARS part int 1\n-3\n", "bad.vtk:16: cell 0: part id -3 is not positive"},
+		{"quad dup node_id", head + "SCALARS part int 1\n1\nPOINT_DATA 4\nSCALARS node_id int 1\n7\n8\n9\n7\n", "bad.vtk:22: node id 7 appears twice (points 0 and 3; first at line 19)"},
+		{"part not positive", repl(small, "10 10 10 10 20 20", "10 10 10 10 -3 20"), "bad.vtk:35: cell 4: part id -3 is not positive"},
+		{"nan thickness", repl(small, "1 1 1 1 1.5 1.5", "1 1 1\n1\nnan 1.5"), "bad.vtk:40: cell 4: thickness NaN is not a positive number"},
+		{"negative thickness", repl(small, "1 1 1 1 1.5 1.5", "1 1 1\n1 -1.5 1.5"), "bad.vtk:39: cell 4: thickness -1.5 is not a positive number"},
+		{"element id zero", repl(small, "1001 1002", "1001 0"), "bad.vtk:41: cell 1: element id 0 is not positive"},
+		{"node id negative", repl(small, "105 106 107 108", "105 106\n107 -108"), "bad.vtk:46: point 7: node id -108 is not positive"},
+		{"missing point, cells first", repl(cellsFirst, "3 9 10 11", "3 9 10 12"), "bad.vtk:10: cell 4 references point 12; the file has 12 points"},
+		{"duplicate node id, two lines", repl(small, "106 107", "106\n107", "111 112", "111 104"), "bad.vtk:46: node id 104 appears twice (points 3 and 11; first at line 45)"},
+		{"duplicate element id", repl(small, "1003 1004 2001", "1003\n1004 1002"), "bad.vtk:42: element id 1002 appears twice (cells 1 and 4; first at line 41)"},
+		// Cell 0 is a polygon, skipped, so elements and cells differ by one.
+		{"duplicate element id after skipped cell", repl(small, "CELL_TYPES 6\n9\n", "CELL_TYPES 6\n7\n", "2001", "1003"), "bad.vtk:41: element id 1003 appears twice (cells 2 and 4; first at line 41)"},
+		{"type needs points", repl(small, "9\n9\n9\n9\n5", "9\n5\n9\n9\n5"), "bad.vtk:27: cell 1: type 5 needs 3 points, has 4"},
+		{"5.1 type needs points", repl(small51, "9\n9\n9\n9\n5", "9\n9\n5\n9\n5"), "bad.vtk:27: cell 2: type 5 needs 3 points, has 4"},
+		{"5.1 thickness", repl(small51, "1 1 1 1 1.5 1.5", "1 1 1 1\n0 1.5"), "bad.vtk:39: cell 4: thickness 0 is not a positive number"},
+		{"5.1 duplicate node id", repl(small51, "110 111 112", "110\n111 110"), "bad.vtk:45: node id 110 appears twice (points 9 and 11; first at line 44)"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			checkErr(t, []byte(tc.in), tc.want)
+		})
+	}
+}
+
+// TestLocate checks the line parser.locate gives for the values of each
+// array, in both CELLS layouts.
+func TestLocate(t *testing.T) {
+	for _, tc := range []struct {
+		file  string
+		a     geom.CellArray
+		index int
+		line  int
+	}{
+		{"small_ascii.vtk", geom.ArrayPoints, 0, 6},
+		{"small_ascii.vtk", geom.ArrayPoints, 11, 17},
+		{"small_ascii.vtk", geom.ArrayConn, 0, 19},
+		{"small_ascii.vtk", geom.ArrayConn, 3, 19},
+		{"small_ascii.vtk", geom.ArrayConn, 4, 20},
+		{"small_ascii.vtk", geom.ArrayConn, 18, 23},
+		{"small_ascii.vtk", geom.ArrayConn, 19, 24},
+		{"small_ascii.vtk", geom.ArrayOffsets, 0, 19},
+		{"small_ascii.vtk", geom.ArrayOffsets, 5, 24},
+		{"small_ascii.vtk", geom.ArrayTypes, 5, 31},
+		{"small_ascii.vtk", geom.ArrayPart, 5, 35},
+		{"small_ascii.vtk", geom.ArrayThickness, 0, 38},
+		{"small_ascii.vtk", geom.ArrayElemIDs, 0, 41},
+		{"small_ascii.vtk", geom.ArrayNodeIDs, 11, 45},
+		{"small_51_ascii.vtk", geom.ArrayOffsets, 0, 20},
+		{"small_51_ascii.vtk", geom.ArrayOffsets, 5, 20},
+		{"small_51_ascii.vtk", geom.ArrayConn, 9, 22},
+		{"small_51_ascii.vtk", geom.ArrayConn, 10, 23},
+		{"small_51_ascii.vtk", geom.ArrayTypes, 0, 25},
+		{"small_51_ascii.vtk", geom.ArrayElemIDs, 5, 40},
+	} {
+		p := parser{name: tc.file, data: []byte(readFixture(t, tc.file)), npoints: -1, ncells: -1}
+		if err := p.parse(); err != nil {
+			t.Fatal(err)
+		}
+		if line, off := p.locate(tc.a, tc.index); line != tc.line || off != -1 {
+			t.Errorf("%s: array %d value %d: line %d, offset %d; want line %d", tc.file, tc.a, tc.index, line, off, tc.line)
+		}
 	}
 }
 
@@ -113,6 +202,8 @@ func TestErrorsBinary(t *testing.T) {
 	pts := after("POINTS 12 float\n")
 	cells := after("CELLS 6 26\n")
 	types := after("CELL_TYPES 6\n")
+	thick := after("SCALARS thickness float 1\nLOOKUP_TABLE default\n")
+	elem := after("SCALARS element_id int 1\nLOOKUP_TABLE default\n")
 	tests := []struct {
 		name string
 		in   []byte
@@ -145,6 +236,14 @@ func TestErrorsBinary(t *testing.T) {
 		{"cell types count", replace("CELL_TYPES 6", "CELL_TYPES 7"), fmt.Sprintf("bad.vtk: byte %d: CELL_TYPES: 7 cells, but 6 before", at("CELL_TYPES"))},
 		{"node id array short", good[:len(good)-10], fmt.Sprintf("bad.vtk: byte %d: array node_id: 12 values of type int need 48 bytes, only 39 left", at("SCALARS node_id"))},
 		{"bad keyword", replace("CELL_DATA 6", "CELL_DATUM 6"), fmt.Sprintf("bad.vtk: byte %d: unknown keyword \"CELL_DATUM\"", at("CELL_DATA"))},
+		{"zero thickness", edit(func(b []byte) []byte {
+			binary.BigEndian.PutUint32(b[thick+4*3:], 0)
+			return b
+		}), fmt.Sprintf("bad.vtk: byte %d: cell 3: thickness 0 is not a positive number", thick+4*3)},
+		{"duplicate element id", edit(func(b []byte) []byte {
+			binary.BigEndian.PutUint32(b[elem+4*3:], 1001)
+			return b
+		}), fmt.Sprintf("bad.vtk: byte %d: element id 1001 appears twice (cells 0 and 3; first at byte %d)", elem+4*3, elem)},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -8,6 +8,7 @@ import (
 	"io/fs"
 	"math"
 	"os"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -58,6 +59,7 @@ func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 func Parse(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
 	p := parser{name: name, data: data, npoints: -1, ncells: -1}
 	p.cs.File = name
+	p.cs.Locate = p.locate
 	if err := p.parse(); err != nil {
 		return nil, fmt.Errorf("vtk: %w", err)
 	}
@@ -89,6 +91,70 @@ type parser struct {
 	cells   bool     // CELLS seen
 	types   bool     // CELL_TYPES seen
 	cs      geom.CellSet
+	// spans tells where the values of each array of cs start, for
+	// locate; classic is set when CELLS has the classic layout, in which
+	// span ArrayConn covers both the counts and the point indices.
+	spans   [geom.ArrayThickness + 1]span
+	classic bool
+}
+
+// span is where the values of an array start in the data, and their type.
+type span struct {
+	start int
+	t     dtype
+	set   bool
+}
+
+// locate tells where value index of array a of p.cs is written: its line
+// in ASCII files, its byte offset in binary ones (geom.CellSet.Locate). It
+// walks the values before it, so it is only for error messages.
+func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
+	if int(a) >= len(p.spans) || index < 0 {
+		return 0, -1
+	}
+	k := index
+	switch a {
+	case geom.ArrayPoints:
+		k = 3 * index
+	case geom.ArrayConn, geom.ArrayOffsets:
+		if !p.classic {
+			if a == geom.ArrayOffsets {
+				k = index + 1 // OFFSETS starts with the 0 before cell 0
+			}
+			break
+		}
+		// Classic CELLS: per cell its point count, then its points.
+		offs := p.cs.Offsets
+		if len(offs) < 2 {
+			return 0, -1
+		}
+		if a == geom.ArrayOffsets {
+			if index >= len(offs) {
+				return 0, -1
+			}
+			k = int(offs[index]) + index
+			a = geom.ArrayConn
+			break
+		}
+		// The cell holding entry index: the first c with offs[c+1] > index.
+		c := sort.Search(len(offs)-1, func(c int) bool { return offs[c+1] > int64(index) })
+		k = index + c + 1
+	}
+	sp := p.spans[a]
+	if !sp.set {
+		return 0, -1
+	}
+	off := p.valueOffset(sp.start, k, sp.t)
+	if p.binary {
+		return 0, int64(off)
+	}
+	return p.lineAt(off), -1
+}
+
+// lineAt returns the 1-based line of byte offset off.
+func (p *parser) lineAt(off int) int {
+	off = min(max(off, 0), len(p.data))
+	return 1 + bytes.Count(p.data[:off], []byte{'\n'})
 }
 
 // errAt returns an input error at byte offset off: a line number in ASCII
@@ -97,8 +163,7 @@ func (p *parser) errAt(off int, format string, args ...any) error {
 	if p.binary {
 		return geom.OffsetError(p.name, int64(off), format, args...)
 	}
-	off = min(max(off, 0), len(p.data))
-	return geom.LineError(p.name, 1+bytes.Count(p.data[:off], []byte{'\n'}), format, args...)
+	return geom.LineError(p.name, p.lineAt(off), format, args...)
 }
 
 // rawLine returns the next line (without its end-of-line bytes) and its
@@ -404,6 +469,7 @@ func (p *parser) points(off int) error {
 	}
 	pts := make([]r3.Vec, n)
 	start := p.pos
+	p.spans[geom.ArrayPoints] = span{start, t, true}
 	if p.binary {
 		if bad := decodePoints(pts, p.data[start:], t); bad >= 0 {
 			return p.errAt(start+t.binBytes(3*bad), "POINTS: point %d has a non-finite coordinate %v", bad, pts[bad])
@@ -464,6 +530,8 @@ func (p *parser) readCells(off int) error {
 	}
 	p.cs.Offsets = make([]int64, n+1)
 	p.cs.Conn = make([]int64, size-n)
+	p.spans[geom.ArrayConn] = span{p.pos, dtypes[6], true}
+	p.classic = true
 	if p.binary {
 		return p.cellsBinary(n, size)
 	}
@@ -592,6 +660,7 @@ func (p *parser) cells5(off int) error {
 		return err
 	}
 	start := p.pos
+	p.spans[geom.ArrayOffsets] = span{start, t, true}
 	offs, err := p.readInts(offOff, nOff, t, "OFFSETS")
 	if err != nil {
 		return err
@@ -622,6 +691,7 @@ func (p *parser) cells5(off int) error {
 		return err
 	}
 	start = p.pos
+	p.spans[geom.ArrayConn] = span{start, t, true}
 	conn, err := p.readInts(connOff, nConn, t, "CONNECTIVITY")
 	if err != nil {
 		return err
@@ -657,6 +727,7 @@ func (p *parser) cellTypes(off int) error {
 	}
 	types := make([]uint8, n)
 	b, i := p.data, p.pos
+	p.spans[geom.ArrayTypes] = span{i, t, true}
 	for c := range types {
 		var (
 			v  int64
@@ -706,16 +777,17 @@ func (p *parser) array(off int, name []byte, ncomp, ntuples int, t dtype, where 
 	var (
 		ints  *[]int64
 		reals *[]float64
+		arr   geom.CellArray
 	)
 	switch {
 	case where == attrPoint && string(name) == "node_id":
-		ints = &p.cs.NodeIDs
+		ints, arr = &p.cs.NodeIDs, geom.ArrayNodeIDs
 	case where == attrCell && string(name) == "part":
-		ints = &p.cs.Part
+		ints, arr = &p.cs.Part, geom.ArrayPart
 	case where == attrCell && string(name) == "element_id":
-		ints = &p.cs.ElemIDs
+		ints, arr = &p.cs.ElemIDs, geom.ArrayElemIDs
 	case where == attrCell && string(name) == "thickness":
-		reals = &p.cs.Thickness
+		reals, arr = &p.cs.Thickness, geom.ArrayThickness
 	default:
 		what := fmt.Sprintf("array %q", truncate(name))
 		return p.skipValues(off, int64(ncomp)*int64(ntuples), t, what)
@@ -729,6 +801,7 @@ func (p *parser) array(off int, name []byte, ncomp, ntuples int, t dtype, where 
 	case ints != nil && *ints != nil || reals != nil && *reals != nil:
 		return p.errAt(off, "a second %s", what)
 	}
+	p.spans[arr] = span{p.pos, t, true}
 	var err error
 	if ints != nil {
 		*ints, err = p.readInts(off, ntuples, t, what)

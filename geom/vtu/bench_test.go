@@ -77,3 +77,7 @@ func BenchmarkReadBase64Zlib2M(b *testing.B) {
 func BenchmarkReadASCII200k(b *testing.B) {
 	benchRead(b, 500, 400, wOpts{format: "ascii"})
 }
+
+func BenchmarkReadASCII2M(b *testing.B) {
+	benchRead(b, 2000, 1000, wOpts{format: "ascii"})
+}

@@ -34,6 +34,11 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 		datas[i] = d
 	}
 	cs := &geom.CellSet{File: p.file}
+	p.sizes = make([]pieceSize, len(datas))
+	for i, d := range datas {
+		p.sizes[i] = pieceSize{points: len(d.points), cells: len(d.types), conn: len(d.conn)}
+	}
+	cs.Locate = p.locate
 	if len(datas) == 1 {
 		d := datas[0]
 		cs.Points, cs.Conn, cs.Offsets, cs.Types = d.points, d.conn, d.offsets, d.types
@@ -101,6 +106,76 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 	return cs, nil
 }
 
+// pieceSize is how many points, cells and connectivity entries a piece
+// adds to the CellSet.
+type pieceSize struct{ points, cells, conn int }
+
+// locate tells the line where value index of array a of the CellSet is
+// written, when its piece holds that array in ascii format
+// (geom.CellSet.Locate); binary and appended arrays give 0 and -1, so
+// that errors name the record. It is only for error messages.
+func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
+	if index < 0 {
+		return 0, -1
+	}
+	for i, sz := range p.sizes {
+		n := sz.cells
+		switch a {
+		case geom.ArrayPoints, geom.ArrayNodeIDs:
+			n = sz.points
+		case geom.ArrayConn:
+			n = sz.conn
+		}
+		if index >= n {
+			index -= n
+			continue
+		}
+		pc := p.pieces[i]
+		var desc *arrayDesc
+		switch a {
+		case geom.ArrayPoints:
+			desc, index = pc.points, 3*index
+		case geom.ArrayConn:
+			desc = pc.conn
+		case geom.ArrayOffsets:
+			desc = pc.offs // its value c is the end of cell c
+		case geom.ArrayTypes:
+			desc = pc.types
+		case geom.ArrayNodeIDs:
+			desc = pc.nodeID
+		case geom.ArrayElemIDs:
+			desc = pc.elemID
+		case geom.ArrayPart:
+			desc = pc.part
+		case geom.ArrayThickness:
+			desc = pc.thick
+		}
+		if desc == nil || desc.format != formatASCII {
+			return 0, -1
+		}
+		return p.valueLine(desc, index), -1
+	}
+	return 0, -1
+}
+
+// valueLine returns the line of value k of array a: the line of the value
+// in an ascii array, of the DataArray element otherwise. It walks the
+// values before it, so it is only for error messages.
+func (p *parser) valueLine(a *arrayDesc, k int) int {
+	if a.format != formatASCII {
+		return a.line
+	}
+	s := asciiScanner{text: a.text}
+	for ; k >= 0 && s.next() != nil; k-- {
+	}
+	return textLine(a, s.tok)
+}
+
+// textLine returns the line of byte i of the text of an ascii array.
+func textLine(a *arrayDesc, i int) int {
+	return a.textLine + bytes.Count(a.text[:min(i, len(a.text))], []byte{'\n'})
+}
+
 func hasWord(has bool) string {
 	if has {
 		return "has"
@@ -135,7 +210,7 @@ func (p *parser) decodePiece(pc *piece, idx int) (*pieceData, error) {
 		}
 		for i, v := range d.points {
 			if !finite(v.X) || !finite(v.Y) || !finite(v.Z) {
-				return nil, p.errLine(a.line, "%spoint %d has a non-finite coordinate (%g, %g, %g)", where, i, v.X, v.Y, v.Z)
+				return nil, p.errLine(p.valueLine(a, 3*i), "%spoint %d has a non-finite coordinate (%g, %g, %g)", where, i, v.X, v.Y, v.Z)
 			}
 		}
 	}
@@ -158,7 +233,7 @@ func (p *parser) decodePiece(pc *piece, idx int) (*pieceData, error) {
 		prev := int64(0)
 		for c, o := range d.offsets[1:] {
 			if o < prev {
-				return nil, p.errLine(pc.offs.line, "%soffsets: cell %d ends at %d, before its start %d", where, c, o, prev)
+				return nil, p.errLine(p.valueLine(pc.offs, c), "%soffsets: cell %d ends at %d, before its start %d", where, c, o, prev)
 			}
 			prev = o
 		}
@@ -171,7 +246,7 @@ func (p *parser) decodePiece(pc *piece, idx int) (*pieceData, error) {
 		}
 		for i, v := range d.conn {
 			if v < 0 || v >= np {
-				return nil, p.errLine(pc.conn.line, "%sconnectivity value %d (cell %d) refers to point %d; the piece has %d points", where, i, cellOf(d.offsets, i), v, np)
+				return nil, p.errLine(p.valueLine(pc.conn, i), "%sconnectivity value %d (cell %d) refers to point %d; the piece has %d points", where, i, cellOf(d.offsets, i), v, np)
 			}
 		}
 		if d.types, err = p.typeValues(pc.types, nc, where); err != nil {
@@ -255,13 +330,7 @@ func (p *parser) checkASCII(a *arrayDesc, want int64, why, where string) error {
 
 // asciiError locates a bad token of an ascii array by its line.
 func (p *parser) asciiError(a *arrayDesc, s *asciiScanner, i int, err error, where string) error {
-	line := a.textLine
-	for _, c := range a.text[:s.tok] {
-		if c == '\n' {
-			line++
-		}
-	}
-	return p.errLine(line, "%sarray %q: value %d: %v", where, a.name, i, err)
+	return p.errLine(textLine(a, s.tok), "%sarray %q: value %d: %v", where, a.name, i, err)
 }
 
 // valueErr turns an error from binary decoding into a located input error.
@@ -307,7 +376,7 @@ func (p *parser) typeValues(a *arrayDesc, nc int64, where string) ([]uint8, erro
 	types := make([]uint8, nc)
 	for i, v := range tv {
 		if v < 0 || v > 255 {
-			return nil, p.errLine(a.line, "%stypes: cell %d has type %d, not a VTK cell type", where, i, v)
+			return nil, p.errLine(p.valueLine(a, i), "%stypes: cell %d has type %d, not a VTK cell type", where, i, v)
 		}
 		types[i] = uint8(v)
 	}

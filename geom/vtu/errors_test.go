@@ -92,8 +92,8 @@ func TestASCIIErrors(t *testing.T) {
 		{"missing point", "0 1 2 0 2 3", "0 1 2 0 2 4", `bad.vtu:21: connectivity value 5 (cell 1) refers to point 4; the piece has 4 points`},
 		{"negative point", "0 1 2 0 2 3", "0 1 -2 0 2 3", `bad.vtu:21: connectivity value 2 (cell 0) refers to point -2`},
 		{"offsets decrease", `ascii">3 6<`, `ascii">6 3<`, `bad.vtu:22: offsets: cell 1 ends at 3, before its start 6`},
-		{"NaN", "1 1 0 0 1 0", "1 1 0 0 nan 0", `bad.vtu:15: point 3 has a non-finite coordinate (0, NaN, 0)`},
-		{"Inf", "0 0 0 1 0 0", "0 0 0 1 0 -inf", `bad.vtu:15: point 1 has a non-finite coordinate (1, 0, -Inf)`},
+		{"NaN", "1 1 0 0 1 0", "1 1 0 0 nan 0", `bad.vtu:17: point 3 has a non-finite coordinate (0, NaN, 0)`},
+		{"Inf", "0 0 0 1 0 0", "0 0 0 1 0 -inf", `bad.vtu:16: point 1 has a non-finite coordinate (1, 0, -Inf)`},
 		{"float32 overflow", "0 0 0 1 0 0", "0 0 0 1 0 1e39", `bad.vtu:16: array "Points": value 5: "1e39" is out of range for Float32`},
 		{"no points", errTemplate[strings.Index(errTemplate, "      <Points>"):strings.Index(errTemplate, "      <Cells>")], "", `bad.vtu:4: Piece has 4 points but no Points array`},
 		{"no types", `Name="types"`, `Name="kinds"`, `bad.vtu:4: Piece has 2 cells but no "types" array in Cells`},
@@ -106,8 +106,21 @@ func TestASCIIErrors(t *testing.T) {
 		{"two parts", `<DataArray type="Float32" Name="thickness"`, `<DataArray type="Int32" Name="part"`, `bad.vtu:12: second CellData array "part" in one piece (first at line 11)`},
 		{"appended without data", `Name="part" format="ascii">5 5<`, `Name="part" format="appended" offset="0"><`, `bad.vtu:11: array "part" is appended but the file has no AppendedData`},
 		{"appended without offset", `Name="part" format="ascii">5 5<`, `Name="part" format="appended"><`, `bad.vtu:11: appended DataArray "part" has no offset attribute`},
-		{"part not positive", `ascii">5 5<`, `ascii">5 0<`, `bad.vtu: record 1: cell 1: part id 0 is not positive`},
-		{"duplicate node id", "1 2 3 4", "1 2 3 3", `bad.vtu: node id 3 appears twice`},
+		// Values found wrong once the mesh is built: at the line of the value.
+		{"part not positive", `ascii">5 5<`, `ascii">5 0<`, `bad.vtu:11: cell 1: part id 0 is not positive`},
+		{"duplicate node id", "1 2 3 4", "1 2 3 3", `bad.vtu:7: node id 3 appears twice (points 2 and 3; first at line 7)`},
+		{"duplicate node id, two lines", "1 2 3 4", "1 2\n3 2", `bad.vtu:8: node id 2 appears twice (points 1 and 3; first at line 7)`},
+		{"node id not positive", "1 2 3 4", "1 2\n3 0", `bad.vtu:8: point 3: node id 0 is not positive`},
+		{"thickness negative", `ascii">1 1<`, "ascii\">1\n-1<", `bad.vtu:13: cell 1: thickness -1 is not a positive number`},
+		{"thickness NaN", `ascii">1 1<`, `ascii">NaN 1<`, `bad.vtu:12: cell 0: thickness NaN is not a positive number`},
+		{"element id not positive", thickArray, thickArray + elemArray("7\n-7"), `bad.vtu:15: cell 1: element id -7 is not positive`},
+		{"duplicate element id", thickArray, thickArray + elemArray("7\n7"), `bad.vtu:15: element id 7 appears twice (cells 0 and 1; first at line 14)`},
+		{"missing point, second line", "0 1 2 0 2 3", "0 1 2\n0 2 9", `bad.vtu:22: connectivity value 5 (cell 1) refers to point 9; the piece has 4 points`},
+		{"type needs points", `ascii">5 5</DataArray>
+      </Cells>`, `ascii">5 9</DataArray>
+      </Cells>`, `bad.vtu:23: cell 1: type 9 needs 4 points, has 3`},
+		{"types out of range", `ascii">5 5</DataArray>
+      </Cells>`, "ascii\">5\n-1</DataArray>\n      </Cells>", `bad.vtu:24: array "types": value 1: -1 is out of range for UInt8`},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			in := strings.Replace(errTemplate, c.old, c.new, 1)
@@ -118,6 +131,14 @@ func TestASCIIErrors(t *testing.T) {
 			checkErr(t, err, c.want)
 		})
 	}
+}
+
+// thickArray is the thickness array of errTemplate; elemArray returns an
+// element_id array over three lines holding text.
+const thickArray = `<DataArray type="Float32" Name="thickness" format="ascii">1 1</DataArray>`
+
+func elemArray(text string) string {
+	return "\n        <DataArray type=\"Int64\" Name=\"element_id\" format=\"ascii\">\n" + text + "\n</DataArray>"
 }
 
 func checkErr(t *testing.T, err error, want string) {
@@ -200,6 +221,13 @@ func TestBinaryErrors(t *testing.T) {
 	add("no underscore", d, `bad.vtu:24: AppendedData does not start with '_'`)
 	d = []byte(strings.Replace(string(raw), `<AppendedData encoding="raw">`, `<AppendedData encoding="hex">`, 1))
 	add("appended encoding", d, `bad.vtu:24: AppendedData encoding "hex"`)
+	// Values found wrong once the mesh is built: binary data names the record.
+	d = bytes.Clone(raw)
+	le.PutUint32(d[at("part")+4+4*2:], 0)
+	add("raw part not positive", d, `bad.vtu: record 2: cell 2: part id 0 is not positive`)
+	d = bytes.Clone(raw)
+	le.PutUint64(d[at("node_id")+4+8*5:], 101)
+	add("raw duplicate node id", d, `bad.vtu: record 5: node id 101 appears twice (points 0 and 5)`)
 
 	// UInt64 values that do not fit int64, and floats that are not whole.
 	u64, at64 := appendedFile(t, wTypes{points: typeFloat64, conn: typeInt64, offsets: typeInt64, types: typeUInt8, nodeID: typeUInt64, elemID: typeFloat32, part: typeInt32, thick: typeFloat64}, wOpts{format: "appended"})
@@ -317,5 +345,29 @@ func TestPieceErrors(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, err = Read(&b, "bad.vtu", geom.ReadOptions{})
-	checkErr(t, err, `bad.vtu:67: piece 1: connectivity value 0 (cell 0) refers to point 13; the piece has 12 points`)
+	checkErr(t, err, `bad.vtu:68: piece 1: connectivity value 0 (cell 0) refers to point 13; the piece has 12 points`)
+
+	// Values found wrong once the pieces are joined: cells and points are
+	// counted over the file, lines are those of the piece holding them.
+	bad := smallPiece(smallTypes)
+	bad.cellData = append([]wArray{}, bad.cellData...)
+	for i, a := range bad.cellData {
+		if a.name == "part" {
+			a.ints = append([]int64{}, a.ints...)
+			a.ints[3] = -1
+			bad.cellData[i] = a
+		}
+	}
+	b.Reset()
+	if err := writeVTU(&b, []wPiece{smallPiece(smallTypes), bad}, wOpts{format: "ascii"}); err != nil {
+		t.Fatal(err)
+	}
+	_, err = Read(&b, "bad.vtu", geom.ReadOptions{})
+	checkErr(t, err, `bad.vtu:52: cell 9: part id -1 is not positive`)
+	b.Reset()
+	if err := writeVTU(&b, []wPiece{smallPiece(smallTypes), smallPiece(smallTypes)}, wOpts{format: "ascii"}); err != nil {
+		t.Fatal(err)
+	}
+	_, err = Read(&b, "bad.vtu", geom.ReadOptions{})
+	checkErr(t, err, `bad.vtu:47: node id 101 appears twice (points 0 and 12; first at line 10)`)
 }

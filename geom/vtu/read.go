@@ -131,6 +131,7 @@ type parser struct {
 	fileLine   int
 
 	pieces []*piece
+	sizes  []pieceSize // per piece, once decoded, for locate
 
 	hasAppended   bool
 	appendedLine  int
