@@ -154,6 +154,40 @@ func TestWriteVTKRoundTrip(t *testing.T) {
 	}
 }
 
+// TestWriteVTKLookupTable checks that every SCALARS line is followed by
+// "LOOKUP_TABLE default": the format documentation makes the line part of
+// SCALARS (VTK file-format documentation, Kitware) and VTK 9's own legacy
+// reader rejects a file without it ("Lookup table must be specified with
+// scalar").
+func TestWriteVTKLookupTable(t *testing.T) {
+	for _, m := range []*geom.Mesh{tinyMesh(t), sparseMesh(t, 300)} {
+		for _, binary := range []bool{false, true} {
+			var b bytes.Buffer
+			if err := writers.WriteVTK(&b, m, binary); err != nil {
+				t.Fatal(err)
+			}
+			data := b.Bytes()
+			n := 0
+			for i := bytes.Index(data, []byte("\nSCALARS ")); i >= 0; {
+				rest := data[i+1:]
+				end := bytes.IndexByte(rest, '\n')
+				if end < 0 || !bytes.HasPrefix(rest[end+1:], []byte("LOOKUP_TABLE default\n")) {
+					t.Errorf("binary=%v: %q is not followed by LOOKUP_TABLE default", binary, rest[:max(end, 0)])
+				}
+				n++
+				j := bytes.Index(rest, []byte("\nSCALARS "))
+				if j < 0 {
+					break
+				}
+				i += 1 + j
+			}
+			if n < 3 {
+				t.Errorf("binary=%v: %d SCALARS arrays, want at least 3 (part, element_id, node_id)", binary, n)
+			}
+		}
+	}
+}
+
 // sameMesh compares what a VTK file carries: nodes, elements, part ids
 // per element and thickness per element.
 func sameMesh(got, want *geom.Mesh) string {

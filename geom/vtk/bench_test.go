@@ -133,7 +133,7 @@ func BenchmarkScanFloats(b *testing.B) {
 	dst := make([]float64, 2000)
 	b.SetBytes(int64(len(data)))
 	for b.Loop() {
-		if _, _, ok := scanFloats(data, 0, dst); !ok {
+		if _, _, ok := scanFloats(data, 0, dst, false); !ok {
 			b.Fatal("scan failed")
 		}
 	}

@@ -14,7 +14,10 @@
 // "node_id" (integer). Each may be written as SCALARS (with or without a
 // LOOKUP_TABLE line) or as an array of a FIELD; any numeric VTK data type
 // is accepted and converted, integer arrays stored as reals must hold
-// whole numbers. Every other array, attribute or section (VECTORS,
+// whole numbers. Values of type float are single precision in ASCII
+// files too: each is rounded to the nearest float32, as VTK's own reader
+// stores them, so an ASCII file and its BINARY twin give the same mesh;
+// double values are read exactly. Every other array, attribute or section (VECTORS,
 // NORMALS, METADATA blocks, dataset-level FIELD data, ...) is skipped.
 // Arrays of type string or variant are not supported. The VTK types long
 // and unsigned_long are taken as 8 bytes wide in binary files, as written

@@ -57,6 +57,8 @@ func TestErrorsASCII(t *testing.T) {
 		{"non-numeric coordinate", repl(small, "10.5 0 0", "10.5 x 0"), "bad.vtk:7: POINTS: value 5 of 36: \"x\" is not a valid number"},
 		{"nan coordinate", repl(small, "21.25 0 0", "21.25 nan 0"), "bad.vtk:8: POINTS: point 2 has a non-finite coordinate NaN"},
 		{"inf coordinate", repl(small, "0 0 2.5", "0 0 1e999"), "bad.vtk:15: POINTS: point 9 has a non-finite coordinate +Inf"},
+		// 1e39 is beyond the largest float32, about 3.4e38 (IEEE 754).
+		{"float coordinate range", repl(repl(small, "POINTS 12 double", "POINTS 12 float"), "0 0 2.5", "0 0 1e39"), "bad.vtk:15: POINTS: point 9 has a coordinate 1e+39 beyond the range of type float"},
 		{"too few points", repl(small, "POINTS 12", "POINTS 11"), "bad.vtk:17: unknown keyword \"0\""},
 		{"missing point", repl(small, "3 9 10 11", "3 9 10 12"), "bad.vtk:23: CELLS: cell 4 references point 12; the file has 12 points"},
 		{"negative point", repl(small, "3 9 10 11", "3 9 -1 11"), "bad.vtk:23: CELLS: cell 4 references point -1"},
@@ -134,7 +136,7 @@ func TestErrorsASCIIValues(t *testing.T) {
 		{"type needs points", repl(small, "9\n9\n9\n9\n5", "9\n5\n9\n9\n5"), "bad.vtk:27: cell 1: type 5 needs 3 points, has 4"},
 		{"5.1 type needs points", repl(small51, "9\n9\n9\n9\n5", "9\n9\n5\n9\n5"), "bad.vtk:27: cell 2: type 5 needs 3 points, has 4"},
 		{"5.1 thickness", repl(small51, "1 1 1 1 1.5 1.5", "1 1 1 1\n0 1.5"), "bad.vtk:39: cell 4: thickness 0 is not a positive number"},
-		{"5.1 duplicate node id", repl(small51, "110 111 112", "110\n111 110"), "bad.vtk:45: node id 110 appears twice (points 9 and 11; first at line 44)"},
+		{"5.1 duplicate node id", repl(small51, "110 111 112", "110\n111 110"), "bad.vtk:46: node id 110 appears twice (points 9 and 11; first at line 45)"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -171,7 +173,7 @@ func TestLocate(t *testing.T) {
 		{"small_51_ascii.vtk", geom.ArrayConn, 9, 22},
 		{"small_51_ascii.vtk", geom.ArrayConn, 10, 23},
 		{"small_51_ascii.vtk", geom.ArrayTypes, 0, 25},
-		{"small_51_ascii.vtk", geom.ArrayElemIDs, 5, 40},
+		{"small_51_ascii.vtk", geom.ArrayElemIDs, 5, 41},
 	} {
 		p := parser{name: tc.file, data: []byte(readFixture(t, tc.file)), npoints: -1, ncells: -1}
 		if err := p.parse(); err != nil {

@@ -404,7 +404,7 @@ func (p *parser) readInts(off int, n int, t dtype, what string) ([]int64, error)
 		ok   bool
 	)
 	if t.kind == kFloat {
-		i, k, ok = scanWholeFloats(p.data, start, dst)
+		i, k, ok = scanWholeFloats(p.data, start, dst, t.size == 4)
 	} else {
 		i, k, ok = scanInts(p.data, start, dst)
 	}
@@ -426,7 +426,7 @@ func (p *parser) readFloats(off int, n int, t dtype, what string) ([]float64, er
 		p.pos += t.binBytes(n)
 		return dst, nil
 	}
-	i, k, ok := scanFloats(p.data, p.pos, dst)
+	i, k, ok := scanFloats(p.data, p.pos, dst, t.kind == kFloat && t.size == 4)
 	if !ok {
 		return nil, p.asciiFail(i, k, n, what)
 	}
@@ -476,10 +476,13 @@ func (p *parser) points(off int) error {
 		}
 		p.pos += t.binBytes(3 * n)
 	} else {
-		i, k, ok := scanPoints(p.data, start, pts)
+		i, k, ok := scanPoints(p.data, start, pts, t.kind == kFloat && t.size == 4)
 		if !ok {
 			if i < len(p.data) {
 				if v, _, ok := scanFloat(p.data, i); ok {
+					if finite(v) { // so beyond the float32 range
+						return p.errAt(i, "POINTS: point %d has a coordinate %g beyond the range of type float", k/3, v)
+					}
 					return p.errAt(i, "POINTS: point %d has a non-finite coordinate %g", k/3, v)
 				}
 			}

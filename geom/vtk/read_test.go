@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -81,11 +82,16 @@ func TestHandwritten(t *testing.T) {
 			{X: 0, Y: 1, Z: 0}, {X: 1, Y: 1, Z: 0}, {X: 2, Y: 1, Z: 0},
 			{X: 1.5, Y: 2, Z: -0.25}, {X: 3, Y: 0.25, Z: 10},
 		},
-		ElemIDs:       []int64{501, 502, 601, 602},
-		ElemPart:      []int32{0, 0, 1, 1},
-		ElemStart:     []int32{0, 4, 8, 11, 14},
-		Conn:          []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 6, 4, 5, 6},
-		ElemThickness: []float64{0.8, 0.8, 1.25, 1.25},
+		ElemIDs:   []int64{501, 502, 601, 602},
+		ElemPart:  []int32{0, 0, 1, 1},
+		ElemStart: []int32{0, 4, 8, 11, 14},
+		Conn:      []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 6, 4, 5, 6},
+		// thickness is declared float: VTK stores the values of a float
+		// array as 32-bit floats (the declared type of the legacy format,
+		// VTK file-format documentation, Kitware; VTK 9 reads
+		// 0.800000011920929 here), and so does the reader, as the binary
+		// twin of the file would hold them. 1.25 is exact either way.
+		ElemThickness: []float64{float64(float32(0.8)), float64(float32(0.8)), 1.25, 1.25},
 		Sources:       []geom.Source{{File: path, Skipped: map[string]int{"vtk-cell-3": 1, "vtk-cell-1": 1}}},
 	}
 	if d := geomtest.Diff(m, want); d != "" {
@@ -94,6 +100,33 @@ func TestHandwritten(t *testing.T) {
 	for i, id := range want.NodeIDs {
 		if got, ok := m.NodeIndex(id); !ok || int(got) != i {
 			t.Errorf("NodeIndex(%d) = %d, %v; want %d", id, got, ok, i)
+		}
+	}
+}
+
+// TestScalarsWithoutLookupTable reads the 5.1 fixtures with the
+// LOOKUP_TABLE line of a SCALARS array left out. The format documentation
+// (VTK file-format documentation, Kitware) makes the line part of SCALARS
+// and VTK's own reader rejects a file without it, but the reader accepts
+// one, as some writers leave it out.
+func TestScalarsWithoutLookupTable(t *testing.T) {
+	for _, name := range []string{"small_51_ascii.vtk", "small_51_binary.vtk"} {
+		path := filepath.Join(formats, name)
+		data, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		const with = "SCALARS element_id vtktypeint64\nLOOKUP_TABLE default\n"
+		if !bytes.Contains(data, []byte(with)) {
+			t.Fatalf("%s lacks %q", name, with)
+		}
+		data = bytes.Replace(data, []byte(with), []byte("SCALARS element_id vtktypeint64\n"), 1)
+		m, err := Parse(data, path, geom.ReadOptions{})
+		if err != nil {
+			t.Fatalf("%s without LOOKUP_TABLE: %v", name, err)
+		}
+		if d := geomtest.Diff(m, geomtest.Small(path)); d != "" {
+			t.Errorf("%s without LOOKUP_TABLE differs from the fixture specification:\n%s", name, d)
 		}
 	}
 }
@@ -190,7 +223,10 @@ func smallBinary() []byte {
 
 // small51Binary returns small_51_binary.vtk: version 5.1, OFFSETS and
 // CONNECTIVITY as vtktypeint64, double points, a METADATA block, FIELD
-// arrays and a SCALARS array without LOOKUP_TABLE.
+// arrays and a SCALARS array without a component count. Every SCALARS
+// array has its LOOKUP_TABLE line, which VTK's own reader requires
+// (VTK 9: "Lookup table must be specified with scalar"); the reader's
+// leniency about a missing one is tested by TestScalarsWithoutLookupTable.
 func small51Binary() []byte {
 	w := geomtest.Small("")
 	var e enc
@@ -228,6 +264,7 @@ func small51Binary() []byte {
 	e.f64(1, 1, 1, 1, 1.5, 1.5)
 	e.line("")
 	e.line("SCALARS element_id vtktypeint64")
+	e.line("LOOKUP_TABLE default")
 	e.i64(1001, 1002, 1003, 1004, 2001, 9001)
 	e.line("")
 	e.line("POINT_DATA 12")
@@ -257,6 +294,83 @@ func TestBinaryFixturesCurrent(t *testing.T) {
 		}
 		if !bytes.Equal(got, data) {
 			t.Errorf("%s is out of date; run go test -update", name)
+		}
+	}
+}
+
+// TestFloatASCIIMatchesBinary reads the same values declared float from
+// an ASCII file and from its binary twin: VTK stores float values as
+// 32-bit floats whatever the encoding (the declared type of the legacy
+// format, VTK file-format documentation, Kitware), so both must give the
+// same model, with 0.1 read as float32(0.1). Double values stay exact.
+func TestFloatASCIIMatchesBinary(t *testing.T) {
+	coords := []float64{0.1, 0, 0, 1.1, 0, 0, 1.1, 1.3, 0.7, 0, 1.3, 1e-40}
+	thick := []float64{0.8, 2.2}
+	for _, typ := range []string{"float", "double"} {
+		var a, b enc
+		for _, e := range []*enc{&a, &b} {
+			e.line("# vtk DataFile Version 3.0")
+			e.line("float twin")
+		}
+		a.line("ASCII")
+		b.line("BINARY")
+		for _, e := range []*enc{&a, &b} {
+			e.line("DATASET UNSTRUCTURED_GRID")
+			e.line("POINTS 4 " + typ)
+		}
+		put := func(vs []float64) {
+			for _, v := range vs {
+				a.line(strconv.FormatFloat(v, 'g', -1, 64))
+			}
+			if typ == "float" {
+				b.f32(vs...)
+			} else {
+				b.f64(vs...)
+			}
+			b.line("")
+		}
+		put(coords)
+		a.line("CELLS 2 9\n4 0 1 2 3\n3 0 1 2\nCELL_TYPES 2\n9 5")
+		b.line("CELLS 2 9")
+		b.i32(4, 0, 1, 2, 3, 3, 0, 1, 2)
+		b.line("\nCELL_TYPES 2")
+		b.i32(9, 5)
+		b.line("")
+		for _, e := range []*enc{&a, &b} {
+			e.line("CELL_DATA 2")
+			e.line("SCALARS part int 1")
+			e.line("LOOKUP_TABLE default")
+		}
+		a.line("4 4")
+		b.i32(4, 4)
+		b.line("")
+		for _, e := range []*enc{&a, &b} {
+			e.line("SCALARS thickness " + typ + " 1")
+			e.line("LOOKUP_TABLE default")
+		}
+		put(thick)
+		ma, err := Parse(a.b, "twin.vtk", geom.ReadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mb, err := Parse(b.b, "twin.vtk", geom.ReadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := geomtest.Diff(ma, mb); d != "" {
+			t.Errorf("%s: ASCII and binary differ:\n%s", typ, d)
+		}
+		round := func(v float64) float64 {
+			if typ == "float" {
+				return float64(float32(v))
+			}
+			return v
+		}
+		if got, want := ma.Coords[0].X, round(0.1); got != want {
+			t.Errorf("%s: x of point 0 = %v, want %v", typ, got, want)
+		}
+		if got, want := ma.Thickness(0), round(0.8); got != want {
+			t.Errorf("%s: thickness = %v, want %v", typ, got, want)
 		}
 	}
 }

@@ -173,6 +173,33 @@ func scanFloatSlow(b []byte, i int) (float64, int, bool) {
 	return v, j, true
 }
 
+// scanFloat32 is scanFloat for values declared float (32 bits): the value
+// is rounded to the nearest float32, as VTK's own reader stores it (the
+// declared type of the legacy format, VTK file-format documentation,
+// Kitware), so that an ASCII file and its binary twin give the same
+// model. Values beyond the float32 range become infinite, as they do in
+// scanFloat beyond the float64 range.
+func scanFloat32(b []byte, i int) (float64, int, bool) {
+	v, j, ok := scanFloat(b, i)
+	if !ok {
+		return v, j, false
+	}
+	const half = 1 << 28 // half a float32 unit in the last place, in float64 mantissa bits
+	if bits := math.Float64bits(v); bits&(2*half-1) == half || v != 0 && math.Abs(v) < 0x1p-126 {
+		// v lies halfway between two float32 values, or in their
+		// subnormal range, where rounding the float64 again may differ
+		// from rounding the decimal once: round the text directly.
+		w, err := strconv.ParseFloat(string(b[i:j]), 32)
+		if err != nil {
+			if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
+				return 0, j, false
+			}
+		}
+		return w, j, true
+	}
+	return float64(float32(v)), j, true
+}
+
 // scanInts parses len(dst) integer tokens from b starting at i. It returns
 // the index after the last one; on failure it returns the start of the
 // offending token (len(b) at the end of the data), how many values were
@@ -191,11 +218,16 @@ func scanInts(b []byte, i int, dst []int64) (int, int, bool) {
 }
 
 // scanWholeFloats is scanInts for integer arrays stored as reals: every
-// value must be a whole number.
-func scanWholeFloats(b []byte, i int, dst []int64) (int, int, bool) {
+// value must be a whole number. f32 rounds the values to float32 first
+// (scanFloat32).
+func scanWholeFloats(b []byte, i int, dst []int64, f32 bool) (int, int, bool) {
+	scan := scanFloat
+	if f32 {
+		scan = scanFloat32
+	}
 	for k := range dst {
 		i = skipSpace(b, i)
-		v, j, ok := scanFloat(b, i)
+		v, j, ok := scan(b, i)
 		if !ok {
 			return i, k, false
 		}
@@ -210,11 +242,20 @@ func scanWholeFloats(b []byte, i int, dst []int64) (int, int, bool) {
 }
 
 // scanFloats parses len(dst) real tokens from b starting at i, with the
-// results of scanInts.
-func scanFloats(b []byte, i int, dst []float64) (int, int, bool) {
+// results of scanInts. f32 rounds the values to float32 (scanFloat32).
+func scanFloats(b []byte, i int, dst []float64, f32 bool) (int, int, bool) {
 	for k := range dst {
 		i = skipSpace(b, i)
-		v, j, ok := scanFloat(b, i)
+		var (
+			v  float64
+			j  int
+			ok bool
+		)
+		if f32 {
+			v, j, ok = scanFloat32(b, i)
+		} else {
+			v, j, ok = scanFloat(b, i)
+		}
 		if !ok {
 			return i, k, false
 		}
@@ -226,13 +267,22 @@ func scanFloats(b []byte, i int, dst []float64) (int, int, bool) {
 
 // scanPoints parses 3*len(dst) real tokens into points, with the results
 // of scanInts, counting values (not points). A NaN or infinite coordinate
-// fails like a bad token.
-func scanPoints(b []byte, i int, dst []r3.Vec) (int, int, bool) {
+// fails like a bad token. f32 rounds the values to float32 (scanFloat32).
+func scanPoints(b []byte, i int, dst []r3.Vec, f32 bool) (int, int, bool) {
 	var xyz [3]float64
 	for k := range dst {
 		for c := range xyz {
 			i = skipSpace(b, i)
-			v, j, ok := scanFloat(b, i)
+			var (
+				v  float64
+				j  int
+				ok bool
+			)
+			if f32 {
+				v, j, ok = scanFloat32(b, i)
+			} else {
+				v, j, ok = scanFloat(b, i)
+			}
 			if !ok || math.IsNaN(v) || math.IsInf(v, 0) {
 				return i, 3*k + c, false
 			}

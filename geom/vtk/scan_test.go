@@ -43,6 +43,44 @@ func TestScanFloat(t *testing.T) {
 	}
 }
 
+// TestScanFloat32 checks the scanner for values declared float against
+// strconv.ParseFloat with bitSize 32, a single correctly rounded
+// decimal-to-float32 conversion (what VTK's reader does, the declared type
+// of the legacy format, VTK file-format documentation, Kitware).
+func TestScanFloat32(t *testing.T) {
+	cases := []string{
+		"0", "-0", "0.8", "1.25", "21.25", "0.1", "1e-3", "3.4028234663852886e38",
+		"3.4028235677973366e38", "1e-45", "1.4e-45", "7e-46", "1e-40", "1.1754942e-38",
+		"1e-50", "NaN", "inf", "-Inf", "1e999", "16777217", "0x1p-2",
+		// The float64 nearest to these is halfway between the float32
+		// values 1 and 1+2^-23, but the decimals are not (1+2^-24 plus or
+		// minus 2^-54): rounding twice would give 1 for both.
+		"1.000000059604644830901776231257827021181583404541015625",
+		"1.000000059604644719879473768742172978818416595458984375",
+		"1.000000059604644775390625", // exactly halfway: ties to even, 1
+	}
+	rng := rand.New(rand.NewPCG(3, 3))
+	for range 5000 {
+		f := float32((rng.Float64() - 0.5) * math.Pow(10, float64(rng.IntN(80)-40)))
+		v := (rng.Float64() - 0.5) * math.Pow(10, float64(rng.IntN(80)-40))
+		cases = append(cases, strconv.FormatFloat(float64(f), 'g', -1, 32), strconv.FormatFloat(v, 'g', -1, 64),
+			strconv.FormatFloat(v, 'g', 9, 64), strconv.FormatFloat(v, 'e', 20, 64))
+	}
+	for _, s := range cases {
+		want, err := strconv.ParseFloat(s, 32)
+		wantOK := err == nil || err.(*strconv.NumError).Err == strconv.ErrRange
+		got, j, ok := scanFloat32([]byte(s+" "), 0)
+		if ok != wantOK || ok && (math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) || j != len(s)) {
+			t.Fatalf("scanFloat32(%q) = %v, %d, %v; want %v, %v", s, got, j, ok, want, wantOK)
+		}
+	}
+	for _, bad := range []string{"", "-", "1x", "abc"} {
+		if _, _, ok := scanFloat32([]byte(bad), 0); ok {
+			t.Errorf("scanFloat32(%q) accepted", bad)
+		}
+	}
+}
+
 // TestScanInt checks the integer scanner against strconv.ParseInt.
 func TestScanInt(t *testing.T) {
 	cases := []string{"0", "-0", "+7", "42", "-42", "999999999999999999", "1000000000000000000",

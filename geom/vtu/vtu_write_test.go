@@ -65,9 +65,15 @@ type wOpts struct {
 	compress  bool
 	header64  bool
 	bigEndian bool
-	blockSize int  // compression block size; 0 means 32768
-	jointB64  bool // encode size header and data as one base64 stream
-	wrap      int  // break base64 and ascii text into lines of about this length; 0 = one line
+	blockSize int // compression block size; 0 means 32768
+	// jointB64 encodes the size header and the data as one base64 stream.
+	// VTK writes them as two (header, then data, each padded), and VTK 9
+	// reads only that when the header length is not a multiple of 3.
+	jointB64 bool
+	// wrap breaks base64 and ascii text into lines of about this length;
+	// 0 = one line, as VTK writes it. VTK 9 does not read line breaks
+	// inside base64 text.
+	wrap int
 }
 
 // encodeValues returns the binary form of a's values.
