@@ -23,7 +23,10 @@ func loadInputs(ctx context.Context, job *joints.Job, g *globalOptions) (*meshio
 	if len(job.Meshes) == 0 {
 		return nil, nil, usageError{fmt.Errorf("no mesh given: name one with --mesh or in a job file")}
 	}
+	prog := g.progress()
+	prog.Start(fmt.Sprintf("reading %d mesh file(s)", len(job.Meshes)), 0)
 	model, err := meshio.Load(meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber})
+	prog.Done()
 	if err != nil {
 		return nil, nil, err
 	}
