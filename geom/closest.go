@@ -99,6 +99,12 @@ func ratio(num, den float64) float64 {
 	return min(max(num/den, 0), 1)
 }
 
+// SegmentDistance returns the distance from p to the segment ab.
+func SegmentDistance(p, a, b r3.Vec) float64 {
+	t := closestOnSegment(p, a, b)
+	return r3.Norm(r3.Sub(p, r3.Add(a, r3.Scale(t, r3.Sub(b, a)))))
+}
+
 // closestOnSegment returns the parameter t in [0, 1] of the point
 // a + t (b-a) closest to p; 0 for a segment of zero length.
 func closestOnSegment(p, a, b r3.Vec) float64 {

@@ -2,10 +2,7 @@ package geom
 
 import (
 	"math"
-	"runtime"
 	"slices"
-	"sync"
-	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -95,23 +92,10 @@ type PartStats struct {
 // summed concurrently and merged in block order, so the result does not
 // depend on GOMAXPROCS.
 func (m *Mesh) PartStats() []PartStats {
-	const block = 1 << 16
-	nb := (m.NumElems() + block - 1) / block
-	parts := make([][]PartStats, nb)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < min(runtime.GOMAXPROCS(0), nb); w++ {
-		wg.Go(func() {
-			for {
-				b := int(next.Add(1) - 1)
-				if b >= nb {
-					return
-				}
-				parts[b] = m.partStats(b*block, min((b+1)*block, m.NumElems()))
-			}
-		})
-	}
-	wg.Wait()
+	parts := make([][]PartStats, (m.NumElems()+parallelBlock-1)/parallelBlock)
+	parallelBlocks(m.NumElems(), func(from, to int) {
+		parts[from/parallelBlock] = m.partStats(from, to)
+	})
 	st := make([]PartStats, len(m.Parts))
 	for i := range st {
 		st[i].Box = EmptyBox()

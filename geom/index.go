@@ -63,6 +63,10 @@ func elemBox(m *Mesh, e int) (lo, hi r3.Vec) {
 	return lo, hi
 }
 
+// BoxDist2 returns the squared distance from p to box b (0 inside, +Inf
+// for an empty box): a lower bound of p's distance to anything in b.
+func BoxDist2(b r3.Box, p r3.Vec) float64 { return boxDist2(b.Min, b.Max, p) }
+
 // boxDist2 returns the squared distance from p to the box [lo, hi], +Inf
 // for an empty box.
 func boxDist2(lo, hi, p r3.Vec) float64 {

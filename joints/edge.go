@@ -44,7 +44,7 @@ func edgeDistance(m *geom.Mesh, near []int32, q r3.Vec, pi int32, r float64) flo
 			if i+1 < len(keys) && keys[i+1] == key {
 				continue // shared by another element of the part
 			}
-			if d := segmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
+			if d := geom.SegmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
 				best = d
 			}
 		}
@@ -59,15 +59,4 @@ func edgeKey(ed geom.Edge) uint64 {
 		a, b = b, a
 	}
 	return uint64(a)<<32 | uint64(b)
-}
-
-// segmentDistance returns the distance from p to the segment ab.
-func segmentDistance(p, a, b r3.Vec) float64 {
-	ab := r3.Sub(b, a)
-	l2 := r3.Norm2(ab)
-	t := 0.0
-	if l2 > 0 {
-		t = math.Max(0, math.Min(1, r3.Dot(r3.Sub(p, a), ab)/l2))
-	}
-	return r3.Norm(r3.Sub(p, r3.Add(a, r3.Scale(t, ab))))
 }

@@ -70,7 +70,7 @@ func candidates(x *geom.Index, p r3.Vec, r float64) []Sheet {
 	elems := x.ElemsNear(p, r, buf[:0])
 	list := make([]near, len(elems))
 	for i, e := range elems {
-		list[i] = near{e, boxDist2(m.ElemBox(int(e)), p)}
+		list[i] = near{e, geom.BoxDist2(m.ElemBox(int(e)), p)}
 	}
 	slices.SortFunc(list, func(a, b near) int { return cmp.Or(cmp.Compare(a.d2, b.d2), cmp.Compare(a.e, b.e)) })
 	var out []Sheet
@@ -95,20 +95,6 @@ func candidates(x *geom.Index, p r3.Vec, r float64) []Sheet {
 		return cmp.Or(cmp.Compare(a.Proj.Dist, b.Proj.Dist), cmp.Compare(a.Part, b.Part))
 	})
 	return out
-}
-
-// boxDist2 returns the squared distance from p to box b (0 inside).
-func boxDist2(b r3.Box, p r3.Vec) float64 {
-	axis := func(v, lo, hi float64) float64 {
-		switch {
-		case v < lo:
-			return (lo - v) * (lo - v)
-		case v > hi:
-			return (v - hi) * (v - hi)
-		}
-		return 0
-	}
-	return axis(p.X, b.Min.X, b.Max.X) + axis(p.Y, b.Min.Y, b.Max.Y) + axis(p.Z, b.Min.Z, b.Max.Z)
 }
 
 // place sets a sheet's Position and Lateral for a stack axis through p.

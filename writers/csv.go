@@ -3,6 +3,7 @@ package writers
 import (
 	"encoding/csv"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -29,7 +30,7 @@ func WriteConnectorsCSV(w io.Writer, doc *ConnectorsDoc) error {
 		}
 		tail := []string{dia, c.Attach, strings.Join(c.DOFs, ";")}
 		if c.Status == "failed" || len(c.Sheets) == 0 {
-			row := append(append(slicesClone(base), make([]string, 10)...), tail...)
+			row := append(append(slices.Clone(base), make([]string, 10)...), tail...)
 			row = append(row, "", "")
 			if err := cw.Write(row); err != nil {
 				return err
@@ -58,7 +59,7 @@ func WriteConnectorsCSV(w io.Writer, doc *ConnectorsDoc) error {
 			for k, v := range s.Weights {
 				weights[k] = f64(v)
 			}
-			row := append(slicesClone(base), strconv.Itoa(i), strconv.FormatInt(s.Part, 10), strconv.FormatInt(s.Element, 10), end,
+			row := append(slices.Clone(base), strconv.Itoa(i), strconv.FormatInt(s.Part, 10), strconv.FormatInt(s.Element, 10), end,
 				f64(p[0]), f64(p[1]), f64(p[2]), f64(s.Distance), f64(s.Thickness), ed)
 			row = append(row, tail...)
 			row = append(row, strings.Join(nodes, ";"), strings.Join(weights, ";"))
@@ -72,5 +73,3 @@ func WriteConnectorsCSV(w io.Writer, doc *ConnectorsDoc) error {
 }
 
 func f64(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
-
-func slicesClone(s []string) []string { return append([]string(nil), s...) }
