@@ -234,13 +234,6 @@ func closestOnPart(m *geom.Mesh, pi int32, p r3.Vec) (r3.Vec, float64) {
 	return best, bestD
 }
 
-func segmentDistance(p, a, b r3.Vec) float64 {
-	ab := r3.Sub(b, a)
-	t := r3.Dot(r3.Sub(p, a), ab) / r3.Dot(ab, ab)
-	t = max(0, min(1, t))
-	return r3.Norm(r3.Sub(p, r3.Add(a, r3.Scale(t, ab))))
-}
-
 // freeEdges returns the edges of part pi used by one element only.
 func freeEdges(m *geom.Mesh, pi int32) [][2]int32 {
 	count := map[[2]int32]int{}
@@ -321,7 +314,7 @@ func checkStacks(t *testing.T, cfg Config) {
 				edge = j.Washer/2 + 2 - 0.01
 			}
 			for _, e := range free[pi] {
-				if dd := segmentDistance(j.Point, me.Coords[e[0]], me.Coords[e[1]]); dd < edge {
+				if dd := geom.SegmentDistance(j.Point, me.Coords[e[0]], me.Coords[e[1]]); dd < edge {
 					t.Errorf("joint %s: %.2f mm from a free edge of part %d, want >= %g", j.ID, dd, id, edge)
 					break
 				}
