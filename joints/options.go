@@ -3,7 +3,6 @@ package joints
 import (
 	"fmt"
 	"math"
-	"slices"
 	"strings"
 )
 
@@ -48,10 +47,11 @@ func ParseAttach(s string) (Attach, error) {
 	return Interpolated, fmt.Errorf("unknown attachment %q (want interpolated, node-pair or patch)", s)
 }
 
-// DOF names, in the order Joinery writes them.
-var dofOrder = [6]string{"tx", "ty", "tz", "rx", "ry", "rz"}
+// dofName returns the name of degree of freedom i (0 to 5), in the order
+// Joinery writes them: tx ty tz rx ry rz.
+func dofName(i int) string { return "txtytzrxryrz"[2*i : 2*i+2] }
 
-// DOFs is a set of degrees of freedom, bit i for dofOrder[i].
+// DOFs is a set of degrees of freedom, bit i for dofName(i).
 type DOFs uint8
 
 // AllDOFs couples every translation and rotation.
@@ -61,12 +61,18 @@ const AllDOFs DOFs = 0x3f
 const Translations DOFs = 0x07
 
 // ParseDOFs reads a list of names from tx ty tz rx ry rz, separated by
-// commas or spaces, or given as several strings; duplicates are an error.
+// commas, '+' or spaces, or given as several strings; duplicates are an
+// error.
 func ParseDOFs(names ...string) (DOFs, error) {
 	var d DOFs
 	for _, s := range names {
-		for _, f := range strings.FieldsFunc(s, func(r rune) bool { return r == ',' || r == ' ' }) {
-			i := slices.Index(dofOrder[:], strings.ToLower(f))
+		for _, f := range strings.FieldsFunc(s, func(r rune) bool { return r == ',' || r == ' ' || r == '+' }) {
+			i := -1
+			for k := range 6 {
+				if dofName(k) == strings.ToLower(f) {
+					i = k
+				}
+			}
 			if i < 0 {
 				return 0, fmt.Errorf("unknown degree of freedom %q (want tx ty tz rx ry rz)", f)
 			}
@@ -82,59 +88,95 @@ func ParseDOFs(names ...string) (DOFs, error) {
 	return d, nil
 }
 
+// String lists the DOFs as the flags take them: "tx,ty,tz".
+func (d DOFs) String() string { return strings.Join(d.Names(), ",") }
+
 // Names lists the DOFs in the order tx ty tz rx ry rz.
 func (d DOFs) Names() []string {
 	out := []string{}
-	for i, n := range dofOrder {
+	for i := range 6 {
 		if d&(1<<i) != 0 {
-			out = append(out, n)
+			out = append(out, dofName(i))
 		}
 	}
 	return out
 }
 
-// BuildOptions set how spot welds become connectors. Zero values mean the
-// documented defaults (see Defaults).
-type BuildOptions struct {
-	// SearchDistance, mm: sheets farther than this from a weld point are
-	// not considered. Default 4.5 times the largest thickness t in the
-	// model: from a point on the outer surface of a four-sheet stack of
-	// the thickest parts the far mid-surface lies 3.5 t away, plus three
-	// gaps at the limit of the default tolerance (0.75 t) and 0.25 t to
-	// spare.
-	SearchDistance float64
-	// GapTolerance, mm: how far a measured gap between consecutive
-	// mid-surfaces may differ from contact, (t1+t2)/2, before it is
-	// reported. Default 0: a quarter of the contact gap of each pair,
-	// 0.25*(t1+t2)/2 (our choice: 0.25 mm for two 1 mm sheets; formed
-	// parts meshed on their mid-surfaces commonly sit a tenth or two of a
-	// millimetre off contact, and the findings are warnings).
-	GapTolerance float64
-	// AngleTolerance, degrees: sheets whose normals differ by more than
-	// this from the stack's axis are not part of the stack. Default 20
-	// degrees (our choice: flanges of formed parts are near-parallel, a
-	// wall meeting a flange is near-perpendicular).
-	AngleTolerance float64
-	// LateralFactor: a sheet's projection must lie within LateralFactor
-	// times the nugget radius of the stack's axis. Default 0.5 (our
+// Defaults of the build options. Each states its source; "our choice"
+// marks a judgement of Joinery's authors, documented in the README.
+const (
+	// DefaultReachFactor times the largest thickness t of the model is the
+	// default reach, mm: from a point on the outer surface of a four-sheet
+	// stack of the thickest parts the far mid-surface lies 3.5 t away,
+	// plus three gaps at the limit of the default allowance (0.75 t) and
+	// 0.25 t to spare (our choice, from that arithmetic).
+	DefaultReachFactor = 4.5
+	// DefaultGapAllowanceFactor times the contact gap (t1+t2)/2 of a
+	// sheet pair is the default gap allowance: 0.25 mm for two 1 mm
+	// sheets (our choice: formed parts meshed on their mid-surfaces
+	// commonly sit a tenth or two of a millimetre off contact, and the
+	// findings are warnings).
+	DefaultGapAllowanceFactor = 0.25
+	// DefaultAngleLimit, degrees: sheets whose normals differ by more
+	// than this from the stack's axis are not part of the stack (our
+	// choice: flanges of formed parts are near-parallel, a wall meeting a
+	// flange is near-perpendicular).
+	DefaultAngleLimit = 20.0
+	// DefaultLateralFactor times the nugget radius bounds a sheet's
+	// projection's distance from the stack axis (our choice).
+	DefaultLateralFactor = 0.5
+	// DefaultEdgeFactor nugget diameters is the least distance from a
+	// weld centre to a sheet's free edge (common practice: about one
+	// nugget diameter; REFERENCES.md gives 1.5 to 2 as a rule of thumb
+	// for design, one is the limit below which the nugget runs off).
+	DefaultEdgeFactor = 1.0
+	// DefaultNodeFactor times the nugget radius bounds how far apart
+	// across the stack the nodes of a node-pair connector may lie (our
 	// choice).
+	DefaultNodeFactor = 0.5
+	// DefaultAttach is the default attachment.
+	DefaultAttach = Interpolated
+	// DefaultSpotDOFs are the degrees of freedom a spot weld couples by
+	// default: all six (common practice for spot-weld connectors).
+	DefaultSpotDOFs = AllDOFs
+	// DefaultNuggetRule gives nugget diameters the list does not give.
+	DefaultNuggetRule = Rule5Sqrt
+	// NoReachThickness, mm, stands in for the largest thickness of a
+	// model that has none, so that the default reach is not zero.
+	NoReachThickness = 5.0 / DefaultReachFactor
+	// MaxID32 is the largest id a 32-bit signed integer holds; many
+	// solvers keep ids in 32 bits (common practice), so new ids above it
+	// are reported (id-range).
+	MaxID32 = 1<<31 - 1
+)
+
+// BuildOptions set how joints become connectors. Zero values mean the
+// documented defaults (see Defaults and the Default constants).
+type BuildOptions struct {
+	// Reach, mm: sheets farther than this from a joint point are not
+	// considered. Default DefaultReachFactor times the largest thickness.
+	Reach float64
+	// GapAllowance, mm: how far a measured gap between consecutive
+	// mid-surfaces may differ from contact, (t1+t2)/2, before it is
+	// reported. Default 0: DefaultGapAllowanceFactor times the contact
+	// gap of each pair.
+	GapAllowance float64
+	// AngleLimit, degrees (DefaultAngleLimit).
+	AngleLimit float64
+	// LateralFactor (DefaultLateralFactor).
 	LateralFactor float64
-	// EdgeFactor: a weld centre closer than EdgeFactor nugget diameters to
-	// a sheet's free edge is reported. Default 1 (common practice: about
-	// one nugget diameter from the weld centre to the edge).
+	// EdgeFactor (DefaultEdgeFactor).
 	EdgeFactor float64
-	// NodeFactor, node-pair attachment: nodes of consecutive sheets face
-	// each other when their offset across the stack axis is at most
-	// NodeFactor times the nugget radius. Default 0.5 (our choice).
+	// NodeFactor (DefaultNodeFactor).
 	NodeFactor float64
 	Attach     Attach
 	// GroupAttach overrides Attach for the joints of a group.
 	GroupAttach map[string]Attach
-	// SpotDOFs are the degrees of freedom a spot-weld connector couples.
-	// Default all six.
+	// SpotDOFs are the degrees of freedom a spot-weld connector couples
+	// (DefaultSpotDOFs).
 	SpotDOFs DOFs
-	// Rule gives nugget diameters where the joint list gives none.
-	// Default 5*sqrt(t).
+	// Rule gives nugget diameters where the joint list gives none
+	// (DefaultNuggetRule).
 	Rule NuggetRule
 	// IDStart is the first id for new nodes and elements. Default: the
 	// round number above every node and element id of the mesh (see
@@ -145,73 +187,51 @@ type BuildOptions struct {
 // Defaults returns o with zero fields set to their defaults; maxThickness
 // is the largest sheet thickness of the model, mm.
 func (o BuildOptions) Defaults(maxThickness float64) BuildOptions {
-	if o.SearchDistance <= 0 {
-		o.SearchDistance = 4.5 * maxThickness
-		if o.SearchDistance <= 0 {
-			o.SearchDistance = 5
+	if o.Reach <= 0 {
+		if !(maxThickness > 0) {
+			maxThickness = NoReachThickness
 		}
+		o.Reach = DefaultReachFactor * maxThickness
 	}
-	if o.AngleTolerance <= 0 {
-		o.AngleTolerance = 20
+	if o.AngleLimit <= 0 {
+		o.AngleLimit = DefaultAngleLimit
 	}
 	if o.LateralFactor <= 0 {
-		o.LateralFactor = 0.5
+		o.LateralFactor = DefaultLateralFactor
 	}
 	if o.EdgeFactor <= 0 {
-		o.EdgeFactor = 1
+		o.EdgeFactor = DefaultEdgeFactor
 	}
 	if o.NodeFactor <= 0 {
-		o.NodeFactor = 0.5
+		o.NodeFactor = DefaultNodeFactor
 	}
 	if o.SpotDOFs == 0 {
-		o.SpotDOFs = AllDOFs
+		o.SpotDOFs = DefaultSpotDOFs
 	}
 	if o.Rule == 0 {
-		o.Rule = Rule5Sqrt
+		o.Rule = DefaultNuggetRule
 	}
 	return o
 }
 
-// gapTolerance returns the tolerance for the gap between sheets of
-// thickness t1 and t2.
-func (o *BuildOptions) gapTolerance(t1, t2 float64) float64 {
-	if o.GapTolerance > 0 {
-		return o.GapTolerance
+// GapAllowanceFor returns the allowance for the gap between sheets of
+// thickness t1 and t2, mm.
+func (o *BuildOptions) GapAllowanceFor(t1, t2 float64) float64 {
+	if o.GapAllowance > 0 {
+		return o.GapAllowance
 	}
-	return 0.25 * (t1 + t2) / 2
+	return DefaultGapAllowanceFactor * (t1 + t2) / 2
 }
 
-// attachFor returns the attachment of a joint's group.
-func (o *BuildOptions) attachFor(group string) Attach {
+// AttachFor returns the attachment of a joint's group.
+func (o *BuildOptions) AttachFor(group string) Attach {
 	if a, ok := o.GroupAttach[group]; ok {
 		return a
 	}
 	return o.Attach
 }
 
-// DefaultIDStart returns the first id for new nodes and elements: the
-// smallest multiple of the leading power of ten of maxID that exceeds
-// maxID (412345 -> 500000, 99 -> 100, 0 -> 1), or maxID+1 when that
-// multiple would not fit in an int64. It returns 0 when maxID is the
-// largest int64: no id is left above it.
-func DefaultIDStart(maxID int64) int64 {
-	if maxID <= 0 {
-		return 1
-	}
-	if maxID == math.MaxInt64 {
-		return 0
-	}
-	step := int64(1)
-	for step <= maxID/10 {
-		step *= 10
-	}
-	if q := maxID/step + 1; q <= math.MaxInt64/step {
-		return q * step
-	}
-	return maxID + 1
-}
-
-// Validate checks the options a user gave: distances and tolerances must
+// Validate checks the options a user gave: distances and allowances must
 // be finite and not negative (0 means the default), factors and angles
 // likewise, and the id start not negative.
 func (o *BuildOptions) Validate() error {
@@ -219,8 +239,8 @@ func (o *BuildOptions) Validate() error {
 		name string
 		v    float64
 	}{
-		{"search distance", o.SearchDistance}, {"gap tolerance", o.GapTolerance},
-		{"angle tolerance", o.AngleTolerance}, {"lateral factor", o.LateralFactor},
+		{"reach", o.Reach}, {"gap allowance", o.GapAllowance},
+		{"angle limit", o.AngleLimit}, {"lateral factor", o.LateralFactor},
 		{"edge factor", o.EdgeFactor}, {"node factor", o.NodeFactor},
 	} {
 		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 {

@@ -4,6 +4,9 @@ import (
 	"fmt"
 	"io"
 	"strconv"
+
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // VTK cell types used for viewing connectors (VTK file-format
@@ -13,31 +16,54 @@ const (
 	vtkLine   = 3
 )
 
+// stateCode returns the number that stands for a connector state in the
+// cell data "state" (joints.Status.Code: 1 built, 2 flagged, 3
+// not-built), 0 for a state this version does not know.
+func stateCode(state string) int {
+	for _, s := range joints.Statuses() {
+		if s.String() == state {
+			return s.Code()
+		}
+	}
+	return 0
+}
+
+// ConnectorsVTKTitle returns the title line of connectors.vtk: the
+// generator, the state codes and a pointer to the caution, within the
+// 256 characters the legacy format allows.
+func ConnectorsVTKTitle(generator string) string {
+	t := fmt.Sprintf("joinery connectors (%s); state 1 built, 2 flagged, 3 not-built; %s", generator, document.ShortCaution)
+	if len(t) > 255 {
+		t = t[:255]
+	}
+	return t
+}
+
 // WriteConnectorsVTK writes the connectors for viewing beside the mesh in
 // any VTK viewer: a VTK legacy ASCII unstructured grid with one line cell
 // per link and one vertex cell at the joint point of every connector that
-// was not built. Cell data: "status" (0 ok, 1 warning, 2 failed),
+// was not built. Cell data: "state" (1 built, 2 flagged, 3 not-built),
 // "sheets" (stack size), "connector" (index into connectors.json's
 // connectors array) and "gap_offset" (the link's mid_gap minus its
 // contact_gap, mm; 0 on vertices). Output is deterministic.
-func WriteConnectorsVTK(w io.Writer, doc *ConnectorsDoc) error {
+func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	type cell struct {
 		typ       int
-		pts       []Vec
-		status    int
+		pts       []document.Vec
+		state     int
 		sheets    int
 		connector int
 		gap       float64
 	}
 	var cells []cell
 	for i, c := range doc.Connectors {
-		st := map[string]int{"ok": 0, "warning": 1, "failed": 2}[c.Status]
+		st := stateCode(c.State)
 		if len(c.Links) == 0 {
-			cells = append(cells, cell{typ: vtkVertex, pts: []Vec{c.Point}, status: st, sheets: len(c.Sheets), connector: i})
+			cells = append(cells, cell{typ: vtkVertex, pts: []document.Vec{c.Point}, state: st, sheets: len(c.Sheets), connector: i})
 			continue
 		}
 		for _, l := range c.Links {
-			cells = append(cells, cell{typ: vtkLine, pts: []Vec{l.Start, l.End}, status: st, sheets: len(c.Sheets),
+			cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{l.Start, l.End}, state: st, sheets: len(c.Sheets),
 				connector: i, gap: clean(l.MidGap - l.ContactGap)})
 		}
 	}
@@ -47,7 +73,7 @@ func WriteConnectorsVTK(w io.Writer, doc *ConnectorsDoc) error {
 		npts += len(c.pts)
 		nconn += len(c.pts) + 1
 	}
-	ew.printf("# vtk DataFile Version 3.0\njoinery connectors (%s)\nASCII\nDATASET UNSTRUCTURED_GRID\n", doc.Generator)
+	ew.printf("# vtk DataFile Version 3.0\n%s\nASCII\nDATASET UNSTRUCTURED_GRID\n", ConnectorsVTKTitle(doc.Generator))
 	ew.printf("POINTS %d double\n", npts)
 	for _, c := range cells {
 		for _, p := range c.pts {
@@ -75,7 +101,7 @@ func WriteConnectorsVTK(w io.Writer, doc *ConnectorsDoc) error {
 			ew.printf("%s\n", strconv.Itoa(get(c)))
 		}
 	}
-	ints("status", func(c cell) int { return c.status })
+	ints("state", func(c cell) int { return c.state })
 	ints("sheets", func(c cell) int { return c.sheets })
 	ints("connector", func(c cell) int { return c.connector })
 	ew.printf("SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
@@ -86,4 +112,12 @@ func WriteConnectorsVTK(w io.Writer, doc *ConnectorsDoc) error {
 		return fmt.Errorf("writing connectors VTK: %w", ew.err)
 	}
 	return nil
+}
+
+// clean turns -0 into 0 so equal values print alike.
+func clean(v float64) float64 {
+	if v == 0 {
+		return 0
+	}
+	return v
 }

@@ -6,6 +6,7 @@ import (
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/vtk"
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // TestConnectorsVTKReadsBack writes two connectors (one built with two
@@ -13,12 +14,12 @@ import (
 // which must accept it and skip its line (VTK type 3) and vertex (type 1)
 // cells by type, as the VTK file-format documentation numbers them.
 func TestConnectorsVTKReadsBack(t *testing.T) {
-	doc := &ConnectorsDoc{Generator: "test", Connectors: []ConnectorDoc{
-		{Status: "ok", Sheets: make([]SheetDoc, 3), Links: []LinkDoc{
-			{Start: Vec{0, 0, 0}, End: Vec{0, 0, 1}, MidGap: 1, ContactGap: 1},
-			{Start: Vec{0, 0, 1}, End: Vec{0, 0, 2.25}, MidGap: 1.25, ContactGap: 1.1},
+	doc := &document.ConnectorsDoc{Generator: "test", Connectors: []document.ConnectorDoc{
+		{State: "built", Sheets: make([]document.SheetDoc, 3), Links: []document.LinkDoc{
+			{Start: document.Vec{0, 0, 0}, End: document.Vec{0, 0, 1}, MidGap: 1, ContactGap: 1},
+			{Start: document.Vec{0, 0, 1}, End: document.Vec{0, 0, 2.25}, MidGap: 1.25, ContactGap: 1.1},
 		}},
-		{Status: "failed", Point: Vec{5, 5, 5}},
+		{State: "not-built", Point: document.Vec{5, 5, 5}},
 	}}
 	var buf bytes.Buffer
 	if err := WriteConnectorsVTK(&buf, doc); err != nil {

@@ -2,34 +2,44 @@ package writers
 
 import (
 	"encoding/csv"
+	"fmt"
 	"io"
 	"slices"
 	"strconv"
 	"strings"
+
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // ConnectorsCSVHeader is the header of connectors.csv: one row per
 // connector end. nodes and weights hold ';'-separated lists.
 var connectorsCSVHeader = []string{
-	"joint", "kind", "status", "group", "sheet", "part", "element", "end_node",
+	"joint", "kind", "state", "group", "sheet", "part", "element", "end_node",
 	"x", "y", "z", "distance", "thickness", "edge_distance", "diameter", "attach", "dofs", "nodes", "weights",
 }
 
-// WriteConnectorsCSV writes one row per connector end (sheet); failed
-// connectors get one row with the sheet columns empty.
-func WriteConnectorsCSV(w io.Writer, doc *ConnectorsDoc) error {
+// WriteConnectorsCSV writes a comment line with the generator and the
+// caution, the header, then one row per connector end (sheet); connectors
+// not built get one row with the sheet columns empty.
+func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
+	// A comment line first: Joinery's own CSV readers skip lines that
+	// start with '#', and the caution travels with the file.
+	if _, err := fmt.Fprintf(w, "# joinery connectors (%s); CAUTION: %s\n", doc.Generator, document.Caution); err != nil {
+		return err
+	}
 	cw := csv.NewWriter(w)
 	if err := cw.Write(connectorsCSVHeader); err != nil {
 		return err
 	}
 	for _, c := range doc.Connectors {
-		base := []string{c.ID, c.Kind, c.Status, c.Group}
+		base := []string{c.ID, c.Kind, c.State, c.Group}
 		dia := ""
 		if c.Diameter != nil {
 			dia = f64(*c.Diameter)
 		}
 		tail := []string{dia, c.Attach, strings.Join(c.DOFs, ";")}
-		if c.Status == "failed" || len(c.Sheets) == 0 {
+		if c.State == joints.NotBuilt.String() || len(c.Sheets) == 0 {
 			row := append(append(slices.Clone(base), make([]string, 10)...), tail...)
 			row = append(row, "", "")
 			if err := cw.Write(row); err != nil {

@@ -1,8 +1,11 @@
-// Package writers writes everything Joinery produces: meshes in the native
-// text format and in VTK files for viewing, connector definitions, reports
-// and summaries in Joinery's own documented JSON, YAML and CSV formats.
+// Package writers renders and writes what Joinery produces, other than
+// meshes (whose writers sit beside their readers in geom/vtk and
+// geom/native): the text report and build summary, connectors.csv,
+// connectors.vtk for viewing, inspection summaries, and the output set
+// as a whole (Render, WriteSet). The published JSON documents and their
+// schemas are in the document subpackage.
 //
 // Every writer is deterministic: the same input gives the same bytes,
-// whatever GOMAXPROCS. Files are written through WriteFileAtomic, so a
-// failure never leaves a half-written output behind.
+// whatever GOMAXPROCS. Output files are rendered in memory first, so a
+// failure to render leaves nothing written.
 package writers

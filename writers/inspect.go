@@ -8,11 +8,11 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/inspect"
 )
 
 // WriteInspectText writes an inspection for a person to read.
-func WriteInspectText(w io.Writer, in *joints.Inspection) error {
+func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 	ew := &errWriter{w: w}
 	ew.printf("model: %d mesh file(s), %d part(s), %s nodes, %s elements (%s quads, %s triangles)\n",
 		len(in.Files), len(in.Parts), group(in.Nodes), group(in.Elements), group(in.Quads), group(in.Triangles))
@@ -28,7 +28,7 @@ func WriteInspectText(w io.Writer, in *joints.Inspection) error {
 	}
 	ew.printf("\nparts\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "id\tname\tt mm\tsurface\telements\ttria\tarea mm²\tbox min\tbox max\t\n")
+	fmt.Fprintf(tw, "id\tname\tt mm\tsurface\telements\ttri\tarea mm²\tbox min\tbox max\t\n")
 	for _, p := range in.Parts {
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%d\t%d\t%s\t%s\t%s\t\n", p.ID, dash(p.Name), thick(p.Thickness), p.Surface,
 			p.Elements, p.Triangles, num(p.Area, 1), vec(p.BoxMin), vec(p.BoxMax))

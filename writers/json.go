@@ -1,16 +1,12 @@
 package writers
 
 import (
-	"encoding/json"
 	"io"
+
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
-// WriteJSON writes v as indented JSON followed by a newline. Map keys come
-// sorted and floats in Go's shortest round-trip form, so equal values give
-// equal bytes.
-func WriteJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	enc.SetEscapeHTML(false)
-	return enc.Encode(v)
-}
+// WriteJSON writes v as indented JSON followed by a newline, with map
+// keys sorted and floats in Go's shortest round-trip form
+// (document.EncodeJSON).
+func WriteJSON(w io.Writer, v any) error { return document.EncodeJSON(w, v) }

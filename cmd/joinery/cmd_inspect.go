@@ -4,13 +4,14 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
-	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/inspect"
+	"github.com/joinery-cae/joinery/joints/pipeline"
 	"github.com/joinery-cae/joinery/writers"
 )
 
 type inspectOptions struct {
 	in      inputOptions
-	inspect joints.InspectOptions
+	inspect inspect.Options
 }
 
 func (o *inspectOptions) AddFlags(fs *pflag.FlagSet) {
@@ -21,7 +22,7 @@ func (o *inspectOptions) AddFlags(fs *pflag.FlagSet) {
 }
 
 func newInspectCommand(g *globalOptions) *cobra.Command {
-	o := &inspectOptions{inspect: joints.DefaultInspectOptions()}
+	o := &inspectOptions{inspect: inspect.DefaultOptions()}
 	c := &cobra.Command{
 		Use:   "inspect [JOB.yaml]",
 		Short: "Read meshes, parts and joints and summarise them",
@@ -30,12 +31,9 @@ parts with element counts, thickness, area and bounding box; node and element
 counts; cells skipped for their type; joints per kind and joints outside every
 part's bounding box. --deep adds free-edge loops per part and warped or
 degenerate elements with their worst values.
-
 Inputs come from a job file, from flags, or both (flags win).
 
-EXIT STATUS
-  0  read and summarised
-  2  bad usage or unreadable input`,
+` + exitStatusHelp,
 		Example: `  joinery inspect examples/van-rear-crossmember/job.yaml
   joinery inspect --mesh floor.vtk --mesh beam.vtu --parts parts.yaml --joints welds.csv --deep
   joinery inspect job.yaml --json > summary.json`,
@@ -50,20 +48,21 @@ EXIT STATUS
 
 func runInspect(c *cobra.Command, o *inspectOptions, g *globalOptions, args []string) error {
 	if err := o.inspect.Validate(); err != nil {
-		return usageError{err}
+		return pipeline.UsageError(err)
 	}
 	job, err := loadJob(args)
 	if err != nil {
 		return err
 	}
 	o.in.apply(job)
-	model, js, err := loadInputs(c.Context(), job, g)
+	in, err := pipeline.Load(c.Context(), job, g.env())
 	if err != nil {
 		return err
 	}
-	rep := joints.Inspect(joints.ModelInfo{Mesh: model.Mesh, Renumbered: model.Renumbered, UnusedParts: model.UnusedParts}, js, o.inspect)
+	m := in.Model
+	rep := inspect.Run(inspect.ModelInfo{Mesh: m.Mesh, Renumbered: m.Renumbered, UnusedParts: m.UnusedParts}, in.Joints, o.inspect)
 	if g.json {
-		return writers.WriteJSON(g.stdout, rep)
+		return g.writeJSON(rep)
 	}
 	return writers.WriteInspectText(g.stdout, rep)
 }

@@ -3,7 +3,7 @@ package main
 import (
 	"github.com/spf13/pflag"
 
-	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/pipeline"
 )
 
 // inputOptions are the input flags shared by the commands that read a
@@ -26,7 +26,7 @@ func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 }
 
 // apply overrides the job's inputs with the flags the user set.
-func (o *inputOptions) apply(job *joints.Job) {
+func (o *inputOptions) apply(job *pipeline.Job) {
 	if o.flags.Changed("mesh") {
 		job.Meshes = o.meshes
 	}
@@ -39,4 +39,13 @@ func (o *inputOptions) apply(job *joints.Job) {
 	if o.flags.Changed("renumber") {
 		job.Renumber = &o.renumber
 	}
+}
+
+// loadJob reads the job file named by the first argument, or returns an
+// empty job when there is none.
+func loadJob(args []string) (*pipeline.Job, error) {
+	if len(args) == 0 {
+		return &pipeline.Job{}, nil
+	}
+	return pipeline.LoadJob(args[0])
 }

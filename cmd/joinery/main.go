@@ -15,14 +15,28 @@ import (
 
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints/pipeline"
 )
 
 // Exit statuses, decided here and nowhere else.
 const (
-	exitOK       = 0 // done, nothing at or above the failure level
-	exitFindings = 1 // done, with findings at or above the failure level
-	exitBadInput = 2 // bad usage or unreadable input; nothing written
+	exitOK       = 0   // done, nothing at or above the failure level
+	exitFindings = 1   // done, with findings at or above the failure level
+	exitBadInput = 2   // bad usage or bad input; nothing written
+	exitFailure  = 3   // a failure that is not the input's fault (outputs, disk, lock, internal error)
+	exitCanceled = 130 // interrupted (Ctrl-C), the shell's convention for SIGINT
 )
+
+// exitStatusHelp ends every command's long help.
+const exitStatusHelp = `EXIT STATUS
+  0    done; no finding at or above --fail-on
+  1    done; findings at or above --fail-on (outputs written)
+  2    bad usage or bad input (the message names the file and line); nothing written
+  3    a failure that is not the input's fault: an output that cannot be written,
+       a full disk, a lock held by another run, an internal error
+  130  interrupted (Ctrl-C)`
 
 // version is set at build time with -ldflags "-X main.version=...".
 var version = "dev"
@@ -46,12 +60,30 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer, stderrIsT
 	if err == nil {
 		return exitOK
 	}
-	fmt.Fprintln(stderr, "joinery:", err)
-	var fe *findingsError
-	if errors.As(err, &fe) {
-		return exitFindings
+	code := exitCode(err)
+	switch code {
+	case exitFailure:
+		fmt.Fprintln(stderr, "joinery: failed (not an input problem):", err)
+	case exitCanceled:
+		fmt.Fprintln(stderr, "joinery: interrupted; nothing written")
+	default:
+		fmt.Fprintln(stderr, "joinery:", err)
 	}
-	return exitBadInput
+	return code
+}
+
+// exitCode maps an error to the exit status.
+func exitCode(err error) int {
+	var fe *findingsError
+	switch {
+	case errors.As(err, &fe):
+		return exitFindings
+	case errors.Is(err, context.Canceled):
+		return exitCanceled
+	case errors.Is(err, geom.ErrInput), errors.Is(err, pipeline.ErrUsage):
+		return exitBadInput
+	}
+	return exitFailure
 }
 
 // findingsError reports that a command ran to the end but found problems

@@ -15,7 +15,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
-	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files under testdata/golden")
@@ -138,7 +138,7 @@ func TestBuildExampleGolden(t *testing.T) {
 // with an independent JSON Schema (draft 2020-12) implementation.
 func validate(t *testing.T, schemaName, file string) {
 	t.Helper()
-	raw, err := writers.Schemas.ReadFile("schema/" + schemaName)
+	raw, err := document.Schemas.ReadFile("schema/" + schemaName)
 	if err != nil {
 		t.Fatal(err)
 	}

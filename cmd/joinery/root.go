@@ -8,7 +8,9 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints/pipeline"
 	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // globalOptions are the flags every command shares, and the streams.
@@ -26,10 +28,18 @@ type globalOptions struct {
 // neither quiet nor JSON, else a no-op.
 func (g *globalOptions) progress() geom.Progress {
 	if g.terminal && !g.quiet && !g.json {
-		return &writers.Bar{W: g.stderr}
+		return &bar{w: g.stderr}
 	}
 	return geom.NoProgress{}
 }
+
+// env is what the pipeline needs from the command line.
+func (g *globalOptions) env() pipeline.Env {
+	return pipeline.Env{Progress: g.progress(), Note: g.note, Generator: "joinery " + version}
+}
+
+// writeJSON prints v on stdout as indented JSON.
+func (g *globalOptions) writeJSON(v any) error { return writers.WriteJSON(g.stdout, v) }
 
 // note prints a diagnostic line to stderr unless --quiet.
 func (g *globalOptions) note(format string, args ...any) {
@@ -47,9 +57,9 @@ or joinery's native .jmesh), a parts table and a joint list (spot welds and
 bolts), finds the sheets each joint joins, and writes connector definitions
 and a connectivity report in joinery's own documented formats.
 
-joinery is a modelling aid. Joints in crash structures, seat and belt
-anchorages or lifting points need physical test, the applicable codes and
-qualified engineering judgement; joinery's output is no substitute.`,
+` + document.Caution + `
+
+` + exitStatusHelp,
 		Version:       version,
 		SilenceUsage:  true,
 		SilenceErrors: true,
@@ -62,14 +72,8 @@ qualified engineering judgement; joinery's output is no substitute.`,
 	pf.StringVar(&g.cpuProf, "cpu-profile", "", "write a CPU profile of the run to this file (for developers)")
 	pf.MarkHidden("cpu-profile")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return usageError{fmt.Errorf("%w (see '%s --help')", err, c.CommandPath())}
+		return pipeline.UsageError(fmt.Errorf("%w (see '%s --help')", err, c.CommandPath()))
 	})
 	root.AddCommand(newInspectCommand(g), newBuildCommand(g))
 	return root
 }
-
-// usageError marks a command-line mistake (exit status 2).
-type usageError struct{ err error }
-
-func (e usageError) Error() string { return e.err.Error() }
-func (e usageError) Unwrap() error { return e.err }

@@ -24,6 +24,8 @@ import (
 	"time"
 
 	"github.com/joinery-cae/joinery/examples/internal/exio"
+	"github.com/joinery-cae/joinery/geom/native"
+	"github.com/joinery-cae/joinery/geom/vtk"
 	"github.com/joinery-cae/joinery/joints/synth"
 	"github.com/joinery-cae/joinery/writers"
 )
@@ -83,9 +85,9 @@ func run(o options, stdout io.Writer) error {
 	}
 	m := model.Mesh
 	for _, name := range meshes {
-		write := func(w io.Writer) error { return writers.WriteNative(w, m) }
+		write := func(w io.Writer) error { return native.Write(w, m) }
 		if filepath.Ext(name) == ".vtk" {
-			write = func(w io.Writer) error { return writers.WriteVTK(w, m, true) }
+			write = func(w io.Writer) error { return vtk.Write(w, m, true) }
 		}
 		if err := writers.WriteFileAtomic(filepath.Join(o.out, name), write); err != nil {
 			return err

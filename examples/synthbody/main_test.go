@@ -8,6 +8,7 @@ import (
 
 	"github.com/joinery-cae/joinery/geom/meshio"
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/pipeline"
 	"github.com/joinery-cae/joinery/joints/synth"
 )
 
@@ -53,7 +54,7 @@ func TestRun(t *testing.T) {
 			t.Errorf("joint %d read back as %+v, want %+v", i, j, want.Joints[i])
 		}
 	}
-	if _, err := joints.LoadJob(filepath.Join(dir, "job.yaml")); err != nil {
+	if _, err := pipeline.LoadJob(filepath.Join(dir, "job.yaml")); err != nil {
 		t.Error(err)
 	}
 }

@@ -9,5 +9,5 @@
 //	node 103 10.5 10.5 0
 //	shell 1001 10 101 102 103 t=1.5
 //
-// The writer is writers.WriteNative.
+// The writer is Write.
 package native

@@ -19,7 +19,7 @@ import (
 // package reads.
 const Header = "joinery-mesh 1"
 
-// Version is the format version this package reads and writers.WriteNative
+// Version is the format version this package reads and Write
 // writes.
 const Version = 1
 

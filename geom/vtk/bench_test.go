@@ -14,7 +14,6 @@ import (
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/geomtest"
-	"github.com/joinery-cae/joinery/writers"
 )
 
 // gridMesh is an nx by ny grid of quads, 2.5 mm apart, in 20 parts of
@@ -42,7 +41,7 @@ func benchFile(b *testing.B, nx, ny int, binary bool) string {
 	b.Helper()
 	path := filepath.Join(b.TempDir(), "grid.vtk")
 	var buf bytes.Buffer
-	if err := writers.WriteVTK(&buf, gridMesh(nx, ny), binary); err != nil {
+	if err := Write(&buf, gridMesh(nx, ny), binary); err != nil {
 		b.Fatal(err)
 	}
 	if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {

@@ -29,6 +29,8 @@ import (
 
 	"github.com/joinery-cae/joinery/examples/internal/exio"
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/native"
+	"github.com/joinery-cae/joinery/geom/vtk"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/writers"
 )
@@ -120,10 +122,10 @@ func write(s *scenario, dir string) error {
 		name  string
 		write func(io.Writer) error
 	}{
-		{"mesh/floor.vtk", func(w io.Writer) error { return writers.WriteVTK(w, s.floor, true) }},
-		{"mesh/beam.vtk", func(w io.Writer) error { return writers.WriteVTK(w, s.beam, false) }},
-		{"mesh/closing-plate.jmesh", func(w io.Writer) error { return writers.WriteNative(w, s.plate) }},
-		{"mesh/bracket.jmesh", func(w io.Writer) error { return writers.WriteNative(w, s.bracket) }},
+		{"mesh/floor.vtk", func(w io.Writer) error { return vtk.Write(w, s.floor, true) }},
+		{"mesh/beam.vtk", func(w io.Writer) error { return vtk.Write(w, s.beam, false) }},
+		{"mesh/closing-plate.jmesh", func(w io.Writer) error { return native.Write(w, s.plate) }},
+		{"mesh/bracket.jmesh", func(w io.Writer) error { return native.Write(w, s.bracket) }},
 		{"parts.yaml", func(w io.Writer) error {
 			return exio.WriteParts(w, s.parts, "Parts of the van-rear-crossmember example (invented). Thickness in mm.\n"+
 				"Written by go run ./examples/van-rear-crossmember/gen")

@@ -1,0 +1,280 @@
+package inspect
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// Options set what Inspect looks at. Start from
+// DefaultOptions: zero values are taken as given.
+type Options struct {
+	// Deep adds free-edge loops and element-quality findings per part.
+	Deep bool
+	// WarpLimit is the warp angle, degrees, above which Deep lists a quad
+	// as warped. Default 10 degrees: a limit commonly used for shell
+	// meshes of sheet metal (common practice; limits from 5 to 15 degrees
+	// are seen).
+	WarpLimit float64
+	// BoxMargin, mm, grows every part's bounding box before joints are
+	// tested against it, so a weld lying between two flat sheets (whose
+	// boxes have no thickness) still counts as inside. Default 5 mm, our
+	// own choice: a few sheet thicknesses.
+	BoxMargin float64
+	// MaxListed caps the elements listed per part.
+	MaxListed int
+}
+
+// DefaultOptions returns the documented defaults.
+func DefaultOptions() Options {
+	return Options{WarpLimit: 10, BoxMargin: 5, MaxListed: 10}
+}
+
+// Validate checks that the limits are finite and not negative.
+func (o Options) Validate() error {
+	if math.IsNaN(o.WarpLimit) || math.IsInf(o.WarpLimit, 0) || o.WarpLimit < 0 {
+		return fmt.Errorf("warp-limit %g: want a finite angle, 0 or more", o.WarpLimit)
+	}
+	if math.IsNaN(o.BoxMargin) || math.IsInf(o.BoxMargin, 0) || o.BoxMargin < 0 {
+		return fmt.Errorf("box-margin %g: want a finite length, 0 or more", o.BoxMargin)
+	}
+	if o.MaxListed < 0 {
+		return fmt.Errorf("max-listed %d: want 0 or more", o.MaxListed)
+	}
+	return nil
+}
+
+// Inspection is what `joinery inspect` reports about a model and its joints.
+type Inspection struct {
+	Files        []FileSummary  `json:"files"`
+	Nodes        int            `json:"nodes"`
+	Elements     int            `json:"elements"`
+	Triangles    int            `json:"triangles"`
+	Quads        int            `json:"quads"`
+	Skipped      map[string]int `json:"skipped_cells"`
+	Parts        []PartSummary  `json:"parts"`
+	Renumbered   []Shift        `json:"renumbered,omitempty"`
+	Joints       JointSummary   `json:"joints"`
+	Deep         bool           `json:"deep"`
+	WarpLimit    *float64       `json:"warp_limit_deg,omitempty"` // set with Deep
+	BoxMarginMM  float64        `json:"box_margin_mm"`
+	MemoryBytes  int            `json:"mesh_bytes"`
+	UnusedParts  []int64        `json:"unused_table_parts,omitempty"`
+	MissingThick []int64        `json:"parts_without_thickness,omitempty"`
+}
+
+// FileSummary describes one mesh file.
+type FileSummary struct {
+	File     string         `json:"file"`
+	Nodes    int            `json:"nodes"`
+	Elements int            `json:"elements"`
+	Skipped  map[string]int `json:"skipped_cells,omitempty"`
+}
+
+// Shift is a renumbering applied to one file's ids.
+type Shift struct {
+	File       string `json:"file"`
+	NodeOffset int64  `json:"node_offset"`
+	ElemOffset int64  `json:"element_offset"`
+}
+
+// PartSummary describes one part.
+type PartSummary struct {
+	ID        int64       `json:"id"`
+	Name      string      `json:"name,omitempty"`
+	Material  string      `json:"material,omitempty"`
+	Surface   string      `json:"surface"`
+	Thickness float64     `json:"thickness"`
+	Elements  int         `json:"elements"`
+	Triangles int         `json:"triangles"`
+	Quads     int         `json:"quads"`
+	Area      float64     `json:"area_mm2"`
+	BoxMin    *[3]float64 `json:"box_min"` // null for a part without elements
+	BoxMax    *[3]float64 `json:"box_max"`
+	Deep      *PartDeep   `json:"deep,omitempty"`
+}
+
+// PartDeep is the deeper look at one part.
+type PartDeep struct {
+	Loops      []LoopSummary `json:"free_edge_loops"`
+	Warped     int           `json:"warped"`
+	Degenerate int           `json:"degenerate"`
+	WorstWarp  float64       `json:"worst_warp_deg"`
+	WorstElem  int64         `json:"worst_warp_element,omitempty"`
+	MaxAspect  float64       `json:"worst_aspect"`
+	MinEdge    float64       `json:"shortest_edge_mm"`
+	Listed     []ElemQuality `json:"listed,omitempty"`
+}
+
+// LoopSummary describes one free-edge loop.
+type LoopSummary struct {
+	Kind   string  `json:"kind"` // "outline", "hole" or "open"
+	Nodes  int     `json:"nodes"`
+	Length float64 `json:"length_mm"`
+}
+
+// ElemQuality lists one warped or degenerate element.
+type ElemQuality struct {
+	Element int64   `json:"element"`
+	Problem string  `json:"problem"` // "warped" or "degenerate"
+	Warp    float64 `json:"warp_deg"`
+	Aspect  float64 `json:"aspect"`
+	MinEdge float64 `json:"shortest_edge_mm"`
+}
+
+// JointSummary counts joints.
+type JointSummary struct {
+	Total   int            `json:"total"`
+	ByKind  map[string]int `json:"by_kind"`
+	Outside []string       `json:"outside_every_part_box"`
+}
+
+// ModelInfo is what Inspect needs to know of how the model was loaded.
+type ModelInfo struct {
+	Mesh        *geom.Mesh
+	Renumbered  []geom.Renumbering
+	UnusedParts []int64
+}
+
+// Run summarises a model and its joints.
+func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
+	m := mi.Mesh
+	in := &Inspection{
+		Nodes:       m.NumNodes(),
+		Elements:    m.NumElems(),
+		Skipped:     map[string]int{},
+		Deep:        opt.Deep,
+		BoxMarginMM: opt.BoxMargin,
+		MemoryBytes: m.Bytes(),
+		UnusedParts: mi.UnusedParts,
+	}
+	if opt.Deep {
+		w := opt.WarpLimit
+		in.WarpLimit = &w
+	}
+	for i, s := range m.Sources {
+		nEnd, eEnd := m.NumNodes(), m.NumElems()
+		if i+1 < len(m.Sources) {
+			nEnd, eEnd = m.Sources[i+1].NodeStart, m.Sources[i+1].ElemStart
+		}
+		in.Files = append(in.Files, FileSummary{File: s.File, Nodes: nEnd - s.NodeStart, Elements: eEnd - s.ElemStart, Skipped: s.Skipped})
+		for k, v := range s.Skipped {
+			in.Skipped[k] += v
+		}
+	}
+	for _, r := range mi.Renumbered {
+		in.Renumbered = append(in.Renumbered, Shift{File: r.File, NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
+	}
+	stats := m.PartStats()
+	for i, p := range m.Parts {
+		s := stats[i]
+		in.Triangles += s.Tris
+		in.Quads += s.Quads
+		ps := PartSummary{
+			ID: p.ID, Name: p.Name, Material: p.Material, Surface: p.Surface.String(), Thickness: p.Thickness,
+			Elements: s.Elems, Triangles: s.Tris, Quads: s.Quads, Area: s.Area,
+		}
+		if s.Elems > 0 {
+			ps.BoxMin = &[3]float64{s.Box.Min.X, s.Box.Min.Y, s.Box.Min.Z}
+			ps.BoxMax = &[3]float64{s.Box.Max.X, s.Box.Max.Y, s.Box.Max.Z}
+		}
+		in.Parts = append(in.Parts, ps)
+	}
+	in.MissingThick = m.PartsWithoutThickness()
+	if opt.Deep {
+		deepLook(m, in, opt)
+	}
+	slices.SortFunc(in.Parts, func(a, b PartSummary) int { return cmp.Compare(a.ID, b.ID) })
+
+	in.Joints.ByKind = map[string]int{}
+	in.Joints.Outside = []string{}
+	for _, j := range js {
+		in.Joints.Total++
+		in.Joints.ByKind[j.Kind.String()]++
+		inside := false
+		for i := range m.Parts {
+			if stats[i].Elems > 0 && geom.BoxContains(stats[i].Box, j.Point, opt.BoxMargin) {
+				inside = true
+				break
+			}
+		}
+		if !inside {
+			in.Joints.Outside = append(in.Joints.Outside, j.ID)
+		}
+	}
+	slices.SortFunc(in.Joints.Outside, joints.CompareIDs)
+	return in
+}
+
+func deepLook(m *geom.Mesh, in *Inspection, opt Options) {
+	adj := geom.NodeElements(m)
+	loops := geom.FreeEdgeLoops(m, geom.FreeEdges(m, adj))
+	deep := make([]PartDeep, len(m.Parts))
+	for i := range deep {
+		deep[i].MinEdge = math.Inf(1)
+	}
+	for _, lp := range loops {
+		kind := "hole"
+		switch {
+		case !lp.Closed:
+			kind = "open"
+		case lp.Outline:
+			kind = "outline"
+		}
+		deep[lp.Part].Loops = append(deep[lp.Part].Loops, LoopSummary{Kind: kind, Nodes: len(lp.Nodes), Length: lp.Length})
+	}
+	for e := range m.ElemIDs {
+		d := &deep[m.ElemPart[e]]
+		q := m.ElemQuality(e)
+		if q.Warp > d.WorstWarp {
+			d.WorstWarp, d.WorstElem = q.Warp, m.ElemIDs[e]
+		}
+		if !math.IsInf(q.Aspect, 1) {
+			d.MaxAspect = math.Max(d.MaxAspect, q.Aspect)
+		}
+		d.MinEdge = math.Min(d.MinEdge, q.MinEdge)
+		problem := ""
+		switch {
+		case q.Degenerate:
+			d.Degenerate++
+			problem = "degenerate"
+		case q.Warp > opt.WarpLimit:
+			d.Warped++
+			problem = "warped"
+		}
+		if problem != "" && len(d.Listed) < opt.MaxListed {
+			d.Listed = append(d.Listed, ElemQuality{Element: m.ElemIDs[e], Problem: problem, Warp: q.Warp, Aspect: finiteOr(q.Aspect, -1), MinEdge: q.MinEdge})
+		}
+	}
+	for i := range in.Parts {
+		d := deep[i]
+		if math.IsInf(d.MinEdge, 1) {
+			d.MinEdge = 0
+		}
+		slices.SortStableFunc(d.Loops, func(a, b LoopSummary) int {
+			return cmp.Or(cmp.Compare(kindRank(a.Kind), kindRank(b.Kind)), cmp.Compare(b.Length, a.Length))
+		})
+		in.Parts[i].Deep = &d
+	}
+}
+
+func kindRank(k string) int {
+	switch k {
+	case "outline":
+		return 0
+	case "hole":
+		return 1
+	}
+	return 2
+}
+
+func finiteOr(v, alt float64) float64 {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return alt
+	}
+	return v
+}

@@ -1,0 +1,152 @@
+package pipeline
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/spot"
+	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// DefaultOut is the output directory when neither the job nor a flag
+// names one.
+const DefaultOut = "joinery-out"
+
+// BuildSettings are a build's settings, read from a job and checked.
+type BuildSettings struct {
+	Options joints.BuildOptions
+	FailOn  joints.Severity
+	Fail    bool // false for --fail-on never
+	Out     string
+}
+
+// BuildSettings reads and checks the job's build settings. Errors are
+// usage errors.
+func (job *Job) BuildSettings() (BuildSettings, error) {
+	var s BuildSettings
+	if err := job.Build.Apply(&s.Options); err != nil {
+		return s, UsageError(err)
+	}
+	if err := s.Options.Validate(); err != nil {
+		return s, UsageError(err)
+	}
+	var err error
+	if s.FailOn, s.Fail, err = joints.ParseFailOn(job.Build.FailOn); err != nil {
+		return s, UsageError(err)
+	}
+	s.Out = job.Out
+	if s.Out == "" {
+		s.Out = DefaultOut
+	}
+	return s, nil
+}
+
+// Outcome is what a command reports of a run.
+type Outcome struct {
+	Out        string   // output directory
+	Files      []string // names of the files written there
+	Report     *document.ReportDoc
+	Connectors *document.ConnectorsDoc
+	Result     *joints.Result
+	// Reached is set when findings reached the settings' failure level.
+	Reached bool
+}
+
+// BuildFiles are the names of the files a build writes, in order.
+func BuildFiles() []string {
+	return []string{"connectors.json", "connectors.csv", "connectors.vtk", "report.json", "report.txt"}
+}
+
+// Build runs a whole build: load the job's inputs, build the connectors,
+// render the documents and write them as one set into s.Out.
+func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, error) {
+	if len(job.Joints) == 0 {
+		return nil, UsageError(errors.New("no joint list given: name one with --joints or in the job file's joints"))
+	}
+	in, err := Load(ctx, job, env)
+	if err != nil {
+		return nil, err
+	}
+	res, err := BuildConnectors(ctx, in, s.Options, env)
+	if err != nil {
+		return nil, err
+	}
+	info := in.RunInfo(env.Generator)
+	conn := document.NewConnectors(in.Model.Mesh, res, info)
+	rep := document.NewReport(res, info)
+	rendered, err := writers.Render(buildFiles(conn, rep))
+	if err != nil {
+		return nil, err
+	}
+	if err := writers.WriteSet(s.Out, rendered); err != nil {
+		return nil, err
+	}
+	return &Outcome{Out: s.Out, Files: BuildFiles(), Report: rep, Connectors: conn, Result: res,
+		Reached: s.Fail && res.Reached(s.FailOn)}, nil
+}
+
+// buildFiles lists the files of a build's output set, in BuildFiles order.
+func buildFiles(conn *document.ConnectorsDoc, rep *document.ReportDoc) []writers.File {
+	return []writers.File{
+		{Name: "connectors.json", Render: func(w io.Writer) error { return document.EncodeConnectors(w, conn) }},
+		{Name: "connectors.csv", Render: func(w io.Writer) error { return writers.WriteConnectorsCSV(w, conn) }},
+		{Name: "connectors.vtk", Render: func(w io.Writer) error { return writers.WriteConnectorsVTK(w, conn) }},
+		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, rep) }},
+		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
+	}
+}
+
+// BuildConnectors indexes the model near the joints and builds every
+// joint's connector with options o (defaults resolved against the
+// model): spot welds by package spot, joints of other kinds reported as
+// not supported. It returns the assembled result with new ids.
+func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env Env) (*joints.Result, error) {
+	m := in.Model.Mesh
+	if missing := in.Model.MissingThickness(); len(missing) > 0 {
+		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
+	}
+	o = o.Defaults(joints.MaxThickness(m))
+	prog := env.progress()
+	prog.Start("indexing elements", 0)
+	index := spot.IndexFor(m, in.Joints, o)
+	prog.Done()
+	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
+	if err != nil {
+		return nil, err
+	}
+	for i := range in.Joints {
+		if in.Joints[i].Kind != joints.Spot {
+			conns = append(conns, joints.NotSupported(&in.Joints[i], &o))
+		}
+	}
+	res, err := joints.NewResult(m, conns, nil, o)
+	if err != nil {
+		return nil, UsageError(err)
+	}
+	return res, nil
+}
+
+// RunInfo returns the record of a run's inputs for its documents.
+func (in *Inputs) RunInfo(generator string) document.RunInfo {
+	info := document.RunInfo{Generator: generator, Meshes: in.Job.Meshes, Parts: in.Job.Parts, Joints: in.Job.Joints}
+	for _, r := range in.Model.Renumbered {
+		info.Renumbered = append(info.Renumbered, document.Shift{File: r.File, NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
+	}
+	return info
+}
+
+// Summary is the few lines a build prints on stdout.
+func (o *Outcome) Summary(w io.Writer) error {
+	return writers.WriteBuildSummary(w, o.Report, o.Out, o.Files)
+}
+
+// FailMessage says why a run that reached its failure level exits 1.
+func (o *Outcome) FailMessage(failOn joints.Severity) string {
+	return fmt.Sprintf("findings at or above %q: see %s", failOn, filepath.Join(o.Out, "report.txt"))
+}

@@ -1,0 +1,293 @@
+package pipeline
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+
+	"gopkg.in/yaml.v3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/meshio/tabular"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// JobVersion is the job file version this package reads.
+const JobVersion = 1
+
+// Job is a whole connector build described in one YAML file, so that it
+// can be kept under version control:
+//
+//	# joinery job, version 1
+//	version: 1                       # required
+//	meshes: [mesh/floor.vtk, mesh/beam.jmesh]   # required, at least one
+//	parts: parts.yaml                # optional parts table
+//	joints: [welds.csv]              # joint lists
+//	out: out                         # output directory
+//	renumber: false                  # shift clashing ids of later meshes
+//	build:
+//	  reach: 0                       # mm, 0 = automatic
+//	  gap_allowance: 0               # mm, 0 = automatic
+//	  attach: interpolated           # node-pair | interpolated | patch
+//	  spot_dofs: [tx, ty, tz, rx, ry, rz]
+//	  id_start: 0                    # 0 = above every id in the mesh
+//	  nugget_rule: 5sqrt             # 4sqrt | 5sqrt
+//	  fail_on: error                 # error | warning | info | never
+//	  groups:                        # per joint group overrides
+//	    rear-rail: {attach: node-pair}
+//
+// Relative paths are relative to the job file's directory; LoadJob
+// resolves them. Unknown keys are errors.
+//
+// Every setting records whether the file gave it: strings are "" and
+// lists nil when not given, numbers and booleans are pointers, nil when
+// not given. A command therefore layers its settings as defaults, then
+// the job (JobBuild.Apply sets only what the file gave), then the flags
+// the user set on the command line (pflag's Changed), so a flag overrides
+// the job and the job overrides the defaults.
+type Job struct {
+	Version  int      `yaml:"version"`
+	Meshes   []string `yaml:"meshes"`
+	Parts    string   `yaml:"parts,omitempty"`
+	Joints   []string `yaml:"joints,omitempty"`
+	Out      string   `yaml:"out,omitempty"`
+	Renumber *bool    `yaml:"renumber,omitempty"`
+	Build    JobBuild `yaml:"build,omitempty"`
+	// File is the path the job was read from.
+	File string `yaml:"-"`
+}
+
+// JobBuild holds the build settings of a job, as written in the file
+// (validated by LoadJob).
+type JobBuild struct {
+	Reach        *float64            `yaml:"reach,omitempty"`         // mm, 0 = automatic
+	GapAllowance *float64            `yaml:"gap_allowance,omitempty"` // mm, 0 = automatic
+	Attach       string              `yaml:"attach,omitempty"`
+	SpotDOFs     []string            `yaml:"spot_dofs,omitempty"`
+	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
+	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
+	FailOn       string              `yaml:"fail_on,omitempty"`
+	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
+}
+
+// JobGroup holds the settings that differ for the joints of one group.
+type JobGroup struct {
+	Attach string `yaml:"attach,omitempty"`
+}
+
+// Apply copies the settings the job gave into o, leaving the others as
+// they are; group settings are added to o.GroupAttach. FailOn is not a
+// build option: read it with ParseFailOn.
+func (b *JobBuild) Apply(o *joints.BuildOptions) error {
+	if b.Reach != nil {
+		o.Reach = *b.Reach
+	}
+	if b.GapAllowance != nil {
+		o.GapAllowance = *b.GapAllowance
+	}
+	if b.IDStart != nil {
+		o.IDStart = *b.IDStart
+	}
+	var err error
+	if b.Attach != "" {
+		if o.Attach, err = joints.ParseAttach(b.Attach); err != nil {
+			return err
+		}
+	}
+	if b.SpotDOFs != nil {
+		if o.SpotDOFs, err = joints.ParseDOFs(b.SpotDOFs...); err != nil {
+			return err
+		}
+	}
+	if b.NuggetRule != "" {
+		if o.Rule, err = joints.ParseNuggetRule(b.NuggetRule); err != nil {
+			return err
+		}
+	}
+	for name, g := range b.Groups {
+		if g.Attach == "" {
+			continue
+		}
+		a, err := joints.ParseAttach(g.Attach)
+		if err != nil {
+			return fmt.Errorf("group %q: %w", name, err)
+		}
+		if o.GroupAttach == nil {
+			o.GroupAttach = map[string]joints.Attach{}
+		}
+		o.GroupAttach[name] = a
+	}
+	return nil
+}
+
+// LoadJob reads the job file at path and resolves its relative paths
+// against the file's directory.
+func LoadJob(path string) (*Job, error) {
+	f, err := os.Open(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, geom.FileError(path, "job file not found")
+	}
+	if err != nil {
+		return nil, geom.FileError(path, "job file: %w", err)
+	}
+	defer f.Close()
+	return ReadJob(f, path)
+}
+
+// ReadJob reads a job from r; name is the job file's path, used in errors
+// and to resolve relative paths (against filepath.Dir(name)).
+func ReadJob(r io.Reader, name string) (*Job, error) {
+	y := tabular.YAML{File: name}
+	root, err := y.Parse(r)
+	if err != nil {
+		return nil, err
+	}
+	if root == nil {
+		return nil, y.Errorf(nil, "empty job file: want at least version and meshes")
+	}
+	job := &Job{File: name}
+	dir := filepath.Dir(name)
+	path := func(v *yaml.Node, what string) (string, error) {
+		s, err := y.String(v, what)
+		switch {
+		case err != nil:
+			return "", err
+		case s == "":
+			return "", y.Errorf(v, "%s: empty path", what)
+		case !filepath.IsAbs(s):
+			s = filepath.Join(dir, s)
+		}
+		return s, nil
+	}
+	paths := func(v *yaml.Node, what string) ([]string, error) {
+		items, err := y.List(v, what)
+		if err != nil {
+			return nil, err
+		}
+		out := make([]string, len(items))
+		for i, it := range items {
+			if out[i], err = path(it, what); err != nil {
+				return nil, err
+			}
+		}
+		return out, nil
+	}
+	var hasVersion, hasMeshes bool
+	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "build"}
+	err = y.Map(root, "job", keys, func(key string, _, v *yaml.Node) (err error) {
+		switch key {
+		case "version":
+			hasVersion = true
+			var n int64
+			if n, err = y.Int(v, "version"); err == nil && n != JobVersion {
+				err = y.Errorf(v, "version: job file version %d; this Joinery reads version %d", n, JobVersion)
+			}
+			job.Version = int(n)
+		case "meshes":
+			if job.Meshes, err = paths(v, "meshes"); err == nil && len(job.Meshes) == 0 {
+				err = y.Errorf(v, "meshes: the list is empty")
+			}
+			hasMeshes = true
+		case "parts":
+			if !tabular.IsNull(v) {
+				job.Parts, err = path(v, "parts")
+			}
+		case "joints":
+			job.Joints, err = paths(v, "joints")
+		case "out":
+			if !tabular.IsNull(v) {
+				job.Out, err = path(v, "out")
+			}
+		case "renumber":
+			var b bool
+			b, err = y.Bool(v, "renumber")
+			job.Renumber = &b
+		case "build":
+			err = readJobBuild(y, v, &job.Build)
+		}
+		return err
+	})
+	if err != nil {
+		return nil, err
+	}
+	if !hasVersion {
+		return nil, y.Errorf(root, "no version: this Joinery reads job files with version: %d", JobVersion)
+	}
+	if !hasMeshes {
+		return nil, y.Errorf(root, "no meshes: give the list of mesh files")
+	}
+	return job, nil
+}
+
+// readJobBuild reads and checks the build map of a job.
+func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
+	// distance reads a length that must be 0 (automatic) or positive.
+	distance := func(v *yaml.Node, what string) (*float64, error) {
+		d, err := y.Float(v, what)
+		if err == nil && d < 0 {
+			err = y.Errorf(v, "%s: %g mm is negative (0 means automatic)", what, d)
+		}
+		return &d, err
+	}
+	// choice reads a string and checks it with parse.
+	choice := func(v *yaml.Node, what string, parse func(string) error) (string, error) {
+		s, err := y.String(v, what)
+		if err != nil {
+			return "", err
+		}
+		if s == "" {
+			return "", y.Errorf(v, "%s: no value", what)
+		}
+		if err := parse(s); err != nil {
+			return "", y.Errorf(v, "%s: %w", what, err)
+		}
+		return s, nil
+	}
+	attach := func(s string) error { _, err := joints.ParseAttach(s); return err }
+	keys := []string{"reach", "gap_allowance", "attach", "spot_dofs", "id_start", "nugget_rule", "fail_on", "groups"}
+	return y.Map(n, "build", keys, func(key string, _, v *yaml.Node) (err error) {
+		switch key {
+		case "reach":
+			b.Reach, err = distance(v, key)
+		case "gap_allowance":
+			b.GapAllowance, err = distance(v, key)
+		case "attach":
+			b.Attach, err = choice(v, key, attach)
+		case "spot_dofs":
+			if b.SpotDOFs, err = y.Strings(v, key); err != nil {
+				return err
+			}
+			if _, err := joints.ParseDOFs(b.SpotDOFs...); err != nil {
+				return y.Errorf(v, "spot_dofs: %w", err)
+			}
+		case "id_start":
+			var id int64
+			if id, err = y.Int(v, key); err == nil && id < 0 {
+				err = y.Errorf(v, "id_start: %d is negative (0 means above every id in the mesh)", id)
+			}
+			b.IDStart = &id
+		case "nugget_rule":
+			b.NuggetRule, err = choice(v, key, func(s string) error { _, err := joints.ParseNuggetRule(s); return err })
+		case "fail_on":
+			b.FailOn, err = choice(v, key, func(s string) error { _, _, err := joints.ParseFailOn(s); return err })
+		case "groups":
+			b.Groups = map[string]JobGroup{}
+			err = y.Map(v, "groups", nil, func(name string, k, gv *yaml.Node) error {
+				if name == "" {
+					return y.Errorf(k, "groups: empty group name")
+				}
+				var g JobGroup
+				err := y.Map(gv, "group "+name, []string{"attach"}, func(_ string, _, av *yaml.Node) (err error) {
+					g.Attach, err = choice(av, "attach", attach)
+					return err
+				})
+				b.Groups[name] = g
+				return err
+			})
+		}
+		return err
+	})
+}

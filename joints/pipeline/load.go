@@ -1,0 +1,90 @@
+package pipeline
+
+import (
+	"context"
+	"errors"
+	"runtime"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/meshio"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// ErrUsage marks a run that cannot start because of how it was asked
+// for (no mesh given, no joints for a command that needs them, bad
+// option values): the command line's fault, exit status 2.
+var ErrUsage = errors.New("bad usage")
+
+// usageError is an error of the command line or job settings.
+type usageError struct{ err error }
+
+func (e *usageError) Error() string        { return e.err.Error() }
+func (e *usageError) Unwrap() error        { return e.err }
+func (e *usageError) Is(target error) bool { return target == ErrUsage }
+
+// UsageError marks err as a usage error (errors.Is(err, ErrUsage)).
+func UsageError(err error) error {
+	if err == nil {
+		return nil
+	}
+	return &usageError{err}
+}
+
+// Env is what a run needs from its caller: where progress goes and where
+// notes (input warnings) go, and the name of the program.
+type Env struct {
+	Progress  geom.Progress                 // nil: none
+	Note      func(format string, a ...any) // nil: notes are dropped
+	Generator string                        // "joinery <version>"
+}
+
+func (e *Env) progress() geom.Progress {
+	if e.Progress == nil {
+		return geom.NoProgress{}
+	}
+	return e.Progress
+}
+
+func (e *Env) note(format string, a ...any) {
+	if e.Note != nil {
+		e.Note(format, a...)
+	}
+}
+
+// Inputs is everything a job reads.
+type Inputs struct {
+	Job      *Job
+	Model    *meshio.Model
+	Joints   []joints.Joint
+	Warnings []joints.InputWarning
+}
+
+// Load reads the model and the joint lists a job names. Input warnings
+// go to env's notes and are kept in Inputs.Warnings.
+func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
+	if len(job.Meshes) == 0 {
+		return nil, UsageError(errors.New("no mesh given: name one with --mesh or in a job file"))
+	}
+	prog := env.progress()
+	prog.Start("reading mesh files", int64(len(job.Meshes)))
+	model, err := meshio.Load(meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber})
+	prog.Done()
+	if err != nil {
+		return nil, err
+	}
+	// The readers' file buffers, often larger than the model, are garbage
+	// now; collect them before the next steps grow the heap, so that the
+	// process reuses their memory instead of asking the system for more.
+	runtime.GC()
+	js, warnings, err := joints.ReadJointLists(job.Joints)
+	if err != nil {
+		return nil, err
+	}
+	for _, w := range warnings {
+		env.note("warning: %s", w)
+	}
+	if err := joints.CheckParts(js, model.Mesh); err != nil {
+		return nil, err
+	}
+	return &Inputs{Job: job, Model: model, Joints: js, Warnings: warnings}, ctx.Err()
+}

@@ -1,0 +1,191 @@
+package spot
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// attach ties an end to every sheet of a stack with the given
+// attachment; diameter is the nugget diameter, mm (the patch radius is
+// half of it).
+func attach(x *geom.Index, st *joints.Stack, a joints.Attach, diameter float64) []joints.End {
+	ends := make([]joints.End, len(st.Sheets))
+	for i := range st.Sheets {
+		s := &st.Sheets[i]
+		switch a {
+		case joints.NodePair:
+			ends[i] = attachNodePair(x, s)
+		case joints.Patch:
+			ends[i] = attachPatch(x, s, diameter/2)
+		default:
+			ends[i] = attachInterpolated(x.Mesh(), s)
+		}
+	}
+	return ends
+}
+
+// attachInterpolated ties the end to the host element's corners with the
+// shape-function weights at the projection point.
+func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
+	nodes := m.ElemNodes(s.Proj.Elem)
+	nc := m.Type(s.Proj.Elem).Corners()
+	e := joints.End{Point: s.Proj.Point, NodeIndex: -1, Nodes: slices.Clone(nodes[:nc]), Weights: make([]float64, nc)}
+	copy(e.Weights, s.Proj.Weights[:nc])
+	return e
+}
+
+// attachNodePair puts the end on the sheet's node nearest to the
+// projection point (ties to the lower node id).
+func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
+	m := x.Mesh()
+	q := s.Proj.Point
+	// The nearest node of the part is no farther than the host element's
+	// farthest corner, so the elements within that radius hold it.
+	r := 0.0
+	nc := m.Type(s.Proj.Elem).Corners()
+	for _, n := range m.ElemNodes(s.Proj.Elem)[:nc] {
+		r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
+	}
+	pi := m.ElemPart[s.Proj.Elem]
+	best, bestD := int32(-1), math.Inf(1)
+	var buf [64]int32
+	for _, e := range x.ElemsNear(q, r, buf[:0]) {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for _, n := range m.ElemNodes(int(e))[:m.Type(int(e)).Corners()] {
+			d := r3.Norm(r3.Sub(m.Coords[n], q))
+			if d < bestD || d == bestD && m.NodeIDs[n] < m.NodeIDs[best] {
+				best, bestD = n, d
+			}
+		}
+	}
+	return joints.End{Point: m.Coords[best], NodeIndex: best, Nodes: []int32{best}, Weights: []float64{1}}
+}
+
+// attachPatch ties the end to every node of the sheet within radius of
+// the projection point, plus the host element's corners. The weights are
+// the most uniform ones (least sum of squared deviations from 1/N) that
+// sum to 1 and reproduce the projection point's position in the sheet's
+// tangent plane exactly: w = w0 + Aᵀ(AAᵀ)⁻¹(b − A w0), with w0 uniform and
+// A the rows (1), (u_i), (v_i) of in-plane node coordinates about the
+// point. A rigid translation of the nodes thus moves the end by the same
+// amount, and loads spread as evenly as the geometry allows. When the
+// nodes do not span the plane, the interpolated weights are used.
+func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) joints.End {
+	m := x.Mesh()
+	q := s.Proj.Point
+	pi := m.ElemPart[s.Proj.Elem]
+	host := attachInterpolated(m, s)
+	set := map[int32]bool{}
+	for _, n := range host.Nodes {
+		set[n] = true
+	}
+	var buf [64]int32
+	for _, e := range x.ElemsNear(q, radius, buf[:0]) {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for _, n := range m.ElemNodes(int(e))[:m.Type(int(e)).Corners()] {
+			if r3.Norm(r3.Sub(m.Coords[n], q)) <= radius {
+				set[n] = true
+			}
+		}
+	}
+	nodes := make([]int32, 0, len(set))
+	for n := range set {
+		nodes = append(nodes, n)
+	}
+	slices.SortFunc(nodes, func(a, b int32) int { return cmp.Compare(m.NodeIDs[a], m.NodeIDs[b]) })
+	w, ok := patchWeights(m, nodes, q, s.Proj.Normal)
+	if !ok {
+		return host
+	}
+	return joints.End{Point: q, NodeIndex: -1, Nodes: nodes, Weights: w}
+}
+
+// patchWeights solves for the weights described at attachPatch.
+func patchWeights(m *geom.Mesh, nodes []int32, q, normal r3.Vec) ([]float64, bool) {
+	n := len(nodes)
+	t1, t2, ok := tangents(normal)
+	if !ok || n < 3 {
+		return nil, false
+	}
+	A := mat.NewDense(3, n, nil)
+	w0 := mat.NewVecDense(n, nil)
+	for i, nd := range nodes {
+		d := r3.Sub(m.Coords[nd], q)
+		A.Set(0, i, 1)
+		A.Set(1, i, r3.Dot(d, t1))
+		A.Set(2, i, r3.Dot(d, t2))
+		w0.SetVec(i, 1/float64(n))
+	}
+	// residual = b - A w0, with b = (1, 0, 0).
+	var aw mat.VecDense
+	aw.MulVec(A, w0)
+	res := mat.NewVecDense(3, []float64{1 - aw.AtVec(0), -aw.AtVec(1), -aw.AtVec(2)})
+	var aat mat.Dense
+	aat.Mul(A, A.T())
+	var lu mat.LU
+	lu.Factorize(&aat)
+	if c := lu.Cond(); math.IsInf(c, 1) || c > 1e12 {
+		return nil, false
+	}
+	var y mat.VecDense
+	if err := lu.SolveVecTo(&y, false, res); err != nil {
+		return nil, false
+	}
+	var corr mat.VecDense
+	corr.MulVec(A.T(), &y)
+	w := make([]float64, n)
+	for i := range w {
+		w[i] = w0.AtVec(i) + corr.AtVec(i)
+	}
+	return w, true
+}
+
+// tangents returns two unit vectors perpendicular to n and to each other.
+func tangents(n r3.Vec) (r3.Vec, r3.Vec, bool) {
+	if r3.Norm2(n) == 0 {
+		return r3.Vec{}, r3.Vec{}, false
+	}
+	ref := r3.Vec{X: 1}
+	if math.Abs(n.X) > 0.9 {
+		ref = r3.Vec{Y: 1}
+	}
+	t1 := r3.Unit(r3.Cross(n, ref))
+	t2 := r3.Unit(r3.Cross(n, t1))
+	return t1, t2, true
+}
+
+// checkFacing reports node-pair ends that stray from the weld: a node
+// outside the nugget (farther than radius from the stack axis through the
+// weld point), and nodes of consecutive sheets offset from each other
+// across the axis by more than tol.
+func checkFacing(st *joints.Stack, ends []joints.End, radius, tol float64, j *joints.Joint) []joints.Finding {
+	across := func(d r3.Vec) float64 { return r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, st.Axis), st.Axis))) }
+	var out []joints.Finding
+	for i, e := range ends {
+		if lat := across(r3.Sub(e.Point, j.Point)); lat > radius {
+			p := st.Sheets[i].Part
+			out = append(out, j.Finding(joints.Warning, joints.CodeNodesApart, []int64{p},
+				fmt.Sprintf("nearest node of part %d lies %s mm from the weld axis, outside the nugget (radius %s mm): the connector moves off the weld", p, joints.MM(lat), joints.MM(radius))))
+		}
+	}
+	for i := 0; i+1 < len(ends); i++ {
+		if lat := across(r3.Sub(ends[i+1].Point, ends[i].Point)); lat > tol {
+			a, b := st.Sheets[i].Part, st.Sheets[i+1].Part
+			out = append(out, j.Finding(joints.Warning, joints.CodeNodesApart, []int64{a, b},
+				fmt.Sprintf("nearest nodes of parts %d and %d are %s mm apart across the stack (limit %s mm): the meshes do not face each other here", a, b, joints.MM(lat), joints.MM(tol))))
+		}
+	}
+	return out
+}

@@ -1,0 +1,112 @@
+package spot
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// checkSheets returns the errors that stop a weld from being built on
+// its stack: a sheet without thickness, a host element without area, a
+// listed sheet that does not lie under the weld.
+func checkSheets(m *geom.Mesh, j *joints.Joint, st *joints.Stack, diameter float64, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	for _, s := range st.Sheets {
+		if !(s.Thickness > 0) {
+			fs = append(fs, j.Finding(joints.Error, joints.CodeNoThickness, []int64{s.Part},
+				fmt.Sprintf("part %d has no thickness: give it one in the parts table", s.Part)))
+		}
+	}
+	for _, s := range st.Sheets {
+		switch {
+		case r3.Norm2(s.Proj.Normal) == 0:
+			fs = append(fs, j.Finding(joints.Error, joints.CodeDegenerate, []int64{s.Part},
+				fmt.Sprintf("the element of part %d under the weld (id %d) has no area, so no normal", s.Part, m.ElemIDs[s.Proj.Elem])))
+		case len(j.Parts) > 0 && s.Lateral > o.LateralFactor*diameter/2:
+			// Automatic stacks only hold sheets near the axis; listed ones
+			// are held to the same limit here: the weld must lie over them.
+			fs = append(fs, j.Finding(joints.Error, joints.CodeOffSheet, []int64{s.Part},
+				fmt.Sprintf("listed part %d does not lie under the weld: its nearest point is %s mm off the weld axis (limit %s mm)",
+					s.Part, joints.MM(s.Lateral), joints.MM(o.LateralFactor*diameter/2))))
+		}
+	}
+	return fs
+}
+
+// checkStack returns the warnings about a stack that can be built: its
+// thicknesses outside ISO 14373, gaps off contact, the weld too near a
+// sheet's free edge. It sets each sheet's EdgeDistance.
+func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float64, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	if why := joints.OutsideISO14373(st.Thicknesses()); why != "" {
+		fs = append(fs, j.Finding(joints.Warning, joints.CodeThicknessRange, st.Parts(),
+			"stack outside the scope of ISO 14373: "+why))
+	}
+	fs = append(fs, checkGaps(st, o, j)...)
+	return append(fs, checkEdges(x, j, st, diameter, o)...)
+}
+
+// checkGaps compares each consecutive gap between mid-surfaces with the
+// contact gap (t1+t2)/2 and returns the findings.
+func checkGaps(st *joints.Stack, o *joints.BuildOptions, j *joints.Joint) []joints.Finding {
+	var out []joints.Finding
+	for i := 0; i+1 < len(st.Sheets); i++ {
+		a, b := st.Sheets[i], st.Sheets[i+1]
+		if f, ok := GapFinding(j, a, b, o); ok {
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
+// GapFinding compares the gap between the mid-surfaces of consecutive
+// sheets a and b of a stack (b.Position - a.Position) with contact,
+// (t1+t2)/2, and returns a gap-open or gap-closed warning when it is off
+// by more than the allowance.
+func GapFinding(j *joints.Joint, a, b joints.Sheet, o *joints.BuildOptions) (joints.Finding, bool) {
+	gap := b.Position - a.Position
+	want := (a.Thickness + b.Thickness) / 2
+	tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
+	dev := gap - want
+	switch {
+	case dev > tol:
+		return j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
+			fmt.Sprintf("parts %d and %d do not touch: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the weld would bridge %s mm of air",
+				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))), true
+	case dev < -tol:
+		return j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
+			fmt.Sprintf("parts %d and %d overlap: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
+				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))), true
+	}
+	return joints.Finding{}, false
+}
+
+// checkEdges sets each sheet's distance to its part's nearest free edge
+// and reports welds closer than the edge limit (EdgeFactor nugget
+// diameters). One element query around the weld serves every sheet: it
+// reaches twice the edge limit around each projection point.
+func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float64, o *joints.BuildOptions) []joints.Finding {
+	m := x.Mesh()
+	edgeLimit := o.EdgeFactor * diameter
+	reach := 0.0
+	for _, s := range st.Sheets {
+		reach = math.Max(reach, s.Proj.Dist)
+	}
+	var nbuf [256]int32
+	near := x.ElemsNear(j.Point, reach+2*edgeLimit, nbuf[:0])
+	var fs []joints.Finding
+	for i := range st.Sheets {
+		s := &st.Sheets[i]
+		s.EdgeDistance = EdgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
+		if s.EdgeDistance < edgeLimit {
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part},
+				fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",
+					joints.MM(s.EdgeDistance), s.Part, joints.MM(edgeLimit), o.EdgeFactor)))
+		}
+	}
+	return fs
+}

@@ -1,0 +1,93 @@
+package document
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// header is what every document starts with.
+type header struct {
+	Schema  string `json:"schema"`
+	Version int    `json:"version"`
+}
+
+// decode reads one JSON document of the given schema and version into v.
+// A document of another schema or version, or one that is not JSON, is
+// an input error naming the file.
+func decode(r io.Reader, name, schema string, version int, v any) error {
+	data, err := io.ReadAll(bufio.NewReader(r))
+	if err != nil {
+		return fmt.Errorf("document: reading %s: %w", name, err)
+	}
+	var h header
+	if err := json.Unmarshal(data, &h); err != nil {
+		return jsonError(name, data, err)
+	}
+	switch {
+	case h.Schema != schema:
+		return geom.FileError(name, "not a %s document (schema %q)", schema, excerpt(h.Schema))
+	case h.Version != version:
+		return geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
+	}
+	if err := json.Unmarshal(data, v); err != nil {
+		return jsonError(name, data, err)
+	}
+	return nil
+}
+
+// jsonError turns a JSON syntax or type error into an input error at its
+// line.
+func jsonError(name string, data []byte, err error) error {
+	off := int64(-1)
+	switch e := err.(type) {
+	case *json.SyntaxError:
+		off = e.Offset
+	case *json.UnmarshalTypeError:
+		off = e.Offset
+	}
+	if off >= 0 && off <= int64(len(data)) {
+		return geom.LineError(name, 1+bytes.Count(data[:off], []byte("\n")), "%v", err)
+	}
+	return geom.FileError(name, "%v", err)
+}
+
+// excerpt cuts a text echoed in a message to a readable length.
+func excerpt(s string) string {
+	const limit = 40
+	if len(s) <= limit {
+		return s
+	}
+	return s[:limit] + "..."
+}
+
+// errWriter keeps the first error of a sequence of writes.
+type errWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (e *errWriter) Write(p []byte) (int, error) {
+	if e.err != nil {
+		return 0, e.err
+	}
+	n, err := e.w.Write(p)
+	e.err = err
+	return n, err
+}
+
+func (e *errWriter) printf(format string, args ...any) { fmt.Fprintf(e, format, args...) }
+
+// EncodeJSON writes v as indented JSON followed by a newline. Map keys
+// come sorted and floats in Go's shortest round-trip form, so equal
+// values give equal bytes.
+func EncodeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
+}

@@ -1,0 +1,270 @@
+package document
+
+import (
+	"bytes"
+	"encoding/json"
+	"io"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// Schema names and versions of Joinery's documents (see the package
+// comment for the versioning rule).
+const (
+	ConnectorsSchema  = "joinery/connectors"
+	ConnectorsVersion = 2
+	ReportSchema      = "joinery/report"
+	ReportVersion     = 2
+)
+
+// ConnectorsDoc is the connectors.json document (see
+// writers/schema/connectors.schema.json).
+type ConnectorsDoc struct {
+	Schema     string         `json:"schema"`
+	Version    int            `json:"version"`
+	Generator  string         `json:"generator"`
+	Caution    string         `json:"caution"`
+	Units      Units          `json:"units"`
+	Inputs     Inputs         `json:"inputs"`
+	Options    OptionsDoc     `json:"options"`
+	IDs        IDRange        `json:"new_ids"`
+	Connectors []ConnectorDoc `json:"connectors"`
+}
+
+// Units names the units of every number.
+type Units struct {
+	Length string `json:"length"`
+	Angle  string `json:"angle"`
+}
+
+// OptionsDoc records the options of a build, defaults resolved.
+type OptionsDoc struct {
+	Reach         float64           `json:"reach"`
+	GapAllowance  *float64          `json:"gap_allowance"` // null: a quarter of the contact gap (t1+t2)/2 of each pair
+	AngleLimit    float64           `json:"angle_limit"`
+	LateralFactor float64           `json:"lateral_factor"`
+	EdgeFactor    float64           `json:"edge_factor"`
+	NodeFactor    float64           `json:"node_factor"`
+	Attach        string            `json:"attach"`
+	GroupAttach   map[string]string `json:"group_attach"`
+	SpotDOFs      []string          `json:"spot_dofs"`
+	NuggetRule    string            `json:"nugget_rule"`
+}
+
+// IDRange gives the new node and element ids a build used: First up to,
+// not including, Next.
+type IDRange struct {
+	First int64 `json:"first"`
+	Next  int64 `json:"next"`
+}
+
+// ConnectorDoc is one connector.
+type ConnectorDoc struct {
+	ID             string            `json:"id"`
+	Kind           string            `json:"kind"`
+	State          string            `json:"state"`
+	Group          string            `json:"group,omitempty"`
+	Point          Vec               `json:"point"`
+	Axis           *Vec              `json:"axis"`
+	Diameter       *float64          `json:"diameter"`
+	DiameterSource string            `json:"diameter_source,omitempty"`
+	Attach         string            `json:"attach"`
+	DOFs           []string          `json:"dofs"`
+	Sheets         []SheetDoc        `json:"sheets"`
+	Links          []LinkDoc         `json:"links"`
+	Findings       []string          `json:"findings"`
+	Listed         []int64           `json:"listed_parts,omitempty"`
+	Tags           map[string]string `json:"tags,omitempty"`
+}
+
+// SheetDoc is one sheet of a connector's stack and the connector's end on it.
+type SheetDoc struct {
+	Part         int64     `json:"part"`
+	Element      int64     `json:"element"`
+	Point        Vec       `json:"point"`
+	Distance     float64   `json:"distance"`
+	Thickness    float64   `json:"thickness"`
+	Position     float64   `json:"position"`
+	Lateral      float64   `json:"lateral"`
+	EdgeDistance *float64  `json:"edge_distance"`
+	EndNode      *int64    `json:"end_node"`
+	EndPoint     *Vec      `json:"end_point"`
+	Nodes        []int64   `json:"nodes"`
+	Weights      []float64 `json:"weights"`
+}
+
+// LinkDoc is one link between consecutive sheets.
+type LinkDoc struct {
+	ID         int64   `json:"id"`
+	From       int     `json:"from"`
+	To         int     `json:"to"`
+	Start      Vec     `json:"start"`
+	End        Vec     `json:"end"`
+	Length     float64 `json:"length"`
+	Direction  Vec     `json:"direction"`
+	ContactGap float64 `json:"contact_gap"`
+	MidGap     float64 `json:"mid_gap"`
+}
+
+// Vec is a point or direction, [x, y, z].
+type Vec [3]float64
+
+func vecOf(v r3.Vec) Vec { return Vec{clean(v.X), clean(v.Y), clean(v.Z)} }
+
+// clean turns -0 into 0 so equal values print alike.
+func clean(v float64) float64 {
+	if v == 0 {
+		return 0
+	}
+	return v
+}
+
+// NewConnectors converts a build result into the connectors document.
+func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc {
+	o := r.Options
+	doc := &ConnectorsDoc{
+		Schema: ConnectorsSchema, Version: ConnectorsVersion, Generator: info.Generator, Caution: Caution,
+		Units:  Units{Length: "mm", Angle: "degree"},
+		Inputs: info.inputs(),
+		Options: OptionsDoc{
+			Reach: o.Reach, AngleLimit: o.AngleLimit, LateralFactor: o.LateralFactor,
+			EdgeFactor: o.EdgeFactor, NodeFactor: o.NodeFactor, Attach: o.Attach.String(),
+			GroupAttach: map[string]string{}, SpotDOFs: o.SpotDOFs.Names(), NuggetRule: o.Rule.String(),
+		},
+		IDs:        IDRange{First: r.IDStart, Next: r.NextID},
+		Connectors: make([]ConnectorDoc, 0, len(r.Connectors)),
+	}
+	if o.GapAllowance > 0 {
+		g := o.GapAllowance
+		doc.Options.GapAllowance = &g
+	}
+	for g, a := range o.GroupAttach {
+		doc.Options.GroupAttach[g] = a.String()
+	}
+	for i := range r.Connectors {
+		doc.Connectors = append(doc.Connectors, connectorDoc(m, &r.Connectors[i]))
+	}
+	return doc
+}
+
+func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
+	d := ConnectorDoc{
+		ID: c.Joint.ID, Kind: c.Joint.Kind.String(), State: c.Status.String(), Group: c.Joint.Group,
+		Point: vecOf(c.Joint.Point), Attach: c.Attach.String(), DOFs: c.DOFs.Names(),
+		Sheets: []SheetDoc{}, Links: []LinkDoc{}, Findings: []string{}, Listed: c.Joint.Parts, Tags: c.Joint.Tags,
+	}
+	if len(c.Stack.Sheets) > 0 && r3.Norm2(c.Stack.Axis) > 0 {
+		a := vecOf(c.Stack.Axis)
+		d.Axis = &a
+	}
+	if c.Diameter > 0 {
+		dia := c.Diameter
+		d.Diameter = &dia
+		d.DiameterSource = c.DiameterSource
+	}
+	for i, s := range c.Stack.Sheets {
+		sd := SheetDoc{
+			Part: s.Part, Element: m.ElemIDs[s.Proj.Elem], Point: vecOf(s.Proj.Point), Distance: s.Proj.Dist,
+			Thickness: s.Thickness, Position: clean(s.Position), Lateral: s.Lateral, Nodes: []int64{}, Weights: []float64{},
+		}
+		if !math.IsInf(s.EdgeDistance, 1) {
+			ed := s.EdgeDistance
+			sd.EdgeDistance = &ed
+		}
+		if i < len(c.Ends) {
+			e := c.Ends[i]
+			ep := vecOf(e.Point)
+			sd.EndPoint = &ep
+			if i < len(c.EndIDs) && c.EndIDs[i] != 0 {
+				id := c.EndIDs[i]
+				sd.EndNode = &id
+			}
+			for k, n := range e.Nodes {
+				sd.Nodes = append(sd.Nodes, m.NodeIDs[n])
+				sd.Weights = append(sd.Weights, clean(e.Weights[k]))
+			}
+		}
+		d.Sheets = append(d.Sheets, sd)
+	}
+	for _, l := range c.Links {
+		d.Links = append(d.Links, LinkDoc{ID: l.ID, From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
+			Length: l.Length, Direction: vecOf(l.Direction), ContactGap: l.Contact, MidGap: clean(l.MidGap)})
+	}
+	seen := map[string]bool{}
+	for _, f := range c.Findings {
+		if !seen[f.Code] {
+			seen[f.Code] = true
+			d.Findings = append(d.Findings, f.Code)
+		}
+	}
+	sort.Strings(d.Findings)
+	return d
+}
+
+// EncodeConnectors writes the connectors document: its header fields
+// one per line, then one connector per line, so that a diff between two
+// builds shows one line per changed connector and the file stays a
+// third of its fully indented size.
+func EncodeConnectors(w io.Writer, doc *ConnectorsDoc) error {
+	ew := &errWriter{w: w}
+	head := []struct {
+		key string
+		v   any
+	}{
+		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"caution", doc.Caution}, {"units", doc.Units},
+		{"inputs", doc.Inputs}, {"options", doc.Options}, {"new_ids", doc.IDs},
+	}
+	ew.printf("{\n")
+	for _, h := range head {
+		b, err := compactJSON(h.v)
+		if err != nil {
+			return err
+		}
+		ew.printf("  %q: %s,\n", h.key, b)
+	}
+	ew.printf("  \"connectors\": [")
+	for i := range doc.Connectors {
+		b, err := compactJSON(&doc.Connectors[i])
+		if err != nil {
+			return err
+		}
+		sep := ","
+		if i == len(doc.Connectors)-1 {
+			sep = ""
+		}
+		ew.printf("\n    %s%s", b, sep)
+	}
+	if len(doc.Connectors) > 0 {
+		ew.printf("\n  ")
+	}
+	ew.printf("]\n}\n")
+	return ew.err
+}
+
+// compactJSON marshals v on one line, without HTML escaping.
+func compactJSON(v any) ([]byte, error) {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return bytes.TrimRight(buf.Bytes(), "\n"), nil
+}
+
+// DecodeConnectors reads a connectors document written by
+// EncodeConnectors (or anything of the same schema and version); name is
+// the file's name, for errors. Unknown fields are ignored (see the
+// versioning rule).
+func DecodeConnectors(r io.Reader, name string) (*ConnectorsDoc, error) {
+	var doc ConnectorsDoc
+	if err := decode(r, name, ConnectorsSchema, ConnectorsVersion, &doc); err != nil {
+		return nil, err
+	}
+	return &doc, nil
+}

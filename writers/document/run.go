@@ -1,0 +1,57 @@
+package document
+
+// RunInfo says how a run was made, for the record in every output.
+type RunInfo struct {
+	Generator string   // "joinery <version>"
+	Meshes    []string // input paths, as recorded
+	Parts     string
+	Joints    []string
+	// Renumbered lists the id offsets applied to mesh files (--renumber),
+	// so that connector node ids can be mapped back to the files.
+	Renumbered []Shift
+	// Tags lists, per joint list, the columns kept as free tags.
+	Tags []TagColumns
+}
+
+// Inputs lists the input files of a run and what was done to them.
+type Inputs struct {
+	Meshes     []string     `json:"meshes"`
+	Parts      string       `json:"parts"`
+	Joints     []string     `json:"joints"`
+	Renumbered []Shift      `json:"renumbered"`
+	TagColumns []TagColumns `json:"tag_columns"`
+}
+
+// Shift is a renumbering applied to one mesh file's ids: the file's id
+// plus the offset is the id in the model and in every output.
+type Shift struct {
+	File       string `json:"file"`
+	NodeOffset int64  `json:"node_offset"`
+	ElemOffset int64  `json:"element_offset"`
+}
+
+// TagColumns names the columns of one joint list that Joinery kept as
+// free tags.
+type TagColumns struct {
+	File    string   `json:"file"`
+	Columns []string `json:"columns"`
+}
+
+func (info RunInfo) inputs() Inputs {
+	in := Inputs{Meshes: nonNil(info.Meshes), Parts: info.Parts, Joints: nonNil(info.Joints),
+		Renumbered: info.Renumbered, TagColumns: info.Tags}
+	if in.Renumbered == nil {
+		in.Renumbered = []Shift{}
+	}
+	if in.TagColumns == nil {
+		in.TagColumns = []TagColumns{}
+	}
+	return in
+}
+
+func nonNil[T any](s []T) []T {
+	if s == nil {
+		return []T{}
+	}
+	return s
+}

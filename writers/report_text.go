@@ -1,0 +1,135 @@
+package writers
+
+import (
+	"fmt"
+	"io"
+	"slices"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// WriteReportText writes the report for a person: a one-screen summary,
+// the findings grouped by code, the part-pair table, and the caution.
+func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
+	ew := &errWriter{w: w}
+	s := doc.Summary
+	ew.printf("joinery connector report (%s)\n\n", doc.Generator)
+	summaryLines(ew, doc)
+	ew.printf("inputs      %s", strings.Join(doc.Inputs.Meshes, " "))
+	if doc.Inputs.Parts != "" {
+		ew.printf(" | parts %s", doc.Inputs.Parts)
+	}
+	if len(doc.Inputs.Joints) > 0 {
+		ew.printf(" | joints %s", strings.Join(doc.Inputs.Joints, " "))
+	}
+	ew.printf("\n")
+
+	codes := make([]string, 0, len(s.ByCode))
+	for c := range s.ByCode {
+		codes = append(codes, c)
+	}
+	slices.SortFunc(codes, func(a, b string) int {
+		if ra, rb := severityRank(doc, a), severityRank(doc, b); ra != rb {
+			return rb - ra
+		}
+		return strings.Compare(a, b)
+	})
+	for _, code := range codes {
+		ew.printf("\n%s (%d)\n", code, s.ByCode[code])
+		for _, f := range doc.Findings {
+			if f.Code != code {
+				continue
+			}
+			joint := "-"
+			if f.Joint != nil {
+				joint = *f.Joint
+			}
+			ew.printf("  %-7s %-12s %s\n", f.Severity, joint, f.Message)
+		}
+	}
+
+	ew.printf("\npart pairs joined\n")
+	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintf(tw, "part\tpart\tconnectors\tflagged\t\n")
+	for _, p := range s.PartPairs {
+		fmt.Fprintf(tw, "%d\t%d\t%d\t%d\t\n", p.A, p.B, p.Count, p.Flagged)
+	}
+	tw.Flush()
+	ew.printf("\nCAUTION: %s\n", doc.Caution)
+	return ew.err
+}
+
+// WriteBuildSummary writes the few lines a build prints on stdout.
+func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, files []string) error {
+	ew := &errWriter{w: w}
+	summaryLines(ew, doc)
+	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("CAUTION: %s\n", doc.Caution)
+	return ew.err
+}
+
+func summaryLines(ew *errWriter, doc *document.ReportDoc) {
+	s := doc.Summary
+	ew.printf("joints      %d (%s)\n", s.Joints, countList(s.ByKind))
+	ew.printf("built       %d (%d flagged)\n", s.ByState["built"]+s.ByState["flagged"], s.ByState["flagged"])
+	ew.printf("not built   %d\n", s.ByState["not-built"])
+	ew.printf("stacks      %s\n", stackList(s.ByStack))
+	ew.printf("findings    %d error, %d warning, %d info\n", s.BySev["error"], s.BySev["warning"], s.BySev["info"])
+	if len(s.ByCode) > 0 {
+		ew.printf("by code     %s\n", countList(s.ByCode))
+	}
+}
+
+func severityRank(doc *document.ReportDoc, code string) int {
+	r := 0
+	for _, f := range doc.Findings {
+		if f.Code == code {
+			switch f.Severity {
+			case "error":
+				r = max(r, 2)
+			case "warning":
+				r = max(r, 1)
+			}
+		}
+	}
+	return r
+}
+
+func countList(m map[string]int) string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	parts := make([]string, 0, len(keys))
+	for _, k := range keys {
+		parts = append(parts, fmt.Sprintf("%s %d", k, m[k]))
+	}
+	if len(parts) == 0 {
+		return "none"
+	}
+	return strings.Join(parts, ", ")
+}
+
+func stackList(m map[string]int) string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	slices.SortFunc(keys, func(a, b string) int {
+		x, _ := strconv.Atoi(a)
+		y, _ := strconv.Atoi(b)
+		return x - y
+	})
+	parts := make([]string, 0, len(keys))
+	for _, k := range keys {
+		parts = append(parts, fmt.Sprintf("%d of %s sheets", m[k], k))
+	}
+	if len(parts) == 0 {
+		return "none built"
+	}
+	return strings.Join(parts, ", ")
+}

@@ -1,0 +1,88 @@
+package writers
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sync"
+)
+
+// ErrOutput marks failures to write outputs (a directory that cannot be
+// made, a full disk, a lock held by another run): not the input's fault.
+var ErrOutput = errors.New("output not written")
+
+// outputError wraps an error in writing outputs so that errors.Is(err,
+// ErrOutput) holds.
+type outputError struct{ err error }
+
+func (e *outputError) Error() string        { return e.err.Error() }
+func (e *outputError) Unwrap() error        { return e.err }
+func (e *outputError) Is(target error) bool { return target == ErrOutput }
+
+// OutputError marks err as a failure to write outputs.
+func OutputError(err error) error {
+	if err == nil {
+		return nil
+	}
+	return &outputError{err}
+}
+
+// File is one output file of a set: its name in the output directory and
+// the function that renders it.
+type File struct {
+	Name   string
+	Render func(w io.Writer) error
+}
+
+// Rendered is a file rendered in memory.
+type Rendered struct {
+	Name string
+	Data []byte
+}
+
+// Render renders every file in memory, concurrently (they are
+// independent), and returns them in the order given; the first error
+// stops the set, so that nothing is written.
+func Render(files []File) ([]Rendered, error) {
+	out := make([]Rendered, len(files))
+	errs := make([]error, len(files))
+	var wg sync.WaitGroup
+	for i := range files {
+		wg.Go(func() {
+			var buf bytes.Buffer
+			errs[i] = files[i].Render(&buf)
+			out[i] = Rendered{Name: files[i].Name, Data: buf.Bytes()}
+		})
+	}
+	wg.Wait()
+	for i, err := range errs {
+		if err != nil {
+			return nil, fmt.Errorf("writers: rendering %s: %w", files[i].Name, err)
+		}
+	}
+	return out, nil
+}
+
+// WriteSet writes a rendered set of files into dir, creating it when
+// needed, each through a temporary file renamed into place. Errors are
+// output errors (ErrOutput).
+func WriteSet(dir string, files []Rendered) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return OutputError(fmt.Errorf("writers: creating output directory: %w", err))
+	}
+	errs := make([]error, len(files))
+	var wg sync.WaitGroup
+	for i := range files {
+		wg.Go(func() {
+			errs[i] = WriteFileAtomic(filepath.Join(dir, files[i].Name), func(w io.Writer) error {
+				_, err := w.Write(files[i].Data)
+				return err
+			})
+		})
+	}
+	wg.Wait()
+	return OutputError(errors.Join(errs...))
+}
