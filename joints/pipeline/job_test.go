@@ -31,14 +31,14 @@ func TestLoadJobExample(t *testing.T) {
 		Out:      filepath.Join(dir, "out"),
 		Renumber: ptr(false),
 		Build: JobBuild{
-			Reach: ptr(0.0),
-			GapAllowance:   ptr(0.0),
-			Attach:         "interpolated",
-			SpotDOFs:       []string{"tx", "ty", "tz", "rx", "ry", "rz"},
-			IDStart:        ptr(int64(0)),
-			NuggetRule:     "5sqrt",
-			FailOn:         "error",
-			Groups:         map[string]JobGroup{"rear-rail": {Attach: "node-pair"}},
+			Reach:        ptr(0.0),
+			GapAllowance: ptr(0.0),
+			Attach:       "interpolated",
+			SpotDOFs:     []string{"tx", "ty", "tz", "rx", "ry", "rz"},
+			IDStart:      ptr(int64(0)),
+			NuggetRule:   "5sqrt",
+			FailOn:       "error",
+			Groups:       map[string]JobGroup{"rear-rail": {Attach: "node-pair"}},
 		},
 		File: path,
 	}
@@ -87,13 +87,13 @@ build:
 		t.Fatal(err)
 	}
 	want := joints.BuildOptions{
-		Reach: 4.5,
-		GapAllowance:   0.3,
-		IDStart:        5000,
-		Attach:         joints.Patch,
-		SpotDOFs:       joints.Translations,
-		Rule:           joints.Rule4Sqrt,
-		GroupAttach:    map[string]joints.Attach{"rear-rail": joints.NodePair},
+		Reach:        4.5,
+		GapAllowance: 0.3,
+		IDStart:      5000,
+		Attach:       joints.Patch,
+		SpotDOFs:     joints.Translations,
+		Rule:         joints.Rule4Sqrt,
+		GroupAttach:  map[string]joints.Attach{"rear-rail": joints.NodePair},
 	}
 	if !reflect.DeepEqual(o, want) {
 		t.Errorf("options %+v\nwant    %+v", o, want)
