@@ -18,7 +18,8 @@
 //	    mesh: floor.vtk      # optional: every element of this file
 //
 // or CSV (.csv) with a header row naming the same columns in any order
-// (id and thickness required):
+// (id and thickness required), separated by commas, semicolons or tabs
+// (found from the header line; numbers take a decimal point):
 //
 //	id,name,thickness,material,surface,mesh
 //	10,floor panel,0.8,DC04,mid,floor.vtk

@@ -48,6 +48,16 @@ func TestReadPartsMeshKey(t *testing.T) {
 	if len(got) != 1 || got[0].Mesh != "beam.jmesh" || got[0].ID != 7 {
 		t.Errorf("got %+v", got)
 	}
+	// A spreadsheet export with semicolons, and one with tabs.
+	for _, in := range []string{"id;name;thickness\n7;rear rail, left;1.5\n", "id\tname\tthickness\n7\trear rail, left\t1.5\n"} {
+		got, err = ReadPartsCSV(strings.NewReader(in), "p.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(got) != 1 || got[0].ID != 7 || got[0].Name != "rear rail, left" || got[0].Thickness != 1.5 {
+			t.Errorf("%q: got %+v", in, got)
+		}
+	}
 }
 
 func TestReadPartsEmpty(t *testing.T) {
@@ -111,6 +121,7 @@ func TestReadPartsCSVErrors(t *testing.T) {
 		{"duplicate id", "id,thickness\n1,1\n\n1,2\n", "p.csv:4: part id 1 given twice (lines 2 and 4)"},
 		{"duplicate mesh", "id,thickness,mesh\n1,1,a.vtk\n2,1,a.vtk\n", `p.csv:3: mesh "a.vtk" given to two parts (lines 2 and 3)`},
 		{"short row", "id,thickness\n1\n", "p.csv:2: row has 1 fields"},
+		{"decimal comma", "id;thickness\n1;1,5\n", `p.csv:2: thickness: "1,5" has a decimal comma; write 1.5 (the decimal separator is '.')`},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -2,6 +2,7 @@ package tabular
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -14,10 +15,13 @@ import (
 	"github.com/joinery-cae/joinery/geom"
 )
 
-// CSV reads a comma-separated table whose first row names the columns.
-// Lines starting with '#' and blank lines are skipped anywhere; fields are
-// trimmed of surrounding white space; a UTF-8 byte-order mark before the
-// header is ignored. Quoting follows RFC 4180, as encoding/csv reads it.
+// CSV reads a table of delimited values whose first row names the
+// columns. The delimiter is a comma, a semicolon (the usual spreadsheet
+// export where the comma is the decimal separator) or a tab, found from
+// the header line (see NewCSV). Lines starting with '#' and blank lines
+// are skipped anywhere; fields are trimmed of surrounding white space; a
+// UTF-8 byte-order mark before the header is ignored. Quoting follows
+// RFC 4180, as encoding/csv reads it.
 type CSV struct {
 	// File names the table in messages.
 	File string
@@ -25,21 +29,36 @@ type CSV struct {
 	Header []string
 	// HeaderLine is the line of the header row.
 	HeaderLine int
+	// Comma is the delimiter found in the header line: ',', ';' or '\t'.
+	Comma rune
 
 	r *csv.Reader
 }
 
-// NewCSV reads the header row of a table from r. The names must be
+// delimiters are the column separators NewCSV recognises.
+const delimiters = ",;\t"
+
+// NewCSV reads the header row of a table from r. The delimiter is the one
+// of ',', ';' and tab that occurs most often in the header line outside
+// quotes; a comma when none does (a table of one column). A header in
+// which two of them occur equally often is an error. The names must be
 // non-empty and distinct (ignoring case).
 func NewCSV(r io.Reader, file string) (*CSV, error) {
 	br := bufio.NewReader(r)
 	if bom, err := br.Peek(3); err == nil && string(bom) == "\ufeff" {
 		br.Discard(3)
 	}
-	c := &CSV{File: file, r: csv.NewReader(br)}
+	head, comma, err := sniffDelimiter(br, file)
+	if err != nil {
+		return nil, err
+	}
+	c := &CSV{File: file, Comma: comma, r: csv.NewReader(io.MultiReader(bytes.NewReader(head), br))}
+	c.r.Comma = comma
 	c.r.Comment = '#'
 	c.r.FieldsPerRecord = -1
-	c.r.TrimLeadingSpace = true
+	// Leading white space would swallow empty fields between tabs; the
+	// fields are trimmed anyway.
+	c.r.TrimLeadingSpace = comma != '\t'
 	c.r.ReuseRecord = true
 	rec, err := c.next()
 	if errors.Is(err, io.EOF) {
@@ -64,6 +83,75 @@ func NewCSV(r io.Reader, file string) (*CSV, error) {
 		c.Header[i] = name
 	}
 	return c, nil
+}
+
+// sniffDelimiter reads br up to and including the header line (the first
+// line that is neither blank nor a comment) and returns what it read with
+// the delimiter that line uses.
+func sniffDelimiter(br *bufio.Reader, file string) ([]byte, rune, error) {
+	var head []byte
+	for line := 1; ; line++ {
+		start := len(head)
+		b, err := br.ReadSlice('\n')
+		for errors.Is(err, bufio.ErrBufferFull) {
+			head = append(head, b...)
+			b, err = br.ReadSlice('\n')
+		}
+		head = append(head, b...)
+		if err != nil && !errors.Is(err, io.EOF) {
+			return nil, 0, fmt.Errorf("reading %s: %w", file, err)
+		}
+		text := head[start:]
+		if len(bytes.TrimSpace(text)) > 0 && text[0] != '#' {
+			comma, err := headerDelimiter(text)
+			if err != nil {
+				return nil, 0, geom.LineError(file, line, "%v", err)
+			}
+			return head, comma, nil
+		}
+		if err != nil { // end of input before a header
+			return head, ',', nil
+		}
+	}
+}
+
+// headerDelimiter returns the delimiter of a header line: the most
+// frequent of ',', ';' and tab outside double quotes, ',' when none
+// occurs.
+func headerDelimiter(line []byte) (rune, error) {
+	var n [len(delimiters)]int
+	quoted := false
+	for _, b := range line {
+		switch k := strings.IndexByte(delimiters, b); {
+		case b == '"':
+			quoted = !quoted
+		case k >= 0 && !quoted:
+			n[k]++
+		}
+	}
+	best := 0
+	for k := range n {
+		if n[k] > n[best] {
+			best = k
+		}
+	}
+	for k := range n {
+		if k != best && n[k] > 0 && n[k] == n[best] {
+			return 0, fmt.Errorf("the header holds as many %s as %s: cannot tell which separates the columns", delimName(delimiters[best]), delimName(delimiters[k]))
+		}
+	}
+	return rune(delimiters[best]), nil
+}
+
+// delimName names a delimiter in messages.
+func delimName(b byte) string {
+	switch b {
+	case ';':
+		return "semicolons"
+	case '\t':
+		return "tabs"
+	}
+	return "commas"
 }
 
 // Columns finds the names of known in the header, comparing without
@@ -152,10 +240,19 @@ func (c *CSV) Errorf(col int, format string, args ...any) error {
 }
 
 // Float parses the field rec[col] of the last row as a finite number.
+// The decimal separator is '.': a number written with a decimal comma
+// ("12,5", as spreadsheets write it in many countries) is an error that
+// says so.
 func (c *CSV) Float(rec []string, col int) (float64, error) {
-	v, err := strconv.ParseFloat(rec[col], 64)
+	s := rec[col]
+	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, c.Errorf(col, "%s: %q is not a finite number", c.Header[col], rec[col])
+		if dot := strings.Replace(s, ",", ".", 1); dot != s && !strings.Contains(dot, ",") {
+			if _, err := strconv.ParseFloat(dot, 64); err == nil {
+				return 0, c.Errorf(col, "%s: %q has a decimal comma; write %s (the decimal separator is '.')", c.Header[col], s, dot)
+			}
+		}
+		return 0, c.Errorf(col, "%s: %q is not a finite number", c.Header[col], s)
 	}
 	return v, nil
 }

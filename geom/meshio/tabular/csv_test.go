@@ -114,3 +114,68 @@ func TestCSVUnknownColumn(t *testing.T) {
 		t.Errorf("err = %v\nwant  %s", err, want)
 	}
 }
+
+func TestCSVDelimiters(t *testing.T) {
+	tests := []struct {
+		name, in string
+		comma    rune
+		rows     string // rows joined by "/", fields by "|"
+	}{
+		{"comma", "id,x\n1,2.5\n", ',', "1|2.5"},
+		{"semicolon", "id;x;parts\n1;2.5;\"3;4\"\n", ';', "1|2.5|3;4"},
+		{"semicolon with commas in quotes", "id;\"a,b\";c\n1;2;3\n", ';', "1|2|3"},
+		{"tab with empty fields", "id\tx\tnote\n1\t\t\n2\t 3 \tn\n", '\t', "1||/2|3|n"},
+		{"comment lines with other delimiters", "# a,b,c,d\n\n id ; x \n1;2\n", ';', "1|2"},
+		{"one column", "id\n7\n", ',', "7"},
+		{"bom and semicolon", "\ufeffid;x\n1;2\n", ';', "1|2"},
+		{"crlf", "id;x\r\n1;2\r\n", ';', "1|2"},
+		{"long header line", "id;" + strings.Repeat("c", 5000) + "\n1;2\n", ';', "1|2"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			c, err := NewCSV(strings.NewReader(tt.in), "t.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if c.Comma != tt.comma {
+				t.Errorf("delimiter %q, want %q", c.Comma, tt.comma)
+			}
+			var rows []string
+			for {
+				rec, err := c.Read()
+				if err == io.EOF {
+					break
+				}
+				if err != nil {
+					t.Fatal(err)
+				}
+				rows = append(rows, strings.Join(rec, "|"))
+			}
+			if got := strings.Join(rows, "/"); got != tt.rows {
+				t.Errorf("rows %q, want %q", got, tt.rows)
+			}
+		})
+	}
+}
+
+func TestCSVDelimiterErrors(t *testing.T) {
+	tests := []struct {
+		name, in, want string
+	}{
+		{"tie", "# c\nid;x,y\n", "t.csv:2: the header holds as many commas as semicolons: cannot tell which separates the columns"},
+		{"decimal comma", "id;x\n1;2.5\n2;12,5\n", `t.csv:3: x: "12,5" has a decimal comma; write 12.5 (the decimal separator is '.')`},
+		{"decimal comma in a tab file", "id\tx\n1\t-0,75\n", `t.csv:2: x: "-0,75" has a decimal comma; write -0.75 (the decimal separator is '.')`},
+		{"two commas", "id;x\n1;1,2,5\n", `t.csv:2: x: "1,2,5" is not a finite number`},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			err := readAllCSV(tt.in)
+			if err == nil || err.Error() != tt.want {
+				t.Fatalf("err = %v\nwant    %s", err, tt.want)
+			}
+			if !errors.Is(err, geom.ErrInput) {
+				t.Errorf("not an input error: %v", err)
+			}
+		})
+	}
+}
