@@ -66,8 +66,12 @@ const (
 // for .yaml and .yml. It returns the joints in file order and warnings
 // about likely mistakes that are not errors.
 //
-// CSV: a header row, then one joint per row. Columns may come in any
-// order; header names are trimmed and compared without regard to case.
+// CSV: a header row, then one joint per row, the columns separated by
+// commas, semicolons or tabs (the one the header line uses; numbers take
+// a decimal point, and in a semicolon-separated file a parts cell holding
+// several ids is quoted, "10;20", as spreadsheets write it). Columns may
+// come in any order; header names are trimmed and compared without
+// regard to case.
 //
 //	id        required; text, unique in the list ("W17", "1042")
 //	x, y, z   required; the joint's point, mm
@@ -79,9 +83,11 @@ const (
 //	group     free tag, e.g. to select build settings in a job file
 //
 // An empty cell of an optional column means not given. Columns with
-// other names are kept in Joint.Tags; one whose name resembles a known
-// column ("diamter", "Part_s") gives a warning. Lines starting with '#'
-// and blank lines are skipped; a header without rows is an empty list.
+// other names are kept in Joint.Tags, except that a name resembling a
+// known column ("diamter", "Part_s"; see tabular.Suggest) is an error, as
+// the same key is in YAML: a misspelt diameter must not silently become
+// the rule's. Lines starting with '#' and blank lines are skipped; a
+// header without rows is an empty list.
 //
 // YAML: a map with the single key "joints" holding a list of maps with the
 // same keys, except that parts is a list of integers, the point is given
@@ -107,18 +113,27 @@ const (
 // its washer must be larger than both; washer or hole on a spot weld gives
 // a warning.
 func ReadJoints(path string) ([]Joint, []InputWarning, error) {
-	var read func(io.Reader, string) ([]Joint, []InputWarning, error)
+	l, err := readJointList(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	return l.joints, l.warns, nil
+}
+
+// readJointList reads the joint list in the named file (see ReadJoints).
+func readJointList(path string) (*jointList, error) {
+	var read func(io.Reader, string) (*jointList, error)
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".csv":
-		read = ReadJointsCSV
+		read = readJointsCSV
 	case ".yaml", ".yml":
-		read = ReadJointsYAML
+		read = readJointsYAML
 	default:
-		return nil, nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", ext)
+		return nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", ext)
 	}
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, nil, fmt.Errorf("joints: reading joint list: %w", err)
+		return nil, fmt.Errorf("joints: reading joint list: %w", err)
 	}
 	defer f.Close()
 	return read(f, path)
@@ -127,33 +142,41 @@ func ReadJoints(path string) ([]Joint, []InputWarning, error) {
 // ReadJointsCSV reads a joint list in CSV from r; name is the file name
 // used in errors, warnings and Joint.File.
 func ReadJointsCSV(r io.Reader, name string) ([]Joint, []InputWarning, error) {
-	c, err := tabular.NewCSV(r, name)
+	l, err := readJointsCSV(r, name)
 	if err != nil {
 		return nil, nil, err
 	}
+	return l.joints, l.warns, nil
+}
+
+func readJointsCSV(r io.Reader, name string) (*jointList, error) {
+	c, err := tabular.NewCSV(r, name)
+	if err != nil {
+		return nil, err
+	}
 	keys := jointKeys()
 	at, tags := c.Columns(keys) // unknown columns are kept as tags
-	var warns []InputWarning
+	l := newJointList(name)
 	for _, col := range tags {
-		if s := tabular.Suggest(c.Header[col], keys); s != "" {
-			warns = append(warns, InputWarning{name, c.HeaderLine, fmt.Sprintf("column %q is not a known column (did you mean %q?); its values are kept as tags", c.Header[col], s)})
+		if tabular.Suggest(c.Header[col], keys) != "" {
+			return nil, fmt.Errorf("%w; a column meant as a free tag needs a name unlike the known ones", c.UnknownColumn(col, keys))
 		}
+		l.tags = append(l.tags, c.Header[col])
 	}
 	if err := c.Require(at, keys, jlID, jlX, jlY, jlZ); err != nil {
-		return nil, warns, err
+		return nil, err
 	}
-	l := newJointList(name)
 	for {
 		rec, err := c.Read()
 		if err == io.EOF {
-			return l.joints, append(warns, l.warns...), nil
+			return l, nil
 		}
 		if err != nil {
-			return nil, warns, err
+			return nil, err
 		}
 		j := Joint{File: name, Line: c.Line(0)}
 		if err := csvJoint(c, rec, keys, at, &j); err != nil {
-			return nil, warns, err
+			return nil, err
 		}
 		for _, col := range tags {
 			if rec[col] == "" {
@@ -165,7 +188,7 @@ func ReadJointsCSV(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 			j.Tags[c.Header[col]] = rec[col]
 		}
 		if err := l.add(j, c.Line(at[jlID])); err != nil {
-			return nil, warns, err
+			return nil, err
 		}
 	}
 }
@@ -235,10 +258,18 @@ func addPart(j *Joint, id int64) error {
 // ReadJointsYAML reads a joint list in YAML from r; name is the file name
 // used in errors, warnings and Joint.File.
 func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
+	l, err := readJointsYAML(r, name)
+	if err != nil {
+		return nil, nil, err
+	}
+	return l.joints, l.warns, nil
+}
+
+func readJointsYAML(r io.Reader, name string) (*jointList, error) {
 	y := tabular.YAML{File: name}
 	root, err := y.Parse(r)
 	if err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	var items []*yaml.Node
 	err = y.Map(root, "joint list", []string{"joints"}, func(_ string, _, v *yaml.Node) error {
@@ -246,7 +277,7 @@ func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 		return err
 	})
 	if err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	keys := append(jointKeys(), "point", "tags")
 	l := newJointList(name)
@@ -255,13 +286,24 @@ func ReadJointsYAML(r io.Reader, name string) ([]Joint, []InputWarning, error) {
 		j := Joint{File: name, Line: it.Line}
 		idLine, err := yamlJoint(y, it, keys, &j)
 		if err != nil {
-			return nil, nil, err
+			return nil, err
 		}
 		if err := l.add(j, idLine); err != nil {
-			return nil, nil, err
+			return nil, err
 		}
 	}
-	return l.joints, l.warns, nil
+	// The tag keys, in sorted order: YAML maps have none of their own.
+	seen := map[string]bool{}
+	for _, j := range l.joints {
+		for k := range j.Tags {
+			if !seen[k] {
+				seen[k] = true
+				l.tags = append(l.tags, k)
+			}
+		}
+	}
+	slices.Sort(l.tags)
+	return l, nil
 }
 
 // yamlJoint fills j from one map of the list and returns the line of its
@@ -378,6 +420,7 @@ type jointList struct {
 	joints []Joint
 	idLine map[string]int
 	warns  []InputWarning
+	tags   []string // names of the columns or keys kept as free tags
 }
 
 func newJointList(file string) *jointList {

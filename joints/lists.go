@@ -6,32 +6,49 @@ import (
 	"github.com/joinery-cae/joinery/geom"
 )
 
+// JointLists is the content of several joint lists, joined.
+type JointLists struct {
+	Joints   []Joint // in argument order, each list in file order
+	Warnings []InputWarning
+	// Tags names, for each list that has some, the columns (CSV) or tag
+	// keys (YAML) kept as free tags, in argument order.
+	Tags []ListTags
+}
+
+// ListTags names the free tags of one joint list: its CSV columns in
+// header order, or its YAML tag keys sorted.
+type ListTags struct {
+	File    string
+	Columns []string
+}
+
 // ReadJointLists reads several joint lists and joins them in argument
 // order. A joint id used in two lists is an input error naming both.
-func ReadJointLists(paths []string) ([]Joint, []InputWarning, error) {
-	var (
-		all      []Joint
-		warnings []InputWarning
-	)
+func ReadJointLists(paths []string) (*JointLists, error) {
+	all := &JointLists{}
 	first := map[string]*Joint{}
 	seenPath := map[string]bool{}
 	for _, p := range paths {
 		if seenPath[filepath.Clean(p)] {
-			return nil, nil, geom.FileError(p, "joint list given twice")
+			return nil, geom.FileError(p, "joint list given twice")
 		}
 		seenPath[filepath.Clean(p)] = true
-		js, ws, err := ReadJoints(p)
+		l, err := readJointList(p)
 		if err != nil {
-			return nil, nil, err
+			return nil, err
 		}
-		warnings = append(warnings, ws...)
+		js := l.joints
+		all.Warnings = append(all.Warnings, l.warns...)
+		if len(l.tags) > 0 {
+			all.Tags = append(all.Tags, ListTags{File: p, Columns: l.tags})
+		}
 		for i := range js {
 			if prev, dup := first[js[i].ID]; dup {
-				return nil, nil, geom.LineError(js[i].File, js[i].Line, "joint id %q already used at %s:%d", js[i].ID, prev.File, prev.Line)
+				return nil, geom.LineError(js[i].File, js[i].Line, "joint id %q already used at %s:%d", js[i].ID, prev.File, prev.Line)
 			}
 			first[js[i].ID] = &js[i]
 		}
-		all = append(all, js...)
+		all.Joints = append(all.Joints, js...)
 	}
-	return all, warnings, nil
+	return all, nil
 }

@@ -26,6 +26,7 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 		ew.printf(" | joints %s", strings.Join(doc.Inputs.Joints, " "))
 	}
 	ew.printf("\n")
+	inputLines(ew, doc.Inputs)
 
 	codes := make([]string, 0, len(s.ByCode))
 	for c := range s.ByCode {
@@ -66,6 +67,7 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, files []string) error {
 	ew := &errWriter{w: w}
 	summaryLines(ew, doc)
+	inputLines(ew, doc.Inputs)
 	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err
@@ -80,6 +82,19 @@ func summaryLines(ew *errWriter, doc *document.ReportDoc) {
 	ew.printf("findings    %d error, %d warning, %d info\n", s.BySev["error"], s.BySev["warning"], s.BySev["info"])
 	if len(s.ByCode) > 0 {
 		ew.printf("by code     %s\n", countList(s.ByCode))
+	}
+}
+
+// inputLines says what was done to the inputs: the id offsets of
+// renumbered mesh files (file id + offset = id in every output) and the
+// joint-list columns kept as free tags. It prints nothing when neither
+// applies.
+func inputLines(ew *errWriter, in document.Inputs) {
+	for _, r := range in.Renumbered {
+		ew.printf("renumbered  %s: node ids %+d, element ids %+d\n", r.File, r.NodeOffset, r.ElemOffset)
+	}
+	for _, t := range in.TagColumns {
+		ew.printf("free tags   %s: %s\n", t.File, strings.Join(t.Columns, ", "))
 	}
 }
 

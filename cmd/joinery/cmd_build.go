@@ -119,7 +119,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	}
 	switch {
 	case g.json:
-		if err := g.writeJSON(buildJSON{Summary: out.Report.Summary, Out: out.Out, Files: out.Files, Caution: document.Caution}); err != nil {
+		if err := g.writeJSON(buildJSON{Summary: out.Report.Summary, Inputs: out.Report.Inputs, Out: out.Out, Files: out.Files, Caution: document.Caution}); err != nil {
 			return err
 		}
 	case !g.quiet:
@@ -136,7 +136,10 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 // buildJSON is what build --json prints.
 type buildJSON struct {
 	Summary document.Summary `json:"summary"`
-	Out     string           `json:"out"`
-	Files   []string         `json:"files"`
-	Caution string           `json:"caution"`
+	// Inputs records the input files, the id offsets of renumbered mesh
+	// files and the joint-list columns kept as free tags.
+	Inputs  document.Inputs `json:"inputs"`
+	Out     string          `json:"out"`
+	Files   []string        `json:"files"`
+	Caution string          `json:"caution"`
 }

@@ -138,6 +138,9 @@ func (in *Inputs) RunInfo(generator string) document.RunInfo {
 	for _, r := range in.Model.Renumbered {
 		info.Renumbered = append(info.Renumbered, document.Shift{File: r.File, NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
 	}
+	for _, t := range in.Tags {
+		info.Tags = append(info.Tags, document.TagColumns{File: t.File, Columns: t.Columns})
+	}
 	return info
 }
 

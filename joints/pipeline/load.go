@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"runtime"
+	"strings"
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/meshio"
@@ -57,6 +58,8 @@ type Inputs struct {
 	Model    *meshio.Model
 	Joints   []joints.Joint
 	Warnings []joints.InputWarning
+	// Tags names the free tag columns of each joint list that has some.
+	Tags []joints.ListTags
 }
 
 // Load reads the model and the joint lists a job names. Input warnings
@@ -76,15 +79,18 @@ func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
 	// now; collect them before the next steps grow the heap, so that the
 	// process reuses their memory instead of asking the system for more.
 	runtime.GC()
-	js, warnings, err := joints.ReadJointLists(job.Joints)
+	lists, err := joints.ReadJointLists(job.Joints)
 	if err != nil {
 		return nil, err
 	}
-	for _, w := range warnings {
+	for _, w := range lists.Warnings {
 		env.note("warning: %s", w)
 	}
-	if err := joints.CheckParts(js, model.Mesh); err != nil {
+	for _, t := range lists.Tags {
+		env.note("note: %s: kept as free tags: %s", t.File, strings.Join(t.Columns, ", "))
+	}
+	if err := joints.CheckParts(lists.Joints, model.Mesh); err != nil {
 		return nil, err
 	}
-	return &Inputs{Job: job, Model: model, Joints: js, Warnings: warnings}, ctx.Err()
+	return &Inputs{Job: job, Model: model, Joints: lists.Joints, Warnings: lists.Warnings, Tags: lists.Tags}, ctx.Err()
 }

@@ -199,7 +199,11 @@ func (c *CSV) Read() ([]string, error) {
 		return nil, err
 	}
 	if len(rec) != len(c.Header) {
-		return nil, geom.LineError(c.File, c.Line(0), "row has %d fields; the header has %d columns", len(rec), len(c.Header))
+		hint := ""
+		if len(rec) > len(c.Header) && c.Comma == ';' {
+			hint = ` (in a table separated by semicolons, quote a field that holds one: "10;20")`
+		}
+		return nil, geom.LineError(c.File, c.Line(0), "row has %d fields; the header has %d columns%s", len(rec), len(c.Header), hint)
 	}
 	return rec, nil
 }
