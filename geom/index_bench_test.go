@@ -368,3 +368,37 @@ func BenchmarkClosestOnQuad(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkClosestPerPart compares the pruned per-part search with
+// projecting onto every element within reach (ProjectNear) and keeping
+// the first per part, for r = 8 mm around points near a 5 mm grid of
+// four parts.
+func BenchmarkClosestPerPart(b *testing.B) {
+	for _, s := range benchSizes() {
+		if s.name == "2M" && testing.Short() {
+			continue
+		}
+		m := gridMesh(s.nx, s.ny, 5, 20)
+		x := NewIndex(m)
+		q := benchQueries(m, 4096)
+		b.Run(s.name+"/pruned", func(b *testing.B) {
+			i := 0
+			defer cpuMetric(b)()
+			for b.Loop() {
+				x.ClosestPerPart(q[i%len(q)], 8)
+				i++
+			}
+		})
+		b.Run(s.name+"/project-all", func(b *testing.B) {
+			i := 0
+			defer cpuMetric(b)()
+			for b.Loop() {
+				var seen [8]bool
+				for _, pr := range x.ProjectNear(q[i%len(q)], 8, nil) {
+					seen[m.ElemPart[pr.Elem]] = true
+				}
+				i++
+			}
+		})
+	}
+}

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/spatial/r3"
-
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -23,9 +21,8 @@ func checkSheets(m *geom.Mesh, j *joints.Joint, st *joints.Stack, diameter float
 	}
 	for _, s := range st.Sheets {
 		switch {
-		case r3.Norm2(s.Proj.Normal) == 0:
-			fs = append(fs, j.Finding(joints.Error, joints.CodeDegenerate, []int64{s.Part},
-				fmt.Sprintf("the element of part %d under the weld (id %d) has no area, so no normal", s.Part, m.ElemIDs[s.Proj.Elem])))
+		case degenerateHost(m, &s):
+			fs = append(fs, j.Finding(joints.Error, joints.CodeDegenerate, []int64{s.Part}, degenerateMessage(m, &s)))
 		case len(j.Parts) > 0 && s.Lateral > o.LateralFactor*diameter/2:
 			// Automatic stacks only hold sheets near the axis; listed ones
 			// are held to the same limit here: the weld must lie over them.

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -13,13 +14,18 @@ import (
 )
 
 // chooseStack finds the sheets weld j joins: the parts it lists, or the
-// stack found around its point, with the findings of that choice.
+// stack found around its point, with the findings of that choice. When
+// the automatic choice leaves fewer than two sheets, the finding names
+// the sheets within reach it rejected and why; a sheet under the weld
+// whose host element is degenerate is an error of its own
+// (degenerate-host).
 func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints.Stack, []joints.Finding) {
 	m := x.Mesh()
 	cands := candidates(x, j.Point, o.Reach)
 	var (
-		st joints.Stack
-		fs []joints.Finding
+		st   joints.Stack
+		fs   []joints.Finding
+		rejs []rejection
 	)
 	if len(j.Parts) > 0 {
 		var missing []int64
@@ -29,21 +35,34 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 				fmt.Sprintf("listed part %d has no element within %s mm of the weld", id, joints.MM(o.Reach))))
 		}
 	} else {
-		st = autoStack(m, cands, j.Point, o, j.Diameter, o.Rule)
+		var latTol float64
+		st, latTol = autoStack(m, cands, j.Point, o, j.Diameter)
+		rejs = rejected(m, cands, &st, j.Point, latTol, j.Diameter, o)
 		var dropped []joints.Sheet
 		st, dropped = splitStack(&st)
 		for _, s := range dropped {
 			fs = append(fs, j.Finding(joints.Info, joints.CodeSheetApart, []int64{s.Part},
 				fmt.Sprintf("part %d lies parallel %s mm from the weld, apart from the sheets in contact: not joined", s.Part, joints.MM(math.Abs(s.Position)))))
 		}
+		for _, r := range rejs {
+			if r.degenerate && r.underWeld {
+				fs = append(fs, j.Finding(joints.Error, joints.CodeDegenerate, []int64{r.sheet.Part}, degenerateMessage(m, &r.sheet)))
+			}
+		}
 	}
 	switch n := len(st.Sheets); {
 	case n == 0 && len(fs) == 0:
-		fs = append(fs, j.Finding(joints.Error, joints.CodeNoSheet, nil,
-			fmt.Sprintf("no sheet within %s mm of the weld", joints.MM(o.Reach))))
-	case n == 1 && len(j.Parts) == 0:
-		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
-			fmt.Sprintf("only part %d lies under the weld within %s mm: nothing to join", st.Sheets[0].Part, joints.MM(o.Reach))))
+		msg := fmt.Sprintf("no sheet within %s mm of the weld", joints.MM(o.Reach))
+		if len(rejs) > 0 {
+			msg = fmt.Sprintf("no sheet lies under the weld within %s mm; within reach: %s", joints.MM(o.Reach), reasons(rejs))
+		}
+		fs = append(fs, j.Finding(joints.Error, joints.CodeNoSheet, rejectedParts(nil, rejs), msg))
+	case n == 1 && len(j.Parts) == 0 && !joints.HasError(fs):
+		msg := fmt.Sprintf("only part %d lies under the weld within %s mm: nothing to join", st.Sheets[0].Part, joints.MM(o.Reach))
+		if len(rejs) > 0 {
+			msg += "; also within reach: " + reasons(rejs)
+		}
+		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, rejectedParts(st.Parts(), rejs), msg))
 	case n == 1 && len(fs) == 0:
 		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
 			"fewer than two listed parts found: nothing to join"))
@@ -55,46 +74,138 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 }
 
 // candidates returns, for every part with an element within r of p, the
-// closest projection of p onto that part (ties to the lower element
-// index), ordered by distance, then part id. Elements are visited in
-// order of their bounding-box distance, and an element whose box lies
-// farther than its part's best projection so far is not projected: the
-// box distance is a lower bound of the true one.
+// closest projection of p onto that part (geom.Index.ClosestPerPart: ties
+// to the lower element id), ordered by distance, then part id. A closest
+// element that is degenerate gives way to a sound element of the part at
+// the same distance, if there is one: a sliver along an edge must not
+// hide the element beside it.
 func candidates(x *geom.Index, p r3.Vec, r float64) []joints.Sheet {
 	m := x.Mesh()
-	var buf [256]int32
-	type near struct {
-		e  int32
-		d2 float64 // squared distance from p to the element's box
-	}
-	elems := x.ElemsNear(p, r, buf[:0])
-	list := make([]near, len(elems))
-	for i, e := range elems {
-		list[i] = near{e, geom.BoxDist2(m.ElemBox(int(e)), p)}
-	}
-	slices.SortFunc(list, func(a, b near) int { return cmp.Or(cmp.Compare(a.d2, b.d2), cmp.Compare(a.e, b.e)) })
-	var out []joints.Sheet
-	for _, c := range list {
-		pi := m.ElemPart[c.e]
-		k := slices.IndexFunc(out, func(s joints.Sheet) bool { return m.ElemPart[s.Proj.Elem] == pi })
-		if k >= 0 && c.d2 > out[k].Proj.Dist*out[k].Proj.Dist {
-			continue
+	prs := x.ClosestPerPart(p, r)
+	out := make([]joints.Sheet, len(prs))
+	for i, pr := range prs {
+		if degenerateElem(m, pr.Elem) {
+			pi := m.ElemPart[pr.Elem]
+			sound := func(e int) bool { return m.ElemPart[e] == pi && !degenerateElem(m, e) }
+			if alt := x.ProjectNear(p, pr.Dist+geom.TieDistance, sound); len(alt) > 0 {
+				pr = alt[0]
+				for _, a := range alt[1:] {
+					if a.Dist <= alt[0].Dist+geom.TieDistance && m.ElemIDs[a.Elem] < m.ElemIDs[pr.Elem] {
+						pr = a
+					}
+				}
+			}
 		}
-		pr := m.Project(int(c.e), p)
-		if !(pr.Dist <= r) {
-			continue
-		}
-		switch {
-		case k < 0:
-			out = append(out, joints.Sheet{Part: m.Parts[pi].ID, Proj: pr, Thickness: m.Thickness(pr.Elem), EdgeDistance: math.Inf(1)})
-		case pr.Dist < out[k].Proj.Dist || pr.Dist == out[k].Proj.Dist && pr.Elem < out[k].Proj.Elem:
-			out[k].Proj, out[k].Thickness = pr, m.Thickness(pr.Elem)
-		}
+		out[i] = joints.Sheet{Part: m.Part(pr.Elem).ID, Proj: pr, Thickness: m.Thickness(pr.Elem), EdgeDistance: math.Inf(1)}
 	}
-	slices.SortStableFunc(out, func(a, b joints.Sheet) int {
-		return cmp.Or(cmp.Compare(a.Proj.Dist, b.Proj.Dist), cmp.Compare(a.Part, b.Part))
-	})
 	return out
+}
+
+// degenerateElem reports whether element e has no usable normal: no
+// area, or too little for its size (geom.Quality.Degenerate).
+func degenerateElem(m *geom.Mesh, e int) bool {
+	return r3.Norm2(m.Normal(e)) == 0 || m.ElemQuality(e).Degenerate
+}
+
+// degenerateHost reports whether a sheet's host element gives no normal
+// to build on.
+func degenerateHost(m *geom.Mesh, s *joints.Sheet) bool {
+	return r3.Norm2(s.Proj.Normal) == 0 || degenerateElem(m, s.Proj.Elem)
+}
+
+// degenerateMessage is the message of a degenerate-host finding.
+func degenerateMessage(m *geom.Mesh, s *joints.Sheet) string {
+	return fmt.Sprintf("the element of part %d under the weld (id %d) is degenerate: no area, so no normal to build on", s.Part, m.ElemIDs[s.Proj.Elem])
+}
+
+// rejection is a sheet within reach that an automatic stack left out,
+// and why.
+type rejection struct {
+	sheet      joints.Sheet
+	why        string
+	degenerate bool // its host element is degenerate
+	underWeld  bool // degenerate, and its nearest point lies near the axis
+}
+
+// rejected returns the candidates that stack st (before it is split)
+// does not hold, with the test each failed against st's axis through p:
+// a degenerate host, a normal beyond the angle limit, a nearest point
+// farther than latTol from the axis. With no stack, each sheet is held
+// against its own normal and the lateral limit of its own thickness.
+func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, latTol, diameter float64, o *joints.BuildOptions) []rejection {
+	var out []rejection
+	for _, s := range cands {
+		if slices.ContainsFunc(st.Sheets, func(t joints.Sheet) bool { return t.Part == s.Part }) {
+			continue
+		}
+		axis, limit := st.Axis, latTol
+		if len(st.Sheets) == 0 {
+			axis, limit = s.Proj.Normal, lateralLimit(diameter, s.Thickness, o)
+		}
+		r := rejection{sheet: s}
+		if degenerateHost(m, &s) {
+			r.degenerate = true
+			r.why = fmt.Sprintf("its element there (id %d) is degenerate: no area, so no normal", m.ElemIDs[s.Proj.Elem])
+			r.underWeld = true
+			if r3.Norm2(axis) > 0 {
+				place(m, &s, p, axis)
+				r.underWeld = s.Lateral <= limit
+			}
+			out = append(out, r)
+			continue
+		}
+		if angle := axisAngle(s.Proj.Normal, axis); angle > o.AngleLimit {
+			r.why = fmt.Sprintf("its normal %s degrees off the weld axis (limit %s degrees)", joints.MM(angle), joints.MM(o.AngleLimit))
+			if q := m.ElemQuality(s.Proj.Elem); q.Warp > o.AngleLimit {
+				r.why += fmt.Sprintf(" on an element warped by %s degrees (id %d)", joints.MM(q.Warp), m.ElemIDs[s.Proj.Elem])
+			}
+			out = append(out, r)
+			continue
+		}
+		place(m, &s, p, axis)
+		if s.Lateral > limit {
+			r.why = fmt.Sprintf("%s mm off the weld axis (limit %s mm)", joints.MM(s.Lateral), joints.MM(limit))
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
+// axisAngle returns the angle in degrees between unit normal n and the
+// axis, taken either way round (0 to 90).
+func axisAngle(n, axis r3.Vec) float64 {
+	return math.Acos(min(1, math.Abs(r3.Dot(n, axis)))) * 180 / math.Pi
+}
+
+// reasons lists rejections for a message: "part 2, 1.5 mm off the weld
+// axis (limit 1.25 mm); part 3, ...".
+func reasons(rs []rejection) string {
+	var b strings.Builder
+	for i, r := range rs {
+		if i > 0 {
+			b.WriteString("; ")
+		}
+		fmt.Fprintf(&b, "part %d, %s", r.sheet.Part, r.why)
+	}
+	return b.String()
+}
+
+// rejectedParts appends the parts of rs to parts.
+func rejectedParts(parts []int64, rs []rejection) []int64 {
+	for _, r := range rs {
+		parts = append(parts, r.sheet.Part)
+	}
+	return parts
+}
+
+// lateralLimit returns how far from the axis a sheet's nearest point may
+// lie, mm: LateralFactor nugget radii, the nugget being the listed
+// diameter or the rule's for thickness t.
+func lateralLimit(diameter, t float64, o *joints.BuildOptions) float64 {
+	if diameter <= 0 {
+		diameter = o.Rule.Diameter(t)
+	}
+	return o.LateralFactor * diameter / 2
 }
 
 // place sets a sheet's Position and Lateral for a stack axis through p.
@@ -115,24 +226,25 @@ func parallel(a, b r3.Vec, cosTol float64) bool { return math.Abs(r3.Dot(a, b)) 
 // autoStack picks the sheets of a joint among the candidates: the largest
 // set whose normals are near-parallel to an axis taken from one of them
 // and whose projections lie near that axis through p. Ties go to the
-// axis of the closer candidate.
-func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOptions, diameter float64, rule joints.NuggetRule) joints.Stack {
+// axis of the closer candidate. Sheets on degenerate host elements give
+// no axis and join no stack. It returns the stack and the lateral limit
+// of its axis, mm.
+func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOptions, diameter float64) (joints.Stack, float64) {
 	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
-	var best joints.Stack
+	var (
+		best    joints.Stack
+		bestTol float64
+	)
 	for _, c := range cands {
-		axis := c.Proj.Normal
-		if r3.Norm2(axis) == 0 {
+		if degenerateHost(m, &c) {
 			continue
 		}
-		d := diameter
-		if d <= 0 {
-			d = rule.Diameter(c.Thickness)
-		}
-		latTol := o.LateralFactor * d / 2
+		axis := c.Proj.Normal
+		latTol := lateralLimit(diameter, c.Thickness, o)
 		var st joints.Stack
 		st.Axis = axis
 		for _, s := range cands {
-			if !parallel(s.Proj.Normal, axis, cosTol) {
+			if !parallel(s.Proj.Normal, axis, cosTol) || degenerateHost(m, &s) {
 				continue
 			}
 			place(m, &s, p, axis)
@@ -141,11 +253,11 @@ func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOpti
 			}
 		}
 		if len(st.Sheets) > len(best.Sheets) {
-			best = st
+			best, bestTol = st, latTol
 		}
 	}
 	orderStack(&best)
-	return best
+	return best, bestTol
 }
 
 // listedStack builds the stack from the parts a joint lists. Listed parts
@@ -164,7 +276,7 @@ func listedStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, listed []int64) (
 	// The axis is the normal of the closest listed sheet.
 	closest := -1
 	for i, s := range st.Sheets {
-		if r3.Norm2(s.Proj.Normal) > 0 && (closest < 0 || s.Proj.Dist < st.Sheets[closest].Proj.Dist ||
+		if !degenerateHost(m, &s) && (closest < 0 || s.Proj.Dist < st.Sheets[closest].Proj.Dist ||
 			s.Proj.Dist == st.Sheets[closest].Proj.Dist && s.Part < st.Sheets[closest].Part) {
 			closest = i
 		}
