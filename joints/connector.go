@@ -173,8 +173,9 @@ func (r *Result) Reached(level Severity) bool {
 // NewResult sorts the connectors by joint id (natural order, see
 // CompareIDs), hands out new node and element ids in that order from
 // o.IDStart (or DefaultIDStart above every id of m), and collects the
-// findings, run findings first. It fails when the id start collides with
-// the mesh's ids or the new ids do not fit in an int64.
+// findings, run findings first, then those about the new ids (see
+// idFindings). It fails when the id start collides with the mesh's ids
+// or the new ids do not fit in an int64.
 func NewResult(m *geom.Mesh, conns []Connector, run []Finding, o BuildOptions) (*Result, error) {
 	maxID := max(m.MaxNodeID(), m.MaxElemID())
 	if o.IDStart > 0 && o.IDStart <= maxID {
@@ -220,10 +221,45 @@ func NewResult(m *geom.Mesh, conns []Connector, run []Finding, o BuildOptions) (
 	}
 	res.NextID = id
 	res.Findings = append(res.Findings, run...)
+	res.Findings = append(res.Findings, idFindings(res.IDStart, res.NextID, maxID)...)
 	for _, c := range res.Connectors {
 		res.Findings = append(res.Findings, c.Findings...)
 	}
 	return res, nil
+}
+
+// idFindings returns the run findings about the new ids first to
+// next-1 beside the mesh's largest id maxID: a warning (id-range) when
+// they exceed MaxID32, which many solvers cannot hold, and a note
+// (id-digits) when they have more digits than every id of the mesh, for
+// readers of fixed-width id columns. None when no id was handed out.
+func idFindings(first, next, maxID int64) []Finding {
+	last := next - 1
+	if last < first {
+		return nil
+	}
+	var fs []Finding
+	if last > MaxID32 {
+		fs = append(fs, Finding{Severity: Warning, Code: CodeIDRange, Message: fmt.Sprintf(
+			"new ids %d to %d exceed %d, the largest a 32-bit integer holds: solvers that keep ids in 32 bits cannot read them (choose a lower id start, or renumber the mesh)",
+			first, last, int64(MaxID32))})
+	}
+	if digits(last) > digits(maxID) && maxID > 0 {
+		fs = append(fs, Finding{Severity: Info, Code: CodeIDDigits, Message: fmt.Sprintf(
+			"new ids %d to %d have up to %d digits, the mesh's ids at most %d (largest %d): fixed-width id columns must widen",
+			first, last, digits(last), digits(maxID), maxID)})
+	}
+	return fs
+}
+
+// digits returns the number of decimal digits of a positive n.
+func digits(n int64) int {
+	d := 1
+	for n >= 10 {
+		n /= 10
+		d++
+	}
+	return d
 }
 
 // DefaultIDStart returns the first id for new nodes and elements: the

@@ -64,6 +64,7 @@ const (
 	CodeDegenerate     = "degenerate-host" // the host element has no area, so no normal
 	CodeCellsSkipped   = "cells-skipped"   // a mesh file held cells of kinds Joinery does not read
 	CodeIDRange        = "id-range"        // new ids above 2,147,483,647
+	CodeIDDigits       = "id-digits"       // new ids have more digits than the mesh's
 	CodeThicknessClash = "thickness-mismatch"
 )
 
