@@ -27,10 +27,11 @@ func (b *bar) Start(label string, total int64) {
 	b.draw()
 }
 
-// Add advances the bar.
+// Add advances the bar; it redraws when the last redraw is 100 ms old
+// or the step's work is complete.
 func (b *bar) Add(n int64) {
 	b.done += n
-	if time.Since(b.last) >= 100*time.Millisecond {
+	if time.Since(b.last) >= 100*time.Millisecond || b.total > 0 && b.done >= b.total {
 		b.draw()
 	}
 }
@@ -40,8 +41,12 @@ func (b *bar) Done() { fmt.Fprint(b.w, "\r\033[K") }
 
 func (b *bar) draw() {
 	b.last = time.Now()
-	if b.total <= 0 {
-		fmt.Fprintf(b.w, "\r\033[K%s ... %d", b.label, b.done)
+	if b.total <= 0 { // unknown amount of work: a count once there is one
+		if b.done > 0 {
+			fmt.Fprintf(b.w, "\r\033[K%s ... %d", b.label, b.done)
+		} else {
+			fmt.Fprintf(b.w, "\r\033[K%s ...", b.label)
+		}
 		return
 	}
 	const width = 30

@@ -3,6 +3,7 @@ package meshio
 import (
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 	"runtime"
 	"slices"
@@ -26,6 +27,11 @@ type LoadOptions struct {
 	// Read reads one mesh file; nil means ReadMesh. Tests and callers with
 	// meshes from elsewhere may replace it.
 	Read func(path string, opt geom.ReadOptions) (*geom.Mesh, error)
+	// Progress, when not nil, follows the reading of the mesh files: one
+	// step "reading mesh files" whose work is the files' total size in
+	// bytes, advanced by each file's size once it is read (one goroutine
+	// at a time).
+	Progress geom.Progress
 }
 
 // Model is a loaded model: one merged mesh and what happened on the way.
@@ -128,6 +134,23 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 	workers = min(workers, len(opts.Meshes))
 	meshes := make([]*geom.Mesh, len(opts.Meshes))
 	errs := make([]error, len(opts.Meshes))
+	prog := opts.Progress
+	if prog == nil {
+		prog = geom.NoProgress{}
+	}
+	sizes := make([]int64, len(opts.Meshes))
+	var total int64
+	for i, p := range opts.Meshes {
+		if fi, err := os.Stat(p); err == nil {
+			sizes[i] = max(fi.Size(), 1)
+		} else {
+			sizes[i] = 1 // the read reports the error
+		}
+		total += sizes[i]
+	}
+	prog.Start("reading mesh files", total)
+	defer prog.Done()
+	var progMu sync.Mutex
 	next := make(chan int)
 	var wg sync.WaitGroup
 	for range workers {
@@ -142,6 +165,9 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 				if errs[i] == nil && meshes[i] == nil {
 					errs[i] = fmt.Errorf("meshio: reading %s returned no mesh", path)
 				}
+				progMu.Lock()
+				prog.Add(sizes[i])
+				progMu.Unlock()
 			}
 		})
 	}

@@ -276,3 +276,40 @@ func TestLoadFixtureAll(t *testing.T) {
 		t.Errorf("Skipped = %v", m.Skipped)
 	}
 }
+
+// recorder is a geom.Progress that records its calls.
+type recorder struct {
+	calls []string
+	total int64
+	done  int64
+}
+
+func (r *recorder) Start(label string, total int64) {
+	r.calls = append(r.calls, fmt.Sprintf("start %s %d", label, total))
+	r.total = total
+}
+func (r *recorder) Add(n int64) { r.calls = append(r.calls, "add"); r.done += n }
+func (r *recorder) Done()       { r.calls = append(r.calls, "done") }
+
+func TestLoadProgress(t *testing.T) {
+	// The read advances once per file, by the file's size, to the total
+	// of the sizes; files are read two at a time.
+	dir := t.TempDir()
+	files := map[string]strip{}
+	var paths []string
+	var total int64
+	for i, n := range []int{2, 5, 1} {
+		p := writeFile(t, dir, fmt.Sprintf("m%d.vtk", i), strings.Repeat("x", 100*n))
+		files[p] = strip{base: int64(1000 * i), n: n, part: slices.Repeat([]int64{1}, n)}
+		paths = append(paths, p)
+		total += int64(100 * n)
+	}
+	var r recorder
+	if _, err := Load(LoadOptions{Meshes: paths, Read: fakeReader(files), Workers: 2, Progress: &r}); err != nil {
+		t.Fatal(err)
+	}
+	want := []string{fmt.Sprintf("start reading mesh files %d", total), "add", "add", "add", "done"}
+	if !slices.Equal(r.calls, want) || r.done != total {
+		t.Errorf("calls %v (done %d), want %v (done %d)", r.calls, r.done, want, total)
+	}
+}

@@ -68,10 +68,8 @@ func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
 	if len(job.Meshes) == 0 {
 		return nil, UsageError(errors.New("no mesh given: name one with --mesh or in a job file"))
 	}
-	prog := env.progress()
-	prog.Start("reading mesh files", int64(len(job.Meshes)))
-	model, err := meshio.Load(meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber})
-	prog.Done()
+	model, err := meshio.Load(meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber,
+		Progress: env.progress()})
 	if err != nil {
 		return nil, err
 	}
