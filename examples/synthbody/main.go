@@ -6,7 +6,9 @@
 //
 //	go run ./examples/synthbody -elements 2000000 -welds 6000 -bolts 40 -out /tmp/body
 //
-// It writes, in the -out folder: body.jmesh and/or body.vtk (binary legacy
+// Without -out it writes into joinery-synthbody under the system's
+// temporary directory (os.TempDir), never into the checkout, and prints
+// where. It writes, in that folder: body.jmesh and/or body.vtk (binary legacy
 // VTK; -format jmesh, vtk or both), parts.yaml, welds.csv, job.yaml, and
 // truth.csv: the ground truth, one row per joint with its id, the part ids
 // of its stack in order along the normal (separated by ';') and the unit
@@ -44,7 +46,7 @@ func main() {
 	fs.IntVar(&o.cfg.Bolts, "bolts", 4, "number of bolts")
 	fs.Uint64Var(&o.cfg.Seed, "seed", 1, "random seed; the same flags give the same files")
 	fs.Float64Var(&o.cfg.ElementSize, "size", synth.DefaultElementSize, "nominal element size, mm")
-	fs.StringVar(&o.out, "out", "synthbody", "output folder (created if missing)")
+	fs.StringVar(&o.out, "out", defaultOut(), "output folder (created if missing)")
 	fs.StringVar(&o.format, "format", "jmesh", "mesh format: jmesh, vtk or both")
 	if err := fs.Parse(os.Args[1:]); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -61,6 +63,11 @@ func main() {
 		os.Exit(1)
 	}
 }
+
+// defaultOut is the output folder without -out: joinery-synthbody under
+// the system's temporary directory, so that a run from the checkout
+// leaves it clean.
+func defaultOut() string { return filepath.Join(os.TempDir(), "joinery-synthbody") }
 
 func run(o options, stdout io.Writer) error {
 	var meshes []string
@@ -117,9 +124,10 @@ func run(o options, stdout io.Writer) error {
 	}); err != nil {
 		return err
 	}
-	fmt.Fprintf(stdout, "%s: %d elements, %d nodes, %d parts, %d joints, pitch %g mm (generated in %v, written in %v)\n",
+	fmt.Fprintf(stdout, "%s: %d elements, %d nodes, %d parts, %d joints, pitch %g mm (generated in %v, written in %v)\nbuild it with: joinery build %s\n",
 		o.out, m.NumElems(), m.NumNodes(), len(m.Parts), len(model.Joints), model.Pitch,
-		generated.Round(time.Millisecond), (time.Since(start) - generated).Round(time.Millisecond))
+		generated.Round(time.Millisecond), (time.Since(start) - generated).Round(time.Millisecond),
+		filepath.Join(o.out, "job.yaml"))
 	return nil
 }
 

@@ -2,6 +2,7 @@ package main
 
 import (
 	"io"
+	"os"
 	"path/filepath"
 	"reflect"
 	"testing"
@@ -62,5 +63,14 @@ func TestRun(t *testing.T) {
 func TestRunBadFormat(t *testing.T) {
 	if err := run(options{cfg: synth.Config{Elements: 100}, out: t.TempDir(), format: "stl"}, io.Discard); err == nil {
 		t.Error("no error for -format stl")
+	}
+}
+
+func TestDefaultOutOutsideCheckout(t *testing.T) {
+	// Without -out the files go under the system's temporary directory,
+	// not into the working directory (the checkout).
+	out := defaultOut()
+	if !filepath.IsAbs(out) || filepath.Dir(out) != filepath.Clean(os.TempDir()) {
+		t.Errorf("default -out %q is not directly under %q", out, os.TempDir())
 	}
 }
