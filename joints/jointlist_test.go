@@ -400,6 +400,8 @@ func FuzzReadJointsCSV(f *testing.F) {
 		"ID,X,Y,Z,parts,kind\nW1,1,2,3,\"1;2\",bolt\n",
 		"\ufeffid,x,y,z,diameter,washer,hole\nB1,0,0,0,10,20,11\n# c\n\n",
 		"id,x,y,z\nW1,1,2,3\nW1,1,2,3\n",
+		"id;x;y;z;parts;diameter\nW1;1;2;3;\"1;2\";5,5\n",
+		"# a,b\nid\tx\ty\tz\tnote\nW1\t1\t\t3\t\n",
 	)
 	f.Fuzz(func(t *testing.T, in string) {
 		js, _, err := ReadJointsCSV(strings.NewReader(in), "f.csv")

@@ -23,6 +23,8 @@ func FuzzReadParts(f *testing.F) {
 	}
 	f.Add("parts:\n  - &p {id: 1, thickness: 1, mesh: a.vtk}\n  - *p\n")
 	f.Add("id,thickness,mesh,surface\n1,0.7,a.vtk,TOP\n2,1e-3,,\n")
+	f.Add("id;thickness;name\n1;0,7;\"a;b\"\n")
+	f.Add("id\tthickness\n1\t\t\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		for name, read := range map[string]func(string) ([]geom.Part, error){
 			"yaml": func(s string) ([]geom.Part, error) { return ReadPartsYAML(strings.NewReader(s), "f.yaml") },
