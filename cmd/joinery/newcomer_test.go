@@ -158,7 +158,7 @@ func TestBuildNearMissColumnIsAnError(t *testing.T) {
 		}
 	}
 	lists := map[string]string{
-		writeCSV(t, filepath.Join(dir, "welds.csv"), ',', recs):                                                  ":1: unknown column \"diamter\" (did you mean \"diameter\"?)",
+		writeCSV(t, filepath.Join(dir, "welds.csv"), ',', recs):                                                       ":1: unknown column \"diamter\" (did you mean \"diameter\"?)",
 		writeText(t, filepath.Join(dir, "welds.yaml"), "joints:\n  - id: W1\n    point: [0, 0, 0]\n    diamter: 6\n"): ":4: joint: unknown key \"diamter\" (did you mean \"diameter\"?)",
 	}
 	for list, want := range lists {
