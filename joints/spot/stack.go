@@ -235,16 +235,20 @@ func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOpti
 		best    joints.Stack
 		bestTol float64
 	)
-	for _, c := range cands {
-		if degenerateHost(m, &c) {
+	bad := make([]bool, len(cands))
+	for i := range cands {
+		bad[i] = degenerateHost(m, &cands[i])
+	}
+	for i, c := range cands {
+		if bad[i] {
 			continue
 		}
 		axis := c.Proj.Normal
 		latTol := lateralLimit(diameter, c.Thickness, o)
 		var st joints.Stack
 		st.Axis = axis
-		for _, s := range cands {
-			if !parallel(s.Proj.Normal, axis, cosTol) || degenerateHost(m, &s) {
+		for k, s := range cands {
+			if bad[k] || !parallel(s.Proj.Normal, axis, cosTol) {
 				continue
 			}
 			place(m, &s, p, axis)
