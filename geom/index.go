@@ -174,7 +174,7 @@ const pruneSlack = 1 + 1e-9
 // ProjectNearest returns the projection of p onto the nearest element
 // accepted by filter (nil accepts all) within distance r of p (r may be
 // +Inf), and false when there is none. Ties go to the lower element
-// index.
+// id, so that the answer does not depend on the order of the elements.
 func (x *Index) ProjectNearest(p r3.Vec, r float64, filter func(e int) bool) (Projection, bool) {
 	q, r2, ok := query(p, r)
 	if !ok {
@@ -201,7 +201,7 @@ func (x *Index) ProjectNearest(p r3.Vec, r float64, filter func(e int) bool) (Pr
 			if !(pr.Dist <= r) {
 				continue
 			}
-			if best.Elem < 0 || pr.Dist < best.Dist || pr.Dist == best.Dist && e < best.Elem {
+			if best.Elem < 0 || pr.Dist < best.Dist || pr.Dist == best.Dist && x.m.ElemIDs[e] < x.m.ElemIDs[best.Elem] {
 				best = pr
 				b = bound()
 			}

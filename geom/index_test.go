@@ -188,7 +188,7 @@ func TestIndexNearestNodes(t *testing.T) {
 func TestIndexTies(t *testing.T) {
 	// The centre node of a 2 x 2 grid is shared by four elements, all at
 	// the same distance from a point above it: ties go to the lowest
-	// element index, and equidistant nodes come in index order.
+	// element id, and equidistant nodes come in index order.
 	m := gridMesh(2, 2, 1, 0)
 	x := NewIndex(m)
 	p := v3(1, 1, 3)
@@ -199,6 +199,12 @@ func TestIndexTies(t *testing.T) {
 	got := x.ProjectNear(p, 3, nil)
 	if len(got) != 4 || got[0].Elem != 0 || got[3].Elem != 3 {
 		t.Errorf("ProjectNear = %+v, want elements 0..3", got)
+	}
+	// With the ids in reverse, the nearest is the last element.
+	r := gridMesh(2, 2, 1, 0)
+	slices.Reverse(r.ElemIDs)
+	if best, ok := NewIndex(r).ProjectNearest(p, 10, nil); !ok || best.Elem != 3 {
+		t.Errorf("ProjectNearest with ids reversed = %+v, want element 3 (id 1)", best)
 	}
 	if got := x.NearestNodes(v3(1, 1, 0), 5, nil); !slices.Equal(got, []int32{4, 1, 3, 5, 7}) {
 		t.Errorf("NearestNodes = %v, want [4 1 3 5 7]", got)
