@@ -274,7 +274,7 @@ func TestBuildNamesRejectedSheets(t *testing.T) {
 	}
 	want := map[string]string{
 		"W1 single-sheet":    "only part 1 lies under the weld within 4.5 mm: nothing to join; also within reach: part 2, 1.5 mm off the weld axis (limit 1.25 mm)",
-		"W3 degenerate-host": "the element of part 3 under the weld (id 300001) is degenerate: no area, so no normal to build on",
+		"W3 degenerate-host": "the element of part 3 under the weld (id 300001) is degenerate: too little area for a normal to build on",
 	}
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("findings %v\nwant     %v", got, want)

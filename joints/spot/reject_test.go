@@ -129,7 +129,7 @@ func TestRejectedSheets(t *testing.T) {
 			},
 			joint: joints.Joint{ID: "W5", Point: at},
 			code:  joints.CodeDegenerate, parts: []int64{2},
-			want: "the element of part 2 under the weld (id 200009) is degenerate: no area, so no normal to build on",
+			want: "the element of part 2 under the weld (id 200009) is degenerate: too little area for a normal to build on",
 		},
 		{
 			// A third sheet above a sound pair lies under the weld on a

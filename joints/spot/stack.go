@@ -83,11 +83,13 @@ func candidates(x *geom.Index, p r3.Vec, r float64) []joints.Sheet {
 	m := x.Mesh()
 	prs := x.ClosestPerPart(p, r)
 	out := make([]joints.Sheet, len(prs))
+	moved := false
 	for i, pr := range prs {
 		if degenerateElem(m, pr.Elem) {
 			pi := m.ElemPart[pr.Elem]
 			sound := func(e int) bool { return m.ElemPart[e] == pi && !degenerateElem(m, e) }
 			if alt := x.ProjectNear(p, pr.Dist+geom.TieDistance, sound); len(alt) > 0 {
+				moved = true
 				pr = alt[0]
 				for _, a := range alt[1:] {
 					if a.Dist <= alt[0].Dist+geom.TieDistance && m.ElemIDs[a.Elem] < m.ElemIDs[pr.Elem] {
@@ -97,6 +99,11 @@ func candidates(x *geom.Index, p r3.Vec, r float64) []joints.Sheet {
 			}
 		}
 		out[i] = joints.Sheet{Part: m.Part(pr.Elem).ID, Proj: pr, Thickness: m.Thickness(pr.Elem), EdgeDistance: math.Inf(1)}
+	}
+	if moved { // a distance may have changed within the tie distance
+		slices.SortFunc(out, func(a, b joints.Sheet) int {
+			return cmp.Or(cmp.Compare(a.Proj.Dist, b.Proj.Dist), cmp.Compare(a.Part, b.Part))
+		})
 	}
 	return out
 }
@@ -115,7 +122,7 @@ func degenerateHost(m *geom.Mesh, s *joints.Sheet) bool {
 
 // degenerateMessage is the message of a degenerate-host finding.
 func degenerateMessage(m *geom.Mesh, s *joints.Sheet) string {
-	return fmt.Sprintf("the element of part %d under the weld (id %d) is degenerate: no area, so no normal to build on", s.Part, m.ElemIDs[s.Proj.Elem])
+	return fmt.Sprintf("the element of part %d under the weld (id %d) is degenerate: too little area for a normal to build on", s.Part, m.ElemIDs[s.Proj.Elem])
 }
 
 // rejection is a sheet within reach that an automatic stack left out,
@@ -145,7 +152,7 @@ func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, la
 		r := rejection{sheet: s}
 		if degenerateHost(m, &s) {
 			r.degenerate = true
-			r.why = fmt.Sprintf("its element there (id %d) is degenerate: no area, so no normal", m.ElemIDs[s.Proj.Elem])
+			r.why = fmt.Sprintf("its element there (id %d) is degenerate: too little area for a normal", m.ElemIDs[s.Proj.Elem])
 			r.underWeld = true
 			if r3.Norm2(axis) > 0 {
 				place(m, &s, p, axis)
