@@ -2,6 +2,7 @@ package geom
 
 import (
 	"fmt"
+	"io"
 	"math"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -20,6 +21,10 @@ type ReadOptions struct {
 	// element of a file that carries no part array.
 	DefaultPart    int64
 	HasDefaultPart bool
+	// Digest, when not nil, receives every byte of the file as the reader
+	// reads it (ReadFile), so that a caller can hash its inputs without
+	// reading them twice. Readers of a stream (Read) ignore it.
+	Digest io.Writer
 }
 
 // CellSet is a mesh as a VTK-style reader holds it just after reading:

@@ -113,15 +113,16 @@ const (
 // its washer must be larger than both; washer or hole on a spot weld gives
 // a warning.
 func ReadJoints(path string) ([]Joint, []InputWarning, error) {
-	l, err := readJointList(path)
+	l, err := readJointList(path, nil)
 	if err != nil {
 		return nil, nil, err
 	}
 	return l.joints, l.warns, nil
 }
 
-// readJointList reads the joint list in the named file (see ReadJoints).
-func readJointList(path string) (*jointList, error) {
+// readJointList reads the joint list in the named file (see
+// ReadJoints), passing every byte to digest (when not nil) as it is read.
+func readJointList(path string, digest io.Writer) (*jointList, error) {
 	var read func(io.Reader, string) (*jointList, error)
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".csv":
@@ -136,7 +137,18 @@ func readJointList(path string) (*jointList, error) {
 		return nil, fmt.Errorf("joints: reading joint list: %w", err)
 	}
 	defer f.Close()
-	return read(f, path)
+	if digest == nil {
+		return read(f, path)
+	}
+	r := io.TeeReader(f, digest)
+	l, err := read(r, path)
+	if err == nil {
+		// The digest covers the whole file, whatever the parser left unread.
+		if _, err = io.Copy(io.Discard, r); err != nil {
+			err = fmt.Errorf("joints: reading joint list: %w", err)
+		}
+	}
+	return l, err
 }
 
 // ReadJointsCSV reads a joint list in CSV from r; name is the file name

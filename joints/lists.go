@@ -1,6 +1,7 @@
 package joints
 
 import (
+	"io"
 	"path/filepath"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -24,7 +25,13 @@ type ListTags struct {
 
 // ReadJointLists reads several joint lists and joins them in argument
 // order. A joint id used in two lists is an input error naming both.
-func ReadJointLists(paths []string) (*JointLists, error) {
+func ReadJointLists(paths []string) (*JointLists, error) { return ReadJointListsDigest(paths, nil) }
+
+// ReadJointListsDigest reads like ReadJointLists; when digest is not nil
+// it is called with each list's path before the list is read, and the
+// list's bytes go to the writer it returns (nil for none), so that the
+// caller can hash its inputs as they stream in.
+func ReadJointListsDigest(paths []string, digest func(path string) io.Writer) (*JointLists, error) {
 	all := &JointLists{}
 	first := map[string]*Joint{}
 	seenPath := map[string]bool{}
@@ -33,7 +40,11 @@ func ReadJointLists(paths []string) (*JointLists, error) {
 			return nil, geom.FileError(p, "joint list given twice")
 		}
 		seenPath[filepath.Clean(p)] = true
-		l, err := readJointList(p)
+		var w io.Writer
+		if digest != nil {
+			w = digest(p)
+		}
+		l, err := readJointList(p, w)
 		if err != nil {
 			return nil, err
 		}

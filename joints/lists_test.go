@@ -2,6 +2,7 @@ package joints
 
 import (
 	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -54,5 +55,29 @@ func TestReadJointListsTags(t *testing.T) {
 	want := []ListTags{{paths[0], []string{"torque", "Note"}}, {paths[2], []string{"cell", "robot", "station"}}}
 	if !reflect.DeepEqual(l.Tags, want) || len(l.Joints) != 4 {
 		t.Errorf("tags %v, want %v (%d joints)", l.Tags, want, len(l.Joints))
+	}
+}
+
+// ReadJointListsDigest passes each list's bytes, all of them, to the
+// writer digest gives for its path.
+func TestReadJointListsDigest(t *testing.T) {
+	dir := t.TempDir()
+	a := filepath.Join(dir, "a.csv")
+	b := filepath.Join(dir, "b.yaml")
+	os.WriteFile(a, []byte("id,x,y,z\nW1,0,0,0\n# a comment at the end\n"), 0o644)
+	os.WriteFile(b, []byte("joints:\n  - {id: W2, point: [1, 0, 0]}\n"), 0o644)
+	got := map[string]*strings.Builder{}
+	_, err := ReadJointListsDigest([]string{a, b}, func(p string) io.Writer {
+		got[p] = &strings.Builder{}
+		return got[p]
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range []string{a, b} {
+		want, _ := os.ReadFile(p)
+		if got[p] == nil || got[p].String() != string(want) {
+			t.Errorf("%s: digest got %q", p, got[p])
+		}
 	}
 }

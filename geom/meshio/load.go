@@ -3,6 +3,7 @@ package meshio
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -32,6 +33,13 @@ type LoadOptions struct {
 	// bytes, advanced by each file's size once it is read (one goroutine
 	// at a time).
 	Progress geom.Progress
+	// Digest, when not nil, is called once for the parts table and once
+	// for each mesh file, with its path, before the file is read; the
+	// bytes read go to the writer it returns (nil for none), so that the
+	// caller can hash the inputs as they stream in (see
+	// geom.ReadOptions.Digest). Mesh files are read concurrently: Digest
+	// must be safe for concurrent use.
+	Digest func(path string) io.Writer
 }
 
 // Model is a loaded model: one merged mesh and what happened on the way.
@@ -80,7 +88,11 @@ func Load(opts LoadOptions) (*Model, error) {
 	defaults := map[string]int64{}
 	if opts.Parts != "" {
 		var err error
-		if table, err = ReadParts(opts.Parts); err != nil {
+		var digest io.Writer
+		if opts.Digest != nil {
+			digest = opts.Digest(opts.Parts)
+		}
+		if table, err = readParts(opts.Parts, digest); err != nil {
 			return nil, err
 		}
 		for _, p := range table {
@@ -160,6 +172,9 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 				var ro geom.ReadOptions
 				if id, ok := defaults[filepath.Base(path)]; ok {
 					ro = geom.ReadOptions{DefaultPart: id, HasDefaultPart: true}
+				}
+				if opts.Digest != nil {
+					ro.Digest = opts.Digest(path)
 				}
 				meshes[i], errs[i] = read(path, ro)
 				if errs[i] == nil && meshes[i] == nil {

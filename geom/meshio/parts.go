@@ -22,7 +22,11 @@ func partKeys() []string {
 // ReadParts reads the parts table in the named file: YAML for .yaml and
 // .yml, CSV for .csv (see the package documentation for both forms).
 // Parts are returned in file order.
-func ReadParts(path string) ([]geom.Part, error) {
+func ReadParts(path string) ([]geom.Part, error) { return readParts(path, nil) }
+
+// readParts reads the parts table in the named file, passing every byte
+// to digest (when not nil) as it is read.
+func readParts(path string, digest io.Writer) ([]geom.Part, error) {
 	var read func(io.Reader, string) ([]geom.Part, error)
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".yaml", ".yml":
@@ -37,7 +41,18 @@ func ReadParts(path string) ([]geom.Part, error) {
 		return nil, fmt.Errorf("meshio: reading parts table: %w", err)
 	}
 	defer f.Close()
-	return read(f, path)
+	if digest == nil {
+		return read(f, path)
+	}
+	r := io.TeeReader(f, digest)
+	parts, err := read(r, path)
+	if err == nil {
+		// The digest covers the whole file, whatever the parser left unread.
+		if _, err = io.Copy(io.Discard, r); err != nil {
+			err = fmt.Errorf("meshio: reading parts table: %w", err)
+		}
+	}
+	return parts, err
 }
 
 // ReadPartsYAML reads a parts table in YAML from r; name is the file name

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"runtime"
 	"slices"
 	"sync"
@@ -49,7 +48,7 @@ func Read(r io.Reader, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
 
 // ReadFile reads the mesh in the named file. See Read.
 func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	data, err := os.ReadFile(path)
+	data, err := geom.ReadFile(path, opt.Digest)
 	if err != nil {
 		return nil, fmt.Errorf("native: %w", err)
 	}

@@ -7,7 +7,6 @@ import (
 	"io"
 	"io/fs"
 	"math"
-	"os"
 	"sort"
 	"strconv"
 	"strings"
@@ -47,7 +46,7 @@ func Read(r io.Reader, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
 
 // ReadFile reads the mesh in the named VTK legacy file.
 func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	data, err := os.ReadFile(path)
+	data, err := geom.ReadFile(path, opt.Digest)
 	if err != nil {
 		return nil, fmt.Errorf("vtk: %w", err)
 	}

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -27,7 +26,7 @@ func Read(r io.Reader, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
 
 // ReadFile reads the mesh in the named file; see Read.
 func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	data, err := os.ReadFile(path)
+	data, err := geom.ReadFile(path, opt.Digest)
 	if err != nil {
 		return nil, fmt.Errorf("vtu: %w", err)
 	}
