@@ -29,10 +29,13 @@ func stateCode(state string) int {
 }
 
 // ConnectorsVTKTitle returns the title line of connectors.vtk: the
-// generator, the state codes and a pointer to the caution, within the
-// 256 characters the legacy format allows.
-func ConnectorsVTKTitle(generator string) string {
-	t := fmt.Sprintf("joinery connectors (%s); state 1 built, 2 flagged, 3 not-built; %s", generator, document.ShortCaution)
+// generator, the run id, the state codes and a pointer to the caution,
+// within the 256 characters the legacy format allows (a line of at most
+// 255 characters and its newline; VTK file-format documentation,
+// Kitware). The run id comes early, so that a long generator name can
+// only cut the end.
+func ConnectorsVTKTitle(generator, runID string) string {
+	t := fmt.Sprintf("joinery connectors (%s; run %s); state 1 built, 2 flagged, 3 not-built; %s", generator, runID, document.ShortCaution)
 	if len(t) > 255 {
 		t = t[:255]
 	}
@@ -73,7 +76,7 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 		npts += len(c.pts)
 		nconn += len(c.pts) + 1
 	}
-	ew.printf("# vtk DataFile Version 3.0\n%s\nASCII\nDATASET UNSTRUCTURED_GRID\n", ConnectorsVTKTitle(doc.Generator))
+	ew.printf("# vtk DataFile Version 3.0\n%s\nASCII\nDATASET UNSTRUCTURED_GRID\n", ConnectorsVTKTitle(doc.Generator, doc.RunID))
 	ew.printf("POINTS %d double\n", npts)
 	for _, c := range cells {
 		for _, p := range c.pts {

@@ -40,3 +40,19 @@ func TestConnectorsVTKReadsBack(t *testing.T) {
 		t.Fatal("output differs between two writes")
 	}
 }
+
+// The title line holds the run id and stays within the 256 characters
+// of a legacy VTK header line, newline included (VTK file-format
+// documentation, Kitware), also for a long version string.
+func TestConnectorsVTKTitleLength(t *testing.T) {
+	const id = "0123456789abcdef0123456789abcdef"
+	for _, gen := range []string{"joinery dev", "joinery v1.12.3-rc.1+20250101.abcdef0123-dirty", "joinery " + string(bytes.Repeat([]byte("x"), 300))} {
+		title := ConnectorsVTKTitle(gen, id)
+		if len(title) > 255 || bytes.ContainsAny([]byte(title), "\n\r") {
+			t.Errorf("title of %d characters for generator of %d", len(title), len(gen))
+		}
+		if len(gen) < 100 && document.FindRunID([]byte(title)) != id {
+			t.Errorf("run id not found in %q", title)
+		}
+	}
+}

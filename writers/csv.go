@@ -19,13 +19,13 @@ var connectorsCSVHeader = []string{
 	"x", "y", "z", "distance", "thickness", "edge_distance", "diameter", "attach", "dofs", "nodes", "weights",
 }
 
-// WriteConnectorsCSV writes a comment line with the generator and the
-// caution, the header, then one row per connector end (sheet); connectors
+// WriteConnectorsCSV writes a comment line with the generator, the run
+// id and the caution, the header, then one row per connector end (sheet); connectors
 // not built get one row with the sheet columns empty.
 func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 	// A comment line first: Joinery's own CSV readers skip lines that
 	// start with '#', and the caution travels with the file.
-	if _, err := fmt.Fprintf(w, "# joinery connectors (%s); CAUTION: %s\n", doc.Generator, document.Caution); err != nil {
+	if _, err := fmt.Fprintf(w, "# joinery connectors (%s; run %s); CAUTION: %s\n", doc.Generator, doc.RunID, document.Caution); err != nil {
 		return err
 	}
 	cw := csv.NewWriter(w)

@@ -16,7 +16,7 @@ import (
 func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 	ew := &errWriter{w: w}
 	s := doc.Summary
-	ew.printf("joinery connector report (%s)\n\n", doc.Generator)
+	ew.printf("joinery connector report (%s; run %s)\n\n", doc.Generator, doc.RunID)
 	summaryLines(ew, doc)
 	ew.printf("inputs      %s", strings.Join(doc.Inputs.Meshes, " "))
 	if doc.Inputs.Parts != "" {
@@ -69,6 +69,7 @@ func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, file
 	summaryLines(ew, doc)
 	inputLines(ew, doc.Inputs)
 	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("run id      %s\n", doc.RunID)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err
 }

@@ -5,8 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
 	"sync"
 )
 
@@ -64,25 +62,4 @@ func Render(files []File) ([]Rendered, error) {
 		}
 	}
 	return out, nil
-}
-
-// WriteSet writes a rendered set of files into dir, creating it when
-// needed, each through a temporary file renamed into place. Errors are
-// output errors (ErrOutput).
-func WriteSet(dir string, files []Rendered) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return OutputError(fmt.Errorf("writers: creating output directory: %w", err))
-	}
-	errs := make([]error, len(files))
-	var wg sync.WaitGroup
-	for i := range files {
-		wg.Go(func() {
-			errs[i] = WriteFileAtomic(filepath.Join(dir, files[i].Name), func(w io.Writer) error {
-				_, err := w.Write(files[i].Data)
-				return err
-			})
-		})
-	}
-	wg.Wait()
-	return OutputError(errors.Join(errs...))
 }

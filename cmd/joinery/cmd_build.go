@@ -119,7 +119,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	}
 	switch {
 	case g.json:
-		if err := g.writeJSON(buildJSON{Summary: out.Report.Summary, Inputs: out.Report.Inputs, Out: out.Out, Files: out.Files, Caution: document.Caution}); err != nil {
+		if err := g.writeJSON(buildJSON{Summary: out.Report.Summary, Inputs: out.Report.Inputs, Out: out.Out, Files: out.Files, RunID: out.RunID, Caution: document.Caution}); err != nil {
 			return err
 		}
 	case !g.quiet:
@@ -141,5 +141,6 @@ type buildJSON struct {
 	Inputs  document.Inputs `json:"inputs"`
 	Out     string          `json:"out"`
 	Files   []string        `json:"files"`
+	RunID   string          `json:"run_id"`
 	Caution string          `json:"caution"`
 }

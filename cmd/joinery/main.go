@@ -33,9 +33,12 @@ const (
 const exitStatusHelp = `EXIT STATUS
   0    done; no finding at or above --fail-on
   1    done; findings at or above --fail-on (outputs written)
-  2    bad usage or bad input (the message names the file and line); nothing written
+  2    bad usage or bad input (the message names the file and line), or an output
+       directory Joinery did not write; nothing written
   3    a failure that is not the input's fault: an output that cannot be written,
-       a full disk, a lock held by another run, an internal error
+       a full disk, a lock held by another run, an output directory holding files
+       Joinery did not write beside its set, an internal error; the message says
+       what is left in the output directory (the old set, untouched, or nothing)
   130  interrupted (Ctrl-C)`
 
 // version is set at build time with -ldflags "-X main.version=...".

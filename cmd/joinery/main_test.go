@@ -15,6 +15,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
 )
 
@@ -132,6 +133,10 @@ func TestBuildExampleGolden(t *testing.T) {
 	}
 	validate(t, "connectors.schema.json", filepath.Join(dir, "connectors.json"))
 	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
+	validate(t, "set.schema.json", filepath.Join(dir, document.SetMarker))
+	if set, err := writers.ReadSet(dir); err != nil || len(set.Files) != len(buildOutputs) {
+		t.Errorf("the set does not read back whole: %v", err)
+	}
 }
 
 // validate checks a JSON file against one of Joinery's published schemas

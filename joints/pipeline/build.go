@@ -51,6 +51,7 @@ func (job *Job) BuildSettings() (BuildSettings, error) {
 type Outcome struct {
 	Out        string   // output directory
 	Files      []string // names of the files written there
+	RunID      string   // the run id every file carries
 	Report     *document.ReportDoc
 	Connectors *document.ConnectorsDoc
 	Result     *joints.Result
@@ -69,7 +70,12 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	if len(job.Joints) == 0 {
 		return nil, UsageError(errors.New("no joint list given: name one with --joints or in the job file's joints"))
 	}
-	in, err := Load(ctx, job, env)
+	out, err := OpenOutput(s.Out)
+	if err != nil {
+		return nil, err
+	}
+	defer out.Close()
+	in, err := LoadForSet(ctx, job, env)
 	if err != nil {
 		return nil, err
 	}
@@ -77,18 +83,35 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	if err != nil {
 		return nil, err
 	}
-	info := in.RunInfo(env.Generator)
+	info, err := in.RunInfo(env.Generator, res)
+	if err != nil {
+		return nil, err
+	}
 	conn := document.NewConnectors(in.Model.Mesh, res, info)
 	rep := document.NewReport(res, info)
 	rendered, err := writers.Render(buildFiles(conn, rep))
 	if err != nil {
 		return nil, err
 	}
-	if err := writers.WriteSet(s.Out, rendered); err != nil {
+	if err := out.Write(writers.Set{Job: "build", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
 		return nil, err
 	}
-	return &Outcome{Out: s.Out, Files: BuildFiles(), Report: rep, Connectors: conn, Result: res,
+	return &Outcome{Out: s.Out, Files: BuildFiles(), RunID: info.RunID, Report: rep, Connectors: conn, Result: res,
 		Reached: s.Fail && res.Reached(s.FailOn)}, nil
+}
+
+// OpenOutput takes the output directory of a run before the run does
+// its work (writers.OpenSet: the lock, the recovery of a killed run's
+// leftovers, the check that the directory is Joinery's to replace), so
+// that a run that could not write its outputs fails at once. A directory
+// Joinery did not write is a usage error; the caller Writes the set and
+// Closes the directory.
+func OpenOutput(dir string) (*writers.OutputDir, error) {
+	out, err := writers.OpenSet(dir)
+	if errors.Is(err, writers.ErrNotOwned) {
+		return nil, UsageError(err)
+	}
+	return out, err
 }
 
 // buildFiles lists the files of a build's output set, in BuildFiles order.
@@ -132,16 +155,30 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	return res, nil
 }
 
-// RunInfo returns the record of a run's inputs for its documents.
-func (in *Inputs) RunInfo(generator string) document.RunInfo {
-	info := document.RunInfo{Generator: generator, Meshes: in.Job.Meshes, Parts: in.Job.Parts, Joints: in.Job.Joints}
+// RunInfo returns the record of a run's inputs for its documents: the
+// input paths as recorded (Job.RecordedPath) and the run id of the run
+// that made res (inputs loaded with LoadForSet).
+func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInfo, error) {
+	job := in.Job
+	info := document.RunInfo{Generator: generator}
+	for _, p := range job.Meshes {
+		info.Meshes = append(info.Meshes, job.RecordedPath(p))
+	}
+	if job.Parts != "" {
+		info.Parts = job.RecordedPath(job.Parts)
+	}
+	for _, p := range job.Joints {
+		info.Joints = append(info.Joints, job.RecordedPath(p))
+	}
 	for _, r := range in.Model.Renumbered {
-		info.Renumbered = append(info.Renumbered, document.Shift{File: r.File, NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
+		info.Renumbered = append(info.Renumbered, document.Shift{File: job.RecordedPath(r.File), NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
 	}
 	for _, t := range in.Tags {
-		info.Tags = append(info.Tags, document.TagColumns{File: t.File, Columns: t.Columns})
+		info.Tags = append(info.Tags, document.TagColumns{File: job.RecordedPath(t.File), Columns: t.Columns})
 	}
-	return info
+	var err error
+	info.RunID, err = in.runID(generator, res)
+	return info, err
 }
 
 // Summary is the few lines a build prints on stdout.

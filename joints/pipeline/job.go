@@ -1,6 +1,7 @@
 package pipeline
 
 import (
+	"crypto/sha256"
 	"errors"
 	"fmt"
 	"io"
@@ -40,7 +41,8 @@ const JobVersion = 1
 //	    rear-rail: {attach: node-pair}
 //
 // Relative paths are relative to the job file's directory; LoadJob
-// resolves them. Unknown keys are errors.
+// resolves them, and the outputs record them as written (RecordedPath).
+// Unknown keys are errors.
 //
 // Every setting records whether the file gave it: strings are "" and
 // lists nil when not given, numbers and booleans are pointers, nil when
@@ -58,6 +60,13 @@ type Job struct {
 	Build    JobBuild `yaml:"build,omitempty"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
+	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
+	// for the run id; nil for a job not read from a file.
+	Sum []byte `yaml:"-"`
+
+	// written maps each path of the job file, as resolved, to the path
+	// as the file wrote it (see RecordedPath).
+	written map[string]string
 }
 
 // JobBuild holds the build settings of a job, as written in the file
@@ -123,6 +132,28 @@ func (b *JobBuild) Apply(o *joints.BuildOptions) error {
 	return nil
 }
 
+// RecordedPath returns how the outputs record the input file path p (a
+// path of the job as resolved, or one a flag gave), so that they depend
+// on the inputs, not on the directory Joinery runs in: a path of the job
+// file as the file wrote it; another relative path relative to the job
+// file's directory; with no job file, or for an absolute path, the path
+// as given. Always cleaned, with forward slashes.
+func (job *Job) RecordedPath(p string) string {
+	if w, ok := job.written[p]; ok {
+		return w
+	}
+	if job.File != "" && !filepath.IsAbs(p) {
+		base, err1 := filepath.Abs(filepath.Dir(job.File))
+		abs, err2 := filepath.Abs(p)
+		if err1 == nil && err2 == nil {
+			if r, err := filepath.Rel(base, abs); err == nil {
+				return filepath.ToSlash(r)
+			}
+		}
+	}
+	return filepath.ToSlash(filepath.Clean(p))
+}
+
 // LoadJob reads the job file at path and resolves its relative paths
 // against the file's directory.
 func LoadJob(path string) (*Job, error) {
@@ -141,6 +172,8 @@ func LoadJob(path string) (*Job, error) {
 // and to resolve relative paths (against filepath.Dir(name)).
 func ReadJob(r io.Reader, name string) (*Job, error) {
 	y := tabular.YAML{File: name}
+	h := sha256.New()
+	r = io.TeeReader(r, h)
 	root, err := y.Parse(r)
 	if err != nil {
 		return nil, err
@@ -148,7 +181,11 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 	if root == nil {
 		return nil, y.Errorf(nil, "empty job file: want at least version and meshes")
 	}
-	job := &Job{File: name}
+	// The sum covers the whole file, whatever the parser left unread.
+	if _, err := io.Copy(io.Discard, r); err != nil {
+		return nil, geom.FileError(name, "job file: %w", err)
+	}
+	job := &Job{File: name, Sum: h.Sum(nil), written: map[string]string{}}
 	dir := filepath.Dir(name)
 	path := func(v *yaml.Node, what string) (string, error) {
 		s, err := y.String(v, what)
@@ -157,10 +194,13 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 			return "", err
 		case s == "":
 			return "", y.Errorf(v, "%s: empty path", what)
-		case !filepath.IsAbs(s):
-			s = filepath.Join(dir, s)
 		}
-		return s, nil
+		resolved := s
+		if !filepath.IsAbs(s) {
+			resolved = filepath.Join(dir, s)
+		}
+		job.written[resolved] = filepath.ToSlash(filepath.Clean(s))
+		return resolved, nil
 	}
 	paths := func(v *yaml.Node, what string) ([]string, error) {
 		items, err := y.List(v, what)

@@ -1,6 +1,7 @@
 package pipeline
 
 import (
+	"crypto/sha256"
 	"errors"
 	"os"
 	"path/filepath"
@@ -42,6 +43,20 @@ func TestLoadJobExample(t *testing.T) {
 		},
 		File: path,
 	}
+	raw, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := sha256.Sum256(raw)
+	want.Sum = sum[:]
+	// The outputs record the paths as the job file wrote them.
+	for p, rec := range map[string]string{want.Meshes[0]: "mesh/floor.vtk", want.Meshes[1]: "mesh/beam.jmesh",
+		want.Parts: "parts.yaml", want.Joints[0]: "welds.csv"} {
+		if got := job.RecordedPath(p); got != rec {
+			t.Errorf("RecordedPath(%s) = %q, want %q", p, got, rec)
+		}
+	}
+	want.written = job.written
 	if !reflect.DeepEqual(job, want) {
 		got, _ := yaml.Marshal(job)
 		exp, _ := yaml.Marshal(want)
@@ -177,5 +192,38 @@ func checkErr(t *testing.T, err error, want string) {
 	}
 	if !errors.Is(err, geom.ErrInput) {
 		t.Errorf("errors.Is(err, geom.ErrInput) = false for %v", err)
+	}
+}
+
+// Recorded paths depend on the inputs, not on the working directory: a
+// path of the job file as written; a flag's relative path relative to
+// the job file's directory; without a job file, as given; forward
+// slashes always.
+func TestRecordedPath(t *testing.T) {
+	job, err := ReadJob(strings.NewReader("version: 1\nmeshes: [./mesh//a.vtk, /models/b.vtu, ../shared/c.jmesh]\n"), filepath.Join("jobs", "van", "j.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	cwd, err := os.Getwd()
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct{ path, want string }{
+		{job.Meshes[0], "mesh/a.vtk"},
+		{job.Meshes[1], "/models/b.vtu"},
+		{job.Meshes[2], "../shared/c.jmesh"},
+		// Paths from flags, relative to the working directory.
+		{filepath.Join("jobs", "van", "welds.csv"), "welds.csv"},
+		{filepath.Join("jobs", "other", "x.csv"), "../other/x.csv"},
+		{filepath.Join(cwd, "jobs", "van", "abs.csv"), filepath.ToSlash(filepath.Join(cwd, "jobs", "van", "abs.csv"))},
+	}
+	for _, tt := range tests {
+		if got := job.RecordedPath(tt.path); got != tt.want {
+			t.Errorf("RecordedPath(%q) = %q, want %q", tt.path, got, tt.want)
+		}
+	}
+	none := &Job{}
+	if got := none.RecordedPath(filepath.Join("a", ".", "b.vtk")); got != "a/b.vtk" {
+		t.Errorf("without a job file: %q", got)
 	}
 }

@@ -3,6 +3,8 @@ package pipeline
 import (
 	"context"
 	"errors"
+	"hash"
+	"io"
 	"runtime"
 	"strings"
 
@@ -60,16 +62,34 @@ type Inputs struct {
 	Warnings []joints.InputWarning
 	// Tags names the free tag columns of each joint list that has some.
 	Tags []joints.ListTags
+	// sums holds the SHA-256 of every input file, taken as it was read
+	// (LoadForSet); nil after Load.
+	sums *inputSums
 }
 
 // Load reads the model and the joint lists a job names. Input warnings
 // go to env's notes and are kept in Inputs.Warnings.
-func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
+func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) { return load(ctx, job, env, nil) }
+
+// LoadForSet loads like Load and also hashes every input file as it is
+// read, for the run id of an output set (Inputs.RunInfo): the run of
+// every command that writes outputs loads with it.
+func LoadForSet(ctx context.Context, job *Job, env Env) (*Inputs, error) {
+	return load(ctx, job, env, &inputSums{sums: map[string]hash.Hash{}})
+}
+
+func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, error) {
 	if len(job.Meshes) == 0 {
 		return nil, UsageError(errors.New("no mesh given: name one with --mesh or in a job file"))
 	}
-	model, err := meshio.Load(meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber,
-		Progress: env.progress()})
+	lo := meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber,
+		Progress: env.progress()}
+	var digest func(string) io.Writer
+	if sums != nil {
+		digest = sums.writer
+		lo.Digest = digest
+	}
+	model, err := meshio.Load(lo)
 	if err != nil {
 		return nil, err
 	}
@@ -77,7 +97,7 @@ func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
 	// now; collect them before the next steps grow the heap, so that the
 	// process reuses their memory instead of asking the system for more.
 	runtime.GC()
-	lists, err := joints.ReadJointLists(job.Joints)
+	lists, err := joints.ReadJointListsDigest(job.Joints, digest)
 	if err != nil {
 		return nil, err
 	}
@@ -90,5 +110,5 @@ func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) {
 	if err := joints.CheckParts(lists.Joints, model.Mesh); err != nil {
 		return nil, err
 	}
-	return &Inputs{Job: job, Model: model, Joints: lists.Joints, Warnings: lists.Warnings, Tags: lists.Tags}, ctx.Err()
+	return &Inputs{Job: job, Model: model, Joints: lists.Joints, Warnings: lists.Warnings, Tags: lists.Tags, sums: sums}, ctx.Err()
 }

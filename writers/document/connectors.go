@@ -28,6 +28,7 @@ type ConnectorsDoc struct {
 	Schema     string         `json:"schema"`
 	Version    int            `json:"version"`
 	Generator  string         `json:"generator"`
+	RunID      string         `json:"run_id"`
 	Caution    string         `json:"caution"`
 	Units      Units          `json:"units"`
 	Inputs     Inputs         `json:"inputs"`
@@ -128,7 +129,7 @@ func clean(v float64) float64 {
 func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc {
 	o := r.Options
 	doc := &ConnectorsDoc{
-		Schema: ConnectorsSchema, Version: ConnectorsVersion, Generator: info.Generator, Caution: Caution,
+		Schema: ConnectorsSchema, Version: ConnectorsVersion, Generator: info.Generator, RunID: info.RunID, Caution: Caution,
 		Units:  Units{Length: "mm", Angle: "degree"},
 		Inputs: info.inputs(),
 		Options: OptionsDoc{
@@ -216,7 +217,7 @@ func EncodeConnectors(w io.Writer, doc *ConnectorsDoc) error {
 		key string
 		v   any
 	}{
-		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"caution", doc.Caution}, {"units", doc.Units},
+		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"new_ids", doc.IDs},
 	}
 	ew.printf("{\n")

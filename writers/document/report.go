@@ -12,6 +12,7 @@ type ReportDoc struct {
 	Schema    string       `json:"schema"`
 	Version   int          `json:"version"`
 	Generator string       `json:"generator"`
+	RunID     string       `json:"run_id"`
 	Caution   string       `json:"caution"`
 	Inputs    Inputs       `json:"inputs"`
 	Summary   Summary      `json:"summary"`
@@ -31,7 +32,7 @@ type FindingDoc struct {
 // NewReport converts a build result into the report document.
 func NewReport(r *joints.Result, info RunInfo) *ReportDoc {
 	doc := &ReportDoc{
-		Schema: ReportSchema, Version: ReportVersion, Generator: info.Generator, Caution: Caution,
+		Schema: ReportSchema, Version: ReportVersion, Generator: info.Generator, RunID: info.RunID, Caution: Caution,
 		Inputs:   info.inputs(),
 		Summary:  Summarize(r),
 		Findings: make([]FindingDoc, 0, len(r.Findings)),

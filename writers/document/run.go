@@ -3,6 +3,7 @@ package document
 // RunInfo says how a run was made, for the record in every output.
 type RunInfo struct {
 	Generator string   // "joinery <version>"
+	RunID     string   // the run id every file of the set carries (see RunIDLen)
 	Meshes    []string // input paths, as recorded
 	Parts     string
 	Joints    []string

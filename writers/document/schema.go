@@ -3,7 +3,8 @@ package document
 import "embed"
 
 // Schemas holds the JSON Schema (draft 2020-12) files of Joinery's
-// documents: schema/connectors.schema.json and schema/report.schema.json.
+// documents: schema/connectors.schema.json, schema/report.schema.json
+// and schema/set.schema.json (the marker of an output set).
 //
 //go:embed schema/*.schema.json
 var Schemas embed.FS

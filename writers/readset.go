@@ -1,0 +1,141 @@
+package writers
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// SetContents is an output set read back whole: its marker and the
+// bytes of every file it lists.
+type SetContents struct {
+	Marker *document.SetDoc
+	Files  map[string][]byte
+}
+
+// ReadSet reads the output set in dir back and checks that it is whole
+// and of one run: the marker .joinery-set is there and complete, every
+// file it lists is there with its size and SHA-256, and each carries
+// the marker's run id near its start (document.FindRunID). Commands that
+// read a set back (check, sweep) call it, so that a mixed, damaged or
+// foreign set is refused before they use it.
+//
+// The files are read through one handle on the directory, so a run that
+// replaces the set meanwhile cannot mix two sets into what is returned;
+// when the set being read is removed under it, ReadSet reads the new
+// one. Errors are input errors naming the file (geom.ErrInput): the set
+// is the input of the command that reads it.
+func ReadSet(dir string) (*SetContents, error) {
+	set, err := readSetOnce(dir)
+	if errors.Is(err, errSetGone) {
+		set, err = readSetOnce(dir)
+	}
+	if errors.Is(err, errSetGone) {
+		return nil, geom.FileError(dir, "the output set keeps changing while it is read (another run is writing it); read it again when that run is done")
+	}
+	return set, err
+}
+
+// CheckSet checks the output set in dir as ReadSet does and returns its
+// marker.
+func CheckSet(dir string) (*document.SetDoc, error) {
+	set, err := ReadSet(dir)
+	if err != nil {
+		return nil, err
+	}
+	return set.Marker, nil
+}
+
+// errSetGone says a set was removed while being read.
+var errSetGone = errors.New("set removed while read")
+
+func readSetOnce(dir string) (*SetContents, error) {
+	root, err := os.OpenRoot(dir)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, geom.FileError(dir, "no such output directory")
+	}
+	if err != nil {
+		return nil, fmt.Errorf("writers: reading output set %s: %w", dir, err)
+	}
+	defer root.Close()
+	// gone reports whether dir no longer is the directory root opened: a
+	// run swapped a new set in meanwhile.
+	gone := func() bool {
+		fr, err1 := root.Stat(".")
+		fd, err2 := os.Stat(dir)
+		return err1 != nil || err2 != nil || !os.SameFile(fr, fd)
+	}
+	open := func(name string) ([]byte, error) {
+		f, err := root.Open(name)
+		if err != nil {
+			return nil, err
+		}
+		defer f.Close()
+		return io.ReadAll(f)
+	}
+	markerName := filepath.Join(dir, document.SetMarker)
+	raw, err := open(document.SetMarker)
+	if errors.Is(err, fs.ErrNotExist) {
+		if gone() {
+			return nil, errSetGone
+		}
+		return nil, geom.FileError(dir, "not an output set of Joinery: no %s marker", document.SetMarker)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("writers: reading %s: %w", markerName, err)
+	}
+	marker, err := document.DecodeSet(bytes.NewReader(raw), markerName)
+	if err != nil {
+		return nil, err
+	}
+	if !marker.Complete {
+		return nil, geom.FileError(markerName, "the set was not finished")
+	}
+	if !document.ValidRunID(marker.RunID) {
+		return nil, geom.FileError(markerName, "run_id %q is not a run id", excerpt(marker.RunID))
+	}
+	set := &SetContents{Marker: marker, Files: make(map[string][]byte, len(marker.Files))}
+	for _, sf := range marker.Files {
+		name := filepath.Join(dir, sf.Name)
+		if sf.Name != filepath.Base(sf.Name) || sf.Name == document.SetMarker {
+			return nil, geom.FileError(markerName, "file name %q is not a file of the set", excerpt(sf.Name))
+		}
+		data, err := open(sf.Name)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			if gone() {
+				return nil, errSetGone
+			}
+			return nil, geom.FileError(name, "missing from the output set of run %s: the set is not whole", marker.RunID)
+		case err != nil:
+			return nil, fmt.Errorf("writers: reading %s: %w", name, err)
+		}
+		if id := document.FindRunID(data); id != marker.RunID {
+			return nil, geom.FileError(name, "carries run id %q, not the set's %s: the set is mixed", id, marker.RunID)
+		}
+		sum := sha256.Sum256(data)
+		if int64(len(data)) != sf.Bytes || hex.EncodeToString(sum[:]) != sf.SHA256 {
+			return nil, geom.FileError(name, "not the file the set's marker lists (size or SHA-256 differ): changed since run %s wrote it", marker.RunID)
+		}
+		set.Files[sf.Name] = data
+	}
+	return set, nil
+}
+
+// excerpt cuts a text echoed in a message to a readable length.
+func excerpt(s string) string {
+	const limit = 40
+	if len(s) <= limit {
+		return s
+	}
+	return s[:limit] + "..."
+}
