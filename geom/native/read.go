@@ -11,6 +11,7 @@ import (
 	"sync"
 
 	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/internal/decimal"
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
@@ -530,7 +531,7 @@ func fastNode(b []byte, i int) (id int64, p r3.Vec, next int, ok bool) {
 		for i < len(b) && b[i] == ' ' {
 			i++
 		}
-		v, n, ok := scanFloat(b[i:])
+		v, n, ok := decimal.Scan(b[i:])
 		i += n
 		if !ok || math.IsInf(v, 0) || (i < len(b) && b[i] != ' ' && b[i] != '\n') {
 			return 0, p, 0, false

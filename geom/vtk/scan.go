@@ -5,6 +5,8 @@ import (
 	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom/internal/decimal"
 )
 
 // isSpace reports whether c separates tokens: space, \t, \n, \v, \f, \r.
@@ -25,10 +27,6 @@ func tokenEnd(b []byte, i int) int {
 	}
 	return i
 }
-
-// pow10 holds the powers of ten that float64 represents exactly.
-var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
-	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 
 // scanInt parses the decimal integer token that starts at b[i] (i is not
 // at a space). It returns the value and the index after the token, or
@@ -67,110 +65,20 @@ func scanIntSlow(b []byte, i int) (int64, int, bool) {
 }
 
 // scanFloat parses the real-number token that starts at b[i] (i is not at
-// a space). Plain decimals with at most 15 significant digits and small
-// exponents, which is what mesh files mostly hold, are converted exactly
-// by a single multiplication or division by an exact power of ten (the
-// fast path of W. D. Clinger, "How to read floating point numbers
-// accurately", PLDI 1990); everything else goes through
-// strconv.ParseFloat. Infinities and NaN are accepted in the forms
-// strconv.ParseFloat accepts; overflowing values become infinite.
+// a space), with the decimal parser shared by the readers
+// (geom/internal/decimal: bit-identical to strconv.ParseFloat). Besides
+// decimal numbers the legacy format's text holds infinities and NaN in
+// the spellings strconv.ParseFloat reads ("inf", "-Infinity", "nan"; VTK
+// writes non-finite values so); hexadecimal floats are not numbers.
+// Overflowing values become infinite.
 func scanFloat(b []byte, i int) (v float64, j int, ok bool) {
-	start := i
-	neg := false
-	if i < len(b) && (b[i] == '-' || b[i] == '+') {
-		neg = b[i] == '-'
-		i++
+	v, n, ok := decimal.Scan(b[i:])
+	if j = i + n; ok && (j == len(b) || isSpace(b[j])) {
+		return v, j, true
 	}
-	var mant uint64
-	nd, exp := 0, 0 // significant digits in mant; decimal exponent
-	digits := false
-	for i < len(b) {
-		c := b[i] - '0'
-		if c > 9 {
-			break
-		}
-		digits = true
-		if mant != 0 || c != 0 {
-			mant = mant*10 + uint64(c)
-			nd++
-		}
-		i++
-	}
-	if i < len(b) && b[i] == '.' {
-		i++
-		for i < len(b) {
-			c := b[i] - '0'
-			if c > 9 {
-				break
-			}
-			digits = true
-			if mant != 0 || c != 0 {
-				mant = mant*10 + uint64(c)
-				nd++
-			}
-			exp--
-			i++
-		}
-	}
-	if !digits || nd > 15 {
-		return scanFloatSlow(b, start)
-	}
-	if i < len(b) && (b[i] == 'e' || b[i] == 'E') {
-		i++
-		eneg := false
-		if i < len(b) && (b[i] == '-' || b[i] == '+') {
-			eneg = b[i] == '-'
-			i++
-		}
-		es, e := i, 0
-		for i < len(b) && i-es < 4 {
-			c := b[i] - '0'
-			if c > 9 {
-				break
-			}
-			e = e*10 + int(c)
-			i++
-		}
-		if i == es {
-			return scanFloatSlow(b, start)
-		}
-		if eneg {
-			e = -e
-		}
-		exp += e
-	}
-	if i < len(b) && !isSpace(b[i]) {
-		return scanFloatSlow(b, start)
-	}
-	// mant < 10^15 < 2^53 is exact as a float64.
-	switch f := float64(mant); {
-	case mant == 0:
-		v = 0
-	case exp == 0:
-		v = f
-	case exp > 0 && exp <= 22:
-		v = f * pow10[exp]
-	case exp < 0 && exp >= -22:
-		v = f / pow10[-exp]
-	default:
-		return scanFloatSlow(b, start)
-	}
-	if neg {
-		v = -v
-	}
-	return v, i, true
-}
-
-// scanFloatSlow is scanFloat's general path, through strconv.
-func scanFloatSlow(b []byte, i int) (float64, int, bool) {
-	j := tokenEnd(b, i)
-	v, err := strconv.ParseFloat(string(b[i:j]), 64)
-	if err != nil {
-		if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
-			return 0, j, false
-		}
-	}
-	return v, j, true
+	j = tokenEnd(b, i)
+	v, ok = decimal.ParseSpecial(b[i:j])
+	return v, j, ok
 }
 
 // scanFloat32 is scanFloat for values declared float (32 bits): the value
@@ -184,20 +92,8 @@ func scanFloat32(b []byte, i int) (float64, int, bool) {
 	if !ok {
 		return v, j, false
 	}
-	const half = 1 << 28 // half a float32 unit in the last place, in float64 mantissa bits
-	if bits := math.Float64bits(v); bits&(2*half-1) == half || v != 0 && math.Abs(v) < 0x1p-126 {
-		// v lies halfway between two float32 values, or in their
-		// subnormal range, where rounding the float64 again may differ
-		// from rounding the decimal once: round the text directly.
-		w, err := strconv.ParseFloat(string(b[i:j]), 32)
-		if err != nil {
-			if ne, ok := err.(*strconv.NumError); !ok || ne.Err != strconv.ErrRange {
-				return 0, j, false
-			}
-		}
-		return w, j, true
-	}
-	return float64(float32(v)), j, true
+	v, ok = decimal.Float32(v, b[i:j])
+	return v, j, ok
 }
 
 // scanInts parses len(dst) integer tokens from b starting at i. It returns
