@@ -4,16 +4,15 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
-// VTK cell type numbers for the shell elements Joinery reads (VTK file
-// format documentation, Kitware: VTK_TRIANGLE = 5, VTK_QUAD = 9).
-const (
-	VTKTriangle = 5
-	VTKQuad     = 9
-)
+// DefaultPartArray is the name of the cell array that holds part ids
+// when ReadOptions.PartArray is empty.
+const DefaultPartArray = "part"
 
 // ReadOptions are the settings every mesh reader takes.
 type ReadOptions struct {
@@ -25,6 +24,19 @@ type ReadOptions struct {
 	// reads it (ReadFile), so that a caller can hash its inputs without
 	// reading them twice. Readers of a stream (Read) ignore it.
 	Digest io.Writer
+	// PartArray names the cell array that holds part ids in formats
+	// with named arrays (VTK); "" means DefaultPartArray. Meshers write
+	// their own names (gmsh: CellEntityIds for physical groups).
+	PartArray string
+}
+
+// PartArrayName returns the name of the part array: PartArray, or
+// DefaultPartArray when it is empty.
+func (o ReadOptions) PartArrayName() string {
+	if o.PartArray == "" {
+		return DefaultPartArray
+	}
+	return o.PartArray
 }
 
 // CellSet is a mesh as a VTK-style reader holds it just after reading:
@@ -40,6 +52,9 @@ type CellSet struct {
 	ElemIDs   []int64   // per cell (all cells, kept or not); nil means index+1
 	Part      []int64   // per cell; nil when the file has no part array
 	Thickness []float64 // per cell; nil when absent
+	// CellArrays names the cell arrays the file holds, read or not, in
+	// file order, for messages about a missing part array.
+	CellArrays []string
 
 	// Locate, when set, tells where value index of array a is written in
 	// the file: a 1-based line in text data; else line 0 and a byte
@@ -96,11 +111,16 @@ func (cs *CellSet) where(a CellArray, index int) string {
 }
 
 // MeshFromCells checks a CellSet and turns it into a Mesh holding its
-// triangles (type 5) and quads (type 9). Other cell types are skipped and
-// counted in the mesh's Source. Errors name the file and the line or byte
-// offset of the bad value when cs.Locate can tell them, else its record.
+// shells: triangles (VTK type 5), quads (9), quadratic triangles (22),
+// quadratic quads (23) and biquadratic quads (28). Other cell types are
+// skipped and counted in the mesh's Source; a part all of whose cells are
+// skipped surface cells (polygons, triangle strips, higher-order cells)
+// is an error naming the cell kinds, so that no sheet is dropped without
+// a word. Errors name the file and the line or byte offset of the bad
+// value when cs.Locate can tell them, else its record.
 func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	nc := len(cs.Types)
+	partArray := opt.PartArrayName()
 	if len(cs.Offsets) != nc+1 {
 		return nil, FileError(cs.File, "%d cell offsets for %d cells", len(cs.Offsets), nc)
 	}
@@ -110,13 +130,14 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	for _, a := range [...]struct {
 		name string
 		n    int
-	}{{"element_id", len(cs.ElemIDs)}, {"part", len(cs.Part)}, {"thickness", len(cs.Thickness)}} {
+	}{{"element_id", len(cs.ElemIDs)}, {partArray, len(cs.Part)}, {"thickness", len(cs.Thickness)}} {
 		if a.n != 0 && a.n != nc {
 			return nil, FileError(cs.File, "cell array %s has %d values for %d cells", a.name, a.n, nc)
 		}
 	}
 	if cs.Part == nil && !opt.HasDefaultPart && nc > 0 {
-		return nil, FileError(cs.File, "no cell array \"part\" and no part in the parts table names this file")
+		return nil, FileError(cs.File, "no cell array %q%s and no part in the parts table names this file; name the array that holds part ids (--part-array) or give the file a part in the parts table",
+			partArray, cellArraysText(cs.CellArrays))
 	}
 	for i, p := range cs.Points {
 		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
@@ -137,19 +158,20 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			m.NodeIDs[i] = int64(i) + 1
 		}
 	}
-	kept := 0
-	skipped := map[string]int{}
+	kept, nconn := 0, 0
+	var skipped SkippedCells
 	for _, t := range cs.Types {
-		if t == VTKTriangle || t == VTKQuad {
+		if et, ok := VTKElemType(t); ok {
 			kept++
+			nconn += int(et)
 		} else {
-			skipped[fmt.Sprintf("vtk-cell-%d", t)]++
+			skipped = skipped.Add(SkippedCells{t: 1})
 		}
 	}
 	m.ElemIDs = make([]int64, 0, kept)
 	m.ElemPart = make([]int32, 0, kept)
 	m.ElemStart = make([]int32, 1, kept+1)
-	m.Conn = make([]int32, 0, 4*kept)
+	m.Conn = make([]int32, 0, nconn)
 	if cs.Thickness != nil {
 		m.ElemThickness = make([]float64, 0, kept)
 	}
@@ -161,15 +183,12 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		if lo < 0 || hi < lo || hi > int64(len(cs.Conn)) {
 			return nil, cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(cs.Conn))
 		}
-		if t != VTKTriangle && t != VTKQuad {
+		et, ok := VTKElemType(t)
+		if !ok {
 			continue
 		}
-		want := int64(3)
-		if t == VTKQuad {
-			want = 4
-		}
-		if hi-lo != want {
-			return nil, cs.errAt(ArrayTypes, c, c, "cell %d: type %d needs %d points, has %d", c, t, want, hi-lo)
+		if want := int64(et); hi-lo != want {
+			return nil, cs.errAt(ArrayTypes, c, c, "cell %d: type %d (%s) needs %d points, has %d", c, t, VTKCellName(t), want, hi-lo)
 		}
 		for k, p := range cs.Conn[lo:hi] {
 			if p < 0 || p >= np {
@@ -211,14 +230,89 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			m.ElemThickness = append(m.ElemThickness, th)
 		}
 	}
-	if len(skipped) == 0 {
-		skipped = nil
+	if skipped != nil {
+		if err := cs.checkDroppedShells(partIdx, opt); err != nil {
+			return nil, err
+		}
 	}
-	m.Sources = []Source{{File: cs.File, Skipped: skipped}}
+	m.Sources = []Source{{File: cs.File, Skipped: skipped, ImplicitNodeIDs: cs.NodeIDs == nil, ImplicitElemIDs: cs.ElemIDs == nil}}
 	if err := m.Index(); err != nil {
 		return nil, cs.duplicateError(m, err)
 	}
 	return m, nil
+}
+
+// checkDroppedShells fails when surface cells were skipped that belong
+// to a part none of whose cells was read (kept holds the parts read): the
+// sheet would vanish from the model. Skipped points, curves and volumes
+// (gmsh writes its physical curves and points beside the surfaces) are
+// only counted.
+func (cs *CellSet) checkDroppedShells(kept map[int64]int32, opt ReadOptions) error {
+	var (
+		lost  map[int64]SkippedCells
+		first = map[int64]int{}
+	)
+	for c, t := range cs.Types {
+		if _, ok := VTKElemType(t); ok || !vtkSurfaceCell(t) {
+			continue
+		}
+		pid := opt.DefaultPart
+		if cs.Part != nil {
+			pid = cs.Part[c]
+		}
+		if _, ok := kept[pid]; ok {
+			continue
+		}
+		if lost == nil {
+			lost = map[int64]SkippedCells{}
+		}
+		if _, seen := first[pid]; !seen {
+			first[pid] = c
+		}
+		lost[pid] = lost[pid].Add(SkippedCells{t: 1})
+	}
+	if lost == nil {
+		return nil
+	}
+	pids := make([]int64, 0, len(lost))
+	for pid := range lost {
+		pids = append(pids, pid)
+	}
+	slices.Sort(pids)
+	pid := pids[0]
+	more := ""
+	if len(pids) > 1 {
+		more = fmt.Sprintf(" (and %d more part(s) alike)", len(pids)-1)
+	}
+	return cs.errAt(ArrayTypes, first[pid], first[pid], "part %d has no cell Joinery reads: its %d surface cell(s) are of kinds it does not read (%s)%s; Joinery reads triangles, quads, quadratic triangles, quadratic quads and biquadratic quads (VTK types 5, 9, 22, 23, 28)",
+		pid, lost[pid].Total(), lost[pid], more)
+}
+
+// cellArraysText lists the cell arrays of a file for a message about a
+// missing one: "; its cell arrays: a, b", or "; it has no cell arrays".
+func cellArraysText(names []string) string {
+	if len(names) == 0 {
+		return "; the file has no cell arrays"
+	}
+	const most = 8
+	list := names
+	more := ""
+	if len(list) > most {
+		list, more = list[:most], fmt.Sprintf(", ... (%d more)", len(names)-most)
+	}
+	q := make([]string, len(list))
+	for i, n := range list {
+		q[i] = fmt.Sprintf("%q", excerpt(n))
+	}
+	return "; the file's cell arrays are " + strings.Join(q, ", ") + more
+}
+
+// excerpt cuts text echoed from an input to a short excerpt.
+func excerpt(s string) string {
+	if len(s) > 40 {
+		return s[:40] + "..."
+	}
+	return s
 }
 
 // duplicateError turns the error of m.Index, for a mesh read from cs, into
@@ -237,11 +331,11 @@ func (cs *CellSet) duplicateError(m *Mesh, err error) error {
 	return FileError(cs.File, "%w", err)
 }
 
-// cellOfElem returns the cell that became element e: the e-th triangle or
-// quad.
+// cellOfElem returns the cell that became element e: the e-th cell of a
+// type that is read.
 func (cs *CellSet) cellOfElem(e int) int {
 	for c, t := range cs.Types {
-		if t == VTKTriangle || t == VTKQuad {
+		if _, ok := VTKElemType(t); ok {
 			if e == 0 {
 				return c
 			}

@@ -48,7 +48,7 @@ func TestMeshFromCellsErrors(t *testing.T) {
 		{"coordinate", func(cs *CellSet) { cs.Points[3].Z = math.NaN() }, lines, "m.vtk:103: point 3 has a non-finite coordinate (0, 1, NaN)"},
 		{"missing point", func(cs *CellSet) { cs.Conn[8] = 5 }, lines, "m.vtk:208: cell 3 references point 5; the file has 5 points"},
 		{"missing point by record", func(cs *CellSet) { cs.Conn[8] = 5 }, nil, "m.vtk: record 3: cell 3 references point 5"},
-		{"type size", func(cs *CellSet) { cs.Types[2] = VTKQuad }, lines, "m.vtk:402: cell 2: type 9 needs 4 points, has 3"},
+		{"type size", func(cs *CellSet) { cs.Types[2] = VTKQuad }, lines, "m.vtk:402: cell 2: type 9 (quad) needs 4 points, has 3"},
 		{"offsets", func(cs *CellSet) { cs.Offsets[4] = 12 }, lines, "m.vtk:303: cell 3: offsets 7..12 outside the 11 connectivity entries"},
 		{"duplicate node id", func(cs *CellSet) { cs.NodeIDs[3] = 2 }, lines, "m.vtk:503: node id 2 appears twice (points 1 and 3; first at line 501)"},
 		{"duplicate node id by byte", func(cs *CellSet) { cs.NodeIDs[3] = 2 }, bytesAt, "m.vtk: byte 5012: node id 2 appears twice (points 1 and 3; first at byte 5004)"},

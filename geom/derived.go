@@ -1,6 +1,7 @@
 package geom
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -84,7 +85,11 @@ type PartStats struct {
 	Tris  int
 	Quads int
 	Area  float64 // mm²
-	Box   r3.Box  // bounding box of the part's element corners
+	Box   r3.Box  // bounding box of the nodes of the part's elements
+	// ThicknessMin and ThicknessMax are the smallest and largest
+	// thickness of the part's elements (Mesh.Thickness: an element's
+	// own, else its part's), mm; 0 for a part without elements.
+	ThicknessMin, ThicknessMax float64
 }
 
 // PartStats returns element counts, areas and bounding boxes per part,
@@ -105,6 +110,11 @@ func (m *Mesh) PartStats() []PartStats {
 			if s.Elems == 0 {
 				continue
 			}
+			if st[i].Elems == 0 {
+				st[i].ThicknessMin, st[i].ThicknessMax = s.ThicknessMin, s.ThicknessMax
+			}
+			st[i].ThicknessMin = math.Min(st[i].ThicknessMin, s.ThicknessMin)
+			st[i].ThicknessMax = math.Max(st[i].ThicknessMax, s.ThicknessMax)
 			st[i].Elems += s.Elems
 			st[i].Tris += s.Tris
 			st[i].Quads += s.Quads
@@ -123,6 +133,11 @@ func (m *Mesh) partStats(lo, hi int) []PartStats {
 	}
 	for e := lo; e < hi; e++ {
 		s := &st[m.ElemPart[e]]
+		t := m.Thickness(e)
+		if s.Elems == 0 {
+			s.ThicknessMin, s.ThicknessMax = t, t
+		}
+		s.ThicknessMin, s.ThicknessMax = math.Min(s.ThicknessMin, t), math.Max(s.ThicknessMax, t)
 		s.Elems++
 		if m.Type(e).Corners() == 3 {
 			s.Tris++
@@ -179,4 +194,58 @@ func (m *Mesh) PartsWithoutThickness() []int64 {
 	}
 	slices.Sort(ids)
 	return ids
+}
+
+// ThicknessClash is where the elements of a part read from one file
+// carry thicknesses of their own that disagree with the part's thickness
+// (from the parts table, or from a part record of the file).
+type ThicknessClash struct {
+	PartIndex     int32   // index into Mesh.Parts
+	File          string  // the file the elements come from
+	PartThickness float64 // the part's thickness, mm
+	Elems         int     // elements of the part in the file whose own thickness disagrees
+	Min, Max      float64 // the range of those elements' thicknesses, mm
+}
+
+// ThicknessClashes returns, by part id and then file order, the elements
+// whose own thickness differs from their part's positive thickness by
+// more than relTol times the part's. Element values win over the part's
+// (Mesh.Thickness), so these are the places where the part's value is
+// not the one used. Parts without a thickness are left out: there the
+// elements' values are the only ones.
+func (m *Mesh) ThicknessClashes(relTol float64) []ThicknessClash {
+	if m.ElemThickness == nil {
+		return nil
+	}
+	type key struct{ part, src int32 }
+	found := map[key]*ThicknessClash{}
+	var keys []key
+	src := -1
+	for e, t := range m.ElemThickness {
+		for src+1 < len(m.Sources) && m.Sources[src+1].ElemStart <= e {
+			src++
+		}
+		pi := m.ElemPart[e]
+		pt := m.Parts[pi].Thickness
+		if math.IsNaN(t) || !(pt > 0) || math.Abs(t-pt) <= relTol*pt {
+			continue
+		}
+		k := key{pi, int32(src)}
+		c := found[k]
+		if c == nil {
+			c = &ThicknessClash{PartIndex: pi, File: m.sourceName(src), PartThickness: pt, Min: t, Max: t}
+			found[k] = c
+			keys = append(keys, k)
+		}
+		c.Elems++
+		c.Min, c.Max = math.Min(c.Min, t), math.Max(c.Max, t)
+	}
+	slices.SortFunc(keys, func(a, b key) int {
+		return cmp.Or(cmp.Compare(m.Parts[a.part].ID, m.Parts[b.part].ID), cmp.Compare(a.src, b.src))
+	})
+	out := make([]ThicknessClash, len(keys))
+	for i, k := range keys {
+		out[i] = *found[k]
+	}
+	return out
 }

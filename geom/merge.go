@@ -58,6 +58,8 @@ func Merge(meshes []*Mesh, renumber bool) (*Mesh, []Renumbering, error) {
 		if len(m.Sources) > 0 {
 			src.File = m.Sources[0].File
 			src.Skipped = m.Sources[0].Skipped
+			src.ImplicitNodeIDs = m.Sources[0].ImplicitNodeIDs
+			src.ImplicitElemIDs = m.Sources[0].ImplicitElemIDs
 		}
 		nlo, nhi := idRange(m.NodeIDs)
 		elo, ehi := idRange(m.ElemIDs)

@@ -10,15 +10,25 @@ import (
 // ElemType is the kind of a shell element, named by its node count.
 type ElemType int8
 
-// Element types. Tri6 and Quad8 are reserved for quadratic shells.
+// Element types: linear triangles and quads, and second-order (quadratic)
+// ones. The nodes of an element come corners first, in order around the
+// element (the normal follows the right-hand rule), then for quadratic
+// elements the midside node of each edge, from the edge of corners 0-1
+// on, then for Quad9 the centre node: Tri6 is corners 0 1 2 and midsides
+// 3 (0-1) 4 (1-2) 5 (2-0); Quad8 is corners 0 1 2 3 and midsides 4 (0-1)
+// 5 (1-2) 6 (2-3) 7 (3-0); Quad9 adds the centre 8. This is the order of
+// the VTK cell types 22, 23 and 28 (VTK file-format documentation,
+// Kitware). Quad8 is the serendipity element, Quad9 the biquadratic
+// (Lagrange) one.
 const (
 	Tri3  ElemType = 3
 	Quad4 ElemType = 4
 	Tri6  ElemType = 6
 	Quad8 ElemType = 8
+	Quad9 ElemType = 9
 )
 
-// String returns "tri3", "quad4", "tri6" or "quad8".
+// String returns "tri3", "quad4", "tri6", "quad8" or "quad9".
 func (t ElemType) String() string {
 	switch t {
 	case Tri3:
@@ -29,6 +39,8 @@ func (t ElemType) String() string {
 		return "tri6"
 	case Quad8:
 		return "quad8"
+	case Quad9:
+		return "quad9"
 	}
 	return fmt.Sprintf("type%d", int(t))
 }
@@ -41,6 +53,19 @@ func (t ElemType) Corners() int {
 	return 4
 }
 
+// Quadratic reports whether t is a second-order element, with midside
+// nodes.
+func (t ElemType) Quadratic() bool { return t == Tri6 || t == Quad8 || t == Quad9 }
+
+// Valid reports whether t is one of the element types above.
+func (t ElemType) Valid() bool {
+	switch t {
+	case Tri3, Quad4, Tri6, Quad8, Quad9:
+		return true
+	}
+	return false
+}
+
 // Source records which file a range of nodes and elements came from.
 type Source struct {
 	File      string
@@ -50,7 +75,14 @@ type Source struct {
 	// model was merged with renumbering; 0 otherwise.
 	NodeOffset int64
 	ElemOffset int64
-	Skipped    map[string]int // cells skipped by type name, e.g. "vtk-cell-12"
+	// Skipped counts the cells of the file its reader did not read;
+	// nil when none were skipped.
+	Skipped SkippedCells
+	// ImplicitNodeIDs and ImplicitElemIDs are set when the file gave no
+	// ids (no node_id or element_id array): its nodes or elements are
+	// numbered 1, 2, 3, ... in file order.
+	ImplicitNodeIDs bool
+	ImplicitElemIDs bool
 }
 
 // Mesh is a shell mesh: nodes, elements and parts in dense slices.
@@ -102,17 +134,22 @@ func (m *Mesh) Thickness(e int) float64 {
 }
 
 // Index builds the id lookups of nodes, elements and parts. It fails on
-// duplicate ids, naming the files they come from.
+// duplicate ids, naming the files they come from and, when a file gave
+// no ids of its own, saying so.
 func (m *Mesh) Index() error {
 	var (
 		dup Duplicate
 		ok  bool
 	)
 	if m.nodes, dup, ok = NewIDIndex(m.NodeIDs); !ok {
-		return fmt.Errorf("node id %d appears twice (%s and %s)", dup.ID, m.nodeFile(dup.First), m.nodeFile(dup.Second))
+		a, b := m.source(dup.First, nodeStart), m.source(dup.Second, nodeStart)
+		return fmt.Errorf("node id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
+			m.implicitHint(a, b, "node", "node_id", func(s Source) bool { return s.ImplicitNodeIDs }))
 	}
 	if m.elems, dup, ok = NewIDIndex(m.ElemIDs); !ok {
-		return fmt.Errorf("element id %d appears twice (%s and %s)", dup.ID, m.elemFile(dup.First), m.elemFile(dup.Second))
+		a, b := m.source(dup.First, elemStart), m.source(dup.Second, elemStart)
+		return fmt.Errorf("element id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
+			m.implicitHint(a, b, "element", "element_id", func(s Source) bool { return s.ImplicitElemIDs }))
 	}
 	m.parts = make(map[int64]int32, len(m.Parts))
 	for i, p := range m.Parts {
@@ -122,6 +159,28 @@ func (m *Mesh) Index() error {
 		m.parts[p.ID] = int32(i)
 	}
 	return nil
+}
+
+// implicitHint explains a duplicate id between sources a and b when one
+// of them or both numbered their nodes or elements themselves, and
+// points to renumbering; "" otherwise.
+func (m *Mesh) implicitHint(a, b int, what, array string, implicit func(Source) bool) string {
+	if a < 0 || b < 0 || a == b {
+		return ""
+	}
+	ia, ib := implicit(m.Sources[a]), implicit(m.Sources[b])
+	const renumber = "; --renumber shifts the ids of the later file"
+	switch {
+	case ia && ib:
+		return fmt.Sprintf(": neither file has a %s array, so both number their %ss 1, 2, 3, ...%s", array, what, renumber)
+	case ia || ib:
+		f := m.Sources[a].File
+		if ib {
+			f = m.Sources[b].File
+		}
+		return fmt.Sprintf(": %s has no %s array and numbers its %ss 1, 2, 3, ...%s", f, array, what, renumber)
+	}
+	return ""
 }
 
 // NodeIndex returns the index of the node with the given id.
@@ -156,20 +215,26 @@ func (m *Mesh) Bytes() int {
 		4*len(m.ElemStart) + 4*len(m.Conn) + 8*len(m.ElemThickness) + m.nodes.Bytes() + m.elems.Bytes()
 }
 
-func (m *Mesh) nodeFile(i int) string {
-	return m.sourceOf(i, func(s Source) int { return s.NodeStart })
-}
+func nodeStart(s Source) int { return s.NodeStart }
 
-func (m *Mesh) elemFile(i int) string {
-	return m.sourceOf(i, func(s Source) int { return s.ElemStart })
-}
+func elemStart(s Source) int { return s.ElemStart }
 
-func (m *Mesh) sourceOf(i int, start func(Source) int) string {
-	name := "input"
-	for _, s := range m.Sources {
+// source returns the index in m.Sources of the source that node or
+// element i comes from (start picks which), or -1 when m has none.
+func (m *Mesh) source(i int, start func(Source) int) int {
+	k := -1
+	for j, s := range m.Sources {
 		if start(s) <= i {
-			name = s.File
+			k = j
 		}
 	}
-	return name
+	return k
+}
+
+// sourceName returns the file of source k, "input" when k < 0.
+func (m *Mesh) sourceName(k int) string {
+	if k < 0 {
+		return "input"
+	}
+	return m.Sources[k].File
 }

@@ -284,16 +284,26 @@ func DefaultIDStart(maxID int64) int64 {
 	return maxID + 1
 }
 
-// MaxThickness returns the largest sheet thickness of a mesh, mm.
+// MaxThickness returns the largest thickness of an element of a mesh,
+// mm: of the thicknesses a build uses (geom.Mesh.Thickness: an element's
+// own where its file gives one, else its part's), so that defaults taken
+// from it (the reach) follow the same values.
 func MaxThickness(m *geom.Mesh) float64 {
 	t := 0.0
-	for _, p := range m.Parts {
-		t = math.Max(t, p.Thickness)
-	}
-	for _, v := range m.ElemThickness {
-		if !math.IsNaN(v) {
-			t = math.Max(t, v)
+	if m.ElemThickness == nil {
+		used := make([]bool, len(m.Parts))
+		for _, pi := range m.ElemPart {
+			used[pi] = true
 		}
+		for i, p := range m.Parts {
+			if used[i] {
+				t = math.Max(t, p.Thickness)
+			}
+		}
+		return t
+	}
+	for e := range m.ElemIDs {
+		t = math.Max(t, m.Thickness(e))
 	}
 	return t
 }

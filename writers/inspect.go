@@ -24,13 +24,13 @@ func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 		ew.printf("  renumbered %s: node ids +%d, element ids +%d\n", r.File, r.NodeOffset, r.ElemOffset)
 	}
 	if len(in.Skipped) > 0 {
-		ew.printf("cells skipped (not triangles or quads):%s\n", strings.TrimSuffix(strings.TrimPrefix(skippedText(in.Skipped), " (skipped"), ")"))
+		ew.printf("cells skipped (kinds Joinery does not read): %s\n", cellsText(in.Skipped))
 	}
 	ew.printf("\nparts\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintf(tw, "id\tname\tt mm\tsurface\telements\ttri\tarea mm²\tbox min\tbox max\t\n")
 	for _, p := range in.Parts {
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%d\t%d\t%s\t%s\t%s\t\n", p.ID, dash(p.Name), thick(p.Thickness), p.Surface,
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%d\t%d\t%s\t%s\t%s\t\n", p.ID, dash(p.Name), thickRange(p.ThicknessMin, p.ThicknessMax, p.Thickness), p.Surface,
 			p.Elements, p.Triangles, num(p.Area, 1), vec(p.BoxMin), vec(p.BoxMax))
 	}
 	tw.Flush()
@@ -39,6 +39,9 @@ func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 	}
 	if len(in.UnusedParts) > 0 {
 		ew.printf("parts in the table with no elements: %s\n", ints(in.UnusedParts))
+	}
+	for _, w := range in.Warnings {
+		ew.printf("warning %s: %s\n", w.Code, w.Message)
 	}
 	if in.Deep {
 		ew.printf("\nfree-edge loops and element quality (warp limit %s°)\n", num(*in.WarpLimit, 1))
@@ -161,18 +164,31 @@ func group(n int) string {
 	return b.String()
 }
 
-func skippedText(m map[string]int) string {
-	if len(m) == 0 {
+// skippedText is a file's skipped cells for its summary line.
+func skippedText(cells []inspect.CellCount) string {
+	if len(cells) == 0 {
 		return ""
 	}
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
+	return " (skipped " + cellsText(cells) + ")"
+}
+
+// cellsText lists cell counts as "vertex (VTK type 1): 4, line (VTK type 3): 252".
+func cellsText(cells []inspect.CellCount) string {
+	s := make([]string, len(cells))
+	for i, c := range cells {
+		s[i] = fmt.Sprintf("%s (VTK type %d): %d", c.Kind, c.VTKType, c.Cells)
 	}
-	slices.Sort(keys)
-	var b strings.Builder
-	for _, k := range keys {
-		fmt.Fprintf(&b, " %s: %d", k, m[k])
+	return strings.Join(s, ", ")
+}
+
+// thickRange shows the thicknesses used on a part's elements: one value,
+// or "lo-hi" when they vary; the part's own when it has no elements.
+func thickRange(lo, hi, part float64) string {
+	switch {
+	case lo == 0 && hi == 0:
+		return thick(part)
+	case lo == hi:
+		return thick(lo)
 	}
-	return " (skipped" + b.String() + ")"
+	return thick(lo) + "-" + thick(hi)
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"github.com/spf13/pflag"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints/pipeline"
 )
 
@@ -13,7 +14,9 @@ type inputOptions struct {
 	parts    string
 	joints   []string
 	renumber bool
-	flags    *pflag.FlagSet
+	// partArray names the VTK cell array of part ids.
+	partArray string
+	flags     *pflag.FlagSet
 }
 
 // AddFlags registers the input flags.
@@ -23,6 +26,7 @@ func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVarP(&o.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
 	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
+	fs.StringVar(&o.partArray, "part-array", geom.DefaultPartArray, "VTK cell array that holds the part ids (gmsh writes CellEntityIds)")
 }
 
 // apply overrides the job's inputs with the flags the user set.
@@ -38,6 +42,9 @@ func (o *inputOptions) apply(job *pipeline.Job) {
 	}
 	if o.flags.Changed("renumber") {
 		job.Renumber = &o.renumber
+	}
+	if o.flags.Changed("part-array") {
+		job.PartArray = o.partArray
 	}
 }
 

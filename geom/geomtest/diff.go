@@ -76,5 +76,6 @@ func samePart(a, b geom.Part) bool {
 
 func sameSource(a, b geom.Source) bool {
 	return a.File == b.File && a.NodeStart == b.NodeStart && a.ElemStart == b.ElemStart &&
-		a.NodeOffset == b.NodeOffset && a.ElemOffset == b.ElemOffset && maps.Equal(a.Skipped, b.Skipped)
+		a.NodeOffset == b.NodeOffset && a.ElemOffset == b.ElemOffset && maps.Equal(a.Skipped, b.Skipped) &&
+		a.ImplicitNodeIDs == b.ImplicitNodeIDs && a.ImplicitElemIDs == b.ImplicitElemIDs
 }

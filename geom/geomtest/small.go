@@ -12,7 +12,7 @@ import (
 // quads of part 10 and a triangle of part 20 (ids 1001 to 1004 and 2001),
 // parts in first-seen order without a part thickness, thickness 1, 1, 1,
 // 1, 1.5 per element, and one source, named file, that skipped one vertex
-// cell ("vtk-cell-1"). Each call returns a new mesh, not indexed.
+// cell (a vertex, VTK type 1). Each call returns a new mesh, not indexed.
 func Small(file string) *geom.Mesh {
 	return &geom.Mesh{
 		Parts:   []geom.Part{{ID: 10}, {ID: 20}},
@@ -28,6 +28,6 @@ func Small(file string) *geom.Mesh {
 		ElemStart:     []int32{0, 4, 8, 12, 16, 19},
 		Conn:          []int32{0, 1, 4, 3, 1, 2, 5, 4, 3, 4, 7, 6, 4, 5, 8, 7, 9, 10, 11},
 		ElemThickness: []float64{1, 1, 1, 1, 1.5},
-		Sources:       []geom.Source{{File: file, Skipped: map[string]int{"vtk-cell-1": 1}}},
+		Sources:       []geom.Source{{File: file, Skipped: geom.SkippedCells{1: 1}}},
 	}
 }

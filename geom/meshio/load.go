@@ -22,6 +22,9 @@ type LoadOptions struct {
 	// Renumber shifts the ids of files whose ids clash with earlier files
 	// instead of failing (see geom.Merge).
 	Renumber bool
+	// PartArray names the cell array of VTK files that holds part ids;
+	// "" means geom.DefaultPartArray (see geom.ReadOptions).
+	PartArray string
 	// Workers bounds the number of files read at once; 0 means
 	// runtime.GOMAXPROCS(0).
 	Workers int
@@ -47,12 +50,18 @@ type Model struct {
 	Mesh *geom.Mesh
 	// Renumbered lists the id shifts applied to files (LoadOptions.Renumber).
 	Renumbered []geom.Renumbering
-	// Skipped counts the cells skipped in all files, by type name
-	// ("vtk-cell-12"); nil when none were.
-	Skipped map[string]int
+	// Skipped lists, per mesh file in argument order, the cells its
+	// reader skipped; files that skipped none are left out.
+	Skipped []FileCells
 	// UnusedParts lists, in increasing order, the ids of parts in the
 	// parts table that no element belongs to.
 	UnusedParts []int64
+}
+
+// FileCells counts the cells of one file by VTK cell type.
+type FileCells struct {
+	File  string
+	Cells geom.SkippedCells
 }
 
 // Load reads the parts table (when given) and every mesh file, merges the
@@ -116,11 +125,8 @@ func Load(opts LoadOptions) (*Model, error) {
 	}
 	model := &Model{Mesh: m, Renumbered: shifts}
 	for _, s := range m.Sources {
-		for name, n := range s.Skipped {
-			if model.Skipped == nil {
-				model.Skipped = map[string]int{}
-			}
-			model.Skipped[name] += n
+		if len(s.Skipped) > 0 {
+			model.Skipped = append(model.Skipped, FileCells{File: s.File, Cells: s.Skipped})
 		}
 	}
 	if table != nil {
@@ -169,9 +175,9 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 		wg.Go(func() {
 			for i := range next {
 				path := opts.Meshes[i]
-				var ro geom.ReadOptions
+				ro := geom.ReadOptions{PartArray: opts.PartArray}
 				if id, ok := defaults[filepath.Base(path)]; ok {
-					ro = geom.ReadOptions{DefaultPart: id, HasDefaultPart: true}
+					ro.DefaultPart, ro.HasDefaultPart = id, true
 				}
 				if opts.Digest != nil {
 					ro.Digest = opts.Digest(path)
@@ -268,6 +274,16 @@ func partFile(m *geom.Mesh, pi int) string {
 		}
 	}
 	return file
+}
+
+// SkippedTotal returns the cells skipped in all files together, nil when
+// none were.
+func (md *Model) SkippedTotal() geom.SkippedCells {
+	var all geom.SkippedCells
+	for _, f := range md.Skipped {
+		all = all.Add(f.Cells)
+	}
+	return all
 }
 
 // MissingThickness returns, in increasing order, the ids of parts with at

@@ -112,7 +112,7 @@ func TestLoadWithTable(t *testing.T) {
 	if !slices.Equal(m.UnusedParts, []int64{5, 9}) {
 		t.Errorf("UnusedParts = %v, want [5 9]", m.UnusedParts)
 	}
-	if !reflect.DeepEqual(m.Skipped, map[string]int{"vtk-cell-1": 2}) {
+	if !reflect.DeepEqual(m.SkippedTotal(), geom.SkippedCells{1: 2}) || len(m.Skipped) != 2 {
 		t.Errorf("Skipped = %v", m.Skipped)
 	}
 	if len(m.MissingThickness()) != 0 {
@@ -247,8 +247,8 @@ func TestLoadFixture(t *testing.T) {
 			if !slices.Equal(m.UnusedParts, []int64{30}) {
 				t.Errorf("UnusedParts = %v, want [30]", m.UnusedParts)
 			}
-			if filepath.Ext(f) != ".jmesh" && m.Skipped["vtk-cell-1"] != 1 {
-				t.Errorf("Skipped = %v, want one vtk-cell-1", m.Skipped)
+			if filepath.Ext(f) != ".jmesh" && m.SkippedTotal()[1] != 1 {
+				t.Errorf("Skipped = %v, want one vertex (VTK type 1)", m.Skipped)
 			}
 		})
 	}
@@ -272,7 +272,7 @@ func TestLoadFixtureAll(t *testing.T) {
 	if len(m.Renumbered) != len(files)-1 || len(m.Mesh.Parts) != 2 {
 		t.Errorf("%d files renumbered, %d parts; want %d, 2", len(m.Renumbered), len(m.Mesh.Parts), len(files)-1)
 	}
-	if m.Skipped["vtk-cell-1"] != len(files) {
+	if m.SkippedTotal()[1] != len(files) || len(m.Skipped) != len(files) {
 		t.Errorf("Skipped = %v", m.Skipped)
 	}
 }

@@ -6,10 +6,13 @@
 // to 5.1, ASCII or BINARY (big-endian, as the format specifies), with the
 // classic "CELLS n size" layout (point counts inline) or the 5.x layout
 // ("CELLS nOffsets nConn" followed by OFFSETS and CONNECTIVITY arrays).
-// Triangles (cell type 5) and quads (cell type 9) become elements; other
-// cells are skipped and counted in the mesh's Source.
+// Triangles (cell type 5), quads (9), quadratic triangles (22), quadratic
+// quads (23) and biquadratic quads (28) become elements; other cells are
+// skipped and counted in the mesh's Source (see geom.MeshFromCells for
+// the error when a part is made of skipped surface cells only).
 //
-// The arrays Joinery uses are, in CELL_DATA, "part" (integer),
+// The arrays Joinery uses are, in CELL_DATA, "part" (integer; another
+// name with geom.ReadOptions.PartArray, such as gmsh's "CellEntityIds"),
 // "thickness" (real) and "element_id" (integer) and, in POINT_DATA,
 // "node_id" (integer). Each may be written as SCALARS (with or without a
 // LOOKUP_TABLE line) or as an array of a FIELD; any numeric VTK data type

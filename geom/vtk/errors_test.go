@@ -133,8 +133,8 @@ func TestErrorsASCIIValues(t *testing.T) {
 		{"duplicate element id", repl(small, "1003 1004 2001", "1003\n1004 1002"), "bad.vtk:42: element id 1002 appears twice (cells 1 and 4; first at line 41)"},
 		// Cell 0 is a polygon, skipped, so elements and cells differ by one.
 		{"duplicate element id after skipped cell", repl(small, "CELL_TYPES 6\n9\n", "CELL_TYPES 6\n7\n", "2001", "1003"), "bad.vtk:41: element id 1003 appears twice (cells 2 and 4; first at line 41)"},
-		{"type needs points", repl(small, "9\n9\n9\n9\n5", "9\n5\n9\n9\n5"), "bad.vtk:27: cell 1: type 5 needs 3 points, has 4"},
-		{"5.1 type needs points", repl(small51, "9\n9\n9\n9\n5", "9\n9\n5\n9\n5"), "bad.vtk:27: cell 2: type 5 needs 3 points, has 4"},
+		{"type needs points", repl(small, "9\n9\n9\n9\n5", "9\n5\n9\n9\n5"), "bad.vtk:27: cell 1: type 5 (triangle) needs 3 points, has 4"},
+		{"5.1 type needs points", repl(small51, "9\n9\n9\n9\n5", "9\n9\n5\n9\n5"), "bad.vtk:27: cell 2: type 5 (triangle) needs 3 points, has 4"},
 		{"5.1 thickness", repl(small51, "1 1 1 1 1.5 1.5", "1 1 1 1\n0 1.5"), "bad.vtk:39: cell 4: thickness 0 is not a positive number"},
 		{"5.1 duplicate node id", repl(small51, "110 111 112", "110\n111 110"), "bad.vtk:46: node id 110 appears twice (points 9 and 11; first at line 45)"},
 	}

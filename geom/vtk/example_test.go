@@ -17,6 +17,6 @@ func ExampleReadFile() {
 	e, _ := m.ElemIndex(2001)
 	fmt.Println("element 2001:", m.Type(int(e)), "part", m.Part(int(e)).ID, "thickness", m.Thickness(int(e)))
 	// Output:
-	// 12 nodes, 5 elements, skipped map[vtk-cell-1:1]
+	// 12 nodes, 5 elements, skipped vertex (VTK type 1): 1
 	// element 2001: tri3 part 20 thickness 1.5
 }

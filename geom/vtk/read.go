@@ -2,6 +2,7 @@ package vtk
 
 import (
 	"bytes"
+	"cmp"
 	"encoding/binary"
 	"fmt"
 	"io"
@@ -56,7 +57,7 @@ func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 // Parse reads a mesh from the whole content of a VTK legacy file; name is
 // used in error messages. The mesh does not keep data.
 func Parse(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	p := parser{name: name, data: data, npoints: -1, ncells: -1}
+	p := parser{name: name, data: data, npoints: -1, ncells: -1, partArray: opt.PartArrayName()}
 	p.cs.File = name
 	p.cs.Locate = p.locate
 	if err := p.parse(); err != nil {
@@ -90,6 +91,8 @@ type parser struct {
 	cells   bool     // CELLS seen
 	types   bool     // CELL_TYPES seen
 	cs      geom.CellSet
+	// partArray is the name of the cell array that holds part ids.
+	partArray string
 	// spans tells where the values of each array of cs start, for
 	// locate; classic is set when CELLS has the classic layout, in which
 	// span ArrayConn covers both the counts and the point indices.
@@ -781,10 +784,13 @@ func (p *parser) array(off int, name []byte, ncomp, ntuples int, t dtype, where 
 		reals *[]float64
 		arr   geom.CellArray
 	)
+	if where == attrCell && len(p.cs.CellArrays) < 1000 {
+		p.cs.CellArrays = append(p.cs.CellArrays, string(name))
+	}
 	switch {
 	case where == attrPoint && string(name) == "node_id":
 		ints, arr = &p.cs.NodeIDs, geom.ArrayNodeIDs
-	case where == attrCell && string(name) == "part":
+	case where == attrCell && string(name) == cmp.Or(p.partArray, geom.DefaultPartArray):
 		ints, arr = &p.cs.Part, geom.ArrayPart
 	case where == attrCell && string(name) == "element_id":
 		ints, arr = &p.cs.ElemIDs, geom.ArrayElemIDs

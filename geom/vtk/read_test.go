@@ -92,7 +92,7 @@ func TestHandwritten(t *testing.T) {
 		// 0.800000011920929 here), and so does the reader, as the binary
 		// twin of the file would hold them. 1.25 is exact either way.
 		ElemThickness: []float64{float64(float32(0.8)), float64(float32(0.8)), 1.25, 1.25},
-		Sources:       []geom.Source{{File: path, Skipped: map[string]int{"vtk-cell-3": 1, "vtk-cell-1": 1}}},
+		Sources:       []geom.Source{{File: path, Skipped: geom.SkippedCells{3: 1, 1: 1}}},
 	}
 	if d := geomtest.Diff(m, want); d != "" {
 		t.Errorf("handwritten_v3.vtk:\n%s", d)

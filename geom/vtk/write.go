@@ -10,13 +10,6 @@ import (
 	"github.com/joinery-cae/joinery/geom"
 )
 
-// VTK cell types of the quadratic shells (VTK file-format documentation,
-// Kitware: VTK_QUADRATIC_TRIANGLE = 22, VTK_QUADRATIC_QUAD = 23).
-const (
-	vtkQuadraticTriangle = 22
-	vtkQuadraticQuad     = 23
-)
-
 // Write writes m as a VTK legacy unstructured grid: file version 3.0
 // with the classic CELLS layout (the point count of each cell inline),
 // which every VTK version reads. binary selects the BINARY encoding
@@ -140,18 +133,11 @@ func (vw *vtkWriter) mesh(m *geom.Mesh) error {
 
 	types := make([]int64, ne)
 	for e := range types {
-		switch k := len(m.ElemNodes(e)); k {
-		case 3:
-			types[e] = geom.VTKTriangle
-		case 4:
-			types[e] = geom.VTKQuad
-		case 6:
-			types[e] = vtkQuadraticTriangle
-		case 8:
-			types[e] = vtkQuadraticQuad
-		default:
-			return fmt.Errorf("element %d has %d nodes; only 3, 4, 6 and 8 can be written", m.ElemIDs[e], k)
+		t, ok := geom.VTKCellType(m.Type(e))
+		if !ok {
+			return fmt.Errorf("element %d has %d nodes; only 3, 4, 6, 8 and 9 can be written", m.ElemIDs[e], len(m.ElemNodes(e)))
 		}
+		types[e] = int64(t)
 	}
 	vw.line("CELLS %d %d", ne, ne+len(m.Conn))
 	for e := 0; e < ne; e++ {

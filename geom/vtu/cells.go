@@ -33,7 +33,7 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 		}
 		datas[i] = d
 	}
-	cs := &geom.CellSet{File: p.file}
+	cs := &geom.CellSet{File: p.file, CellArrays: p.cellArrays}
 	p.sizes = make([]pieceSize, len(datas))
 	for i, d := range datas {
 		p.sizes[i] = pieceSize{points: len(d.points), cells: len(d.types), conn: len(d.conn)}
@@ -54,7 +54,7 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 		}{
 			{"node_id", d.nodeID != nil, datas[0].nodeID != nil},
 			{"element_id", d.elemID != nil, datas[0].elemID != nil},
-			{"part", d.part != nil, datas[0].part != nil},
+			{p.partArray, d.part != nil, datas[0].part != nil},
 			{"thickness", d.thick != nil, datas[0].thick != nil},
 		} {
 			if c.has != c.first {

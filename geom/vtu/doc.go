@@ -6,11 +6,13 @@
 // size headers, either byte order, and optionally compressed with the
 // blocked zlib layout. Several pieces in one file are concatenated.
 //
-// The reader keeps triangles (VTK type 5) and quads (type 9); other cells
-// are skipped and counted in the mesh's Source. It takes node ids from the
+// The reader keeps triangles (VTK type 5), quads (9), quadratic triangles
+// (22), quadratic quads (23) and biquadratic quads (28); other cells are
+// skipped and counted in the mesh's Source. It takes node ids from the
 // point array "node_id" and element ids, parts and thicknesses from the
-// cell arrays "element_id", "part" and "thickness"; other arrays are
-// skipped without being decoded.
+// cell arrays "element_id", "part" (or the name in
+// geom.ReadOptions.PartArray, such as gmsh's "CellEntityIds") and
+// "thickness"; other arrays are skipped without being decoded.
 //
 // The whole file is held in memory while it is read; raw appended data is
 // decoded straight from it without further copies.

@@ -118,7 +118,7 @@ func TestASCIIErrors(t *testing.T) {
 		{"missing point, second line", "0 1 2 0 2 3", "0 1 2\n0 2 9", `bad.vtu:22: connectivity value 5 (cell 1) refers to point 9; the piece has 4 points`},
 		{"type needs points", `ascii">5 5</DataArray>
       </Cells>`, `ascii">5 9</DataArray>
-      </Cells>`, `bad.vtu:23: cell 1: type 9 needs 4 points, has 3`},
+      </Cells>`, `bad.vtu:23: cell 1: type 9 (quad) needs 4 points, has 3`},
 		{"types out of range", `ascii">5 5</DataArray>
       </Cells>`, "ascii\">5\n-1</DataArray>\n      </Cells>", `bad.vtu:24: array "types": value 1: -1 is out of range for UInt8`},
 	} {

@@ -35,7 +35,7 @@ func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 
 // readBytes parses a whole .vtu file held in data.
 func readBytes(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	p := &parser{file: name, data: data, rd: &byteReader{buf: data}}
+	p := &parser{file: name, data: data, rd: &byteReader{buf: data}, partArray: opt.PartArrayName()}
 	p.dec = xml.NewDecoder(p.rd)
 	if err := p.parse(); err != nil {
 		return nil, err
@@ -116,6 +116,10 @@ type piece struct {
 type parser struct {
 	file string
 	data []byte
+	// partArray is the name of the cell array that holds part ids.
+	partArray string
+	// cellArrays names the cell arrays of the first piece, for messages.
+	cellArrays []string
 	rd   *byteReader
 	dec  *xml.Decoder
 	// skipped counts the bytes the parser moved past behind the decoder's
@@ -408,11 +412,14 @@ func (p *parser) section(pc *piece, sec string) error {
 					slot = &pc.nodeID
 				}
 			case "CellData":
+				if len(p.pieces) == 1 && len(p.cellArrays) < 1000 {
+					p.cellArrays = append(p.cellArrays, a.name)
+				}
 				switch a.name {
+				case p.partArray:
+					slot = &pc.part
 				case "element_id":
 					slot = &pc.elemID
-				case "part":
-					slot = &pc.part
 				case "thickness":
 					slot = &pc.thick
 				}

@@ -50,29 +50,55 @@ func (o Options) Validate() error {
 
 // Inspection is what `joinery inspect` reports about a model and its joints.
 type Inspection struct {
-	Files        []FileSummary  `json:"files"`
-	Nodes        int            `json:"nodes"`
-	Elements     int            `json:"elements"`
-	Triangles    int            `json:"triangles"`
-	Quads        int            `json:"quads"`
-	Skipped      map[string]int `json:"skipped_cells"`
-	Parts        []PartSummary  `json:"parts"`
-	Renumbered   []Shift        `json:"renumbered,omitempty"`
-	Joints       JointSummary   `json:"joints"`
-	Deep         bool           `json:"deep"`
-	WarpLimit    *float64       `json:"warp_limit_deg,omitempty"` // set with Deep
-	BoxMarginMM  float64        `json:"box_margin_mm"`
-	MemoryBytes  int            `json:"mesh_bytes"`
-	UnusedParts  []int64        `json:"unused_table_parts,omitempty"`
-	MissingThick []int64        `json:"parts_without_thickness,omitempty"`
+	Files        []FileSummary `json:"files"`
+	Nodes        int           `json:"nodes"`
+	Elements     int           `json:"elements"`
+	Triangles    int           `json:"triangles"`
+	Quads        int           `json:"quads"`
+	Skipped      []CellCount   `json:"skipped_cells"`
+	Parts        []PartSummary `json:"parts"`
+	Renumbered   []Shift       `json:"renumbered,omitempty"`
+	Joints       JointSummary  `json:"joints"`
+	Deep         bool          `json:"deep"`
+	WarpLimit    *float64      `json:"warp_limit_deg,omitempty"` // set with Deep
+	BoxMarginMM  float64       `json:"box_margin_mm"`
+	MemoryBytes  int           `json:"mesh_bytes"`
+	UnusedParts  []int64       `json:"unused_table_parts,omitempty"`
+	MissingThick []int64       `json:"parts_without_thickness,omitempty"`
+	// Warnings are the run-level warnings a build of the same inputs
+	// reports about the model (thickness-mismatch).
+	Warnings []Warning `json:"warnings,omitempty"`
+}
+
+// CellCount is the number of cells of one VTK cell type a reader skipped.
+type CellCount struct {
+	VTKType uint8  `json:"vtk_type"`
+	Kind    string `json:"kind"` // the type's name in words, e.g. "polygon"
+	Cells   int    `json:"cells"`
+}
+
+// cellCounts lists s by increasing VTK type.
+func cellCounts(s geom.SkippedCells) []CellCount {
+	out := make([]CellCount, 0, len(s))
+	for _, t := range s.Types() {
+		out = append(out, CellCount{VTKType: t, Kind: geom.VTKCellName(t), Cells: s[t]})
+	}
+	return out
+}
+
+// Warning is a warning about the model, with its finding code.
+type Warning struct {
+	Code    string  `json:"code"`
+	Parts   []int64 `json:"parts"`
+	Message string  `json:"message"`
 }
 
 // FileSummary describes one mesh file.
 type FileSummary struct {
-	File     string         `json:"file"`
-	Nodes    int            `json:"nodes"`
-	Elements int            `json:"elements"`
-	Skipped  map[string]int `json:"skipped_cells,omitempty"`
+	File     string      `json:"file"`
+	Nodes    int         `json:"nodes"`
+	Elements int         `json:"elements"`
+	Skipped  []CellCount `json:"skipped_cells,omitempty"`
 }
 
 // Shift is a renumbering applied to one file's ids.
@@ -84,18 +110,23 @@ type Shift struct {
 
 // PartSummary describes one part.
 type PartSummary struct {
-	ID        int64       `json:"id"`
-	Name      string      `json:"name,omitempty"`
-	Material  string      `json:"material,omitempty"`
-	Surface   string      `json:"surface"`
-	Thickness float64     `json:"thickness"`
-	Elements  int         `json:"elements"`
-	Triangles int         `json:"triangles"`
-	Quads     int         `json:"quads"`
-	Area      float64     `json:"area_mm2"`
-	BoxMin    *[3]float64 `json:"box_min"` // null for a part without elements
-	BoxMax    *[3]float64 `json:"box_max"`
-	Deep      *PartDeep   `json:"deep,omitempty"`
+	ID        int64   `json:"id"`
+	Name      string  `json:"name,omitempty"`
+	Material  string  `json:"material,omitempty"`
+	Surface   string  `json:"surface"`
+	Thickness float64 `json:"thickness"` // the part's own (parts table), 0 when unknown
+	// ThicknessMin and ThicknessMax are the range of the thicknesses a
+	// build uses on the part's elements: an element's own where its
+	// file gives one, else the part's.
+	ThicknessMin float64     `json:"thickness_min"`
+	ThicknessMax float64     `json:"thickness_max"`
+	Elements     int         `json:"elements"`
+	Triangles    int         `json:"triangles"`
+	Quads        int         `json:"quads"`
+	Area         float64     `json:"area_mm2"`
+	BoxMin       *[3]float64 `json:"box_min"` // null for a part without elements
+	BoxMax       *[3]float64 `json:"box_max"`
+	Deep         *PartDeep   `json:"deep,omitempty"`
 }
 
 // PartDeep is the deeper look at one part.
@@ -146,7 +177,6 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 	in := &Inspection{
 		Nodes:       m.NumNodes(),
 		Elements:    m.NumElems(),
-		Skipped:     map[string]int{},
 		Deep:        opt.Deep,
 		BoxMarginMM: opt.BoxMargin,
 		MemoryBytes: m.Bytes(),
@@ -156,16 +186,20 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 		w := opt.WarpLimit
 		in.WarpLimit = &w
 	}
+	var skipped geom.SkippedCells
 	for i, s := range m.Sources {
 		nEnd, eEnd := m.NumNodes(), m.NumElems()
 		if i+1 < len(m.Sources) {
 			nEnd, eEnd = m.Sources[i+1].NodeStart, m.Sources[i+1].ElemStart
 		}
-		in.Files = append(in.Files, FileSummary{File: s.File, Nodes: nEnd - s.NodeStart, Elements: eEnd - s.ElemStart, Skipped: s.Skipped})
-		for k, v := range s.Skipped {
-			in.Skipped[k] += v
+		fs := FileSummary{File: s.File, Nodes: nEnd - s.NodeStart, Elements: eEnd - s.ElemStart}
+		if len(s.Skipped) > 0 {
+			fs.Skipped = cellCounts(s.Skipped)
 		}
+		in.Files = append(in.Files, fs)
+		skipped = skipped.Add(s.Skipped)
 	}
+	in.Skipped = cellCounts(skipped)
 	for _, r := range mi.Renumbered {
 		in.Renumbered = append(in.Renumbered, Shift{File: r.File, NodeOffset: r.NodeOffset, ElemOffset: r.ElemOffset})
 	}
@@ -176,6 +210,7 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 		in.Quads += s.Quads
 		ps := PartSummary{
 			ID: p.ID, Name: p.Name, Material: p.Material, Surface: p.Surface.String(), Thickness: p.Thickness,
+			ThicknessMin: s.ThicknessMin, ThicknessMax: s.ThicknessMax,
 			Elements: s.Elems, Triangles: s.Tris, Quads: s.Quads, Area: s.Area,
 		}
 		if s.Elems > 0 {
@@ -185,6 +220,9 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 		in.Parts = append(in.Parts, ps)
 	}
 	in.MissingThick = m.PartsWithoutThickness()
+	for _, f := range joints.ThicknessMismatches(m) {
+		in.Warnings = append(in.Warnings, Warning{Code: f.Code, Parts: f.Parts, Message: f.Message})
+	}
 	if opt.Deep {
 		deepLook(m, in, opt)
 	}

@@ -148,7 +148,7 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 			conns = append(conns, joints.NotSupported(&in.Joints[i], &o))
 		}
 	}
-	res, err := joints.NewResult(m, conns, nil, o)
+	res, err := joints.NewResult(m, conns, in.ModelFindings(), o)
 	if err != nil {
 		return nil, UsageError(err)
 	}

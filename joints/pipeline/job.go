@@ -29,6 +29,7 @@ const JobVersion = 1
 //	joints: [welds.csv]              # joint lists
 //	out: out                         # output directory
 //	renumber: false                  # shift clashing ids of later meshes
+//	part_array: part                 # VTK cell array with the part ids
 //	build:
 //	  reach: 0                       # mm, 0 = automatic
 //	  gap_allowance: 0               # mm, 0 = automatic
@@ -57,7 +58,10 @@ type Job struct {
 	Joints   []string `yaml:"joints,omitempty"`
 	Out      string   `yaml:"out,omitempty"`
 	Renumber *bool    `yaml:"renumber,omitempty"`
-	Build    JobBuild `yaml:"build,omitempty"`
+	// PartArray names the cell array of VTK files that holds part ids;
+	// "" means geom.DefaultPartArray ("part").
+	PartArray string   `yaml:"part_array,omitempty"`
+	Build     JobBuild `yaml:"build,omitempty"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
 	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
@@ -154,6 +158,20 @@ func (job *Job) RecordedPath(p string) string {
 	return filepath.ToSlash(filepath.Clean(p))
 }
 
+// CheckPartArray checks the name of a part array: not empty, and not the
+// name of another array Joinery reads from the cells.
+func CheckPartArray(name string) error {
+	switch name {
+	case "":
+		return errors.New("empty array name")
+	case "element_id":
+		return errors.New(`"element_id" holds the element ids; name the array that holds part ids`)
+	case "thickness":
+		return errors.New(`"thickness" holds the element thicknesses; name the array that holds part ids`)
+	}
+	return nil
+}
+
 // LoadJob reads the job file at path and resolves its relative paths
 // against the file's directory.
 func LoadJob(path string) (*Job, error) {
@@ -216,7 +234,7 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 		return out, nil
 	}
 	var hasVersion, hasMeshes bool
-	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "build"}
+	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "build"}
 	err = y.Map(root, "job", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "version":
@@ -245,6 +263,12 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 			var b bool
 			b, err = y.Bool(v, "renumber")
 			job.Renumber = &b
+		case "part_array":
+			if job.PartArray, err = y.String(v, "part_array"); err == nil {
+				if err = CheckPartArray(job.PartArray); err != nil {
+					err = y.Errorf(v, "part_array: %w", err)
+				}
+			}
 		case "build":
 			err = readJobBuild(y, v, &job.Build)
 		}

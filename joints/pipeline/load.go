@@ -3,6 +3,7 @@ package pipeline
 import (
 	"context"
 	"errors"
+	"fmt"
 	"hash"
 	"io"
 	"runtime"
@@ -82,8 +83,13 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 	if len(job.Meshes) == 0 {
 		return nil, UsageError(errors.New("no mesh given: name one with --mesh or in a job file"))
 	}
+	if job.PartArray != "" {
+		if err := CheckPartArray(job.PartArray); err != nil {
+			return nil, UsageError(fmt.Errorf("part array: %w", err))
+		}
+	}
 	lo := meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber,
-		Progress: env.progress()}
+		PartArray: job.PartArray, Progress: env.progress()}
 	var digest func(string) io.Writer
 	if sums != nil {
 		digest = sums.writer
