@@ -11,18 +11,22 @@ import (
 // Projection is the closest point of one element's surface to a query
 // point.
 //
-// For a triangle Xi and Eta are the area coordinates of its second and
-// third corner (L2, L3; L1 = 1-Xi-Eta) and Weights[3] is 0. For a quad
-// they are the bilinear parametric coordinates in [-1, 1], with corner 0
-// at (-1, -1), 1 at (1, -1), 2 at (1, 1) and 3 at (-1, 1). In both cases
-// Weights holds the shape-function values of the corners at the point:
-// they sum to 1 and Point = sum of Weights[i] times corner i.
+// For a triangle (Tri3, Tri6) Xi and Eta are the area coordinates of its
+// second and third corner (L2, L3; L1 = 1-Xi-Eta). For a quad (Quad4,
+// Quad8, Quad9) they are the parametric coordinates in [-1, 1], with
+// corner 0 at (-1, -1), 1 at (1, -1), 2 at (1, 1) and 3 at (-1, 1), the
+// midside nodes at the middles of the sides and a Quad9's centre at
+// (0, 0). In all cases Weights holds the shape-function values of the
+// element's nodes, in its node order, at the point (ShapeWeights; 0 past
+// the element's node count): they sum to 1 and Point = sum of Weights[i]
+// times node i. The weights of second-order elements may be negative
+// (see ShapeWeights).
 type Projection struct {
-	Elem    int        // element index
-	Point   r3.Vec     // closest point on the element surface
-	Dist    float64    // distance from the query point to Point, model units (mm)
-	Xi, Eta float64    // parametric coordinates of Point, see above
-	Weights [4]float64 // shape-function weights of the corner nodes
+	Elem    int                   // element index
+	Point   r3.Vec                // closest point on the element surface
+	Dist    float64               // distance from the query point to Point, model units (mm)
+	Xi, Eta float64               // parametric coordinates of Point, see above
+	Weights [MaxElemNodes]float64 // shape-function weights of the element's nodes
 	// Normal is the unit surface normal at Point, oriented by the
 	// right-hand rule over the node order; zero for a degenerate element.
 	Normal r3.Vec
@@ -475,23 +479,28 @@ func unitOrZero(v r3.Vec) r3.Vec {
 
 // Project returns the closest point of element e's surface to p.
 // Triangles are flat; quads are bilinear surfaces through their four
-// corners. Quadratic elements are projected onto the surface of their
-// corner nodes. An element with too few nodes gives Dist = +Inf.
+// corners; second-order elements are the curved surfaces their shape
+// functions describe, projected onto exactly (see closestOnPatch). An
+// element of another node count gives Dist = +Inf.
 func (m *Mesh) Project(e int, p r3.Vec) Projection {
 	nodes := m.ElemNodes(e)
 	pr := Projection{Elem: e}
-	switch {
-	case m.Type(e).Corners() == 3 && len(nodes) >= 3:
+	switch t := m.Type(e); t {
+	case Tri3:
 		a, b, c := m.Coords[nodes[0]], m.Coords[nodes[1]], m.Coords[nodes[2]]
 		q, l := ClosestOnTriangle(p, a, b, c)
 		pr.Point = q
 		pr.Xi, pr.Eta = l[1], l[2]
-		pr.Weights = [4]float64{l[0], l[1], l[2], 0}
+		pr.Weights[0], pr.Weights[1], pr.Weights[2] = l[0], l[1], l[2]
 		pr.Normal = unitOrZero(r3.Cross(r3.Sub(b, a), r3.Sub(c, a)))
-	case len(nodes) >= 4:
+	case Quad4:
 		x := [4]r3.Vec{m.Coords[nodes[0]], m.Coords[nodes[1]], m.Coords[nodes[2]], m.Coords[nodes[3]]}
-		pr.Point, pr.Weights, pr.Xi, pr.Eta = ClosestOnQuad(p, x)
+		var w [4]float64
+		pr.Point, w, pr.Xi, pr.Eta = ClosestOnQuad(p, x)
+		copy(pr.Weights[:], w[:])
 		pr.Normal = quadNormal(x, pr.Xi, pr.Eta)
+	case Tri6, Quad8, Quad9:
+		m.projectQuadratic(e, p, &pr)
 	default:
 		pr.Dist = math.Inf(1)
 		return pr

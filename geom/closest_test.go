@@ -343,7 +343,7 @@ func TestProject(t *testing.T) {
 		if math.Abs(pr.Dist-r3.Norm(r3.Sub(tt.p, tt.q))) > 1e-12 {
 			t.Errorf("element %d: dist %g", tt.e, pr.Dist)
 		}
-		for i := range pr.Weights {
+		for i := range tt.w {
 			if math.Abs(pr.Weights[i]-tt.w[i]) > 1e-12 {
 				t.Errorf("element %d: weights %v, want %v", tt.e, pr.Weights, tt.w)
 				break

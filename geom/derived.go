@@ -24,8 +24,14 @@ func (m *Mesh) Centroid(e int) r3.Vec {
 // areaVector returns a vector normal to element e whose length is its area:
 // (b-a)x(c-a)/2 for a triangle, and (c-a)x(d-b)/2 for a quad (the cross
 // product of the diagonals, exact for planar quads and the area of the
-// quad's projection onto its mean plane for warped ones).
+// quad's projection onto its mean plane for warped ones). For a
+// second-order element it is the integral of the surface's normal vector
+// dx/dxi x dx/deta: the area of its projection onto its mean plane.
 func (m *Mesh) areaVector(e int) r3.Vec {
+	if m.Type(e).Quadratic() {
+		s := m.patchOf(e)
+		return s.areaVector()
+	}
 	a, b, c := m.Corner(e, 0), m.Corner(e, 1), m.Corner(e, 2)
 	if m.Type(e).Corners() == 3 {
 		return r3.Scale(0.5, r3.Cross(r3.Sub(b, a), r3.Sub(c, a)))
@@ -36,7 +42,9 @@ func (m *Mesh) areaVector(e int) r3.Vec {
 
 // Normal returns the unit normal of element e by the right-hand rule over
 // its node order (for quads, the normal of the mean plane through the
-// diagonals). It returns the zero vector for a degenerate element.
+// diagonals; for second-order elements, of their curved surface's mean
+// plane, see areaVector). It returns the zero vector for a degenerate
+// element.
 func (m *Mesh) Normal(e int) r3.Vec {
 	v := m.areaVector(e)
 	n := r3.Norm(v)
@@ -46,17 +54,26 @@ func (m *Mesh) Normal(e int) r3.Vec {
 	return r3.Scale(1/n, v)
 }
 
-// Area returns the area of element e in mm² (see areaVector for warped quads).
-func (m *Mesh) Area(e int) float64 { return r3.Norm(m.areaVector(e)) }
-
-// ElemBox returns the axis-aligned bounding box of element e's corners.
-func (m *Mesh) ElemBox(e int) r3.Box {
-	nc := m.Type(e).Corners()
-	b := r3.Box{Min: m.Corner(e, 0), Max: m.Corner(e, 0)}
-	for k := 1; k < nc; k++ {
-		b = growBox(b, m.Corner(e, k))
+// Area returns the area of element e in mm² (see areaVector for warped
+// quads). For a second-order element it is the area of its curved
+// surface, integrated numerically (exact for flat elements, see
+// patch.area).
+func (m *Mesh) Area(e int) float64 {
+	if m.Type(e).Quadratic() {
+		s := m.patchOf(e)
+		return s.area()
 	}
-	return b
+	return r3.Norm(m.areaVector(e))
+}
+
+// ElemBox returns an axis-aligned box that holds element e's surface: the
+// box of its corners for linear elements, of the control points of its
+// curved surface for second-order ones (which the surface lies within;
+// for a curved element the box reaches past the surface by up to its
+// sagitta). It is the box the spatial index uses.
+func (m *Mesh) ElemBox(e int) r3.Box {
+	lo, hi := elemBox(m, e)
+	return r3.Box{Min: lo, Max: hi}
 }
 
 // EmptyBox is the box that contains nothing; growing it by a point gives

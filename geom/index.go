@@ -44,10 +44,15 @@ func (it nodeItems) Len() int { return len(it.c) }
 
 func (it nodeItems) Box(i int) (lo, hi r3.Vec) { return it.c[i], it.c[i] }
 
-// elemBox returns the bounding box of the corner nodes of element e; an
-// element without nodes has an empty box (lo > hi). NaN coordinates are
-// ignored.
+// elemBox returns the bounding box of the corner nodes of element e, or
+// of the control points of a second-order element's curved surface (see
+// controlBox), so that the box holds the whole surface; an element
+// without nodes has an empty box (lo > hi). NaN coordinates are ignored.
 func elemBox(m *Mesh, e int) (lo, hi r3.Vec) {
+	if m.Type(e).Quadratic() {
+		s := m.patchOf(e)
+		return controlBox(&s)
+	}
 	lo = r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
 	hi = r3.Vec{X: math.Inf(-1), Y: math.Inf(-1), Z: math.Inf(-1)}
 	nodes := m.ElemNodes(e)
@@ -114,8 +119,8 @@ func query(p r3.Vec, r float64) (q [3]float64, r2 float64, ok bool) {
 	return [3]float64{p.X, p.Y, p.Z}, r * r, true
 }
 
-// ElemsNear appends to dst the elements whose bounding box (of their
-// corner nodes) lies within distance r of p, in increasing index order,
+// ElemsNear appends to dst the elements whose bounding box (ElemBox)
+// lies within distance r of p, in increasing index order,
 // and returns the extended slice. These are the candidates for a
 // projection: an element whose surface is within r of p is among them.
 func (x *Index) ElemsNear(p r3.Vec, r float64, dst []int32) []int32 {

@@ -9,14 +9,18 @@ import (
 // Quality holds the shape measures of one element.
 type Quality struct {
 	// Warp is the largest angle, in degrees, between the normals of the two
-	// triangles a quad splits into, over both diagonals; 0 for triangles
-	// and planar quads.
+	// triangles a quad's corners split into, over both diagonals; 0 for
+	// triangles and planar quads. The curvature of a second-order quad
+	// between its corners is not warp.
 	Warp float64
-	// MinEdge and MaxEdge are the shortest and longest edge lengths, mm.
+	// MinEdge and MaxEdge are the shortest and longest edge lengths, mm,
+	// measured between corners (for second-order elements, the chords
+	// of their curved edges).
 	MinEdge, MaxEdge float64
 	// Aspect is MaxEdge/MinEdge (+Inf for a zero-length edge).
 	Aspect float64
-	// Area is the element area, mm².
+	// Area is the element area, mm² (Mesh.Area: of the curved surface
+	// for second-order elements).
 	Area float64
 	// Degenerate is set when an edge has zero length, two corners repeat
 	// a node, or the area is below DegenerateAreaRatio times MaxEdge².

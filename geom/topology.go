@@ -41,18 +41,59 @@ func NodeElements(m *Mesh) Adjacency {
 func (a Adjacency) Of(n int32) []int32 { return a.Elems[a.Start[n]:a.Start[n+1]] }
 
 // Edge is one edge of one element: from corner Local to the next corner,
-// joining nodes A and B (node indices).
+// joining nodes A and B (node indices). The edge of a second-order
+// element is curved: Mid is its midside node, -1 for a straight edge.
+// Edges are identified by their corner nodes A and B.
 type Edge struct {
 	Elem  int32
 	Local int8
 	A, B  int32
+	Mid   int32
 }
 
 // ElemEdge returns edge k of element e.
 func (m *Mesh) ElemEdge(e, k int) Edge {
 	nodes := m.ElemNodes(e)
-	nc := m.Type(e).Corners()
-	return Edge{Elem: int32(e), Local: int8(k), A: nodes[k], B: nodes[(k+1)%nc]}
+	t := m.Type(e)
+	nc := t.Corners()
+	ed := Edge{Elem: int32(e), Local: int8(k), A: nodes[k], B: nodes[(k+1)%nc], Mid: -1}
+	if t.Quadratic() {
+		ed.Mid = nodes[nc+k]
+	}
+	return ed
+}
+
+// EdgeDistance returns the distance from q to edge ed: to the segment
+// between its corners, or to the quadratic curve through its corners and
+// midside node (CurveDistance).
+func (m *Mesh) EdgeDistance(ed Edge, q r3.Vec) float64 {
+	if ed.Mid < 0 {
+		return SegmentDistance(q, m.Coords[ed.A], m.Coords[ed.B])
+	}
+	d, _ := CurveDistance(q, m.Coords[ed.A], m.Coords[ed.Mid], m.Coords[ed.B])
+	return d
+}
+
+// EdgeLength returns the length of edge ed, mm: of the segment between
+// its corners, or of the quadratic curve through its midside node (by
+// five-point Gauss-Legendre quadrature of the curve's speed, accurate to
+// rounding for the gentle curvature of shell edges).
+func (m *Mesh) EdgeLength(ed Edge) float64 {
+	a, b := m.Coords[ed.A], m.Coords[ed.B]
+	if ed.Mid < 0 {
+		return r3.Norm(r3.Sub(b, a))
+	}
+	mid := m.Coords[ed.Mid]
+	e := r3.Scale(0.5, r3.Sub(b, a))
+	k := r3.Sub(r3.Scale(0.5, r3.Add(a, b)), mid)
+	// Five-point Gauss-Legendre rule (Abramowitz and Stegun, table 25.4).
+	xs := [5]float64{-0.9061798459386640, -0.5384693101056831, 0, 0.5384693101056831, 0.9061798459386640}
+	ws := [5]float64{0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891}
+	l := 0.0
+	for i, t := range xs {
+		l += ws[i] * r3.Norm(r3.Add(e, r3.Scale(2*t, k)))
+	}
+	return l
 }
 
 // EdgeNeighbors appends to dst the elements other than e that share edge
@@ -102,10 +143,13 @@ func FreeEdges(m *Mesh, adj Adjacency) []Edge {
 
 // Loop is a chain of free edges of one part.
 type Loop struct {
-	Part   int32   // index into Mesh.Parts
-	Nodes  []int32 // node indices in order; a closed loop does not repeat the first node
+	Part int32 // index into Mesh.Parts
+	// Nodes are the node indices in order, the midside nodes of curved
+	// edges included; a closed loop does not repeat the first node.
+	Nodes  []int32
 	Closed bool
-	Length float64 // mm
+	Length float64 // mm, along curved edges
+
 	// Piece labels the connected piece of the part the loop bounds
 	// (elements of the part joined through shared nodes).
 	Piece int32
@@ -174,11 +218,15 @@ func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
 					return nodes, length
 				}
 				used[next] = true
-				w := edges[next].A
+				ed := edges[next]
+				w := ed.A
 				if w == v {
-					w = edges[next].B
+					w = ed.B
 				}
-				length += r3.Norm(r3.Sub(m.Coords[w], m.Coords[v]))
+				length += m.EdgeLength(ed)
+				if ed.Mid >= 0 {
+					nodes = append(nodes, ed.Mid)
+				}
 				nodes = append(nodes, w)
 				v = w
 			}
@@ -186,9 +234,13 @@ func FreeEdgeLoops(m *Mesh, edges []Edge) []Loop {
 		}
 		b := edges[first].B
 		fwd, length := walk(b)
-		lp := Loop{Part: part, Length: length + r3.Norm(r3.Sub(m.Coords[b], m.Coords[start]))}
+		lp := Loop{Part: part, Length: length + m.EdgeLength(edges[first])}
 		lp.Closed = len(fwd) > 0 && fwd[len(fwd)-1] == start
-		lp.Nodes = append([]int32{start, b}, fwd...)
+		lp.Nodes = []int32{start}
+		if mid := edges[first].Mid; mid >= 0 {
+			lp.Nodes = append(lp.Nodes, mid)
+		}
+		lp.Nodes = append(append(lp.Nodes, b), fwd...)
 		if lp.Closed {
 			lp.Nodes = lp.Nodes[:len(lp.Nodes)-1]
 		} else {

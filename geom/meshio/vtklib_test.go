@@ -115,4 +115,3 @@ func compareWithVTK(t *testing.T, m *geom.Mesh, ref *vtkDump) {
 		}
 	}
 }
-

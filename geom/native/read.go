@@ -73,6 +73,10 @@ type chunk struct {
 	connBase  int  // index of the chunk's first entry in Mesh.Conn
 	parts     []partRecord
 	thickness []float64 // per element of the chunk, nil when no t= seen
+	// conn holds the chunk's node ids of shells when its shells have more
+	// than 4 nodes on average room for (second-order shells); nil when
+	// they fit in the reader's connIDs.
+	conn      []int64
 	err       error
 	missing   int   // first element (mesh index) with an unknown node, -1 if none
 	missingID int64 // the unknown node id of that element
@@ -90,7 +94,7 @@ type reader struct {
 	data    []byte
 	m       *geom.Mesh
 	partIDs []int64 // part id per element, as written
-	connIDs []int64 // node ids as written; chunk c uses [4*c.elemBase, 4*c.elemBase+c.nconn)
+	connIDs []int64 // node ids as written; chunk c uses [4*c.elemBase, 4*c.elemBase+c.nconn) unless c.conn is set
 }
 
 // parse reads data in as many pieces as there are processors, up to
@@ -275,6 +279,17 @@ func (r *reader) parseChunk(c *chunk) {
 	partIDs := r.partIDs[c.elemBase : c.elemBase+c.elems]
 	starts := m.ElemStart[c.elemBase+1 : c.elemBase+c.elems+1]
 	conn := r.connIDs[4*c.elemBase : 4*(c.elemBase+c.elems)]
+	// room makes room for n more node ids: second-order shells may
+	// overflow the 4 per shell connIDs holds.
+	room := func(nc, n int) {
+		if nc+n <= len(conn) {
+			return
+		}
+		w := make([]int64, max(nc+n, geom.MaxElemNodes*len(elemIDs)))
+		copy(w, conn[:nc])
+		conn, c.conn = w, w
+	}
+	var shellNodes [geom.MaxElemNodes]int64
 	var nn, ne, nc int
 	line := c.line0
 	needHeader := c.header
@@ -300,10 +315,12 @@ func (r *reader) parseChunk(c *chunk) {
 				continue
 			}
 		case data[pos] == 's' && ne < len(elemIDs) && bytes.HasPrefix(data[pos:], []byte("shell ")):
-			if id, pid, n, next, ok := fastShell(data, pos+len("shell "), conn[nc:nc+4]); ok {
+			if id, pid, n, next, ok := fastShell(data, pos+len("shell "), &shellNodes); ok {
 				if c.thickness != nil {
 					c.thickness[ne] = math.NaN()
 				}
+				room(nc, n)
+				copy(conn[nc:], shellNodes[:n])
 				nc += n
 				elemIDs[ne], partIDs[ne], starts[ne] = id, pid, int32(nc)
 				ne++
@@ -376,7 +393,7 @@ func (r *reader) parseChunk(c *chunk) {
 			id, ok := parseInt(f)
 			if !ok {
 				if f == nil {
-					fail("shell record needs an element id, a part id and 3 or 4 node ids")
+					fail("shell record needs an element id, a part id and 3, 4, 6, 8 or 9 node ids")
 				} else {
 					fail("shell id %q is not an integer", f)
 				}
@@ -429,20 +446,17 @@ func (r *reader) parseChunk(c *chunk) {
 					fail("shell %d: node id %d is not positive", id, nid)
 					return
 				}
-				if n < 4 {
-					conn[nc+n] = nid
+				if n < len(shellNodes) {
+					shellNodes[n] = nid
 				}
 				n++
 			}
-			switch n {
-			case 3, 4:
-			case 6, 8:
-				fail("shell %d: %d-node shells are reserved for a later format version", id, n)
-				return
-			default:
-				fail("shell %d: needs 3 or 4 node ids, has %d", id, n)
+			if !geom.ElemType(min(n, 127)).Valid() {
+				fail("shell %d: needs 3, 4, 6, 8 or 9 node ids, has %d", id, n)
 				return
 			}
+			room(nc, n)
+			copy(conn[nc:], shellNodes[:n])
 			if !math.IsNaN(t) && c.thickness == nil {
 				c.thickness = make([]float64, len(elemIDs))
 				for k := range c.thickness {
@@ -545,15 +559,15 @@ func fastNode(b []byte, i int) (id int64, p r3.Vec, next int, ok bool) {
 }
 
 // fastShell reads the fields of a shell record from b[i:], storing its
-// node ids in conn (len 4).
-func fastShell(b []byte, i int, conn []int64) (id, pid int64, n, next int, ok bool) {
+// node ids in conn.
+func fastShell(b []byte, i int, conn *[geom.MaxElemNodes]int64) (id, pid int64, n, next int, ok bool) {
 	if id, i, ok = fastInt(b, i); !ok {
 		return 0, 0, 0, 0, false
 	}
 	if pid, i, ok = fastInt(b, i); !ok {
 		return 0, 0, 0, 0, false
 	}
-	for n < 4 {
+	for n < len(conn) {
 		for i < len(b) && b[i] == ' ' {
 			i++
 		}
@@ -565,7 +579,7 @@ func fastShell(b []byte, i int, conn []int64) (id, pid int64, n, next int, ok bo
 		}
 		n++
 	}
-	if n < 3 {
+	if !geom.ElemType(n).Valid() {
 		return 0, 0, 0, 0, false
 	}
 	if next, ok = endLine(b, i); !ok {
@@ -740,7 +754,12 @@ func (r *reader) mergeThickness(chunks []chunk) {
 // first element with an unknown node in c.missing.
 func (r *reader) resolveConn(c *chunk) {
 	m := r.m
-	ids := r.connIDs[4*c.elemBase : 4*c.elemBase+c.nconn]
+	var ids []int64
+	if c.conn != nil {
+		ids = c.conn[:c.nconn]
+	} else {
+		ids = r.connIDs[4*c.elemBase : 4*c.elemBase+c.nconn]
+	}
 	out := m.Conn[c.connBase : c.connBase+c.nconn]
 	starts := m.ElemStart[c.elemBase+1 : c.elemBase+c.elems+1]
 	for k, id := range ids {

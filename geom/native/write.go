@@ -27,7 +27,7 @@ const nativeBlock = 16384
 // The output depends only on m. Write checks m first and writes
 // nothing when it cannot be written as a valid file: slices of mismatched
 // lengths, ids that are not positive, non-finite coordinates, thicknesses
-// that are neither positive nor unset, elements other than 3 or 4 nodes,
+// that are neither positive nor unset, elements other than 3, 4, 6, 8 or 9 nodes,
 // node or part indices out of range, control characters in a part name, or
 // blanks and control characters in a material. It does not look for
 // duplicate ids, which a Mesh that has been indexed does not hold.
@@ -189,8 +189,8 @@ func checkNative(m *geom.Mesh) error {
 		if id <= 0 {
 			return fmt.Errorf("element %d: id %d is not positive", e, id)
 		}
-		if k := m.ElemStart[e+1] - m.ElemStart[e]; k != 3 && k != 4 {
-			return fmt.Errorf("element %d: %d nodes (want 3 or 4)", id, k)
+		if k := m.ElemStart[e+1] - m.ElemStart[e]; !geom.ElemType(min(k, 127)).Valid() {
+			return fmt.Errorf("element %d: %d nodes (want 3, 4, 6, 8 or 9)", id, k)
 		}
 		for _, n := range m.ElemNodes(e) {
 			if n < 0 || int(n) >= nn {

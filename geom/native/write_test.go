@@ -246,7 +246,7 @@ func TestWriteErrors(t *testing.T) {
 		{"coordinate", func(m *geom.Mesh) { m.Coords[0].Y = math.Inf(1) }, "node 101: coordinate (0, +Inf, 0) is not finite"},
 		{"conn length", func(m *geom.Mesh) { m.Conn = m.Conn[:18] }, "element starts run from 0 to 19 over 18 connectivity entries"},
 		{"element id", func(m *geom.Mesh) { m.ElemIDs[2] = 0 }, "element 2: id 0 is not positive"},
-		{"element size", func(m *geom.Mesh) { m.ElemStart[1] = 2 }, "element 1001: 2 nodes (want 3 or 4)"},
+		{"element size", func(m *geom.Mesh) { m.ElemStart[1] = 2 }, "element 1001: 2 nodes (want 3, 4, 6, 8 or 9)"},
 		{"node index", func(m *geom.Mesh) { m.Conn[5] = 12 }, "element 1002: node index 12 outside 0..11"},
 		{"part index", func(m *geom.Mesh) { m.ElemPart[4] = 2 }, "element 2001: part index 2 outside 0..1"},
 		{"element thickness", func(m *geom.Mesh) { m.ElemThickness = []float64{math.NaN(), 0, 1, 1, 1} }, "element 1002: thickness 0 is neither positive nor unset (NaN)"},

@@ -120,8 +120,8 @@ type parser struct {
 	partArray string
 	// cellArrays names the cell arrays of the first piece, for messages.
 	cellArrays []string
-	rd   *byteReader
-	dec  *xml.Decoder
+	rd         *byteReader
+	dec        *xml.Decoder
 	// skipped counts the bytes the parser moved past behind the decoder's
 	// back, and lineAdj the newlines among them, so that decoder positions
 	// can be turned into file positions.

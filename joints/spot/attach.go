@@ -32,13 +32,15 @@ func attach(x *geom.Index, st *joints.Stack, a joints.Attach, diameter float64) 
 	return ends
 }
 
-// attachInterpolated ties the end to the host element's corners with the
-// shape-function weights at the projection point.
+// attachInterpolated ties the end to every node of the host element with
+// the shape-function weights at the projection point: the corners of a
+// linear element, all the nodes of a second-order one with its quadratic
+// shape functions (some of whose weights are negative, see
+// geom.ShapeWeights).
 func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 	nodes := m.ElemNodes(s.Proj.Elem)
-	nc := m.Type(s.Proj.Elem).Corners()
-	e := joints.End{Point: s.Proj.Point, NodeIndex: -1, Nodes: slices.Clone(nodes[:nc]), Weights: make([]float64, nc)}
-	copy(e.Weights, s.Proj.Weights[:nc])
+	e := joints.End{Point: s.Proj.Point, NodeIndex: -1, Nodes: slices.Clone(nodes), Weights: make([]float64, len(nodes))}
+	copy(e.Weights, s.Proj.Weights[:len(nodes)])
 	return e
 }
 
@@ -47,11 +49,11 @@ func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 	m := x.Mesh()
 	q := s.Proj.Point
-	// The nearest node of the part is no farther than the host element's
-	// farthest corner, so the elements within that radius hold it.
+	// The nearest node of the part (corner or midside) is no farther
+	// than the host element's farthest node, so the elements within that
+	// radius hold it.
 	r := 0.0
-	nc := m.Type(s.Proj.Elem).Corners()
-	for _, n := range m.ElemNodes(s.Proj.Elem)[:nc] {
+	for _, n := range m.ElemNodes(s.Proj.Elem) {
 		r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
 	}
 	pi := m.ElemPart[s.Proj.Elem]
@@ -61,7 +63,7 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 		if m.ElemPart[e] != pi {
 			continue
 		}
-		for _, n := range m.ElemNodes(int(e))[:m.Type(int(e)).Corners()] {
+		for _, n := range m.ElemNodes(int(e)) {
 			d := r3.Norm(r3.Sub(m.Coords[n], q))
 			if d < bestD || d == bestD && m.NodeIDs[n] < m.NodeIDs[best] {
 				best, bestD = n, d
@@ -72,7 +74,8 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 }
 
 // attachPatch ties the end to every node of the sheet within radius of
-// the projection point, plus the host element's corners. The weights are
+// the projection point (midside nodes of second-order elements too), plus
+// the host element's nodes. The weights are
 // the most uniform ones (least sum of squared deviations from 1/N) that
 // sum to 1 and reproduce the projection point's position in the sheet's
 // tangent plane exactly: w = w0 + Aᵀ(AAᵀ)⁻¹(b − A w0), with w0 uniform and
@@ -94,7 +97,7 @@ func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) joints.End {
 		if m.ElemPart[e] != pi {
 			continue
 		}
-		for _, n := range m.ElemNodes(int(e))[:m.Type(int(e)).Corners()] {
+		for _, n := range m.ElemNodes(int(e)) {
 			if r3.Norm(r3.Sub(m.Coords[n], q)) <= radius {
 				set[n] = true
 			}

@@ -11,7 +11,8 @@ import (
 
 // EdgeDistance returns the distance from q to the nearest free edge of
 // part pi (an element edge no other element of the part shares) within
-// radius r, or +Inf when there is none. near must hold every element
+// radius r, or +Inf when there is none. The edges of second-order
+// elements are the curves through their midside nodes. near must hold every element
 // within r of q (it may hold more).
 //
 // It needs no global edge table: an edge within r of q has every element
@@ -44,7 +45,7 @@ func EdgeDistance(m *geom.Mesh, near []int32, q r3.Vec, pi int32, r float64) flo
 			if i+1 < len(keys) && keys[i+1] == key {
 				continue // shared by another element of the part
 			}
-			if d := geom.SegmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
+			if d := m.EdgeDistance(ed, q); d <= r && d < best {
 				best = d
 			}
 		}
