@@ -100,9 +100,16 @@ func TestClosestOnTriangleDegenerate(t *testing.T) {
 	}
 }
 
-// checkWeights checks that the weights sum to 1 and reproduce q to 1e-12
-// relative to the size of the coordinates.
+// checkWeights checks that the weights lie in [0, 1], sum to 1 and
+// reproduce q to 1e-12 relative to the size of the coordinates.
 func checkWeights(t *testing.T, q r3.Vec, w []float64, x []r3.Vec) {
+	t.Helper()
+	checkWeightsSigned(t, q, w, x, true)
+}
+
+// checkWeightsSigned is checkWeights, with weights outside [0, 1]
+// allowed unless convex is set (quadratic shape functions).
+func checkWeightsSigned(t *testing.T, q r3.Vec, w []float64, x []r3.Vec, convex bool) {
 	t.Helper()
 	var sum float64
 	var s r3.Vec
@@ -111,7 +118,7 @@ func checkWeights(t *testing.T, q r3.Vec, w []float64, x []r3.Vec) {
 		sum += w[i]
 		s = r3.Add(s, r3.Scale(w[i], x[i]))
 		scale = max(scale, r3.Norm(x[i]))
-		if w[i] < -1e-12 || w[i] > 1+1e-12 {
+		if convex && (w[i] < -1e-12 || w[i] > 1+1e-12) {
 			t.Errorf("weight %d = %g outside [0, 1]", i, w[i])
 		}
 	}

@@ -1,7 +1,6 @@
 package geom
 
 import (
-	"cmp"
 	"math"
 	"slices"
 
@@ -495,19 +494,31 @@ func (s *patch) convexFor(p r3.Vec) bool {
 	return smin*smin > (r3.Norm(r3.Sub(p, x0))+reach)*curv*(1+1e-9)
 }
 
-// closestOnPatch returns the parametric coordinates of the point of the
-// patch closest to p.
+// Settings of the search on second-order elements when the Newton
+// result cannot be certified.
+const (
+	patchLeafLevel = 4  // cells are cut four times (to 1/16 of a side) before Newton runs in them
+	patchNewtons   = 64 // at most this many Newton runs
+	patchCells     = 4096
+)
+
+// closest returns the parametric coordinates of the point of the patch
+// closest to p.
 //
-// Newton runs from start (the closest point of the element through its
+// Newton runs from (su, sv) (the closest point of the element through its
 // corners, a good guess for mildly curved elements) and its result is
 // accepted when it satisfies the optimality conditions and the distance
 // is provably convex over the patch (convexFor), which holds for the
 // curvatures of real sheet meshes and points within a few element sizes.
-// Otherwise the patch is cut into 64 cells whose control-net boxes give
-// lower bounds of the distance, and Newton restarts from the centres of
-// the most promising cells (at most eight, by increasing bound, while the
-// bound is below the best distance found); the best point reached is
-// returned. It always lies on the patch.
+// Otherwise a branch-and-bound search runs: cells of the parameter domain
+// are taken by increasing lower bound of their distance (the distance to
+// the box of their control net, which holds the cell's surface), cut in
+// four until they are 1/16 of the domain's side, and Newton runs from the
+// centre of every such cell whose bound is below the best distance found,
+// up to a budget (patchNewtons, patchCells) that only nearly equidistant
+// surfaces (a point near a centre of curvature) exhaust, where any of the
+// candidates is as close as the others to rounding. The best point
+// reached is returned; it always lies on the patch.
 func (s *patch) closest(p r3.Vec, su, sv float64) (float64, float64) {
 	bu, bv := s.clampDomain(su, sv)
 	bd := r3.Norm2(r3.Sub(s.point(bu, bv), p))
@@ -521,51 +532,95 @@ func (s *patch) closest(p r3.Vec, su, sv float64) (float64, float64) {
 	if ok && s.stationary(p, nu, nv) && s.convexFor(p) {
 		return nu, nv
 	}
-	type leaf struct {
-		lb     float64
-		cu, cv float64
+	type cell struct {
+		c     [3][2]float64
+		lb    float64 // squared distance from p to the control net's box
+		level int
 	}
-	var leaves [64]leaf
-	nl := 0
-	add := func(cell [3][2]float64, cu, cv float64) {
-		pts, n := s.controlNet(cell)
+	bound := func(c [3][2]float64) float64 {
+		pts, n := s.controlNet(c)
 		lo, hi := pts[0], pts[0]
 		for _, q := range pts[1:n] {
 			lo = r3.Vec{X: math.Min(lo.X, q.X), Y: math.Min(lo.Y, q.Y), Z: math.Min(lo.Z, q.Z)}
 			hi = r3.Vec{X: math.Max(hi.X, q.X), Y: math.Max(hi.Y, q.Y), Z: math.Max(hi.Z, q.Z)}
 		}
-		leaves[nl] = leaf{boxDist2(lo, hi, p), cu, cv}
-		nl++
+		return boxDist2(lo, hi, p)
+	}
+	// heap is a min-heap of cells by lower bound.
+	var heap []cell
+	less := func(i, j int) bool { return heap[i].lb < heap[j].lb }
+	push := func(c cell) {
+		heap = append(heap, c)
+		for i := len(heap) - 1; i > 0; {
+			up := (i - 1) / 2
+			if !less(i, up) {
+				break
+			}
+			heap[i], heap[up] = heap[up], heap[i]
+			i = up
+		}
+	}
+	pop := func() cell {
+		top := heap[0]
+		last := len(heap) - 1
+		heap[0] = heap[last]
+		heap = heap[:last]
+		for i := 0; ; {
+			l, r, m := 2*i+1, 2*i+2, i
+			if l < len(heap) && less(l, m) {
+				m = l
+			}
+			if r < len(heap) && less(r, m) {
+				m = r
+			}
+			if m == i {
+				break
+			}
+			heap[i], heap[m] = heap[m], heap[i]
+			i = m
+		}
+		return top
+	}
+	whole := s.wholeCell()
+	push(cell{whole, bound(whole), 0})
+	newtons, cells := 0, 0
+	for len(heap) > 0 && newtons < patchNewtons && cells < patchCells {
+		c := pop()
+		if c.lb > bd*pruneSlack {
+			break // every cell left is farther than the best point
+		}
+		var kids [4][3][2]float64
+		mid := func(a, b [2]float64) [2]float64 { return [2]float64{(a[0] + b[0]) / 2, (a[1] + b[1]) / 2} }
+		if s.tri {
+			a, b, d := c.c[0], c.c[1], c.c[2]
+			ab, bd2, da := mid(a, b), mid(b, d), mid(d, a)
+			kids = [4][3][2]float64{{a, ab, da}, {ab, b, bd2}, {da, bd2, d}, {bd2, da, ab}}
+		} else {
+			lo, hi := c.c[0], c.c[1]
+			m := mid(lo, hi)
+			kids = [4][3][2]float64{
+				{lo, m}, {{m[0], lo[1]}, {hi[0], m[1]}},
+				{{lo[0], m[1]}, {m[0], hi[1]}}, {m, hi},
+			}
+		}
+		if c.level < patchLeafLevel {
+			for _, k := range kids {
+				push(cell{k, bound(k), c.level + 1})
+				cells++
+			}
+			continue
+		}
+		// A leaf: Newton from its centre.
+		var cu, cv float64
+		if s.tri {
+			cu, cv = (c.c[0][0]+c.c[1][0]+c.c[2][0])/3, (c.c[0][1]+c.c[1][1]+c.c[2][1])/3
+		} else {
+			cu, cv = (c.c[0][0]+c.c[1][0])/2, (c.c[0][1]+c.c[1][1])/2
+		}
 		consider(cu, cv)
-	}
-	if s.tri {
-		const h = 1.0 / 8
-		for i := range 8 {
-			for j := 0; i+j < 8; j++ {
-				u, v := float64(i)*h, float64(j)*h
-				add([3][2]float64{{u, v}, {u + h, v}, {u, v + h}}, u+h/3, v+h/3)
-				if i+j < 7 {
-					add([3][2]float64{{u + h, v}, {u + h, v + h}, {u, v + h}}, u+2*h/3, v+2*h/3)
-				}
-			}
-		}
-	} else {
-		const h = 2.0 / 8
-		for i := range 8 {
-			for j := range 8 {
-				u, v := -1+float64(i)*h, -1+float64(j)*h
-				add([3][2]float64{{u, v}, {u + h, v + h}}, u+h/2, v+h/2)
-			}
-		}
-	}
-	ls := leaves[:nl]
-	slices.SortFunc(ls, func(a, b leaf) int { return cmp.Compare(a.lb, b.lb) })
-	for i, l := range ls {
-		if i >= 8 || l.lb > bd*pruneSlack {
-			break
-		}
-		nu, nv, _ := s.newton(p, l.cu, l.cv)
+		nu, nv, _ := s.newton(p, cu, cv)
 		consider(nu, nv)
+		newtons++
 	}
 	return bu, bv
 }
