@@ -3,6 +3,7 @@ package geom
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -144,12 +145,12 @@ func (m *Mesh) Index() error {
 	if m.nodes, dup, ok = NewIDIndex(m.NodeIDs); !ok {
 		a, b := m.source(dup.First, nodeStart), m.source(dup.Second, nodeStart)
 		return fmt.Errorf("node id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
-			m.implicitHint(a, b, "node", "node_id", func(s Source) bool { return s.ImplicitNodeIDs }))
+			m.implicitHint(a, b, "node", "a node_id", func(s Source) bool { return s.ImplicitNodeIDs }))
 	}
 	if m.elems, dup, ok = NewIDIndex(m.ElemIDs); !ok {
 		a, b := m.source(dup.First, elemStart), m.source(dup.Second, elemStart)
 		return fmt.Errorf("element id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
-			m.implicitHint(a, b, "element", "element_id", func(s Source) bool { return s.ImplicitElemIDs }))
+			m.implicitHint(a, b, "element", "an element_id", func(s Source) bool { return s.ImplicitElemIDs }))
 	}
 	m.parts = make(map[int64]int32, len(m.Parts))
 	for i, p := range m.Parts {
@@ -172,13 +173,13 @@ func (m *Mesh) implicitHint(a, b int, what, array string, implicit func(Source) 
 	const renumber = "; --renumber shifts the ids of the later file"
 	switch {
 	case ia && ib:
-		return fmt.Sprintf(": neither file has a %s array, so both number their %ss 1, 2, 3, ...%s", array, what, renumber)
+		return fmt.Sprintf(": neither file has %s array, so both number their %ss 1, 2, 3, ...%s", array, what, renumber)
 	case ia || ib:
 		f := m.Sources[a].File
 		if ib {
 			f = m.Sources[b].File
 		}
-		return fmt.Sprintf(": %s has no %s array and numbers its %ss 1, 2, 3, ...%s", f, array, what, renumber)
+		return fmt.Sprintf(": %s has no %s array and numbers its %ss 1, 2, 3, ...%s", f, strings.TrimPrefix(strings.TrimPrefix(array, "an "), "a "), what, renumber)
 	}
 	return ""
 }
