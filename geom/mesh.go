@@ -163,8 +163,9 @@ func (m *Mesh) Index() error {
 }
 
 // implicitHint explains a duplicate id between sources a and b when one
-// of them or both numbered their nodes or elements themselves, and
-// points to renumbering; "" otherwise.
+// of them or both numbered their nodes or elements themselves (what
+// names them, array the id array with its article, implicit tells a
+// source without it), and points to renumbering; "" otherwise.
 func (m *Mesh) implicitHint(a, b int, what, array string, implicit func(Source) bool) string {
 	if a < 0 || b < 0 || a == b {
 		return ""

@@ -73,9 +73,9 @@ type chunk struct {
 	connBase  int  // index of the chunk's first entry in Mesh.Conn
 	parts     []partRecord
 	thickness []float64 // per element of the chunk, nil when no t= seen
-	// conn holds the chunk's node ids of shells when its shells have more
-	// than 4 nodes on average room for (second-order shells); nil when
-	// they fit in the reader's connIDs.
+	// conn holds the node ids of the chunk's shells once a second-order
+	// shell overflowed the 4 per shell the reader's connIDs has room
+	// for; nil otherwise.
 	conn      []int64
 	err       error
 	missing   int   // first element (mesh index) with an unknown node, -1 if none
