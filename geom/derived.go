@@ -101,8 +101,11 @@ type PartStats struct {
 	Elems int
 	Tris  int
 	Quads int
-	Area  float64 // mm²
-	Box   r3.Box  // bounding box of the nodes of the part's elements
+	// SecondOrder counts the second-order elements among them (Tri6,
+	// Quad8, Quad9).
+	SecondOrder int
+	Area        float64 // mm²
+	Box         r3.Box  // bounding box of the nodes of the part's elements
 	// ThicknessMin and ThicknessMax are the smallest and largest
 	// thickness of the part's elements (Mesh.Thickness: an element's
 	// own, else its part's), mm; 0 for a part without elements.
@@ -135,6 +138,7 @@ func (m *Mesh) PartStats() []PartStats {
 			st[i].Elems += s.Elems
 			st[i].Tris += s.Tris
 			st[i].Quads += s.Quads
+			st[i].SecondOrder += s.SecondOrder
 			st[i].Area += s.Area
 			st[i].Box = unionBox(st[i].Box, s.Box)
 		}
@@ -156,10 +160,14 @@ func (m *Mesh) partStats(lo, hi int) []PartStats {
 		}
 		s.ThicknessMin, s.ThicknessMax = math.Min(s.ThicknessMin, t), math.Max(s.ThicknessMax, t)
 		s.Elems++
-		if m.Type(e).Corners() == 3 {
+		switch t := m.Type(e); {
+		case t.Corners() == 3:
 			s.Tris++
-		} else {
+		default:
 			s.Quads++
+		}
+		if m.Type(e).Quadratic() {
+			s.SecondOrder++
 		}
 		s.Area += m.Area(e)
 		b := &s.Box

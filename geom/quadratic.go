@@ -456,8 +456,8 @@ func (s *patch) stationary(p r3.Vec, u, v float64) bool {
 // at least (smin(J0) - |J - J0|)^2 - |x - p| |second derivatives|, with
 // J0 the Jacobian at the domain's centre, the variation of J and the
 // second derivatives bounded term by term from the monomial form, and
-// |x - p| at most |p - x0| plus the largest distance from x0 to a control
-// point (the patch lies in their convex hull).
+// |x - p| at most |p - x0| plus a bound of |x - x0| over the domain from
+// the monomial coefficients.
 func (s *patch) convexFor(p r3.Vec) bool {
 	n := func(p, q int) float64 { return r3.Norm(s.a[p][q]) }
 	var u0, v0, r float64 // centre and half-width of the domain
@@ -485,10 +485,16 @@ func (s *patch) convexFor(p r3.Vec) bool {
 	if !(smin > 0) {
 		return false
 	}
-	pts, np := s.controlNet(s.wholeCell())
-	reach := 0.0
-	for _, c := range pts[:np] {
-		reach = max(reach, r3.Norm(r3.Sub(c, x0)))
+	// |x - x0| <= |x - a00| + |a00 - x0|, and |x - a00| is at most the
+	// sum of the other coefficients' norms (|u|, |v| <= 1 on both
+	// domains).
+	reach := r3.Norm(r3.Sub(s.a[0][0], x0))
+	for p := range 3 {
+		for q := range 3 {
+			if p+q > 0 {
+				reach += n(p, q)
+			}
+		}
 	}
 	curv := math.Sqrt(bUU*bUU + 2*bUV*bUV + bVV*bVV)
 	return smin*smin > (r3.Norm(r3.Sub(p, x0))+reach)*curv*(1+1e-9)

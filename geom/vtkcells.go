@@ -64,11 +64,13 @@ type vtkCell struct {
 
 // vtkCells names the cell types of vtkCellType.h (VTK file-format
 // documentation, Kitware; the list as of VTK 9, from memory of the
-// header), in words of our own derived from the enumerator names
-// (VTK_QUADRATIC_TRIANGLE is "quadratic triangle"), with the dimension of
-// the cell: 0 points, 1 curves, 2 surfaces, 3 volumes.
+// header, checked against VTK 9.1's cell classes by
+// geom/meshio's TestCellNamesAgainstVTKLibrary), in words of our own
+// derived from the enumerator names (VTK_QUADRATIC_TRIANGLE is "quadratic
+// triangle"), with the dimension of the cell: 0 points, 1 curves, 2
+// surfaces, 3 volumes.
 var vtkCells = map[uint8]vtkCell{
-	0: {"empty cell", -1}, 1: {"vertex", 0}, 2: {"poly-vertex", 0}, 3: {"line", 1}, 4: {"poly-line", 1},
+	0: {"empty cell", 0}, 1: {"vertex", 0}, 2: {"poly-vertex", 0}, 3: {"line", 1}, 4: {"poly-line", 1},
 	5: {"triangle", 2}, 6: {"triangle strip", 2}, 7: {"polygon", 2}, 8: {"pixel", 2}, 9: {"quad", 2},
 	10: {"tetrahedron", 3}, 11: {"voxel", 3}, 12: {"hexahedron", 3}, 13: {"wedge", 3}, 14: {"pyramid", 3},
 	15: {"pentagonal prism", 3}, 16: {"hexagonal prism", 3},
@@ -104,9 +106,19 @@ func VTKCellName(t uint8) string {
 // messages show it: "polygon (VTK type 7)".
 func VTKCellKind(t uint8) string { return fmt.Sprintf("%s (VTK type %d)", VTKCellName(t), t) }
 
+// VTKCellDimension returns the dimension of the cells of VTK type t: 0
+// for points, 1 for curves, 2 for surfaces, 3 for volumes, and -1 for
+// numbers VTK does not define.
+func VTKCellDimension(t uint8) int {
+	if c, ok := vtkCells[t]; ok {
+		return int(c.dim)
+	}
+	return -1
+}
+
 // vtkSurfaceCell reports whether VTK cell type t is a surface cell (of
 // dimension 2): a shell Joinery would have to read.
-func vtkSurfaceCell(t uint8) bool { return vtkCells[t].dim == 2 }
+func vtkSurfaceCell(t uint8) bool { return VTKCellDimension(t) == 2 }
 
 // SkippedCells counts the cells of a file that its reader did not read,
 // by VTK cell type number.

@@ -14,8 +14,12 @@ import (
 // WriteInspectText writes an inspection for a person to read.
 func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 	ew := &errWriter{w: w}
-	ew.printf("model: %d mesh file(s), %d part(s), %s nodes, %s elements (%s quads, %s triangles)\n",
-		len(in.Files), len(in.Parts), group(in.Nodes), group(in.Elements), group(in.Quads), group(in.Triangles))
+	second := ""
+	if in.SecondOrder > 0 {
+		second = ", " + group(in.SecondOrder) + " of them second-order"
+	}
+	ew.printf("model: %d mesh file(s), %d part(s), %s nodes, %s elements (%s quads, %s triangles%s)\n",
+		len(in.Files), len(in.Parts), group(in.Nodes), group(in.Elements), group(in.Quads), group(in.Triangles), second)
 	ew.printf("mesh memory: %s bytes (%.0f bytes per element)\n", group(in.MemoryBytes), perElem(in.MemoryBytes, in.Elements))
 	for _, f := range in.Files {
 		ew.printf("  %s: %s nodes, %s elements%s\n", f.File, group(f.Nodes), group(f.Elements), skippedText(f.Skipped))

@@ -359,7 +359,7 @@ func TestSecondOrderBuild(t *testing.T) {
 	args := []string{"--mesh", filepath.Join(dir, "floor.vtk"), "--mesh", filepath.Join(dir, "beam.jmesh"),
 		"--parts", filepath.Join(dir, "parts.yaml"), "--joints", filepath.Join(dir, "welds.csv")}
 	code, out, errs := runCLI(t, append([]string{"inspect", "--deep"}, args...)...)
-	if code != exitOK || !strings.Contains(out, "164 elements (164 quads, 0 triangles)") {
+	if code != exitOK || !strings.Contains(out, "164 elements (164 quads, 0 triangles, 164 of them second-order)") {
 		t.Fatalf("inspect: exit %d, %s%s", code, out, errs)
 	}
 	outDir := filepath.Join(dir, "out")

@@ -47,8 +47,8 @@ func CheckMesh(m *geom.Mesh) error {
 		return fmt.Errorf("%d thicknesses for %d elements", len(m.ElemThickness), ne)
 	}
 	for e := range ne {
-		if k := m.ElemStart[e+1] - m.ElemStart[e]; k != 3 && k != 4 {
-			return fmt.Errorf("element %d (id %d) has %d nodes, want 3 or 4", e, m.ElemIDs[e], k)
+		if k := m.ElemStart[e+1] - m.ElemStart[e]; k < 0 || k > geom.MaxElemNodes || !geom.ElemType(k).Valid() {
+			return fmt.Errorf("element %d (id %d) has %d nodes, want 3, 4, 6, 8 or 9", e, m.ElemIDs[e], k)
 		}
 		for _, n := range m.ElemNodes(e) {
 			if n < 0 || int(n) >= nn {

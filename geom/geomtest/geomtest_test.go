@@ -96,7 +96,7 @@ func TestCheckMesh(t *testing.T) {
 		{"starts", func(m *geom.Mesh) { m.ElemStart = m.ElemStart[:5] }, "5 elements, 5 part indices, 5 starts (want 6)"},
 		{"conn", func(m *geom.Mesh) { m.Conn = append(m.Conn, 0) }, "starts run from 0 to 19, want 0 to 20 (len(Conn))"},
 		{"thickness", func(m *geom.Mesh) { m.ElemThickness = m.ElemThickness[:4] }, "4 thicknesses for 5 elements"},
-		{"five nodes", func(m *geom.Mesh) { m.ElemStart[4] = 17 }, "element 3 (id 1004) has 5 nodes, want 3 or 4"},
+		{"five nodes", func(m *geom.Mesh) { m.ElemStart[4] = 17 }, "element 3 (id 1004) has 5 nodes, want 3, 4, 6, 8 or 9"},
 		{"node index", func(m *geom.Mesh) { m.Conn[18] = 12 }, "element 4 (id 2001): node index 12 out of range (12 nodes)"},
 		{"part index", func(m *geom.Mesh) { m.ElemPart[1] = -1 }, "element 1 (id 1002): part index -1 out of range (2 parts)"},
 		{"element id", func(m *geom.Mesh) { m.ElemIDs[0] = 9 }, "ElemIndex(9) = -1, false; want 0"},

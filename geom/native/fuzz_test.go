@@ -23,6 +23,7 @@ func FuzzRead(f *testing.F) {
 		"joinery-mesh 1\nnode 1 0 0 0\nnode 1 0 0 0\n",
 		"joinery-mesh 1\npart 1 surface=top material=x\npart 1\n",
 		"joinery-mesh 1\nshell 9 1 1 2 3 4 5 6\n",
+		"joinery-mesh 1\nnode 1 0 0 0\nnode 2 2 0 0\nnode 3 2 2 0\nnode 4 0 2 0\nnode 5 1 0 0\nnode 6 2 1 0\nnode 7 1 2 0\nnode 8 0 1 0\nnode 9 1 1 .5\nshell 1 1 1 2 3 4 5 6 7 8 9\nshell 2 1 1 2 3 4 5 6 7 8 t=2\nshell 3 1 1 2 4 5 9 8\n",
 		"# c\n\n\tjoinery-mesh 1 # v\nnode 9223372036854775807 -0 .5 5.\n",
 	} {
 		f.Add([]byte(s))

@@ -55,6 +55,7 @@ type Inspection struct {
 	Elements     int           `json:"elements"`
 	Triangles    int           `json:"triangles"`
 	Quads        int           `json:"quads"`
+	SecondOrder  int           `json:"second_order"` // of the elements, Tri6, Quad8 and Quad9
 	Skipped      []CellCount   `json:"skipped_cells"`
 	Parts        []PartSummary `json:"parts"`
 	Renumbered   []Shift       `json:"renumbered,omitempty"`
@@ -208,6 +209,7 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 		s := stats[i]
 		in.Triangles += s.Tris
 		in.Quads += s.Quads
+		in.SecondOrder += s.SecondOrder
 		ps := PartSummary{
 			ID: p.ID, Name: p.Name, Material: p.Material, Surface: p.Surface.String(), Thickness: p.Thickness,
 			ThicknessMin: s.ThicknessMin, ThicknessMax: s.ThicknessMax,
