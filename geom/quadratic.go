@@ -415,10 +415,10 @@ func (s *patch) stationary(p r3.Vec, u, v float64) bool {
 	x, xu, xv, _, _, _ := s.eval(u, v)
 	d := r3.Sub(x, p)
 	g1, g2 := r3.Dot(xu, d), r3.Dot(xv, d)
-	dn := r3.Norm(d)
+	dn := vnorm(d)
 	floor := 1e-14 * math.Sqrt(r3.Norm2(xu)+r3.Norm2(xv))
-	tol1 := 1e-8*r3.Norm(xu)*dn + floor*r3.Norm(xu)
-	tol2 := 1e-8*r3.Norm(xv)*dn + floor*r3.Norm(xv)
+	tol1 := 1e-8*vnorm(xu)*dn + floor*vnorm(xu)
+	tol2 := 1e-8*vnorm(xv)*dn + floor*vnorm(xv)
 	small := func(r1, r2 float64) bool { return math.Abs(r1) <= tol1 && math.Abs(r2) <= tol2 }
 	if small(g1, g2) {
 		return true
@@ -459,7 +459,7 @@ func (s *patch) stationary(p r3.Vec, u, v float64) bool {
 // |x - p| at most |p - x0| plus a bound of |x - x0| over the domain from
 // the monomial coefficients.
 func (s *patch) convexFor(p r3.Vec) bool {
-	n := func(p, q int) float64 { return r3.Norm(s.a[p][q]) }
+	n := func(p, q int) float64 { return vnorm(s.a[p][q]) }
 	var u0, v0, r float64 // centre and half-width of the domain
 	var dU, dV, bUU, bUV, bVV float64
 	if s.tri {
@@ -488,7 +488,7 @@ func (s *patch) convexFor(p r3.Vec) bool {
 	// |x - x0| <= |x - a00| + |a00 - x0|, and |x - a00| is at most the
 	// sum of the other coefficients' norms (|u|, |v| <= 1 on both
 	// domains).
-	reach := r3.Norm(r3.Sub(s.a[0][0], x0))
+	reach := vnorm(r3.Sub(s.a[0][0], x0))
 	for p := range 3 {
 		for q := range 3 {
 			if p+q > 0 {
@@ -497,7 +497,7 @@ func (s *patch) convexFor(p r3.Vec) bool {
 		}
 	}
 	curv := math.Sqrt(bUU*bUU + 2*bUV*bUV + bVV*bVV)
-	return smin*smin > (r3.Norm(r3.Sub(p, x0))+reach)*curv*(1+1e-9)
+	return smin*smin > (vnorm(r3.Sub(p, x0))+reach)*curv*(1+1e-9)
 }
 
 // Settings of the search on second-order elements when the Newton
@@ -721,7 +721,7 @@ func (s *patch) area() float64 {
 	sum := 0.0
 	s.integrate(4, func(u, v, w float64) {
 		a, b := s.tangents(u, v)
-		sum += w * r3.Norm(r3.Cross(a, b))
+		sum += w * vnorm(r3.Cross(a, b))
 	})
 	return sum
 }
@@ -821,3 +821,7 @@ func CurveDistance(q, a, m, b r3.Vec) (dist, t float64) {
 	}
 	return math.Sqrt(best), bestT
 }
+
+// vnorm is the length of v, without the overflow guard of r3.Norm
+// (math.Hypot), which mesh coordinates do not need.
+func vnorm(v r3.Vec) float64 { return math.Sqrt(r3.Norm2(v)) }

@@ -15,8 +15,9 @@ import (
 // which every VTK version reads. binary selects the BINARY encoding
 // (big-endian, as the format specifies) over ASCII.
 //
-// Points are written as double, in ASCII with the shortest decimal form
-// that reads back to the same float64. POINT_DATA holds "node_id";
+// Elements are written as VTK cells of types 5, 9, 22, 23 and 28
+// (geom.VTKCellType). Points are written as double, in ASCII with the
+// shortest decimal form that reads back to the same float64. POINT_DATA holds "node_id";
 // CELL_DATA holds "part" (the part id), "thickness" (double: the
 // element's own thickness, else its part's) and "element_id". The id
 // arrays are of type int when every value fits in 32 bits, vtktypeint64
