@@ -17,9 +17,12 @@ const ThicknessTolerance = 1e-3
 
 // ThicknessMismatches reports, as run-level warnings, the parts whose
 // elements in some file carry thicknesses of their own that differ from
-// the part's by more than ThicknessTolerance: the elements' values are
-// used (they may vary within a part, as in tailored blanks), so the
-// part's value is not the one that counts there.
+// the parts table's by more than ThicknessTolerance: the elements' values
+// are used (they may vary within a part, as in tailored blanks), so the
+// table's value is not the one that counts there. Call it for a mesh
+// whose parts took their thicknesses from a parts table (meshio.Load
+// with LoadOptions.Parts): without a table, a file's elements that
+// override its own part records do so by design.
 func ThicknessMismatches(m *geom.Mesh) []Finding {
 	var out []Finding
 	for _, c := range m.ThicknessClashes(ThicknessTolerance) {
@@ -29,7 +32,7 @@ func ThicknessMismatches(m *geom.Mesh) []Finding {
 			vals = "from " + MM(c.Min) + " to " + MM(c.Max) + " mm"
 		}
 		out = append(out, Finding{Severity: Warning, Code: CodeThicknessClash, Parts: []int64{p.ID},
-			Message: fmt.Sprintf("part %d: %s gives %d element(s) a thickness of %s where the part has %s mm; the file's values are used",
+			Message: fmt.Sprintf("part %d: %s gives %d element(s) a thickness of %s where the parts table gives %s mm; the file's values are used",
 				p.ID, c.File, c.Elems, vals, MM(c.PartThickness))})
 	}
 	return out

@@ -60,7 +60,7 @@ func runInspect(c *cobra.Command, o *inspectOptions, g *globalOptions, args []st
 		return err
 	}
 	m := in.Model
-	rep := inspect.Run(inspect.ModelInfo{Mesh: m.Mesh, Renumbered: m.Renumbered, UnusedParts: m.UnusedParts}, in.Joints, o.inspect)
+	rep := inspect.Run(inspect.ModelInfo{Mesh: m.Mesh, Renumbered: m.Renumbered, UnusedParts: m.UnusedParts, PartsTable: job.Parts != ""}, in.Joints, o.inspect)
 	if g.json {
 		return g.writeJSON(rep)
 	}

@@ -265,7 +265,7 @@ func TestThicknessRule(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	wantMsg := "part 2: " + filepath.Join(dir, "beam.vtk") + " gives 100 element(s) a thickness of 1 mm where the part has 1.2 mm; the file's values are used"
+	wantMsg := "part 2: " + filepath.Join(dir, "beam.vtk") + " gives 100 element(s) a thickness of 1 mm where the parts table gives 1.2 mm; the file's values are used"
 	if !strings.Contains(out, "warning thickness-mismatch: "+wantMsg) {
 		t.Errorf("inspect lacks the warning:\n%s", out)
 	}

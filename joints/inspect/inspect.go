@@ -170,6 +170,9 @@ type ModelInfo struct {
 	Mesh        *geom.Mesh
 	Renumbered  []geom.Renumbering
 	UnusedParts []int64
+	// PartsTable is set when the parts' thicknesses come from a parts
+	// table, so that element thicknesses that disagree are reported.
+	PartsTable bool
 }
 
 // Run summarises a model and its joints.
@@ -222,8 +225,10 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 		in.Parts = append(in.Parts, ps)
 	}
 	in.MissingThick = m.PartsWithoutThickness()
-	for _, f := range joints.ThicknessMismatches(m) {
-		in.Warnings = append(in.Warnings, Warning{Code: f.Code, Parts: f.Parts, Message: f.Message})
+	if mi.PartsTable {
+		for _, f := range joints.ThicknessMismatches(m) {
+			in.Warnings = append(in.Warnings, Warning{Code: f.Code, Parts: f.Parts, Message: f.Message})
+		}
 	}
 	if opt.Deep {
 		deepLook(m, in, opt)

@@ -9,7 +9,7 @@ import (
 // ModelFindings returns the run-level findings about the model a job
 // read: for every mesh file whose reader skipped cells, cells-skipped
 // (info) naming the file, the cell kinds and their counts; for every part
-// whose elements carry thicknesses that disagree with the part's,
+// whose elements carry thicknesses that disagree with the parts table,
 // thickness-mismatch (warning, see joints.ThicknessMismatches).
 func (in *Inputs) ModelFindings() []joints.Finding {
 	var out []joints.Finding
@@ -17,5 +17,8 @@ func (in *Inputs) ModelFindings() []joints.Finding {
 		out = append(out, joints.Finding{Severity: joints.Info, Code: joints.CodeCellsSkipped,
 			Message: fmt.Sprintf("%s: %d cell(s) of kinds Joinery does not read were skipped: %s", f.File, f.Cells.Total(), f.Cells)})
 	}
-	return append(out, joints.ThicknessMismatches(in.Model.Mesh)...)
+	if in.Job.Parts != "" {
+		out = append(out, joints.ThicknessMismatches(in.Model.Mesh)...)
+	}
+	return out
 }
