@@ -29,8 +29,7 @@ func (m *Mesh) Centroid(e int) r3.Vec {
 // dx/dxi x dx/deta: the area of its projection onto its mean plane.
 func (m *Mesh) areaVector(e int) r3.Vec {
 	if m.Type(e).Quadratic() {
-		s := m.patchOf(e)
-		return s.areaVector()
+		return m.quadraticAreaVector(e)
 	}
 	a, b, c := m.Corner(e, 0), m.Corner(e, 1), m.Corner(e, 2)
 	if m.Type(e).Corners() == 3 {
@@ -60,8 +59,7 @@ func (m *Mesh) Normal(e int) r3.Vec {
 // patch.area).
 func (m *Mesh) Area(e int) float64 {
 	if m.Type(e).Quadratic() {
-		s := m.patchOf(e)
-		return s.area()
+		return m.quadraticArea(e)
 	}
 	return r3.Norm(m.areaVector(e))
 }

@@ -50,8 +50,7 @@ func (it nodeItems) Box(i int) (lo, hi r3.Vec) { return it.c[i], it.c[i] }
 // without nodes has an empty box (lo > hi). NaN coordinates are ignored.
 func elemBox(m *Mesh, e int) (lo, hi r3.Vec) {
 	if m.Type(e).Quadratic() {
-		s := m.patchOf(e)
-		return controlBox(&s)
+		return quadraticBox(m, e)
 	}
 	lo = r3.Vec{X: math.Inf(1), Y: math.Inf(1), Z: math.Inf(1)}
 	hi = r3.Vec{X: math.Inf(-1), Y: math.Inf(-1), Z: math.Inf(-1)}

@@ -263,6 +263,13 @@ func controlBox(s *patch) (lo, hi r3.Vec) {
 	return lo, hi
 }
 
+// quadraticBox is elemBox for second-order element e, out of line so
+// that the linear elements' path stays small.
+func quadraticBox(m *Mesh, e int) (lo, hi r3.Vec) {
+	s := m.patchOf(e)
+	return controlBox(&s)
+}
+
 // A constraint n . (u, v) <= c of the parameter domain.
 type constraint struct{ nu, nv, c float64 }
 
@@ -724,6 +731,18 @@ func (s *patch) area() float64 {
 		sum += w * vnorm(r3.Cross(a, b))
 	})
 	return sum
+}
+
+// quadraticAreaVector is areaVector for second-order element e.
+func (m *Mesh) quadraticAreaVector(e int) r3.Vec {
+	s := m.patchOf(e)
+	return s.areaVector()
+}
+
+// quadraticArea is Area for second-order element e.
+func (m *Mesh) quadraticArea(e int) float64 {
+	s := m.patchOf(e)
+	return s.area()
 }
 
 // patchOf returns the patch of second-order element e.

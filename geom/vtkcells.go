@@ -24,20 +24,13 @@ const (
 // cells as Joinery does: the corners around the element, then the
 // midside nodes of the edges from corner 0 on, then the centre.
 func VTKElemType(t uint8) (ElemType, bool) {
-	switch t {
-	case VTKTriangle:
-		return Tri3, true
-	case VTKQuad:
-		return Quad4, true
-	case VTKQuadraticTriangle:
-		return Tri6, true
-	case VTKQuadraticQuad:
-		return Quad8, true
-	case VTKBiquadraticQuad:
-		return Quad9, true
-	}
-	return 0, false
+	n := vtkElemNodes[t]
+	return ElemType(n), n != 0
 }
+
+// vtkElemNodes is a read-only table of the node count of the element
+// each VTK cell type is read as, 0 for the types Joinery skips.
+var vtkElemNodes = [256]int8{VTKTriangle: 3, VTKQuad: 4, VTKQuadraticTriangle: 6, VTKQuadraticQuad: 8, VTKBiquadraticQuad: 9}
 
 // VTKCellType returns the VTK cell type number of an element type.
 func VTKCellType(t ElemType) (uint8, bool) {

@@ -279,16 +279,6 @@ func (r *reader) parseChunk(c *chunk) {
 	partIDs := r.partIDs[c.elemBase : c.elemBase+c.elems]
 	starts := m.ElemStart[c.elemBase+1 : c.elemBase+c.elems+1]
 	conn := r.connIDs[4*c.elemBase : 4*(c.elemBase+c.elems)]
-	// room makes room for n more node ids: second-order shells may
-	// overflow the 4 per shell connIDs holds.
-	room := func(nc, n int) {
-		if nc+n <= len(conn) {
-			return
-		}
-		w := make([]int64, max(nc+n, geom.MaxElemNodes*len(elemIDs)))
-		copy(w, conn[:nc])
-		conn, c.conn = w, w
-	}
 	var shellNodes [geom.MaxElemNodes]int64
 	var nn, ne, nc int
 	line := c.line0
@@ -319,7 +309,10 @@ func (r *reader) parseChunk(c *chunk) {
 				if c.thickness != nil {
 					c.thickness[ne] = math.NaN()
 				}
-				room(nc, n)
+				if nc+n > len(conn) {
+					conn = growConn(conn, nc, n, len(elemIDs))
+					c.conn = conn
+				}
 				copy(conn[nc:], shellNodes[:n])
 				nc += n
 				elemIDs[ne], partIDs[ne], starts[ne] = id, pid, int32(nc)
@@ -455,7 +448,10 @@ func (r *reader) parseChunk(c *chunk) {
 				fail("shell %d: needs 3, 4, 6, 8 or 9 node ids, has %d", id, n)
 				return
 			}
-			room(nc, n)
+			if nc+n > len(conn) {
+				conn = growConn(conn, nc, n, len(elemIDs))
+				c.conn = conn
+			}
 			copy(conn[nc:], shellNodes[:n])
 			if !math.IsNaN(t) && c.thickness == nil {
 				c.thickness = make([]float64, len(elemIDs))
@@ -491,6 +487,15 @@ func (r *reader) parseChunk(c *chunk) {
 		return
 	}
 	c.nconn = nc
+}
+
+// growConn returns a copy of the first nc node ids of conn with room for
+// n more, and for second-order shells of all elems shells: the 4 per
+// shell the reader's connIDs holds do not suffice for them.
+func growConn(conn []int64, nc, n, elems int) []int64 {
+	w := make([]int64, max(nc+n, geom.MaxElemNodes*elems))
+	copy(w, conn[:nc])
+	return w
 }
 
 // The fast paths below read records in the layout writers use: fields

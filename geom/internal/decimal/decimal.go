@@ -71,6 +71,102 @@ func ParseSpecial(s []byte) (v float64, ok bool) {
 // false when s does not start with a number or its exponent has no
 // digits.
 func Scan(s []byte) (v float64, n int, ok bool) {
+	// The mantissa of a number of at most 19 digits, leading zeros
+	// included, fits in a uint64: the common case takes one tight loop
+	// per part; longer mantissas go to scanLong.
+	i := 0
+	neg := false
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		neg = s[i] == '-'
+		i++
+	}
+	start := i
+	var mant uint64
+	for ; i < len(s); i++ {
+		c := s[i] - '0'
+		if c > 9 {
+			break
+		}
+		mant = mant*10 + uint64(c)
+	}
+	nd := i - start
+	dp := 0
+	if i < len(s) && s[i] == '.' {
+		i++
+		fs := i
+		for ; i < len(s); i++ {
+			c := s[i] - '0'
+			if c > 9 {
+				break
+			}
+			mant = mant*10 + uint64(c)
+		}
+		dp = fs - i
+		nd -= dp
+	}
+	switch {
+	case nd == 0:
+		return 0, 0, false
+	case nd > 19:
+		return scanLong(s)
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		e, j, ok := exponent(s, i+1)
+		if !ok {
+			return 0, 0, false
+		}
+		dp += e
+		i = j
+	}
+	// Clinger's fast path for the usual short numbers, here rather than
+	// in convert to save a call per number.
+	if mant <= 1<<53 && dp >= -22 && dp <= 22 {
+		f := float64(mant)
+		switch {
+		case dp > 0:
+			f *= pow10[dp]
+		case dp < 0:
+			f /= pow10[-dp]
+		}
+		if neg {
+			f = -f
+		}
+		return f, i, true
+	}
+	return convert(s, i, neg, mant, dp, false)
+}
+
+// exponent reads the optionally signed digits of an exponent from s[i:]
+// and returns its value (capped far beyond any float64 exponent) and the
+// index after it; ok is false when there are no digits.
+func exponent(s []byte, i int) (e, j int, ok bool) {
+	eneg := false
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		eneg = s[i] == '-'
+		i++
+	}
+	es := i
+	for ; i < len(s); i++ {
+		c := s[i] - '0'
+		if c > 9 {
+			break
+		}
+		if e < 100000 {
+			e = e*10 + int(c)
+		}
+	}
+	if i == es {
+		return 0, 0, false
+	}
+	if eneg {
+		e = -e
+	}
+	return e, i, true
+}
+
+// scanLong is Scan for mantissas of more than 19 digits: it keeps the 19
+// significant ones and notes whether non-zero digits were dropped.
+func scanLong(s []byte) (v float64, n int, ok bool) {
 	i := 0
 	neg := false
 	if i < len(s) && (s[i] == '+' || s[i] == '-') {
@@ -124,30 +220,21 @@ func Scan(s []byte) (v float64, n int, ok bool) {
 		return 0, 0, false
 	}
 	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
-		i++
-		eneg := false
-		if i < len(s) && (s[i] == '+' || s[i] == '-') {
-			eneg = s[i] == '-'
-			i++
-		}
-		e, es := 0, i
-		for ; i < len(s); i++ {
-			c := s[i] - '0'
-			if c > 9 {
-				break
-			}
-			if e < 100000 {
-				e = e*10 + int(c)
-			}
-		}
-		if i == es {
+		e, j, ok := exponent(s, i+1)
+		if !ok {
 			return 0, 0, false
 		}
-		if eneg {
-			e = -e
-		}
 		dp += e
+		i = j
 	}
+	return convert(s, i, neg, mant, dp, trunc)
+}
+
+// convert returns the value of the number s[:i], whose mantissa digits
+// (without sign, point and exponent) are mant times 10^dp, trunc telling
+// that non-zero digits beyond mant were dropped: by Clinger's fast path
+// when it is exact, else by strconv.ParseFloat.
+func convert(s []byte, i int, neg bool, mant uint64, dp int, trunc bool) (float64, int, bool) {
 	if mant == 0 {
 		if neg {
 			return math.Copysign(0, -1), i, true
