@@ -60,7 +60,7 @@ type Job struct {
 	Renumber *bool    `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").
-	PartArray string   `yaml:"part_array,omitempty"`
+	PartArray string   `yaml:"part_array,omitempty" json:",omitempty"` // omitted when empty, so that run ids of jobs without it keep their value
 	Build     JobBuild `yaml:"build,omitempty"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
