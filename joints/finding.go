@@ -5,6 +5,8 @@ import (
 	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // Severity ranks findings.
@@ -41,7 +43,7 @@ func ParseFailOn(s string) (Severity, bool, error) {
 	case "never":
 		return Error, false, nil
 	}
-	return Error, false, fmt.Errorf("unknown failure level %q (want error, warning, info or never)", s)
+	return Error, false, fmt.Errorf("unknown failure level %q (want error, warning, info or never)", geom.Excerpt(s))
 }
 
 // Finding codes. Each names one kind of problem a run can report; the

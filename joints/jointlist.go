@@ -4,7 +4,6 @@ import (
 	"cmp"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -40,7 +39,7 @@ func ParseKind(s string) (Kind, error) {
 	case "bolt":
 		return Bolt, nil
 	}
-	return Spot, fmt.Errorf("unknown joint kind %q (want spot or bolt)", s)
+	return Spot, fmt.Errorf("unknown joint kind %q (want spot or bolt)", geom.Excerpt(s))
 }
 
 // jointKeys returns the known CSV columns, which are also the YAML keys.
@@ -130,9 +129,9 @@ func readJointList(path string, digest io.Writer) (*jointList, error) {
 	case ".yaml", ".yml":
 		read = readJointsYAML
 	default:
-		return nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", ext)
+		return nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", geom.Excerpt(ext))
 	}
-	f, err := os.Open(path)
+	f, err := geom.OpenRegular(path)
 	if err != nil {
 		return nil, fmt.Errorf("joints: reading joint list: %w", err)
 	}
@@ -228,7 +227,7 @@ func csvJoint(c *tabular.CSV, rec, keys []string, at []int, j *Joint) error {
 		for s := range strings.SplitSeq(rec[col], ";") {
 			id, err := strconv.ParseInt(strings.TrimSpace(s), 10, 64)
 			if err != nil {
-				return c.Errorf(col, "parts: %q is not a list of part ids separated by ';'", rec[col])
+				return c.Errorf(col, "parts: %q is not a list of part ids separated by ';'", geom.Excerpt(rec[col]))
 			}
 			if err := addPart(j, id); err != nil {
 				return c.Errorf(col, "parts: %w", err)
@@ -401,9 +400,9 @@ func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, err
 	case idLine == 0:
 		return 0, y.Errorf(it, "joint has no id")
 	case point && (coords[0] || coords[1] || coords[2]):
-		return 0, y.Errorf(it, "joint %q: give either point or x, y and z, not both", j.ID)
+		return 0, y.Errorf(it, "joint %q: give either point or x, y and z, not both", geom.Excerpt(j.ID))
 	case !point && !(coords[0] && coords[1] && coords[2]):
-		return 0, y.Errorf(it, "joint %q: no point (give point: [x, y, z] or x, y and z)", j.ID)
+		return 0, y.Errorf(it, "joint %q: no point (give point: [x, y, z] or x, y and z)", geom.Excerpt(j.ID))
 	}
 	return idLine, nil
 }
@@ -445,7 +444,7 @@ func (l *jointList) add(j Joint, idLine int) error {
 	case j.ID == "":
 		return geom.LineError(l.file, idLine, "joint id is empty")
 	case strings.ContainsFunc(j.ID, unicode.IsControl):
-		return geom.LineError(l.file, idLine, "joint id %q holds a control character", j.ID)
+		return geom.LineError(l.file, idLine, "joint id %q holds a control character", geom.Excerpt(j.ID))
 	}
 	if prev, dup := l.idLine[j.ID]; dup {
 		return geom.LineError(l.file, idLine, "joint id %q given twice (lines %d and %d)", j.ID, prev, idLine)

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // Attach says how a connector end is tied to its sheet.
@@ -44,7 +46,7 @@ func ParseAttach(s string) (Attach, error) {
 	case "patch":
 		return Patch, nil
 	}
-	return Interpolated, fmt.Errorf("unknown attachment %q (want interpolated, node-pair or patch)", s)
+	return Interpolated, fmt.Errorf("unknown attachment %q (want interpolated, node-pair or patch)", geom.Excerpt(s))
 }
 
 // dofName returns the name of degree of freedom i (0 to 5), in the order
@@ -74,10 +76,10 @@ func ParseDOFs(names ...string) (DOFs, error) {
 				}
 			}
 			if i < 0 {
-				return 0, fmt.Errorf("unknown degree of freedom %q (want tx ty tz rx ry rz)", f)
+				return 0, fmt.Errorf("unknown degree of freedom %q (want tx ty tz rx ry rz)", geom.Excerpt(f))
 			}
 			if d&(1<<i) != 0 {
-				return 0, fmt.Errorf("degree of freedom %q given twice", f)
+				return 0, fmt.Errorf("degree of freedom %q given twice", geom.Excerpt(f))
 			}
 			d |= 1 << i
 		}

@@ -3,7 +3,6 @@ package meshio
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -34,9 +33,9 @@ func readParts(path string, digest io.Writer) ([]geom.Part, error) {
 	case ".csv":
 		read = ReadPartsCSV
 	default:
-		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", ext)
+		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", geom.Excerpt(ext))
 	}
-	f, err := os.Open(path)
+	f, err := geom.OpenRegular(path)
 	if err != nil {
 		return nil, fmt.Errorf("meshio: reading parts table: %w", err)
 	}
@@ -235,7 +234,7 @@ func parseSurface(s string) (geom.Surface, error) {
 // checkMeshName accepts "" and file base names.
 func checkMeshName(s string) error {
 	if strings.ContainsAny(s, `/\`) {
-		return fmt.Errorf("mesh: %q is not a file base name (write floor.vtk, not a path)", s)
+		return fmt.Errorf("mesh: %q is not a file base name (write floor.vtk, not a path)", geom.Excerpt(s))
 	}
 	return nil
 }
@@ -264,7 +263,7 @@ func (t *partTable) add(p geom.Part, idLine, meshLine int) error {
 	t.idLine[p.ID] = idLine
 	if p.Mesh != "" {
 		if prev, dup := t.meshLine[p.Mesh]; dup {
-			return geom.LineError(t.file, meshLine, "mesh %q given to two parts (lines %d and %d)", p.Mesh, prev, meshLine)
+			return geom.LineError(t.file, meshLine, "mesh %q given to two parts (lines %d and %d)", geom.Excerpt(p.Mesh), prev, meshLine)
 		}
 		t.meshLine[p.Mesh] = meshLine
 	}

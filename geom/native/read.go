@@ -346,7 +346,7 @@ func (r *reader) parseChunk(c *chunk) {
 			}
 			id, ok := parseInt(f[0])
 			if !ok {
-				fail("node id %q is not an integer", f[0])
+				fail("node id %q is not an integer", geom.Excerpt(f[0]))
 				return
 			}
 			if id <= 0 {
@@ -357,7 +357,7 @@ func (r *reader) parseChunk(c *chunk) {
 			for k := range p {
 				v, ok := parseFloat(f[k+1])
 				if !ok || math.IsInf(v, 0) {
-					fail("node %d: %c coordinate %q is not a finite decimal number", id, "xyz"[k], f[k+1])
+					fail("node %d: %c coordinate %q is not a finite decimal number", id, "xyz"[k], geom.Excerpt(f[k+1]))
 					return
 				}
 				p[k] = v
@@ -377,7 +377,7 @@ func (r *reader) parseChunk(c *chunk) {
 				if f == nil {
 					fail("shell record needs an element id, a part id and 3 or 4 node ids")
 				} else {
-					fail("shell id %q is not an integer", f)
+					fail("shell id %q is not an integer", geom.Excerpt(f))
 				}
 				return
 			}
@@ -391,7 +391,7 @@ func (r *reader) parseChunk(c *chunk) {
 				if f == nil {
 					fail("shell %d: no part id", id)
 				} else {
-					fail("shell %d: part id %q is not an integer", id, f)
+					fail("shell %d: part id %q is not an integer", id, geom.Excerpt(f))
 				}
 				return
 			}
@@ -409,7 +409,7 @@ func (r *reader) parseChunk(c *chunk) {
 				if len(f) > 2 && f[0] == 't' && f[1] == '=' {
 					v, ok := parseFloat(f[2:])
 					if !ok || !(v > 0) || math.IsInf(v, 0) {
-						fail("shell %d: thickness %q is not a positive finite number", id, f[2:])
+						fail("shell %d: thickness %q is not a positive finite number", id, geom.Excerpt(f[2:]))
 						return
 					}
 					if more := countFields(l, i); more != 0 {
@@ -421,7 +421,7 @@ func (r *reader) parseChunk(c *chunk) {
 				}
 				nid, ok := parseInt(f)
 				if !ok {
-					fail("shell %d: node id %q is not an integer", id, f)
+					fail("shell %d: node id %q is not an integer", id, geom.Excerpt(f))
 					return
 				}
 				if nid <= 0 {
@@ -466,7 +466,7 @@ func (r *reader) parseChunk(c *chunk) {
 			fail("the header %q may only be the first record", Header)
 			return
 		default:
-			fail("unknown record %q (want part, node or shell)", kw)
+			fail("unknown record %q (want part, node or shell)", geom.Excerpt(kw))
 			return
 		}
 	}
@@ -583,7 +583,7 @@ func (r *reader) header(l []byte, fail func(string, ...any)) bool {
 	case v == nil:
 		fail("header has no format version (want %q)", Header)
 	case string(v) != "1":
-		fail("format version %q is not supported (this reader reads version %d)", v, Version)
+		fail("format version %q is not supported (this reader reads version %d)", geom.Excerpt(v), Version)
 	case countFields(l, i) != 0:
 		fail("header has extra fields (want %q)", Header)
 	default:
@@ -602,7 +602,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		fail("part record needs a part id")
 		return p, false
 	case !ok:
-		fail("part id %q is not an integer", f)
+		fail("part id %q is not an integer", geom.Excerpt(f))
 		return p, false
 	case id <= 0:
 		fail("part id %d is not positive", id)
@@ -621,7 +621,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		}
 		key, val, ok := bytes.Cut(f, []byte{'='})
 		if !ok {
-			fail("part %d: field %q is not key=value", id, f)
+			fail("part %d: field %q is not key=value", id, geom.Excerpt(f))
 			return p, false
 		}
 		k := -1
@@ -639,7 +639,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 			val = bytes.TrimLeft(val, " \t\r")
 			i = len(l)
 		default:
-			fail("part %d: unknown key %q (want thickness, surface, material or name)", id, key)
+			fail("part %d: unknown key %q (want thickness, surface, material or name)", id, geom.Excerpt(key))
 			return p, false
 		}
 		if seen[k] {
@@ -655,7 +655,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		case 0:
 			t, ok := parseFloat(val)
 			if !ok || !(t > 0) || math.IsInf(t, 0) {
-				fail("part %d: thickness %q is not a positive finite number", id, val)
+				fail("part %d: thickness %q is not a positive finite number", id, geom.Excerpt(val))
 				return p, false
 			}
 			p.Thickness = t

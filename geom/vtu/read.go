@@ -262,7 +262,7 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			case "BigEndian":
 				p.bigEndian = true
 			default:
-				return p.errLine(p.fileLine, "byte_order %q: want LittleEndian or BigEndian", a.Value)
+				return p.errLine(p.fileLine, "byte_order %q: want LittleEndian or BigEndian", geom.Excerpt(a.Value))
 			}
 		case "header_type":
 			switch a.Value {
@@ -270,7 +270,7 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			case "UInt64":
 				p.header64 = true
 			default:
-				return p.errLine(p.fileLine, "header_type %q: want UInt32 or UInt64", a.Value)
+				return p.errLine(p.fileLine, "header_type %q: want UInt32 or UInt64", geom.Excerpt(a.Value))
 			}
 		case "compressor":
 			switch a.Value {
@@ -278,12 +278,12 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			case "vtkZLibDataCompressor":
 				p.compressed = true
 			default:
-				return p.errLine(p.fileLine, "compressor %q is not supported (only vtkZLibDataCompressor)", a.Value)
+				return p.errLine(p.fileLine, "compressor %q is not supported (only vtkZLibDataCompressor)", geom.Excerpt(a.Value))
 			}
 		}
 	}
 	if typ != "UnstructuredGrid" {
-		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid", typ)
+		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid", geom.Excerpt(typ))
 	}
 	return nil
 }
@@ -334,7 +334,7 @@ func (p *parser) piece(se xml.StartElement) error {
 		}
 		v, err := strconv.ParseInt(a.Value, 10, 64)
 		if err != nil || v < 0 || v > maxCount {
-			return p.errLine(pc.line, "Piece %s=%q is not a valid count", a.Name.Local, a.Value)
+			return p.errLine(pc.line, "Piece %s=%q is not a valid count", a.Name.Local, geom.Excerpt(a.Value))
 		}
 		*dst = v
 	}
@@ -437,7 +437,9 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 	for _, at := range se.Attr {
 		switch at.Name.Local {
 		case "Name":
-			a.name = at.Value
+			// Cut to an excerpt for messages: a long name is none of
+			// the few Joinery reads either way.
+			a.name = geom.Excerpt(at.Value)
 		case "type":
 			a.typ = parseType(at.Value)
 			if a.typ < 0 {
@@ -446,7 +448,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 		case "NumberOfComponents":
 			v, err := strconv.Atoi(at.Value)
 			if err != nil || v < 1 || v > 1<<20 {
-				return nil, p.errLine(a.line, "DataArray %q: NumberOfComponents=%q is not a positive count", a.name, at.Value)
+				return nil, p.errLine(a.line, "DataArray %q: NumberOfComponents=%q is not a positive count", a.name, geom.Excerpt(at.Value))
 			}
 			a.ncomp = v
 		case "format":
@@ -454,7 +456,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 		case "offset":
 			v, err := strconv.ParseInt(at.Value, 10, 64)
 			if err != nil || v < 0 {
-				return nil, p.errLine(a.line, "DataArray %q: offset=%q is not a valid offset", a.name, at.Value)
+				return nil, p.errLine(a.line, "DataArray %q: offset=%q is not a valid offset", a.name, geom.Excerpt(at.Value))
 			}
 			a.offset = v
 		}
@@ -470,7 +472,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 			return nil, p.errLine(a.line, "appended DataArray %q has no offset attribute", a.name)
 		}
 	default:
-		return nil, p.errLine(a.line, "DataArray %q: unknown format %q", a.name, formatName)
+		return nil, p.errLine(a.line, "DataArray %q: unknown format %q", a.name, geom.Excerpt(formatName))
 	}
 	if a.typ < 0 {
 		return nil, p.errLine(a.line, "DataArray %q has no type attribute", a.name)
@@ -584,7 +586,7 @@ func (p *parser) appended(se xml.StartElement) error {
 	case "base64":
 		p.appendedB64 = true
 	default:
-		return p.errLine(p.appendedLine, "AppendedData encoding %q: want raw or base64", enc)
+		return p.errLine(p.appendedLine, "AppendedData encoding %q: want raw or base64", geom.Excerpt(enc))
 	}
 	pos := p.rd.pos
 	if int64(pos) != p.dec.InputOffset()+p.skipped || (pos >= 2 && p.data[pos-2] == '/') {

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"os"
 	"path/filepath"
 
 	"gopkg.in/yaml.v3"
@@ -122,7 +121,7 @@ func (b *JobBuild) Apply(o *joints.BuildOptions) error {
 		}
 		a, err := joints.ParseAttach(g.Attach)
 		if err != nil {
-			return fmt.Errorf("group %q: %w", name, err)
+			return fmt.Errorf("group %q: %w", geom.Excerpt(name), err)
 		}
 		if o.GroupAttach == nil {
 			o.GroupAttach = map[string]joints.Attach{}
@@ -157,11 +156,13 @@ func (job *Job) RecordedPath(p string) string {
 // LoadJob reads the job file at path and resolves its relative paths
 // against the file's directory.
 func LoadJob(path string) (*Job, error) {
-	f, err := os.Open(path)
-	if errors.Is(err, fs.ErrNotExist) {
+	f, err := geom.OpenRegular(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
 		return nil, geom.FileError(path, "job file not found")
-	}
-	if err != nil {
+	case errors.Is(err, geom.ErrInput):
+		return nil, fmt.Errorf("job file: %w", err)
+	case err != nil:
 		return nil, geom.FileError(path, "job file: %w", err)
 	}
 	defer f.Close()

@@ -153,11 +153,11 @@ func (y YAML) Map(n *yaml.Node, what string, known []string, f func(key string, 
 		}
 		key := k.Value
 		if prev, dup := seen[key]; dup {
-			return y.Errorf(k, "%s: key %q given twice (lines %d and %d)", what, key, prev, k.Line)
+			return y.Errorf(k, "%s: key %q given twice (lines %d and %d)", what, geom.Excerpt(key), prev, k.Line)
 		}
 		seen[key] = k.Line
 		if known != nil && !contains(known, key) {
-			return y.Errorf(k, "%s: unknown key %q%s", what, key, didYouMean(key, known))
+			return y.Errorf(k, "%s: unknown key %q%s", what, geom.Excerpt(key), didYouMean(key, known))
 		}
 		if err := f(key, k, v); err != nil {
 			return err
@@ -226,14 +226,14 @@ func (y YAML) Float(n *yaml.Node, what string) (float64, error) {
 		return 0, y.Errorf(n, "%s: want a number, got %s", what, describe(n))
 	}
 	if l := strings.ToLower(n.Value); strings.Contains(l, "nan") || strings.Contains(l, "inf") {
-		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a finite number", what, geom.Excerpt(n.Value))
 	}
 	if !plainDecimal(n.Value, true) {
-		return 0, y.Errorf(n, "%s: %q: write numbers as plain decimals (like 1.5 or -2e-3)", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q: write numbers as plain decimals (like 1.5 or -2e-3)", what, geom.Excerpt(n.Value))
 	}
 	v, err := strconv.ParseFloat(n.Value, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a finite number", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -291,11 +291,11 @@ func (y YAML) Int(n *yaml.Node, what string) (int64, error) {
 		return 0, y.Errorf(n, "%s: want an integer, got %s", what, describe(n))
 	}
 	if !plainDecimal(n.Value, false) {
-		return 0, y.Errorf(n, "%s: %q: write integers as plain decimals (like 1042)", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q: write integers as plain decimals (like 1042)", what, geom.Excerpt(n.Value))
 	}
 	v, err := strconv.ParseInt(n.Value, 10, 64)
 	if err != nil {
-		return 0, y.Errorf(n, "%s: %q is not a 64-bit integer", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a 64-bit integer", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -308,7 +308,7 @@ func (y YAML) Bool(n *yaml.Node, what string) (bool, error) {
 	}
 	var v bool
 	if err := n.Decode(&v); err != nil {
-		return false, y.Errorf(n, "%s: %q is not true or false", what, n.Value)
+		return false, y.Errorf(n, "%s: %q is not true or false", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -334,11 +334,7 @@ func describe(n *yaml.Node) string {
 	case n.Kind == yaml.ScalarNode && n.ShortTag() == "!!null":
 		return "nothing"
 	case n.Kind == yaml.ScalarNode:
-		v := n.Value
-		if len(v) > 40 {
-			v = v[:40] + "..."
-		}
-		return fmt.Sprintf("%q", v)
+		return fmt.Sprintf("%q", geom.Excerpt(n.Value))
 	}
 	return "an unsupported YAML node"
 }
