@@ -44,6 +44,9 @@ func readBytes(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, erro
 	if err != nil {
 		return nil, err
 	}
+	if p.endErr != nil {
+		return nil, p.endErr
+	}
 	return geom.MeshFromCells(cs, opt)
 }
 
@@ -126,17 +129,24 @@ type parser struct {
 
 	bigEndian  bool
 	header64   bool
-	compressed bool
+	compressor compressor
 	fileLine   int
 
 	pieces []*piece
 	sizes  []pieceSize // per piece, once decoded, for locate
+	// inflated counts the bytes compressed arrays have declared so far,
+	// for the bound maxCompression.
+	inflated int64
 
 	hasAppended   bool
 	appendedLine  int
 	appendedB64   bool
 	appendedStart int // index in data of the first byte after '_'
-	appendedEnd   int // base64: end of the text; raw: len(data)
+	appendedEnd   int // base64: end of the text; raw: start of </AppendedData>
+	// endErr reports a document that does not end after its appended
+	// data, once the arrays have been read (whose errors say more about
+	// a truncated file).
+	endErr error
 }
 
 // line returns the file line of the decoder's position.
@@ -276,9 +286,11 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			switch a.Value {
 			case "":
 			case "vtkZLibDataCompressor":
-				p.compressed = true
+				p.compressor = compressZlib
+			case "vtkLZMADataCompressor":
+				p.compressor = compressLZMA
 			default:
-				return p.errLine(p.fileLine, "compressor %q is not supported (only vtkZLibDataCompressor)", geom.Excerpt(a.Value))
+				return p.errLine(p.fileLine, "compressor %q is not supported (Joinery reads vtkZLibDataCompressor and vtkLZMADataCompressor)", geom.Excerpt(a.Value))
 			}
 		}
 	}
@@ -602,6 +614,21 @@ func (p *parser) appended(se xml.StartElement) error {
 		if j := bytes.IndexByte(p.data[p.appendedStart:], '<'); j >= 0 {
 			p.appendedEnd = p.appendedStart + j
 		}
+	}
+	// The document must end with the closing tags after the data; raw
+	// data ends where they start.
+	const ws = " \t\r\n"
+	tail, ok := bytes.CutSuffix(bytes.TrimRight(p.data[p.appendedStart:], ws), []byte("</VTKFile>"))
+	if ok {
+		tail, ok = bytes.CutSuffix(bytes.TrimRight(tail, ws), []byte("</AppendedData>"))
+	}
+	switch {
+	case !ok:
+		p.endErr = p.errLine(1+bytes.Count(p.data, []byte{'\n'}), "the file does not end with </AppendedData> and </VTKFile>: is it truncated?")
+	case p.appendedB64 && p.appendedStart+len(tail) != p.appendedEnd:
+		p.endErr = p.errLine(p.appendedLine, "AppendedData: base64 text followed by something else than </AppendedData> and </VTKFile>")
+	case !p.appendedB64:
+		p.appendedEnd = p.appendedStart + len(tail)
 	}
 	return nil
 }
