@@ -5,6 +5,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
 	"unicode/utf8"
 )
 
@@ -62,6 +63,32 @@ func (f *File) Size() int64 { return f.size }
 
 // Close closes the file.
 func (f *File) Close() error { return f.f.Close() }
+
+// SameFiles finds the first path of paths that names the same file as an
+// earlier one, under the same spelling or another ("m.vtk",
+// "./m.vtk", "/abs/dir/m.vtk", a symbolic or hard link): it returns the
+// indices i < j of the two, and false when all are distinct. Files are
+// compared with os.SameFile; paths that cannot be stat'ed compare by
+// their cleaned spelling, and their readers report why they fail.
+func SameFiles(paths []string) (i, j int, ok bool) {
+	infos := make([]fs.FileInfo, len(paths))
+	for k, p := range paths {
+		infos[k], _ = os.Stat(p)
+	}
+	for j := range paths {
+		for i := range j {
+			switch {
+			case infos[i] != nil && infos[j] != nil:
+				if os.SameFile(infos[i], infos[j]) {
+					return i, j, true
+				}
+			case filepath.Clean(paths[i]) == filepath.Clean(paths[j]):
+				return i, j, true
+			}
+		}
+	}
+	return 0, 0, false
+}
 
 // checkRegular refuses anything but a regular file.
 func checkRegular(path string, fi fs.FileInfo) error {

@@ -70,3 +70,34 @@ func TestExcerpt(t *testing.T) {
 		t.Errorf("Excerpt split a character: %q", got)
 	}
 }
+
+func TestSameFiles(t *testing.T) {
+	dir := t.TempDir()
+	a := filepath.Join(dir, "a.vtk")
+	b := filepath.Join(dir, "b.vtk")
+	for _, p := range []string{a, b} {
+		if err := os.WriteFile(p, []byte("x"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	hard := filepath.Join(dir, "hard.vtk")
+	if err := os.Link(a, hard); err != nil {
+		hard = a
+	}
+	for _, c := range []struct {
+		paths []string
+		i, j  int
+		ok    bool
+	}{
+		{[]string{a, b}, 0, 0, false},
+		{[]string{a, b, filepath.Join(dir, "sub", "..", "a.vtk")}, 0, 2, true},
+		{[]string{b, hard, a}, 1, 2, true},
+		{[]string{"missing.vtk", "./missing.vtk"}, 0, 1, true},
+		{[]string{"missing.vtk", a}, 0, 0, false},
+	} {
+		i, j, ok := SameFiles(c.paths)
+		if i != c.i || j != c.j || ok != c.ok {
+			t.Errorf("SameFiles(%q) = %d, %d, %v; want %d, %d, %v", c.paths, i, j, ok, c.i, c.j, c.ok)
+		}
+	}
+}

@@ -4,11 +4,13 @@ import (
 	"cmp"
 	"fmt"
 	"io"
+	"maps"
 	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
 	"unicode"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -425,6 +427,11 @@ func numField(j *Joint, key string) *float64 {
 	return &j.Hole
 }
 
+// MaxJointIDLength bounds joint ids, bytes: ids are short labels a person
+// reads ("W17", "RR-SW-01042"), repeated in every output and message
+// (our choice: room for any naming scheme, and no megabyte ids).
+const MaxJointIDLength = 256
+
 // jointList collects the joints of one file and checks each as it comes.
 type jointList struct {
 	file   string
@@ -443,8 +450,21 @@ func (l *jointList) add(j Joint, idLine int) error {
 	switch {
 	case j.ID == "":
 		return geom.LineError(l.file, idLine, "joint id is empty")
+	case !utf8.ValidString(j.ID):
+		// Two ids that differ only in bytes that are not UTF-8 ("W\xff1",
+		// "W\xfe1") would both be written as "W\ufffd1".
+		return geom.LineError(l.file, idLine, "joint id %q is not valid UTF-8 text: save the list as UTF-8", geom.Excerpt(j.ID))
 	case strings.ContainsFunc(j.ID, unicode.IsControl):
 		return geom.LineError(l.file, idLine, "joint id %q holds a control character", geom.Excerpt(j.ID))
+	case len(j.ID) > MaxJointIDLength:
+		return geom.LineError(l.file, idLine, "joint id %q is %d bytes long, more than the %d a joint id may have", geom.Excerpt(j.ID), len(j.ID), MaxJointIDLength)
+	case !utf8.ValidString(j.Group):
+		return geom.LineError(l.file, j.Line, "joint %q: group %q is not valid UTF-8 text: save the list as UTF-8", j.ID, geom.Excerpt(j.Group))
+	}
+	for _, name := range slices.Sorted(maps.Keys(j.Tags)) {
+		if v := j.Tags[name]; !utf8.ValidString(name) || !utf8.ValidString(v) {
+			return geom.LineError(l.file, j.Line, "joint %q: tag %q = %q is not valid UTF-8 text: save the list as UTF-8", j.ID, geom.Excerpt(name), geom.Excerpt(v))
+		}
 	}
 	if prev, dup := l.idLine[j.ID]; dup {
 		return geom.LineError(l.file, idLine, "joint id %q given twice (lines %d and %d)", j.ID, prev, idLine)

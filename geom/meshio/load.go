@@ -76,13 +76,12 @@ func Load(opts LoadOptions) (*Model, error) {
 	if len(opts.Meshes) == 0 {
 		return nil, errors.New("meshio: no mesh files given")
 	}
-	seen := make(map[string]int, len(opts.Meshes))
-	for i, p := range opts.Meshes {
-		c := filepath.Clean(p)
-		if prev, dup := seen[c]; dup {
-			return nil, fmt.Errorf("meshio: mesh file %s given twice (arguments %d and %d): %w", p, prev+1, i+1, geom.ErrInput)
+	if i, j, ok := geom.SameFiles(opts.Meshes); ok {
+		p, q := opts.Meshes[i], opts.Meshes[j]
+		if filepath.Clean(p) == filepath.Clean(q) {
+			return nil, geom.FileError(q, "mesh file given twice (meshes %d and %d)", i+1, j+1)
 		}
-		seen[c] = i
+		return nil, geom.FileError(q, "mesh file given twice (meshes %d and %d): the same file as %s", i+1, j+1, p)
 	}
 	var table []geom.Part
 	defaults := map[string]int64{}

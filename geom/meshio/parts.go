@@ -5,6 +5,7 @@ import (
 	"io"
 	"path/filepath"
 	"strings"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -182,6 +183,11 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 		}
 		if err := checkThickness(p.Thickness); err != nil {
 			return nil, c.Errorf(ct, "%w", err)
+		}
+		for _, k := range []int{kName, kMaterial, kSurface, kMesh} {
+			if col := at[k]; col >= 0 && !utf8.ValidString(rec[col]) {
+				return nil, c.Errorf(col, "%s: %q is not valid UTF-8 text: save the table as UTF-8", keys[k], geom.Excerpt(rec[col]))
+			}
 		}
 		if col := at[kName]; col >= 0 {
 			p.Name = rec[col]

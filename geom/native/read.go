@@ -9,6 +9,7 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+	"unicode/utf8"
 
 	"github.com/joinery-cae/joinery/geom"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -649,6 +650,10 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		seen[k] = true
 		if len(val) == 0 {
 			fail("part %d: %s has no value", id, key)
+			return p, false
+		}
+		if !utf8.Valid(val) {
+			fail("part %d: %s %q is not valid UTF-8 text", id, key, geom.Excerpt(val))
 			return p, false
 		}
 		switch k {

@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -28,6 +29,9 @@ func (y YAML) Parse(r io.Reader) (root *yaml.Node, err error) {
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, fmt.Errorf("reading %s: %w", y.File, err)
+	}
+	if err := checkUTF8(data, y.File); err != nil {
+		return nil, err
 	}
 	defer func() {
 		// yaml.v3 reports syntax errors by panicking internally and
@@ -58,6 +62,23 @@ func (y YAML) Parse(r io.Reader) (root *yaml.Node, err error) {
 		return nil, geom.FileError(y.File, "YAML aliases expand the document from %d to over %d nodes", raw, maxExpanded)
 	}
 	return resolve(doc.Content[0]), nil
+}
+
+// checkUTF8 refuses a document that is not valid UTF-8, naming the line of
+// the first bad byte (yaml.v3 names none). Documents starting with a
+// UTF-16 byte-order mark are left to yaml.v3, which reads them.
+func checkUTF8(data []byte, file string) error {
+	if bytes.HasPrefix(data, []byte{0xfe, 0xff}) || bytes.HasPrefix(data, []byte{0xff, 0xfe}) || utf8.Valid(data) {
+		return nil
+	}
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n <= 1 {
+			return geom.LineError(file, 1+bytes.Count(data[:i], []byte{'\n'}), "not valid UTF-8 text (byte 0x%02x): save the file as UTF-8", data[i])
+		}
+		i += n
+	}
+	return nil
 }
 
 // maxExpanded bounds the nodes a document may expand to through aliases
