@@ -25,6 +25,11 @@ type ReadOptions struct {
 	// reads it (ReadFile), so that a caller can hash its inputs without
 	// reading them twice. Readers of a stream (Read) ignore it.
 	Digest io.Writer
+	// Scale is the number of millimetres in the unit of the file's
+	// lengths (1 for mm, 1000 for m, 25.4 for inches); 0 means 1. Readers
+	// do not scale what they read: they use Scale to hold thicknesses and
+	// coordinates to the plausible ranges (MaxThickness, MaxCoordinate).
+	Scale float64
 }
 
 // CellSet is a mesh as a VTK-style reader holds it just after reading:
@@ -118,9 +123,13 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	if cs.Part == nil && !opt.HasDefaultPart && nc > 0 {
 		return nil, FileError(cs.File, "no cell array \"part\" and no part in the parts table names this file")
 	}
+	scale := opt.scale()
 	for i, p := range cs.Points {
 		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
 			return nil, cs.errAt(ArrayPoints, i, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
+		}
+		if err := CheckCoordinates(p.X, p.Y, p.Z, scale); err != nil {
+			return nil, cs.errAt(ArrayPoints, i, i, "point %d: %v", i, err)
 		}
 	}
 	m := &Mesh{Coords: cs.Points}
@@ -205,8 +214,8 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		m.ElemPart = append(m.ElemPart, lastPI)
 		if cs.Thickness != nil {
 			th := cs.Thickness[c]
-			if !(th > 0) || math.IsInf(th, 0) {
-				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: thickness %g is not a positive number", c, th)
+			if err := CheckThickness(th, scale); err != nil {
+				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: %v", c, err)
 			}
 			m.ElemThickness = append(m.ElemThickness, th)
 		}

@@ -68,6 +68,8 @@ const (
 	CodeIDRange        = "id-range"        // new ids above 2,147,483,647
 	CodeIDDigits       = "id-digits"       // new ids have more digits than the mesh's
 	CodeThicknessClash = "thickness-mismatch"
+	CodeUnitsSuspect   = "units-suspect" // thicknesses and element sizes implausible for sheet metal in mm
+	CodePatchCapped    = "patch-capped"  // a patch end ties MaxPatchNodes nodes, fewer than its nugget covers
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -88,7 +88,8 @@ const (
 // known column ("diamter", "Part_s"; see tabular.Suggest) is an error, as
 // the same key is in YAML: a misspelt diameter must not silently become
 // the rule's. Lines starting with '#' and blank lines are skipped; a
-// header without rows is an empty list.
+// header without rows is an empty list (with a warning), an empty file
+// an error.
 //
 // YAML: a map with the single key "joints" holding a list of maps with the
 // same keys, except that parts is a list of integers, the point is given
@@ -182,6 +183,7 @@ func readJointsCSV(r io.Reader, name string) (*jointList, error) {
 	for {
 		rec, err := c.Read()
 		if err == io.EOF {
+			l.finish()
 			return l, nil
 		}
 		if err != nil {
@@ -284,13 +286,25 @@ func readJointsYAML(r io.Reader, name string) (*jointList, error) {
 	if err != nil {
 		return nil, err
 	}
-	var items []*yaml.Node
+	if root == nil {
+		// As an empty CSV file, which has no header: nothing says this
+		// is a joint list (see the jointList.finish for empty lists).
+		return nil, geom.FileError(name, "empty file: want a joint list (the key joints: and a list of joints)")
+	}
+	var (
+		items   []*yaml.Node
+		hasList bool
+	)
 	err = y.Map(root, "joint list", []string{"joints"}, func(_ string, _, v *yaml.Node) error {
+		hasList = true
 		items, err = y.List(v, "joints")
 		return err
 	})
 	if err != nil {
 		return nil, err
+	}
+	if !hasList {
+		return nil, y.Errorf(root, "joint list: no key joints: (write joints: and a list of joints)")
 	}
 	keys := append(jointKeys(), "point", "tags")
 	l := newJointList(name)
@@ -316,6 +330,7 @@ func readJointsYAML(r io.Reader, name string) (*jointList, error) {
 		}
 	}
 	slices.Sort(l.tags)
+	l.finish()
 	return l, nil
 }
 
@@ -482,6 +497,21 @@ func (l *jointList) add(j Joint, idLine int) error {
 	}
 	l.joints = append(l.joints, j)
 	return nil
+}
+
+// finish returns the list's warnings, with one for a list without joints.
+//
+// CSV and YAML lists agree on emptiness: a file with nothing in it (no
+// CSV header, no YAML joints: key) is an input error, as nothing says it
+// is a joint list at all: a failed export or the wrong file. A list that
+// says it is one and holds no joints (a header without rows, joints: [])
+// is read as empty, with a warning: a sub-assembly without welds yet is a
+// plan like any other, but an empty one is worth a word.
+func (l *jointList) finish() []InputWarning {
+	if len(l.joints) == 0 {
+		l.warns = append(l.warns, InputWarning{l.file, 0, "the list holds no joints"})
+	}
+	return l.warns
 }
 
 // CheckParts checks that every part id the joints list exists in m. It

@@ -127,15 +127,35 @@ func TestReadJointsNearMissColumn(t *testing.T) {
 	}
 }
 
+// CSV and YAML lists agree: an empty file is an error in both forms (the
+// issue found an empty YAML file accepted where an empty CSV was refused);
+// a list that is declared but holds no joints reads as empty, with a
+// warning.
 func TestReadJointsEmpty(t *testing.T) {
-	got, _, err := ReadJointsCSV(strings.NewReader("# no joints yet\nid,x,y,z\n"), "w.csv")
-	if err != nil || len(got) != 0 {
-		t.Errorf("header only: %v, %v", got, err)
+	empty := []InputWarning{{"w.csv", 0, "the list holds no joints"}}
+	got, warns, err := ReadJointsCSV(strings.NewReader("# no joints yet\nid,x,y,z\n"), "w.csv")
+	if err != nil || len(got) != 0 || !reflect.DeepEqual(warns, empty) {
+		t.Errorf("header only: %v, %v, %v", got, warns, err)
 	}
-	for _, in := range []string{"joints:\n", "joints: []\n", ""} {
-		got, _, err := ReadJointsYAML(strings.NewReader(in), "w.yaml")
-		if err != nil || len(got) != 0 {
-			t.Errorf("ReadJointsYAML(%q) = %v, %v", in, got, err)
+	empty[0].File = "w.yaml"
+	for _, in := range []string{"joints:\n", "joints: []\n"} {
+		got, warns, err := ReadJointsYAML(strings.NewReader(in), "w.yaml")
+		if err != nil || len(got) != 0 || !reflect.DeepEqual(warns, empty) {
+			t.Errorf("ReadJointsYAML(%q) = %v, %v, %v", in, got, warns, err)
+		}
+	}
+	for _, c := range []struct{ in, want string }{
+		{"", "w.yaml: empty file"},
+		{"# nothing yet\n", "w.yaml: empty file"},
+		{"{}\n", "w.yaml:1: joint list: no key joints:"},
+	} {
+		if _, _, err := ReadJointsYAML(strings.NewReader(c.in), "w.yaml"); !errors.Is(err, geom.ErrInput) || !strings.HasPrefix(err.Error(), c.want) {
+			t.Errorf("ReadJointsYAML(%q): %v, want %q", c.in, err, c.want)
+		}
+	}
+	for _, in := range []string{"", "# nothing yet\n", "\n\n"} {
+		if _, _, err := ReadJointsCSV(strings.NewReader(in), "w.csv"); !errors.Is(err, geom.ErrInput) || !strings.HasPrefix(err.Error(), "w.csv: empty table") {
+			t.Errorf("ReadJointsCSV(%q): %v, want an empty-table error", in, err)
 		}
 	}
 }

@@ -235,18 +235,24 @@ func (o *BuildOptions) AttachFor(group string) Attach {
 
 // Validate checks the options a user gave: distances and allowances must
 // be finite and not negative (0 means the default), factors and angles
-// likewise, and the id start not negative.
+// likewise, each at most its plausible bound (MaxReach, MaxGapAllowance,
+// MaxAngleLimit, MaxFactor), and the id start not negative.
 func (o *BuildOptions) Validate() error {
 	for _, f := range []struct {
 		name string
 		v    float64
+		max  float64
+		unit string
 	}{
-		{"reach", o.Reach}, {"gap allowance", o.GapAllowance},
-		{"angle limit", o.AngleLimit}, {"lateral factor", o.LateralFactor},
-		{"edge factor", o.EdgeFactor}, {"node factor", o.NodeFactor},
+		{"reach", o.Reach, MaxReach, " mm"}, {"gap allowance", o.GapAllowance, MaxGapAllowance, " mm"},
+		{"angle limit", o.AngleLimit, MaxAngleLimit, " degrees"}, {"lateral factor", o.LateralFactor, MaxFactor, ""},
+		{"edge factor", o.EdgeFactor, MaxFactor, ""}, {"node factor", o.NodeFactor, MaxFactor, ""},
 	} {
 		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 {
 			return fmt.Errorf("%s %g: want a finite number, 0 or more (0 for the default)", f.name, f.v)
+		}
+		if f.v > f.max {
+			return fmt.Errorf("%s %g%s: more than the %g%s that can make sense for a spot weld", f.name, f.v, f.unit, f.max, f.unit)
 		}
 	}
 	if o.IDStart < 0 {

@@ -13,6 +13,7 @@ type inputOptions struct {
 	parts    string
 	joints   []string
 	renumber bool
+	units    string
 	flags    *pflag.FlagSet
 }
 
@@ -23,6 +24,7 @@ func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVarP(&o.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
 	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
+	fs.StringVar(&o.units, "units", "mm", "unit of every input length (meshes, parts table, joint lists): mm, m or in; outputs keep it, rules and options work in mm")
 }
 
 // apply overrides the job's inputs with the flags the user set.
@@ -38,6 +40,9 @@ func (o *inputOptions) apply(job *pipeline.Job) {
 	}
 	if o.flags.Changed("renumber") {
 		job.Renumber = &o.renumber
+	}
+	if o.flags.Changed("units") {
+		job.Units = o.units
 	}
 }
 

@@ -22,6 +22,11 @@ type LoadOptions struct {
 	// Renumber shifts the ids of files whose ids clash with earlier files
 	// instead of failing (see geom.Merge).
 	Renumber bool
+	// Scale is the number of millimetres in the unit of the files'
+	// lengths, meshes and parts table alike; 0 means 1. Load does not
+	// scale: the readers hold values to their plausible ranges with it
+	// (geom.ReadOptions.Scale).
+	Scale float64
 	// Workers bounds the number of files read at once; 0 means
 	// runtime.GOMAXPROCS(0).
 	Workers int
@@ -91,7 +96,7 @@ func Load(opts LoadOptions) (*Model, error) {
 		if opts.Digest != nil {
 			digest = opts.Digest(opts.Parts)
 		}
-		if table, err = readParts(opts.Parts, digest); err != nil {
+		if table, err = readParts(opts.Parts, digest, opts.Scale); err != nil {
 			return nil, err
 		}
 		for _, p := range table {
@@ -168,9 +173,9 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 		wg.Go(func() {
 			for i := range next {
 				path := opts.Meshes[i]
-				var ro geom.ReadOptions
+				ro := geom.ReadOptions{Scale: opts.Scale}
 				if id, ok := defaults[filepath.Base(path)]; ok {
-					ro = geom.ReadOptions{DefaultPart: id, HasDefaultPart: true}
+					ro.DefaultPart, ro.HasDefaultPart = id, true
 				}
 				if opts.Digest != nil {
 					ro.Digest = opts.Digest(path)
@@ -193,6 +198,21 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 	for _, err := range errs {
 		if err != nil {
 			return nil, err
+		}
+	}
+	for i, m := range meshes {
+		if m.NumElems() == 0 {
+			skipped := 0
+			for _, s := range m.Sources {
+				for _, n := range s.Skipped {
+					skipped += n
+				}
+			}
+			what := ""
+			if skipped > 0 {
+				what = fmt.Sprintf(" (%d cells of other types skipped)", skipped)
+			}
+			return nil, geom.FileError(opts.Meshes[i], "no triangles or quads%s: a mesh file must hold shell elements", what)
 		}
 	}
 	return meshes, nil
@@ -267,6 +287,19 @@ func partFile(m *geom.Mesh, pi int) string {
 		}
 	}
 	return file
+}
+
+// PartFiles returns, for each part id, the first mesh file holding an
+// element of that part ("input" when the mesh records no file).
+func (md *Model) PartFiles(ids []int64) []string {
+	out := make([]string, len(ids))
+	for i, id := range ids {
+		out[i] = "input"
+		if pi, ok := md.Mesh.PartIndex(id); ok {
+			out[i] = partFile(md.Mesh, int(pi))
+		}
+	}
+	return out
 }
 
 // MissingThickness returns, in increasing order, the ids of parts with at

@@ -22,17 +22,18 @@ func partKeys() []string {
 // ReadParts reads the parts table in the named file: YAML for .yaml and
 // .yml, CSV for .csv (see the package documentation for both forms).
 // Parts are returned in file order.
-func ReadParts(path string) ([]geom.Part, error) { return readParts(path, nil) }
+func ReadParts(path string) ([]geom.Part, error) { return readParts(path, nil, 1) }
 
 // readParts reads the parts table in the named file, passing every byte
-// to digest (when not nil) as it is read.
-func readParts(path string, digest io.Writer) ([]geom.Part, error) {
-	var read func(io.Reader, string) ([]geom.Part, error)
+// to digest (when not nil) as it is read; its thicknesses are in a unit
+// of scale mm (see geom.ReadOptions.Scale).
+func readParts(path string, digest io.Writer, scale float64) ([]geom.Part, error) {
+	var read func(io.Reader, string, float64) ([]geom.Part, error)
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".yaml", ".yml":
-		read = ReadPartsYAML
+		read = readPartsYAML
 	case ".csv":
-		read = ReadPartsCSV
+		read = readPartsCSV
 	default:
 		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", geom.Excerpt(ext))
 	}
@@ -42,10 +43,10 @@ func readParts(path string, digest io.Writer) ([]geom.Part, error) {
 	}
 	defer f.Close()
 	if digest == nil {
-		return read(f, path)
+		return read(f, path, scale)
 	}
 	r := io.TeeReader(f, digest)
-	parts, err := read(r, path)
+	parts, err := read(r, path, scale)
 	if err == nil {
 		// The digest covers the whole file, whatever the parser left unread.
 		if _, err = io.Copy(io.Discard, r); err != nil {
@@ -58,7 +59,9 @@ func readParts(path string, digest io.Writer) ([]geom.Part, error) {
 // ReadPartsYAML reads a parts table in YAML from r; name is the file name
 // used in errors. The document is a map with the single key "parts"
 // holding a list of maps; an empty document or list is an empty table.
-func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
+func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) { return readPartsYAML(r, name, 1) }
+
+func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error) {
 	y := tabular.YAML{File: name}
 	root, err := y.Parse(r)
 	if err != nil {
@@ -99,7 +102,7 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 			case "thickness":
 				hasT = true
 				if p.Thickness, err = y.Float(v, "thickness"); err == nil {
-					err = at(v, checkThickness(p.Thickness))
+					err = at(v, checkThickness(p.Thickness, scale))
 				}
 			case "material":
 				p.Material, err = y.String(v, "material")
@@ -137,7 +140,9 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 // used in errors. The header names the columns in any order and case;
 // id and thickness are required, the other columns optional, and an
 // empty cell of an optional column means not given.
-func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
+func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) { return readPartsCSV(r, name, 1) }
+
+func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) {
 	c, err := tabular.NewCSV(r, name)
 	if err != nil {
 		return nil, err
@@ -181,7 +186,7 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 		if p.Thickness, err = c.Float(rec, ct); err != nil {
 			return nil, err
 		}
-		if err := checkThickness(p.Thickness); err != nil {
+		if err := checkThickness(p.Thickness, scale); err != nil {
 			return nil, c.Errorf(ct, "%w", err)
 		}
 		for _, k := range []int{kName, kMaterial, kSurface, kMesh} {
@@ -222,9 +227,12 @@ func checkID(id int64) error {
 	return nil
 }
 
-func checkThickness(t float64) error {
+func checkThickness(t, scale float64) error {
 	if t <= 0 {
 		return fmt.Errorf("thickness: %g mm is not positive", t)
+	}
+	if err := geom.CheckThickness(t, scale); err != nil {
+		return fmt.Errorf("thickness: %w", err)
 	}
 	return nil
 }

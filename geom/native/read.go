@@ -88,6 +88,7 @@ type partRecord struct {
 type reader struct {
 	name    string
 	data    []byte
+	scale   float64 // geom.ReadOptions.Scale
 	m       *geom.Mesh
 	partIDs []int64 // part id per element, as written
 	connIDs []int64 // node ids as written; chunk c uses [4*c.elemBase, 4*c.elemBase+c.nconn)
@@ -96,14 +97,19 @@ type reader struct {
 // parse reads data in as many pieces as there are processors, up to
 // maxChunks, none smaller than minChunk.
 func parse(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	_ = opt // every shell record names its part
+	// Every shell record names its part: only opt.Scale applies.
 	n := min(runtime.GOMAXPROCS(0), maxChunks, len(data)/minChunk)
-	return parseSplit(data, name, max(n, 1))
+	return parseScaled(data, name, max(n, 1), opt.Scale)
 }
 
 // parseSplit reads data in n pieces. The result does not depend on n.
 func parseSplit(data []byte, name string, n int) (*geom.Mesh, error) {
-	r := &reader{name: name, data: data}
+	return parseScaled(data, name, n, 1)
+}
+
+// parseScaled reads data in n pieces; scale is ReadOptions.Scale.
+func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, error) {
+	r := &reader{name: name, data: data, scale: scale}
 	chunks := split(data, n)
 	parallel(len(chunks), func(i int) { chunks[i].count() })
 
@@ -145,6 +151,11 @@ func parseSplit(data []byte, name string, n int) (*geom.Mesh, error) {
 	}
 	if err := r.resolveParts(chunks); err != nil {
 		return nil, err
+	}
+	for i, p := range r.m.Coords {
+		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, r.scale); err != nil {
+			return nil, geom.LineError(name, r.recordLine('n', i), "node %d: %v", r.m.NodeIDs[i], err)
+		}
 	}
 	r.mergeThickness(chunks)
 	m := r.m
@@ -413,6 +424,10 @@ func (r *reader) parseChunk(c *chunk) {
 						fail("shell %d: thickness %q is not a positive finite number", id, geom.Excerpt(f[2:]))
 						return
 					}
+					if err := geom.CheckThickness(v, r.scale); err != nil {
+						fail("shell %d: %v", id, err)
+						return
+					}
 					if more := countFields(l, i); more != 0 {
 						fail("shell %d: %d fields after the thickness, which must come last", id, more)
 						return
@@ -661,6 +676,10 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 			t, ok := parseFloat(val)
 			if !ok || !(t > 0) || math.IsInf(t, 0) {
 				fail("part %d: thickness %q is not a positive finite number", id, geom.Excerpt(val))
+				return p, false
+			}
+			if err := geom.CheckThickness(t, r.scale); err != nil {
+				fail("part %d: %v", id, err)
 				return p, false
 			}
 			p.Thickness = t

@@ -1,0 +1,75 @@
+package geom
+
+import (
+	"fmt"
+	"math"
+)
+
+// Plausible ranges of the lengths Joinery reads, in millimetres. A value
+// outside them cannot be right for a sheet-metal assembly in any unit,
+// so the readers refuse it at its line: it would otherwise pass every
+// check and come out as a number hundreds of digits long. Readers compare
+// value*ReadOptions.Scale with them, so they hold whatever the unit of
+// the file.
+const (
+	// MaxThickness bounds sheet thicknesses, mm: sheet metal is 0.3 to
+	// 6 mm thick, and the heaviest plates of rail-car and truck frames
+	// are a few tens of millimetres (common practice); a shell element
+	// of 100 mm or more is no sheet.
+	MaxThickness = 100.0
+	// MaxCoordinate bounds the magnitude of coordinates, mm: 10 km. The
+	// largest assemblies Joinery is for (rail cars, bus bodies) are tens
+	// of metres long, and models are placed near their own origin
+	// (common practice); a coordinate of 10 km is no vehicle, and beyond
+	// it float64 coordinates lose the resolution of micrometres that
+	// projection needs.
+	MaxCoordinate = 1e7
+)
+
+// scale returns the millimetres per unit of the file's lengths.
+func (o ReadOptions) scale() float64 {
+	if o.Scale > 0 {
+		return o.Scale
+	}
+	return 1
+}
+
+// CheckThickness checks that a thickness t, in a unit of scale mm, is a
+// positive finite number of at most MaxThickness mm. scale 0 means 1.
+func CheckThickness(t, scale float64) error {
+	if scale <= 0 {
+		scale = 1
+	}
+	switch {
+	case !(t > 0) || math.IsInf(t, 0):
+		return fmt.Errorf("thickness %g is not a positive number", t)
+	case t*scale > MaxThickness:
+		return fmt.Errorf("thickness %g%s is more than %g mm, thicker than any sheet", t, unitNote(scale), float64(MaxThickness))
+	}
+	return nil
+}
+
+// CheckCoordinates checks that a point, in a unit of scale mm, has finite
+// coordinates of magnitude at most MaxCoordinate mm. scale 0 means 1.
+func CheckCoordinates(x, y, z, scale float64) error {
+	if scale <= 0 {
+		scale = 1
+	}
+	for _, v := range [3]float64{x, y, z} {
+		switch {
+		case math.IsNaN(v) || math.IsInf(v, 0):
+			return fmt.Errorf("non-finite coordinate (%g, %g, %g)", x, y, z)
+		case math.Abs(v)*scale > MaxCoordinate:
+			return fmt.Errorf("coordinate %g%s lies more than %g km from the origin (%g, %g, %g): no vehicle is that large", v, unitNote(scale), float64(MaxCoordinate/1e6), x, y, z)
+		}
+	}
+	return nil
+}
+
+// unitNote names the unit of a value for messages when it is not mm.
+func unitNote(scale float64) string {
+	if scale == 1 {
+		return " mm"
+	}
+	return fmt.Sprintf(" (units of %g mm)", scale)
+}
