@@ -1,11 +1,17 @@
 package main
 
 import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // smallMesh is the shared "small" fixture in the native format
@@ -143,4 +149,95 @@ func mustGetwd(t *testing.T) string {
 		t.Fatal(err)
 	}
 	return wd
+}
+
+// twoPlates returns a native mesh of two parallel plates of 6 x 6 quads,
+// 5 mm apart from their neighbours and 1 mm apart in z (part 1: 1 mm at
+// z = 0, part 2: 1 mm at z = 1), with the shell records in the order perm
+// gives (nil: in id order).
+func twoPlates(perm []int) string {
+	var b strings.Builder
+	b.WriteString("joinery-mesh 1\npart 1 thickness=1\npart 2 thickness=1\n")
+	const n = 6
+	for p := range 2 {
+		for j := 0; j <= n; j++ {
+			for i := 0; i <= n; i++ {
+				fmt.Fprintf(&b, "node %d %d %d %d\n", 1000*(p+1)+j*(n+1)+i+1, 5*i, 5*j, p)
+			}
+		}
+	}
+	var shells []string
+	for p := range 2 {
+		for j := range n {
+			for i := range n {
+				a := 1000*(p+1) + j*(n+1) + i + 1
+				shells = append(shells, fmt.Sprintf("shell %d %d %d %d %d %d\n", 1000*(p+1)+j*n+i+1, p+1, a, a+1, a+n+2, a+n+1))
+			}
+		}
+	}
+	for k := range shells {
+		if perm != nil {
+			k = perm[k]
+		}
+		b.WriteString(shells[k])
+	}
+	return b.String()
+}
+
+// A weld exactly on a node or an edge shared by several elements is as
+// near to each: the lower element id takes it, whatever the order of the
+// elements in the file (issue: shuffling element lines changed 4 of 5
+// connectors).
+func TestSharedNodeAndEdgeTiesByElementID(t *testing.T) {
+	// On shared nodes, on shared edges, inside an element.
+	welds := "id,x,y,z\nN1,10,10,0.5\nN2,15,20,0.5\nE1,12.5,10,0.5\nE2,20,17.5,0.5\nI1,11,12,0.5\n"
+	var first []document.ConnectorDoc
+	rng := rand.New(rand.NewPCG(7, 7))
+	for run := range 4 {
+		var perm []int
+		if run > 0 {
+			perm = rng.Perm(72)
+		}
+		dir := t.TempDir()
+		writeFile(t, dir, "m.jmesh", twoPlates(perm))
+		writeFile(t, dir, "w.csv", welds)
+		out := filepath.Join(dir, "out")
+		// Interpolated ends: the host element gives the nodes and weights.
+		code, _, errs := runCLI(t, "build", "-m", filepath.Join(dir, "m.jmesh"), "-j", filepath.Join(dir, "w.csv"), "-o", out, "--quiet")
+		if code != exitOK && code != exitFindings {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		f, err := os.Open(filepath.Join(out, "connectors.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		doc, err := document.DecodeConnectors(f, "connectors.json")
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if first == nil {
+			first = doc.Connectors
+			for _, c := range first {
+				if len(c.Sheets) != 2 {
+					t.Fatalf("weld %s: %d sheets", c.ID, len(c.Sheets))
+				}
+			}
+			// The lowest-id element touching each point (ids as twoPlates
+			// numbers them: 1000*part + 6*row + column + 1).
+			for id, want := range map[string]int64{"N1": 1008, "N2": 1021, "E1": 1009, "E2": 1022, "I1": 1015} {
+				for _, c := range first {
+					if c.ID == id && c.Sheets[0].Element != want && c.Sheets[1].Element != want {
+						t.Errorf("weld %s: hosts %d and %d, want %d on part 1", id, c.Sheets[0].Element, c.Sheets[1].Element, want)
+					}
+				}
+			}
+			continue
+		}
+		a, _ := json.Marshal(first)
+		b, _ := json.Marshal(doc.Connectors)
+		if !bytes.Equal(a, b) {
+			t.Errorf("shuffled shells (run %d) changed the connectors:\n%s\n%s", run, b, a)
+		}
+	}
 }
