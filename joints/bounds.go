@@ -76,8 +76,13 @@ func CheckJoints(js []Joint, scale float64) error {
 		scale = 1
 	}
 	unit := func(v float64) string {
-		if scale == 1 {
+		switch scale {
+		case 1:
 			return MM(v) + " mm"
+		case Metre.MM():
+			return fmt.Sprintf("%g m (%s mm)", v, MM(v*scale))
+		case Inch.MM():
+			return fmt.Sprintf("%g in (%s mm)", v, MM(v*scale))
 		}
 		return fmt.Sprintf("%g (%s mm)", v, MM(v*scale))
 	}

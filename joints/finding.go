@@ -2,6 +2,7 @@ package joints
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -102,8 +103,12 @@ func MaxSeverity(fs []Finding) Severity {
 func HasError(fs []Finding) bool { return MaxSeverity(fs) == Error }
 
 // MM formats a length for messages: at most three decimals, no trailing
-// zeros, "0" for values that round to zero.
+// zeros, "0" for values that round to zero; magnitudes of a billion or
+// more in exponent form (1e+300, not 301 digits).
 func MM(v float64) string {
+	if math.Abs(v) >= 1e9 {
+		return strconv.FormatFloat(v, 'g', 6, 64)
+	}
 	s := strconv.FormatFloat(v, 'f', 3, 64)
 	for len(s) > 1 && s[len(s)-1] == '0' {
 		s = s[:len(s)-1]

@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -240,4 +241,155 @@ func TestSharedNodeAndEdgeTiesByElementID(t *testing.T) {
 			t.Errorf("shuffled shells (run %d) changed the connectors:\n%s\n%s", run, b, a)
 		}
 	}
+}
+
+// fixture returns the text of a shared test file.
+func fixture(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("../../testdata", path))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
+
+// hostileCase is one bad input: files to write over the fixture
+// directory's (m.jmesh, w.csv), the flags of the run, and what stderr
+// must say.
+type hostileCase struct {
+	name  string
+	files map[string]string
+	args  []string // after the default -m m.jmesh -j w.csv unless they give -m
+	want  string
+}
+
+// runHostile runs each case: exit 2, the message on stderr, a short
+// stderr, nothing written.
+func runHostile(t *testing.T, cases []hostileCase) {
+	t.Helper()
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			dir := hostileDir(t)
+			for name, content := range c.files {
+				writeFile(t, dir, name, content)
+			}
+			var args []string
+			if !slices.Contains(c.args, "-m") && !slices.Contains(c.args, "job.yaml") {
+				args = append(args, "-m", "m.jmesh", "-j", "w.csv")
+			}
+			args = append(args, c.args...)
+			for i, a := range args {
+				if _, err := os.Stat(filepath.Join(dir, a)); err == nil && !strings.HasPrefix(a, "-") {
+					args[i] = filepath.Join(dir, a)
+				}
+			}
+			code, errs, wrote := buildIn(t, dir, args...)
+			if code != exitBadInput || !strings.Contains(errs, c.want) || wrote {
+				t.Errorf("exit %d, outputs %v, stderr %q; want exit 2 and %q", code, wrote, errs, c.want)
+			}
+			if len(errs) > 400 {
+				t.Errorf("stderr is %d bytes long", len(errs))
+			}
+		})
+	}
+}
+
+// Values no sheet-metal model can have are input errors at their line,
+// in every input that gives them (issue: a thickness or a nugget of 1e300
+// passed and printed 300-digit numbers; a 1000 mm nugget in patch mode
+// wrote a 200 MB connectors.json). Option values too.
+func TestImplausibleValuesRefused(t *testing.T) {
+	mesh := fixture(t, "native/small.jmesh")
+	vtkMesh := fixture(t, "formats/small_ascii.vtk")
+	vtuMesh := fixture(t, "formats/small_ascii.vtu")
+	runHostile(t, []hostileCase{
+		{"parts yaml thickness", map[string]string{"p.yaml": "parts:\n  - {id: 10, thickness: 1}\n  - {id: 20, thickness: 1e300}\n"}, []string{"-p", "p.yaml"},
+			"p.yaml:3: thickness: thickness 1e+300 mm is more than 100 mm"},
+		{"parts csv thickness", map[string]string{"p.csv": "id,thickness\n10,1\n20,150\n"}, []string{"-p", "p.csv"},
+			"p.csv:3: thickness: thickness 150 mm is more than 100 mm"},
+		{"native part thickness", map[string]string{"m.jmesh": strings.Replace(mesh, "part 20 thickness=1.5", "part 20 thickness=1e300", 1)}, nil,
+			"m.jmesh:5: part 20: thickness 1e+300 mm is more than 100 mm"},
+		{"native coordinate", map[string]string{"m.jmesh": strings.Replace(mesh, "node 102 10.5 0 0", "node 102 1e300 0 0", 1)}, nil,
+			"m.jmesh:8: node 102: coordinate 1e+300 mm lies more than 10 km from the origin"},
+		{"vtk thickness", map[string]string{"m.vtk": strings.Replace(vtkMesh, "1 1 1 1 1.5 1.5", "1 1 1 1 120 1.5", 1)}, []string{"-m", "m.vtk", "-j", "w.csv"},
+			"m.vtk:38: cell 4: thickness 120 mm is more than 100 mm"},
+		{"vtu thickness", map[string]string{"m.vtu": strings.Replace(vtuMesh, "1 1 1 1 1.5 1.5", "1 1 1 1 250 1.5", 1)}, []string{"-m", "m.vtu", "-j", "w.csv"},
+			"m.vtu:18: cell 4: thickness 250 mm is more than 100 mm"},
+		{"joint nugget", map[string]string{"w.csv": "id,x,y,z,diameter\nW1,3,3,1.25,1e300\n"}, nil,
+			"w.csv:2: spot weld \"W1\": nugget diameter 1e+300"},
+		{"patch nugget of a metre", map[string]string{"w.csv": "id,x,y,z,diameter\nW1,3,3,1.25,1000\n"}, []string{"--attach", "patch"},
+			"w.csv:2: spot weld \"W1\": nugget diameter 1000 mm is more than 50 mm"},
+		{"joint coordinate", map[string]string{"w.csv": "id,x,y,z\nW1,3,3e12,1.25\n"}, nil,
+			"w.csv:2: joint \"W1\": coordinate 3e+12 mm lies more than 10 km from the origin"},
+		{"bolt washer", map[string]string{"w.csv": "id,x,y,z,kind,diameter,washer\nB1,3,3,1.25,bolt,10,1e6\n"}, nil,
+			"w.csv:2: bolt \"B1\": washer 1000000 mm is more than 200 mm"},
+		{"reach flag", nil, []string{"--reach", "1e300"}, "reach 1e+300 mm: more than the 1000 mm"},
+		{"gap allowance flag", nil, []string{"--gap-allowance", "1e300"}, "gap allowance 1e+300 mm: more than the 100 mm"},
+		{"reach in the job", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  reach: 1e300\n"}, []string{"job.yaml", "-m", "m.jmesh"},
+			"job.yaml:5: reach: 1e+300 mm is more than the 1000 mm"},
+	})
+}
+
+// A huge garbage field is echoed as a short excerpt, whatever the input
+// (issue: a 10 MB token gave a 10 MB stderr line in the native reader,
+// in a CSV kind and in a parts table's surface).
+func TestLongFieldsEchoedShort(t *testing.T) {
+	huge := strings.Repeat("x", 10<<20)
+	mesh := fixture(t, "native/small.jmesh")
+	vtkMesh := fixture(t, "formats/small_ascii.vtk")
+	vtuMesh := fixture(t, "formats/small_ascii.vtu")
+	runHostile(t, []hostileCase{
+		{"native record", map[string]string{"m.jmesh": mesh + huge + "\n"}, nil, `unknown record "xxxxxxxx`},
+		{"native coordinate", map[string]string{"m.jmesh": strings.Replace(mesh, "node 102 10.5 0 0", "node 102 "+huge+" 0 0", 1)}, nil, `x coordinate "xxxx`},
+		{"native part key", map[string]string{"m.jmesh": strings.Replace(mesh, "part 20 thickness=1.5", "part 20 thickness=1.5 "+huge+"=1", 1)}, nil, `unknown key "xxxx`},
+		{"csv kind", map[string]string{"w.csv": "id,x,y,z,kind\nW1,3,3,1.25," + huge + "\n"}, nil, `unknown joint kind "xxxx`},
+		{"csv number", map[string]string{"w.csv": "id,x,y,z\nW1,3," + huge + ",1.25\n"}, nil, `y: "xxxx`},
+		{"csv parts", map[string]string{"w.csv": "id,x,y,z,parts\nW1,3,3,1.25," + huge + "\n"}, nil, `parts: "xxxx`},
+		{"joint id", map[string]string{"w.csv": "id,x,y,z\n" + huge + ",3,3,1.25\n"}, nil, `more than the 256 a joint id may have`},
+		{"parts yaml surface", map[string]string{"p.yaml": "parts:\n  - {id: 10, thickness: 1, surface: " + huge + "}\n"}, []string{"-p", "p.yaml"}, `unknown reference surface "xxxx`},
+		{"parts yaml key", map[string]string{"p.yaml": "parts:\n  - {id: 10, thickness: 1, " + huge + ": 1}\n"}, []string{"-p", "p.yaml"}, `p.yaml:1: YAML: did not find expected`},
+		{"parts csv mesh", map[string]string{"p.csv": "id,thickness,mesh\n10,1,a/" + huge + "\n"}, []string{"-p", "p.csv"}, `is not a file base name`},
+		{"vtk keyword", map[string]string{"m.vtk": strings.Replace(vtkMesh, "SCALARS thickness float 1", huge, 1)}, []string{"-m", "m.vtk", "-j", "w.csv"}, `unknown keyword "xxxx`},
+		{"vtu array name", map[string]string{"m.vtu": strings.Replace(vtuMesh, `Name="thickness" format="ascii"`, `Name="`+huge+`" format="zz"`, 1)}, []string{"-m", "m.vtu", "-j", "w.csv"}, `unknown format "zz"`},
+		{"job attach", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  attach: " + huge + "\n"}, []string{"job.yaml"}, `unknown attachment "xxxx`},
+	})
+}
+
+// The small inconsistencies the issue lists, each with a message that
+// names its file (and line).
+func TestMinorInputProblems(t *testing.T) {
+	mesh := fixture(t, "native/small.jmesh")
+	vtuData, _ := appendedVTU(t)
+	runHostile(t, []hostileCase{
+		// An empty YAML list file is refused as an empty CSV file is.
+		{"empty yaml joint list", map[string]string{"w.yaml": ""}, []string{"-m", "m.jmesh", "-j", "w.yaml"}, "w.yaml: empty file"},
+		{"empty csv joint list", map[string]string{"w.csv": ""}, nil, "w.csv: empty table"},
+		// A header-only mesh is bad input, not a build of nothing.
+		{"header-only jmesh", map[string]string{"m.jmesh": "joinery-mesh 1\n"}, nil, "m.jmesh: no triangles or quads"},
+		{"parts without thickness", map[string]string{"m.jmesh": strings.Replace(mesh, "part 20 thickness=1.5\n", "", 1)}, nil,
+			"m.jmesh: parts without a thickness: 20 (in "},
+		{"id start in the job", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  id_start: 5\n"}, []string{"job.yaml"},
+			"job.yaml:5: id_start: 5 would collide with mesh ids (the largest is 2001)"},
+		{"id start flag", nil, []string{"--id-start", "5"}, "--id-start 5 would collide with mesh ids (the largest is 2001)"},
+		{"vtu without </VTKFile>", map[string]string{"m.vtu": strings.TrimSuffix(strings.TrimSpace(vtuData), "</VTKFile>")}, []string{"-m", "m.vtu", "-j", "w.csv"},
+			"does not end with </AppendedData> and </VTKFile>"},
+	})
+	// A declared list without joints reads as empty, with a warning.
+	dir := hostileDir(t)
+	writeFile(t, dir, "w.yaml", "joints: []\n")
+	writeFile(t, dir, "h.csv", "id,x,y,z\n")
+	for _, list := range []string{"w.yaml", "h.csv"} {
+		code, _, errs := runCLI(t, "build", "-m", filepath.Join(dir, "m.jmesh"), "-j", filepath.Join(dir, list), "-o", filepath.Join(dir, "out-"+list))
+		if code != exitOK || !strings.Contains(errs, list+": the list holds no joints") {
+			t.Errorf("%s: exit %d, stderr %q", list, code, errs)
+		}
+	}
+}
+
+// appendedVTU returns the small fixture as a .vtu file with appended raw
+// data, as VTK writes it.
+func appendedVTU(t *testing.T) (string, string) {
+	t.Helper()
+	p := "vtu/vtk9_appended_raw_lzma.vtu"
+	return fixture(t, p), p
 }
