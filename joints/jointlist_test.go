@@ -11,6 +11,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -394,8 +395,13 @@ func checkJoints(t *testing.T, js []Joint, err error) {
 	}
 	ids := map[string]bool{}
 	for _, j := range js {
-		if j.ID == "" || ids[j.ID] {
-			t.Fatalf("empty or repeated id %q", j.ID)
+		if j.ID == "" || ids[j.ID] || !utf8.ValidString(j.ID) || len(j.ID) > MaxJointIDLength || !utf8.ValidString(j.Group) {
+			t.Fatalf("empty, repeated, long or not UTF-8 id %q (group %q)", j.ID, j.Group)
+		}
+		for k, v := range j.Tags {
+			if !utf8.ValidString(k) || !utf8.ValidString(v) {
+				t.Fatalf("joint %q: tag %q = %q is not UTF-8", j.ID, k, v)
+			}
 		}
 		ids[j.ID] = true
 		for _, v := range []float64{j.Point.X, j.Point.Y, j.Point.Z, j.Diameter, j.Washer, j.Hole} {
@@ -422,6 +428,10 @@ func FuzzReadJointsCSV(f *testing.F) {
 		"id,x,y,z\nW1,1,2,3\nW1,1,2,3\n",
 		"id;x;y;z;parts;diameter\nW1;1;2;3;\"1;2\";5,5\n",
 		"# a,b\nid\tx\ty\tz\tnote\nW1\t1\t\t3\t\n",
+		// Hostile inputs of issue 7.
+		"",
+		"id,x,y,z,group,station\nW\xff1,1,2,3,g,s\nW\xfe1,1,2,3,g\xff,s\xfe\n",
+		"id,x,y,z,kind,diameter\nW1,1,2,3,"+strings.Repeat("x", 3000)+",1e300\n",
 	)
 	f.Fuzz(func(t *testing.T, in string) {
 		js, _, err := ReadJointsCSV(strings.NewReader(in), "f.csv")
@@ -434,6 +444,10 @@ func FuzzReadJointsYAML(f *testing.F) {
 		"joints: []\n",
 		"joints:\n  - &a {id: W1, point: [1, 2, 3], tags: {k: v}}\n  - *a\n",
 		"joints:\n  - {id: B1, kind: bolt, x: 0, y: 0, z: 0, diameter: 10, hole: 11, washer: 20, parts: [1, 2]}\n",
+		// Hostile inputs of issue 7.
+		"",
+		"{}\n",
+		"joints:\n  - {id: \"W\xff1\", point: [1, 2, 3]}\n",
 	)
 	f.Fuzz(func(t *testing.T, in string) {
 		js, _, err := ReadJointsYAML(strings.NewReader(in), "f.yaml")

@@ -167,6 +167,9 @@ func FuzzLoadJob(f *testing.F) {
 		f.Add(string(b))
 	}
 	f.Add("version: 1\nmeshes: [a.vtk]\nbuild: {groups: {g: {attach: patch}}, spot_dofs: [rz]}\n")
+	// Hostile inputs of issue 7.
+	f.Add("version: 1\nmeshes: [a.vtk]\nunits: in\nbuild: {reach: 1e300, id_start: 5}\n")
+	f.Add("version: 1\nmeshes: [a.vtk]\nunits: km\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		job, err := ReadJob(strings.NewReader(in), "d/f.yaml")
 		if err != nil {
@@ -177,6 +180,9 @@ func FuzzLoadJob(f *testing.F) {
 		}
 		if job.Version != JobVersion || len(job.Meshes) == 0 {
 			t.Fatalf("job %+v", job)
+		}
+		if _, err := joints.ParseUnit(job.Units); err != nil {
+			t.Fatalf("units %q: %v", job.Units, err)
 		}
 		// A job that loads applies without error.
 		var o joints.BuildOptions
