@@ -255,3 +255,13 @@ func TestUnitsInJobFile(t *testing.T) {
 		t.Errorf("--units ft: exit %d, %s", code, errs)
 	}
 }
+
+// --units mm is the default: the same outputs, the same run id.
+func TestUnitsMMIsTheDefault(t *testing.T) {
+	skipWithoutExample(t)
+	a, _ := buildDocs(t, exampleJob)
+	b, _ := buildDocs(t, exampleJob, "--units", "mm")
+	if a.RunID != b.RunID {
+		t.Errorf("run ids %s and %s", a.RunID, b.RunID)
+	}
+}
