@@ -49,6 +49,22 @@ func CheckThickness(t, scale float64) error {
 	return nil
 }
 
+// CoordinateLimit returns MaxCoordinate in a unit of scale mm (0 means
+// 1): readers compare the magnitude of every coordinate with it, a test
+// that also fails for NaN, and call CheckCoordinates for the message.
+func CoordinateLimit(scale float64) float64 {
+	if scale <= 0 {
+		scale = 1
+	}
+	return MaxCoordinate / scale
+}
+
+// InRange reports whether every coordinate of a point has a magnitude of
+// at most lim (CoordinateLimit); false for NaN and infinities.
+func InRange(x, y, z, lim float64) bool {
+	return math.Abs(x) <= lim && math.Abs(y) <= lim && math.Abs(z) <= lim
+}
+
 // CheckCoordinates checks that a point, in a unit of scale mm, has finite
 // coordinates of magnitude at most MaxCoordinate mm. scale 0 means 1.
 func CheckCoordinates(x, y, z, scale float64) error {

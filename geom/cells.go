@@ -124,11 +124,15 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		return nil, FileError(cs.File, "no cell array \"part\" and no part in the parts table names this file")
 	}
 	scale := opt.scale()
+	lim := CoordinateLimit(scale)
 	for i, p := range cs.Points {
+		if InRange(p.X, p.Y, p.Z, lim) {
+			continue
+		}
 		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
 			return nil, cs.errAt(ArrayPoints, i, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
 		}
-		if err := CheckCoordinates(p.X, p.Y, p.Z, scale); err != nil {
+		if err := CheckCoordinates(p.X, p.Y, p.Z, scale); err != nil { // nil at the limit's rounding
 			return nil, cs.errAt(ArrayPoints, i, i, "point %d: %v", i, err)
 		}
 	}

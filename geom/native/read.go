@@ -152,8 +152,12 @@ func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, er
 	if err := r.resolveParts(chunks); err != nil {
 		return nil, err
 	}
+	lim := geom.CoordinateLimit(r.scale)
 	for i, p := range r.m.Coords {
-		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, r.scale); err != nil {
+		if geom.InRange(p.X, p.Y, p.Z, lim) {
+			continue
+		}
+		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, r.scale); err != nil { // nil at the limit's rounding
 			return nil, geom.LineError(name, r.recordLine('n', i), "node %d: %v", r.m.NodeIDs[i], err)
 		}
 	}
