@@ -28,6 +28,11 @@ type ReadOptions struct {
 	// with named arrays (VTK); "" means DefaultPartArray. Meshers write
 	// their own names (gmsh: CellEntityIds for physical groups).
 	PartArray string
+	// Scale is the number of millimetres in the unit of the file's
+	// lengths (1 for mm, 1000 for m, 25.4 for inches); 0 means 1. Readers
+	// do not scale what they read: they use Scale to hold thicknesses and
+	// coordinates to the plausible ranges (MaxThickness, MaxCoordinate).
+	Scale float64
 }
 
 // PartArrayName returns the name of the part array: PartArray, or
@@ -139,9 +144,17 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		return nil, FileError(cs.File, "no cell array %q%s and no part in the parts table names this file; name the array that holds part ids (--part-array) or give the file a part in the parts table",
 			partArray, cellArraysText(cs.CellArrays))
 	}
+	scale := opt.scale()
+	lim := CoordinateLimit(scale)
 	for i, p := range cs.Points {
+		if InRange(p.X, p.Y, p.Z, lim) {
+			continue
+		}
 		if !finite(p.X) || !finite(p.Y) || !finite(p.Z) {
 			return nil, cs.errAt(ArrayPoints, i, i, "point %d has a non-finite coordinate (%g, %g, %g)", i, p.X, p.Y, p.Z)
+		}
+		if err := CheckCoordinates(p.X, p.Y, p.Z, scale); err != nil { // nil at the limit's rounding
+			return nil, cs.errAt(ArrayPoints, i, i, "point %d: %v", i, err)
 		}
 	}
 	m := &Mesh{Coords: cs.Points}
@@ -224,8 +237,8 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		m.ElemPart = append(m.ElemPart, lastPI)
 		if cs.Thickness != nil {
 			th := cs.Thickness[c]
-			if !(th > 0) || math.IsInf(th, 0) {
-				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: thickness %g is not a positive number", c, th)
+			if err := CheckThickness(th, scale); err != nil {
+				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: %v", c, err)
 			}
 			m.ElemThickness = append(m.ElemThickness, th)
 		}

@@ -36,7 +36,7 @@ func ParseSurface(s string) (Surface, error) {
 	case "bottom":
 		return SurfaceBottom, nil
 	}
-	return SurfaceMid, fmt.Errorf("unknown reference surface %q (want mid, top or bottom)", s)
+	return SurfaceMid, fmt.Errorf("unknown reference surface %q (want mid, top or bottom)", Excerpt(s))
 }
 
 // MidOffset returns the signed distance, along the element normal, from

@@ -2,9 +2,12 @@ package joints
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // Severity ranks findings.
@@ -41,7 +44,7 @@ func ParseFailOn(s string) (Severity, bool, error) {
 	case "never":
 		return Error, false, nil
 	}
-	return Error, false, fmt.Errorf("unknown failure level %q (want error, warning, info or never)", s)
+	return Error, false, fmt.Errorf("unknown failure level %q (want error, warning, info or never)", geom.Excerpt(s))
 }
 
 // Finding codes. Each names one kind of problem a run can report; the
@@ -66,6 +69,8 @@ const (
 	CodeIDRange        = "id-range"        // new ids above 2,147,483,647
 	CodeIDDigits       = "id-digits"       // new ids have more digits than the mesh's
 	CodeThicknessClash = "thickness-mismatch"
+	CodeUnitsSuspect   = "units-suspect" // thicknesses and element sizes implausible for sheet metal in mm
+	CodePatchCapped    = "patch-capped"  // a patch end ties MaxPatchNodes nodes, fewer than its nugget covers
 )
 
 // Finding is one problem found with a joint (or with the run when Joint
@@ -98,8 +103,12 @@ func MaxSeverity(fs []Finding) Severity {
 func HasError(fs []Finding) bool { return MaxSeverity(fs) == Error }
 
 // MM formats a length for messages: at most three decimals, no trailing
-// zeros, "0" for values that round to zero.
+// zeros, "0" for values that round to zero; magnitudes of a billion or
+// more in exponent form (1e+300, not 301 digits).
 func MM(v float64) string {
+	if math.Abs(v) >= 1e9 {
+		return strconv.FormatFloat(v, 'g', 6, 64)
+	}
 	s := strconv.FormatFloat(v, 'f', 3, 64)
 	for len(s) > 1 && s[len(s)-1] == '0' {
 		s = s[:len(s)-1]

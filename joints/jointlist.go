@@ -4,12 +4,13 @@ import (
 	"cmp"
 	"fmt"
 	"io"
-	"os"
+	"maps"
 	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
 	"unicode"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -40,7 +41,7 @@ func ParseKind(s string) (Kind, error) {
 	case "bolt":
 		return Bolt, nil
 	}
-	return Spot, fmt.Errorf("unknown joint kind %q (want spot or bolt)", s)
+	return Spot, fmt.Errorf("unknown joint kind %q (want spot or bolt)", geom.Excerpt(s))
 }
 
 // jointKeys returns the known CSV columns, which are also the YAML keys.
@@ -87,7 +88,8 @@ const (
 // known column ("diamter", "Part_s"; see tabular.Suggest) is an error, as
 // the same key is in YAML: a misspelt diameter must not silently become
 // the rule's. Lines starting with '#' and blank lines are skipped; a
-// header without rows is an empty list.
+// header without rows is an empty list (with a warning), an empty file
+// an error.
 //
 // YAML: a map with the single key "joints" holding a list of maps with the
 // same keys, except that parts is a list of integers, the point is given
@@ -130,9 +132,9 @@ func readJointList(path string, digest io.Writer) (*jointList, error) {
 	case ".yaml", ".yml":
 		read = readJointsYAML
 	default:
-		return nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", ext)
+		return nil, geom.FileError(path, "unknown joint list type %q (want .csv, .yaml or .yml)", geom.Excerpt(ext))
 	}
-	f, err := os.Open(path)
+	f, err := geom.OpenRegular(path)
 	if err != nil {
 		return nil, fmt.Errorf("joints: reading joint list: %w", err)
 	}
@@ -181,6 +183,7 @@ func readJointsCSV(r io.Reader, name string) (*jointList, error) {
 	for {
 		rec, err := c.Read()
 		if err == io.EOF {
+			l.finish()
 			return l, nil
 		}
 		if err != nil {
@@ -228,7 +231,7 @@ func csvJoint(c *tabular.CSV, rec, keys []string, at []int, j *Joint) error {
 		for s := range strings.SplitSeq(rec[col], ";") {
 			id, err := strconv.ParseInt(strings.TrimSpace(s), 10, 64)
 			if err != nil {
-				return c.Errorf(col, "parts: %q is not a list of part ids separated by ';'", rec[col])
+				return c.Errorf(col, "parts: %q is not a list of part ids separated by ';'", geom.Excerpt(rec[col]))
 			}
 			if err := addPart(j, id); err != nil {
 				return c.Errorf(col, "parts: %w", err)
@@ -283,13 +286,25 @@ func readJointsYAML(r io.Reader, name string) (*jointList, error) {
 	if err != nil {
 		return nil, err
 	}
-	var items []*yaml.Node
+	if root == nil {
+		// As an empty CSV file, which has no header: nothing says this
+		// is a joint list (see the jointList.finish for empty lists).
+		return nil, geom.FileError(name, "empty file: want a joint list (the key joints: and a list of joints)")
+	}
+	var (
+		items   []*yaml.Node
+		hasList bool
+	)
 	err = y.Map(root, "joint list", []string{"joints"}, func(_ string, _, v *yaml.Node) error {
+		hasList = true
 		items, err = y.List(v, "joints")
 		return err
 	})
 	if err != nil {
 		return nil, err
+	}
+	if !hasList {
+		return nil, y.Errorf(root, "joint list: no key joints: (write joints: and a list of joints)")
 	}
 	keys := append(jointKeys(), "point", "tags")
 	l := newJointList(name)
@@ -315,6 +330,7 @@ func readJointsYAML(r io.Reader, name string) (*jointList, error) {
 		}
 	}
 	slices.Sort(l.tags)
+	l.finish()
 	return l, nil
 }
 
@@ -401,9 +417,9 @@ func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, err
 	case idLine == 0:
 		return 0, y.Errorf(it, "joint has no id")
 	case point && (coords[0] || coords[1] || coords[2]):
-		return 0, y.Errorf(it, "joint %q: give either point or x, y and z, not both", j.ID)
+		return 0, y.Errorf(it, "joint %q: give either point or x, y and z, not both", geom.Excerpt(j.ID))
 	case !point && !(coords[0] && coords[1] && coords[2]):
-		return 0, y.Errorf(it, "joint %q: no point (give point: [x, y, z] or x, y and z)", j.ID)
+		return 0, y.Errorf(it, "joint %q: no point (give point: [x, y, z] or x, y and z)", geom.Excerpt(j.ID))
 	}
 	return idLine, nil
 }
@@ -426,6 +442,11 @@ func numField(j *Joint, key string) *float64 {
 	return &j.Hole
 }
 
+// MaxJointIDLength bounds joint ids, bytes: ids are short labels a person
+// reads ("W17", "RR-SW-01042"), repeated in every output and message
+// (our choice: room for any naming scheme, and no megabyte ids).
+const MaxJointIDLength = 256
+
 // jointList collects the joints of one file and checks each as it comes.
 type jointList struct {
 	file   string
@@ -444,8 +465,21 @@ func (l *jointList) add(j Joint, idLine int) error {
 	switch {
 	case j.ID == "":
 		return geom.LineError(l.file, idLine, "joint id is empty")
+	case !utf8.ValidString(j.ID):
+		// Two ids that differ only in bytes that are not UTF-8 ("W\xff1",
+		// "W\xfe1") would both be written as "W\ufffd1".
+		return geom.LineError(l.file, idLine, "joint id %q is not valid UTF-8 text: save the list as UTF-8", geom.Excerpt(j.ID))
 	case strings.ContainsFunc(j.ID, unicode.IsControl):
-		return geom.LineError(l.file, idLine, "joint id %q holds a control character", j.ID)
+		return geom.LineError(l.file, idLine, "joint id %q holds a control character", geom.Excerpt(j.ID))
+	case len(j.ID) > MaxJointIDLength:
+		return geom.LineError(l.file, idLine, "joint id %q is %d bytes long, more than the %d a joint id may have", geom.Excerpt(j.ID), len(j.ID), MaxJointIDLength)
+	case !utf8.ValidString(j.Group):
+		return geom.LineError(l.file, j.Line, "joint %q: group %q is not valid UTF-8 text: save the list as UTF-8", j.ID, geom.Excerpt(j.Group))
+	}
+	for _, name := range slices.Sorted(maps.Keys(j.Tags)) {
+		if v := j.Tags[name]; !utf8.ValidString(name) || !utf8.ValidString(v) {
+			return geom.LineError(l.file, j.Line, "joint %q: tag %q = %q is not valid UTF-8 text: save the list as UTF-8", j.ID, geom.Excerpt(name), geom.Excerpt(v))
+		}
 	}
 	if prev, dup := l.idLine[j.ID]; dup {
 		return geom.LineError(l.file, idLine, "joint id %q given twice (lines %d and %d)", j.ID, prev, idLine)
@@ -463,6 +497,21 @@ func (l *jointList) add(j Joint, idLine int) error {
 	}
 	l.joints = append(l.joints, j)
 	return nil
+}
+
+// finish returns the list's warnings, with one for a list without joints.
+//
+// CSV and YAML lists agree on emptiness: a file with nothing in it (no
+// CSV header, no YAML joints: key) is an input error, as nothing says it
+// is a joint list at all: a failed export or the wrong file. A list that
+// says it is one and holds no joints (a header without rows, joints: [])
+// is read as empty, with a warning: a sub-assembly without welds yet is a
+// plan like any other, but an empty one is worth a word.
+func (l *jointList) finish() []InputWarning {
+	if len(l.joints) == 0 {
+		l.warns = append(l.warns, InputWarning{l.file, 0, "the list holds no joints"})
+	}
+	return l.warns
 }
 
 // CheckParts checks that every part id the joints list exists in m. It

@@ -11,6 +11,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -127,15 +128,35 @@ func TestReadJointsNearMissColumn(t *testing.T) {
 	}
 }
 
+// CSV and YAML lists agree: an empty file is an error in both forms (the
+// issue found an empty YAML file accepted where an empty CSV was refused);
+// a list that is declared but holds no joints reads as empty, with a
+// warning.
 func TestReadJointsEmpty(t *testing.T) {
-	got, _, err := ReadJointsCSV(strings.NewReader("# no joints yet\nid,x,y,z\n"), "w.csv")
-	if err != nil || len(got) != 0 {
-		t.Errorf("header only: %v, %v", got, err)
+	empty := []InputWarning{{"w.csv", 0, "the list holds no joints"}}
+	got, warns, err := ReadJointsCSV(strings.NewReader("# no joints yet\nid,x,y,z\n"), "w.csv")
+	if err != nil || len(got) != 0 || !reflect.DeepEqual(warns, empty) {
+		t.Errorf("header only: %v, %v, %v", got, warns, err)
 	}
-	for _, in := range []string{"joints:\n", "joints: []\n", ""} {
-		got, _, err := ReadJointsYAML(strings.NewReader(in), "w.yaml")
-		if err != nil || len(got) != 0 {
-			t.Errorf("ReadJointsYAML(%q) = %v, %v", in, got, err)
+	empty[0].File = "w.yaml"
+	for _, in := range []string{"joints:\n", "joints: []\n"} {
+		got, warns, err := ReadJointsYAML(strings.NewReader(in), "w.yaml")
+		if err != nil || len(got) != 0 || !reflect.DeepEqual(warns, empty) {
+			t.Errorf("ReadJointsYAML(%q) = %v, %v, %v", in, got, warns, err)
+		}
+	}
+	for _, c := range []struct{ in, want string }{
+		{"", "w.yaml: empty file"},
+		{"# nothing yet\n", "w.yaml: empty file"},
+		{"{}\n", "w.yaml:1: joint list: no key joints:"},
+	} {
+		if _, _, err := ReadJointsYAML(strings.NewReader(c.in), "w.yaml"); !errors.Is(err, geom.ErrInput) || !strings.HasPrefix(err.Error(), c.want) {
+			t.Errorf("ReadJointsYAML(%q): %v, want %q", c.in, err, c.want)
+		}
+	}
+	for _, in := range []string{"", "# nothing yet\n", "\n\n"} {
+		if _, _, err := ReadJointsCSV(strings.NewReader(in), "w.csv"); !errors.Is(err, geom.ErrInput) || !strings.HasPrefix(err.Error(), "w.csv: empty table") {
+			t.Errorf("ReadJointsCSV(%q): %v, want an empty-table error", in, err)
 		}
 	}
 }
@@ -374,8 +395,13 @@ func checkJoints(t *testing.T, js []Joint, err error) {
 	}
 	ids := map[string]bool{}
 	for _, j := range js {
-		if j.ID == "" || ids[j.ID] {
-			t.Fatalf("empty or repeated id %q", j.ID)
+		if j.ID == "" || ids[j.ID] || !utf8.ValidString(j.ID) || len(j.ID) > MaxJointIDLength || !utf8.ValidString(j.Group) {
+			t.Fatalf("empty, repeated, long or not UTF-8 id %q (group %q)", j.ID, j.Group)
+		}
+		for k, v := range j.Tags {
+			if !utf8.ValidString(k) || !utf8.ValidString(v) {
+				t.Fatalf("joint %q: tag %q = %q is not UTF-8", j.ID, k, v)
+			}
 		}
 		ids[j.ID] = true
 		for _, v := range []float64{j.Point.X, j.Point.Y, j.Point.Z, j.Diameter, j.Washer, j.Hole} {
@@ -402,6 +428,10 @@ func FuzzReadJointsCSV(f *testing.F) {
 		"id,x,y,z\nW1,1,2,3\nW1,1,2,3\n",
 		"id;x;y;z;parts;diameter\nW1;1;2;3;\"1;2\";5,5\n",
 		"# a,b\nid\tx\ty\tz\tnote\nW1\t1\t\t3\t\n",
+		// Hostile inputs of issue 7.
+		"",
+		"id,x,y,z,group,station\nW\xff1,1,2,3,g,s\nW\xfe1,1,2,3,g\xff,s\xfe\n",
+		"id,x,y,z,kind,diameter\nW1,1,2,3,"+strings.Repeat("x", 3000)+",1e300\n",
 	)
 	f.Fuzz(func(t *testing.T, in string) {
 		js, _, err := ReadJointsCSV(strings.NewReader(in), "f.csv")
@@ -414,6 +444,10 @@ func FuzzReadJointsYAML(f *testing.F) {
 		"joints: []\n",
 		"joints:\n  - &a {id: W1, point: [1, 2, 3], tags: {k: v}}\n  - *a\n",
 		"joints:\n  - {id: B1, kind: bolt, x: 0, y: 0, z: 0, diameter: 10, hole: 11, washer: 20, parts: [1, 2]}\n",
+		// Hostile inputs of issue 7.
+		"",
+		"{}\n",
+		"joints:\n  - {id: \"W\xff1\", point: [1, 2, 3]}\n",
 	)
 	f.Fuzz(func(t *testing.T, in string) {
 		js, _, err := ReadJointsYAML(strings.NewReader(in), "f.yaml")

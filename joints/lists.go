@@ -32,14 +32,15 @@ func ReadJointLists(paths []string) (*JointLists, error) { return ReadJointLists
 // list's bytes go to the writer it returns (nil for none), so that the
 // caller can hash its inputs as they stream in.
 func ReadJointListsDigest(paths []string, digest func(path string) io.Writer) (*JointLists, error) {
+	if i, j, ok := geom.SameFiles(paths); ok {
+		if filepath.Clean(paths[i]) == filepath.Clean(paths[j]) {
+			return nil, geom.FileError(paths[j], "joint list given twice")
+		}
+		return nil, geom.FileError(paths[j], "joint list given twice: the same file as %s", paths[i])
+	}
 	all := &JointLists{}
 	first := map[string]*Joint{}
-	seenPath := map[string]bool{}
 	for _, p := range paths {
-		if seenPath[filepath.Clean(p)] {
-			return nil, geom.FileError(p, "joint list given twice")
-		}
-		seenPath[filepath.Clean(p)] = true
 		var w io.Writer
 		if digest != nil {
 			w = digest(p)

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // NuggetRule gives a default nugget diameter from the governing sheet
@@ -32,7 +34,7 @@ func ParseNuggetRule(s string) (NuggetRule, error) {
 	case "5sqrt", "":
 		return Rule5Sqrt, nil
 	}
-	return 0, fmt.Errorf("unknown nugget rule %q (want 4sqrt or 5sqrt)", s)
+	return 0, fmt.Errorf("unknown nugget rule %q (want 4sqrt or 5sqrt)", geom.Excerpt(s))
 }
 
 // String returns "4sqrt" or "5sqrt".

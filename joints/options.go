@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // Attach says how a connector end is tied to its sheet.
@@ -44,7 +46,7 @@ func ParseAttach(s string) (Attach, error) {
 	case "patch":
 		return Patch, nil
 	}
-	return Interpolated, fmt.Errorf("unknown attachment %q (want interpolated, node-pair or patch)", s)
+	return Interpolated, fmt.Errorf("unknown attachment %q (want interpolated, node-pair or patch)", geom.Excerpt(s))
 }
 
 // dofName returns the name of degree of freedom i (0 to 5), in the order
@@ -74,10 +76,10 @@ func ParseDOFs(names ...string) (DOFs, error) {
 				}
 			}
 			if i < 0 {
-				return 0, fmt.Errorf("unknown degree of freedom %q (want tx ty tz rx ry rz)", f)
+				return 0, fmt.Errorf("unknown degree of freedom %q (want tx ty tz rx ry rz)", geom.Excerpt(f))
 			}
 			if d&(1<<i) != 0 {
-				return 0, fmt.Errorf("degree of freedom %q given twice", f)
+				return 0, fmt.Errorf("degree of freedom %q given twice", geom.Excerpt(f))
 			}
 			d |= 1 << i
 		}
@@ -233,18 +235,24 @@ func (o *BuildOptions) AttachFor(group string) Attach {
 
 // Validate checks the options a user gave: distances and allowances must
 // be finite and not negative (0 means the default), factors and angles
-// likewise, and the id start not negative.
+// likewise, each at most its plausible bound (MaxReach, MaxGapAllowance,
+// MaxAngleLimit, MaxFactor), and the id start not negative.
 func (o *BuildOptions) Validate() error {
 	for _, f := range []struct {
 		name string
 		v    float64
+		max  float64
+		unit string
 	}{
-		{"reach", o.Reach}, {"gap allowance", o.GapAllowance},
-		{"angle limit", o.AngleLimit}, {"lateral factor", o.LateralFactor},
-		{"edge factor", o.EdgeFactor}, {"node factor", o.NodeFactor},
+		{"reach", o.Reach, MaxReach, " mm"}, {"gap allowance", o.GapAllowance, MaxGapAllowance, " mm"},
+		{"angle limit", o.AngleLimit, MaxAngleLimit, " degrees"}, {"lateral factor", o.LateralFactor, MaxFactor, ""},
+		{"edge factor", o.EdgeFactor, MaxFactor, ""}, {"node factor", o.NodeFactor, MaxFactor, ""},
 	} {
 		if math.IsNaN(f.v) || math.IsInf(f.v, 0) || f.v < 0 {
 			return fmt.Errorf("%s %g: want a finite number, 0 or more (0 for the default)", f.name, f.v)
+		}
+		if f.v > f.max {
+			return fmt.Errorf("%s %g%s: more than the %g%s that can make sense for a spot weld", f.name, f.v, f.unit, f.max, f.unit)
 		}
 	}
 	if o.IDStart < 0 {

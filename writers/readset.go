@@ -101,13 +101,13 @@ func readSetOnce(dir string) (*SetContents, error) {
 		return nil, geom.FileError(markerName, "the set was not finished")
 	}
 	if !document.ValidRunID(marker.RunID) {
-		return nil, geom.FileError(markerName, "run_id %q is not a run id", excerpt(marker.RunID))
+		return nil, geom.FileError(markerName, "run_id %q is not a run id", geom.Excerpt(marker.RunID))
 	}
 	set := &SetContents{Marker: marker, Files: make(map[string][]byte, len(marker.Files))}
 	for _, sf := range marker.Files {
 		name := filepath.Join(dir, sf.Name)
 		if sf.Name != filepath.Base(sf.Name) || sf.Name == document.SetMarker {
-			return nil, geom.FileError(markerName, "file name %q is not a file of the set", excerpt(sf.Name))
+			return nil, geom.FileError(markerName, "file name %q is not a file of the set", geom.Excerpt(sf.Name))
 		}
 		data, err := open(sf.Name)
 		switch {
@@ -129,13 +129,4 @@ func readSetOnce(dir string) (*SetContents, error) {
 		set.Files[sf.Name] = data
 	}
 	return set, nil
-}
-
-// excerpt cuts a text echoed in a message to a readable length.
-func excerpt(s string) string {
-	const limit = 40
-	if len(s) <= limit {
-		return s
-	}
-	return s[:limit] + "..."
 }

@@ -62,7 +62,7 @@ func (o *buildOptions) apply(job *pipeline.Job) {
 		b.SpotDOFs = []string{o.spotDOFs}
 	}
 	if set("id-start") {
-		b.IDStart = &o.idStart
+		b.IDStart, b.IDStartLine = &o.idStart, 0
 	}
 	if set("nugget-rule") {
 		b.NuggetRule = o.nuggetRule

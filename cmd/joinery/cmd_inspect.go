@@ -59,6 +59,9 @@ func runInspect(c *cobra.Command, o *inspectOptions, g *globalOptions, args []st
 	if err != nil {
 		return err
 	}
+	for _, f := range in.Findings {
+		g.note("warning: %s: %s", f.Code, f.Message)
+	}
 	m := in.Model
 	rep := inspect.Run(inspect.ModelInfo{Mesh: m.Mesh, Renumbered: m.Renumbered, UnusedParts: m.UnusedParts, PartsTable: job.Parts != ""}, in.Joints, o.inspect)
 	if g.json {

@@ -17,6 +17,7 @@ type inputOptions struct {
 	// partArray names the VTK cell array of part ids.
 	partArray string
 	flags     *pflag.FlagSet
+	units     string
 }
 
 // AddFlags registers the input flags.
@@ -27,6 +28,7 @@ func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
 	fs.StringVar(&o.partArray, "part-array", geom.DefaultPartArray, "VTK cell array that holds the part ids (gmsh writes CellEntityIds)")
+	fs.StringVar(&o.units, "units", "mm", "unit of every input length (meshes, parts table, joint lists): mm, m or in; outputs keep it, rules and options work in mm")
 }
 
 // apply overrides the job's inputs with the flags the user set.
@@ -45,6 +47,9 @@ func (o *inputOptions) apply(job *pipeline.Job) {
 	}
 	if o.flags.Changed("part-array") {
 		job.PartArray = o.partArray
+	}
+	if o.flags.Changed("units") {
+		job.Units = o.units
 	}
 }
 

@@ -89,10 +89,10 @@ func (s sheetVTK) write(t *testing.T, path string) {
 			fmt.Fprintf(&b, "%d\n", s.ids+int64(k))
 		}
 	}
-	writeFile(t, path, b.String())
+	writePath(t, path, b.String())
 }
 
-func writeFile(t *testing.T, path, content string) {
+func writePath(t *testing.T, path, content string) {
 	t.Helper()
 	if err := os.WriteFile(path, []byte(content), 0o644); err != nil {
 		t.Fatal(err)
@@ -107,8 +107,8 @@ func twoSheets(t *testing.T, lower, upper sheetVTK) string {
 	dir := t.TempDir()
 	lower.write(t, filepath.Join(dir, "floor.vtk"))
 	upper.write(t, filepath.Join(dir, "beam.vtk"))
-	writeFile(t, filepath.Join(dir, "parts.yaml"), "parts:\n  - {id: 1, thickness: 0.8}\n  - {id: 2, thickness: 1.2}\n")
-	writeFile(t, filepath.Join(dir, "welds.csv"), "id,x,y,z\nW1,21.5,26.5,0.5\nW2,31,12,0.5\n")
+	writePath(t, filepath.Join(dir, "parts.yaml"), "parts:\n  - {id: 1, thickness: 0.8}\n  - {id: 2, thickness: 1.2}\n")
+	writePath(t, filepath.Join(dir, "welds.csv"), "id,x,y,z\nW1,21.5,26.5,0.5\nW2,31,12,0.5\n")
 	return dir
 }
 
@@ -159,12 +159,12 @@ func TestPartArray(t *testing.T) {
 		t.Errorf("--part-array CellEntityIds: exit %d, %s%s", code, out, errs)
 	}
 	job := filepath.Join(dir, "job.yaml")
-	writeFile(t, job, "version: 1\nmeshes: [floor.vtk, beam.vtk]\nparts: parts.yaml\njoints: [welds.csv]\npart_array: CellEntityIds\n")
+	writePath(t, job, "version: 1\nmeshes: [floor.vtk, beam.vtk]\nparts: parts.yaml\njoints: [welds.csv]\npart_array: CellEntityIds\n")
 	out = filepath.Join(dir, "out")
 	if code, _, errs := runCLI(t, "build", job, "--out", out, "--quiet"); code != exitOK {
 		t.Errorf("job part_array: exit %d, %s", code, errs)
 	}
-	writeFile(t, job, "version: 1\nmeshes: [floor.vtk]\npart_array: element_id\n")
+	writePath(t, job, "version: 1\nmeshes: [floor.vtk]\npart_array: element_id\n")
 	if code, _, errs := runCLI(t, "inspect", job); code != exitBadInput || !strings.Contains(errs, "part_array") {
 		t.Errorf("part_array element_id: exit %d, %s", code, errs)
 	}
@@ -354,8 +354,8 @@ func TestSecondOrderBuild(t *testing.T) {
 		t.Fatal(err)
 	}
 	f.Close()
-	writeFile(t, filepath.Join(dir, "parts.yaml"), "parts:\n  - {id: 1, thickness: 1}\n  - {id: 2, thickness: 1}\n")
-	writeFile(t, filepath.Join(dir, "welds.csv"), "id,x,y,z\nW1,21.5,26.5,0.5\nW2,31,12,0.5\nW3,12.2,40.3,0.5\n")
+	writePath(t, filepath.Join(dir, "parts.yaml"), "parts:\n  - {id: 1, thickness: 1}\n  - {id: 2, thickness: 1}\n")
+	writePath(t, filepath.Join(dir, "welds.csv"), "id,x,y,z\nW1,21.5,26.5,0.5\nW2,31,12,0.5\nW3,12.2,40.3,0.5\n")
 	args := []string{"--mesh", filepath.Join(dir, "floor.vtk"), "--mesh", filepath.Join(dir, "beam.jmesh"),
 		"--parts", filepath.Join(dir, "parts.yaml"), "--joints", filepath.Join(dir, "welds.csv")}
 	code, out, errs := runCLI(t, append([]string{"inspect", "--deep"}, args...)...)

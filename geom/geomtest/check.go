@@ -3,6 +3,8 @@ package geomtest
 import (
 	"errors"
 	"fmt"
+	"math"
+	"unicode/utf8"
 
 	"github.com/joinery-cae/joinery/geom"
 )
@@ -28,7 +30,10 @@ func CheckRead(m *geom.Mesh, err error) error {
 // reader returns it, or nil: slice lengths that disagree (nodes and ids,
 // elements and starts, parts and thicknesses), starts that do not begin
 // at 0, step back or end past the connectivity, elements that are not
-// linear triangles or quads (the only kinds the readers make), node or
+// linear triangles or quads (the only kinds the readers make),
+// coordinates and thicknesses outside the plausible ranges
+// (geom.CheckCoordinates, geom.CheckThickness, at Scale 1), part names or
+// materials that are not UTF-8, node or
 // part indices out of range, and id lookups (NodeIndex, ElemIndex,
 // PartIndex) that do not lead back to the same node, element or part; m
 // must therefore have been indexed.
@@ -45,6 +50,23 @@ func CheckMesh(m *geom.Mesh) error {
 	}
 	if m.ElemThickness != nil && len(m.ElemThickness) != ne {
 		return fmt.Errorf("%d thicknesses for %d elements", len(m.ElemThickness), ne)
+	}
+	// Values the readers hold to the plausible ranges (read with the
+	// default ReadOptions.Scale).
+	for i, p := range m.Coords {
+		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, 1); err != nil {
+			return fmt.Errorf("node %d (id %d): %w", i, m.NodeIDs[i], err)
+		}
+	}
+	for e, t := range m.ElemThickness {
+		if !math.IsNaN(t) && geom.CheckThickness(t, 1) != nil {
+			return fmt.Errorf("element %d: thickness %g", e, t)
+		}
+	}
+	for _, p := range m.Parts {
+		if p.Thickness != 0 && geom.CheckThickness(p.Thickness, 1) != nil || !utf8.ValidString(p.Name) || !utf8.ValidString(p.Material) {
+			return fmt.Errorf("part %+v", p)
+		}
 	}
 	for e := range ne {
 		if k := m.ElemStart[e+1] - m.ElemStart[e]; k < 0 || k > geom.MaxElemNodes || !geom.ElemType(k).Valid() {

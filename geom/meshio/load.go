@@ -25,6 +25,11 @@ type LoadOptions struct {
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray (see geom.ReadOptions).
 	PartArray string
+	// Scale is the number of millimetres in the unit of the files'
+	// lengths, meshes and parts table alike; 0 means 1. Load does not
+	// scale: the readers hold values to their plausible ranges with it
+	// (geom.ReadOptions.Scale).
+	Scale float64
 	// Workers bounds the number of files read at once; 0 means
 	// runtime.GOMAXPROCS(0).
 	Workers int
@@ -85,13 +90,12 @@ func Load(opts LoadOptions) (*Model, error) {
 	if len(opts.Meshes) == 0 {
 		return nil, errors.New("meshio: no mesh files given")
 	}
-	seen := make(map[string]int, len(opts.Meshes))
-	for i, p := range opts.Meshes {
-		c := filepath.Clean(p)
-		if prev, dup := seen[c]; dup {
-			return nil, fmt.Errorf("meshio: mesh file %s given twice (arguments %d and %d): %w", p, prev+1, i+1, geom.ErrInput)
+	if i, j, ok := geom.SameFiles(opts.Meshes); ok {
+		p, q := opts.Meshes[i], opts.Meshes[j]
+		if filepath.Clean(p) == filepath.Clean(q) {
+			return nil, geom.FileError(q, "mesh file given twice (meshes %d and %d)", i+1, j+1)
 		}
-		seen[c] = i
+		return nil, geom.FileError(q, "mesh file given twice (meshes %d and %d): the same file as %s", i+1, j+1, p)
 	}
 	var table []geom.Part
 	defaults := map[string]int64{}
@@ -101,7 +105,7 @@ func Load(opts LoadOptions) (*Model, error) {
 		if opts.Digest != nil {
 			digest = opts.Digest(opts.Parts)
 		}
-		if table, err = readParts(opts.Parts, digest); err != nil {
+		if table, err = readParts(opts.Parts, digest, opts.Scale); err != nil {
 			return nil, err
 		}
 		for _, p := range table {
@@ -175,7 +179,7 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 		wg.Go(func() {
 			for i := range next {
 				path := opts.Meshes[i]
-				ro := geom.ReadOptions{PartArray: opts.PartArray}
+				ro := geom.ReadOptions{PartArray: opts.PartArray, Scale: opts.Scale}
 				if id, ok := defaults[filepath.Base(path)]; ok {
 					ro.DefaultPart, ro.HasDefaultPart = id, true
 				}
@@ -200,6 +204,21 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 	for _, err := range errs {
 		if err != nil {
 			return nil, err
+		}
+	}
+	for i, m := range meshes {
+		if m.NumElems() == 0 {
+			skipped := 0
+			for _, s := range m.Sources {
+				for _, n := range s.Skipped {
+					skipped += n
+				}
+			}
+			what := ""
+			if skipped > 0 {
+				what = fmt.Sprintf(" (%d cells of other types skipped)", skipped)
+			}
+			return nil, geom.FileError(opts.Meshes[i], "no triangles or quads%s: a mesh file must hold shell elements", what)
 		}
 	}
 	return meshes, nil
@@ -284,6 +303,19 @@ func (md *Model) SkippedTotal() geom.SkippedCells {
 		all = all.Add(f.Cells)
 	}
 	return all
+}
+
+// PartFiles returns, for each part id, the first mesh file holding an
+// element of that part ("input" when the mesh records no file).
+func (md *Model) PartFiles(ids []int64) []string {
+	out := make([]string, len(ids))
+	for i, id := range ids {
+		out[i] = "input"
+		if pi, ok := md.Mesh.PartIndex(id); ok {
+			out[i] = partFile(md.Mesh, int(pi))
+		}
+	}
+	return out
 }
 
 // MissingThickness returns, in increasing order, the ids of parts with at

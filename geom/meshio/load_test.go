@@ -192,7 +192,7 @@ func TestLoadErrors(t *testing.T) {
 		in   bool // input error
 	}{
 		{"no meshes", LoadOptions{}, "meshio: no mesh files given", false},
-		{"twice", LoadOptions{Meshes: []string{"a.vtk", "./a.vtk"}}, "meshio: mesh file ./a.vtk given twice (arguments 1 and 2)", true},
+		{"twice", LoadOptions{Meshes: []string{"a.vtk", "./a.vtk"}}, "./a.vtk: mesh file given twice (meshes 1 and 2)", true},
 		{"part not in table", LoadOptions{Meshes: []string{"a.vtk"}, Parts: table}, "a.vtk: part 2 is not in the parts table " + table, true},
 		{"bad table", LoadOptions{Meshes: []string{"a.vtk"}, Parts: "parts.txt"}, `parts.txt: unknown parts table type ".txt"`, true},
 		{"thickness conflict", LoadOptions{Meshes: []string{"b.vtk", "c.vtk"}}, "c.vtk: part 1 has thickness 3 mm here and 2 mm in b.vtk", true},

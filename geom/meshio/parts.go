@@ -3,9 +3,9 @@ package meshio
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -22,30 +22,31 @@ func partKeys() []string {
 // ReadParts reads the parts table in the named file: YAML for .yaml and
 // .yml, CSV for .csv (see the package documentation for both forms).
 // Parts are returned in file order.
-func ReadParts(path string) ([]geom.Part, error) { return readParts(path, nil) }
+func ReadParts(path string) ([]geom.Part, error) { return readParts(path, nil, 1) }
 
 // readParts reads the parts table in the named file, passing every byte
-// to digest (when not nil) as it is read.
-func readParts(path string, digest io.Writer) ([]geom.Part, error) {
-	var read func(io.Reader, string) ([]geom.Part, error)
+// to digest (when not nil) as it is read; its thicknesses are in a unit
+// of scale mm (see geom.ReadOptions.Scale).
+func readParts(path string, digest io.Writer, scale float64) ([]geom.Part, error) {
+	var read func(io.Reader, string, float64) ([]geom.Part, error)
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".yaml", ".yml":
-		read = ReadPartsYAML
+		read = readPartsYAML
 	case ".csv":
-		read = ReadPartsCSV
+		read = readPartsCSV
 	default:
-		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", ext)
+		return nil, geom.FileError(path, "unknown parts table type %q (want .yaml, .yml or .csv)", geom.Excerpt(ext))
 	}
-	f, err := os.Open(path)
+	f, err := geom.OpenRegular(path)
 	if err != nil {
 		return nil, fmt.Errorf("meshio: reading parts table: %w", err)
 	}
 	defer f.Close()
 	if digest == nil {
-		return read(f, path)
+		return read(f, path, scale)
 	}
 	r := io.TeeReader(f, digest)
-	parts, err := read(r, path)
+	parts, err := read(r, path, scale)
 	if err == nil {
 		// The digest covers the whole file, whatever the parser left unread.
 		if _, err = io.Copy(io.Discard, r); err != nil {
@@ -58,7 +59,9 @@ func readParts(path string, digest io.Writer) ([]geom.Part, error) {
 // ReadPartsYAML reads a parts table in YAML from r; name is the file name
 // used in errors. The document is a map with the single key "parts"
 // holding a list of maps; an empty document or list is an empty table.
-func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
+func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) { return readPartsYAML(r, name, 1) }
+
+func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error) {
 	y := tabular.YAML{File: name}
 	root, err := y.Parse(r)
 	if err != nil {
@@ -99,7 +102,7 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 			case "thickness":
 				hasT = true
 				if p.Thickness, err = y.Float(v, "thickness"); err == nil {
-					err = at(v, checkThickness(p.Thickness))
+					err = at(v, checkThickness(p.Thickness, scale))
 				}
 			case "material":
 				p.Material, err = y.String(v, "material")
@@ -137,7 +140,9 @@ func ReadPartsYAML(r io.Reader, name string) ([]geom.Part, error) {
 // used in errors. The header names the columns in any order and case;
 // id and thickness are required, the other columns optional, and an
 // empty cell of an optional column means not given.
-func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
+func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) { return readPartsCSV(r, name, 1) }
+
+func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) {
 	c, err := tabular.NewCSV(r, name)
 	if err != nil {
 		return nil, err
@@ -181,8 +186,13 @@ func ReadPartsCSV(r io.Reader, name string) ([]geom.Part, error) {
 		if p.Thickness, err = c.Float(rec, ct); err != nil {
 			return nil, err
 		}
-		if err := checkThickness(p.Thickness); err != nil {
+		if err := checkThickness(p.Thickness, scale); err != nil {
 			return nil, c.Errorf(ct, "%w", err)
+		}
+		for _, k := range []int{kName, kMaterial, kSurface, kMesh} {
+			if col := at[k]; col >= 0 && !utf8.ValidString(rec[col]) {
+				return nil, c.Errorf(col, "%s: %q is not valid UTF-8 text: save the table as UTF-8", keys[k], geom.Excerpt(rec[col]))
+			}
 		}
 		if col := at[kName]; col >= 0 {
 			p.Name = rec[col]
@@ -217,9 +227,12 @@ func checkID(id int64) error {
 	return nil
 }
 
-func checkThickness(t float64) error {
+func checkThickness(t, scale float64) error {
 	if t <= 0 {
 		return fmt.Errorf("thickness: %g mm is not positive", t)
+	}
+	if err := geom.CheckThickness(t, scale); err != nil {
+		return fmt.Errorf("thickness: %w", err)
 	}
 	return nil
 }
@@ -235,7 +248,7 @@ func parseSurface(s string) (geom.Surface, error) {
 // checkMeshName accepts "" and file base names.
 func checkMeshName(s string) error {
 	if strings.ContainsAny(s, `/\`) {
-		return fmt.Errorf("mesh: %q is not a file base name (write floor.vtk, not a path)", s)
+		return fmt.Errorf("mesh: %q is not a file base name (write floor.vtk, not a path)", geom.Excerpt(s))
 	}
 	return nil
 }
@@ -264,7 +277,7 @@ func (t *partTable) add(p geom.Part, idLine, meshLine int) error {
 	t.idLine[p.ID] = idLine
 	if p.Mesh != "" {
 		if prev, dup := t.meshLine[p.Mesh]; dup {
-			return geom.LineError(t.file, meshLine, "mesh %q given to two parts (lines %d and %d)", p.Mesh, prev, meshLine)
+			return geom.LineError(t.file, meshLine, "mesh %q given to two parts (lines %d and %d)", geom.Excerpt(p.Mesh), prev, meshLine)
 		}
 		t.meshLine[p.Mesh] = meshLine
 	}

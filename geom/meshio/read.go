@@ -22,6 +22,6 @@ func ReadMesh(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 	case ".jmesh":
 		return native.ReadFile(path, opt)
 	default:
-		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu or .jmesh)", ext)
+		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu or .jmesh)", geom.Excerpt(ext))
 	}
 }

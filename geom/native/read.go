@@ -9,6 +9,7 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+	"unicode/utf8"
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/internal/decimal"
@@ -92,6 +93,7 @@ type partRecord struct {
 type reader struct {
 	name    string
 	data    []byte
+	scale   float64 // geom.ReadOptions.Scale
 	m       *geom.Mesh
 	partIDs []int64 // part id per element, as written
 	connIDs []int64 // node ids as written; chunk c uses [4*c.elemBase, 4*c.elemBase+c.nconn) unless c.conn is set
@@ -100,14 +102,19 @@ type reader struct {
 // parse reads data in as many pieces as there are processors, up to
 // maxChunks, none smaller than minChunk.
 func parse(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	_ = opt // every shell record names its part
+	// Every shell record names its part: only opt.Scale applies.
 	n := min(runtime.GOMAXPROCS(0), maxChunks, len(data)/minChunk)
-	return parseSplit(data, name, max(n, 1))
+	return parseScaled(data, name, max(n, 1), opt.Scale)
 }
 
 // parseSplit reads data in n pieces. The result does not depend on n.
 func parseSplit(data []byte, name string, n int) (*geom.Mesh, error) {
-	r := &reader{name: name, data: data}
+	return parseScaled(data, name, n, 1)
+}
+
+// parseScaled reads data in n pieces; scale is ReadOptions.Scale.
+func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, error) {
+	r := &reader{name: name, data: data, scale: scale}
 	chunks := split(data, n)
 	parallel(len(chunks), func(i int) { chunks[i].count() })
 
@@ -149,6 +156,15 @@ func parseSplit(data []byte, name string, n int) (*geom.Mesh, error) {
 	}
 	if err := r.resolveParts(chunks); err != nil {
 		return nil, err
+	}
+	lim := geom.CoordinateLimit(r.scale)
+	for i, p := range r.m.Coords {
+		if geom.InRange(p.X, p.Y, p.Z, lim) {
+			continue
+		}
+		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, r.scale); err != nil { // nil at the limit's rounding
+			return nil, geom.LineError(name, r.recordLine('n', i), "node %d: %v", r.m.NodeIDs[i], err)
+		}
 	}
 	r.mergeThickness(chunks)
 	m := r.m
@@ -357,7 +373,7 @@ func (r *reader) parseChunk(c *chunk) {
 			}
 			id, ok := parseInt(f[0])
 			if !ok {
-				fail("node id %q is not an integer", f[0])
+				fail("node id %q is not an integer", geom.Excerpt(f[0]))
 				return
 			}
 			if id <= 0 {
@@ -368,7 +384,7 @@ func (r *reader) parseChunk(c *chunk) {
 			for k := range p {
 				v, ok := parseFloat(f[k+1])
 				if !ok || math.IsInf(v, 0) {
-					fail("node %d: %c coordinate %q is not a finite decimal number", id, "xyz"[k], f[k+1])
+					fail("node %d: %c coordinate %q is not a finite decimal number", id, "xyz"[k], geom.Excerpt(f[k+1]))
 					return
 				}
 				p[k] = v
@@ -388,7 +404,7 @@ func (r *reader) parseChunk(c *chunk) {
 				if f == nil {
 					fail("shell record needs an element id, a part id and 3, 4, 6, 8 or 9 node ids")
 				} else {
-					fail("shell id %q is not an integer", f)
+					fail("shell id %q is not an integer", geom.Excerpt(f))
 				}
 				return
 			}
@@ -402,7 +418,7 @@ func (r *reader) parseChunk(c *chunk) {
 				if f == nil {
 					fail("shell %d: no part id", id)
 				} else {
-					fail("shell %d: part id %q is not an integer", id, f)
+					fail("shell %d: part id %q is not an integer", id, geom.Excerpt(f))
 				}
 				return
 			}
@@ -420,7 +436,11 @@ func (r *reader) parseChunk(c *chunk) {
 				if len(f) > 2 && f[0] == 't' && f[1] == '=' {
 					v, ok := parseFloat(f[2:])
 					if !ok || !(v > 0) || math.IsInf(v, 0) {
-						fail("shell %d: thickness %q is not a positive finite number", id, f[2:])
+						fail("shell %d: thickness %q is not a positive finite number", id, geom.Excerpt(f[2:]))
+						return
+					}
+					if err := geom.CheckThickness(v, r.scale); err != nil {
+						fail("shell %d: %v", id, err)
 						return
 					}
 					if more := countFields(l, i); more != 0 {
@@ -432,7 +452,7 @@ func (r *reader) parseChunk(c *chunk) {
 				}
 				nid, ok := parseInt(f)
 				if !ok {
-					fail("shell %d: node id %q is not an integer", id, f)
+					fail("shell %d: node id %q is not an integer", id, geom.Excerpt(f))
 					return
 				}
 				if nid <= 0 {
@@ -477,7 +497,7 @@ func (r *reader) parseChunk(c *chunk) {
 			fail("the header %q may only be the first record", Header)
 			return
 		default:
-			fail("unknown record %q (want part, node or shell)", kw)
+			fail("unknown record %q (want part, node or shell)", geom.Excerpt(kw))
 			return
 		}
 	}
@@ -603,7 +623,7 @@ func (r *reader) header(l []byte, fail func(string, ...any)) bool {
 	case v == nil:
 		fail("header has no format version (want %q)", Header)
 	case string(v) != "1":
-		fail("format version %q is not supported (this reader reads version %d)", v, Version)
+		fail("format version %q is not supported (this reader reads version %d)", geom.Excerpt(v), Version)
 	case countFields(l, i) != 0:
 		fail("header has extra fields (want %q)", Header)
 	default:
@@ -622,7 +642,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		fail("part record needs a part id")
 		return p, false
 	case !ok:
-		fail("part id %q is not an integer", f)
+		fail("part id %q is not an integer", geom.Excerpt(f))
 		return p, false
 	case id <= 0:
 		fail("part id %d is not positive", id)
@@ -641,7 +661,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 		}
 		key, val, ok := bytes.Cut(f, []byte{'='})
 		if !ok {
-			fail("part %d: field %q is not key=value", id, f)
+			fail("part %d: field %q is not key=value", id, geom.Excerpt(f))
 			return p, false
 		}
 		k := -1
@@ -659,7 +679,7 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 			val = bytes.TrimLeft(val, " \t\r")
 			i = len(l)
 		default:
-			fail("part %d: unknown key %q (want thickness, surface, material or name)", id, key)
+			fail("part %d: unknown key %q (want thickness, surface, material or name)", id, geom.Excerpt(key))
 			return p, false
 		}
 		if seen[k] {
@@ -671,11 +691,19 @@ func (r *reader) part(l []byte, i int, fail func(string, ...any)) (geom.Part, bo
 			fail("part %d: %s has no value", id, key)
 			return p, false
 		}
+		if !utf8.Valid(val) {
+			fail("part %d: %s %q is not valid UTF-8 text", id, key, geom.Excerpt(val))
+			return p, false
+		}
 		switch k {
 		case 0:
 			t, ok := parseFloat(val)
 			if !ok || !(t > 0) || math.IsInf(t, 0) {
-				fail("part %d: thickness %q is not a positive finite number", id, val)
+				fail("part %d: thickness %q is not a positive finite number", id, geom.Excerpt(val))
+				return p, false
+			}
+			if err := geom.CheckThickness(t, r.scale); err != nil {
+				fail("part %d: %v", id, err)
 				return p, false
 			}
 			p.Thickness = t

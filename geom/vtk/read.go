@@ -234,7 +234,7 @@ func (p *parser) count(off, i int, what string, limit int64) (int, error) {
 	}
 	v, err := strconv.ParseInt(string(p.fields[i]), 10, 64)
 	if err != nil || v < 0 || v > limit {
-		return 0, p.errAt(off, "%s: %s %q is not a count from 0 to %d", strings.ToUpper(p.keyword(0)), what, truncate(p.fields[i]), limit)
+		return 0, p.errAt(off, "%s: %s %q is not a count from 0 to %d", strings.ToUpper(p.keyword(0)), what, geom.Excerpt(p.fields[i]), limit)
 	}
 	return int(v), nil
 }
@@ -247,7 +247,7 @@ func (p *parser) dataType(off, i int, what string) (dtype, error) {
 	}
 	t, ok := lookupType(p.fields[i])
 	if !ok {
-		return dtype{}, p.errAt(off, "%s: unsupported data type %q", what, truncate(p.fields[i]))
+		return dtype{}, p.errAt(off, "%s: unsupported data type %q", what, geom.Excerpt(p.fields[i]))
 	}
 	return t, nil
 }
@@ -285,21 +285,13 @@ func (p *parser) parse() error {
 		case "dataset":
 			err = p.errAt(off, "a second DATASET line")
 		default:
-			err = p.errAt(off, "unknown keyword %q", truncate(p.fields[0]))
+			err = p.errAt(off, "unknown keyword %q", geom.Excerpt(p.fields[0]))
 		}
 		if err != nil {
 			return err
 		}
 	}
 	return p.finish()
-}
-
-// truncate shortens garbage tokens for error messages.
-func truncate(tok []byte) []byte {
-	if len(tok) > 40 {
-		return tok[:40]
-	}
-	return tok
 }
 
 // header reads the version line, the title, the ASCII/BINARY line and the
@@ -313,7 +305,7 @@ func (p *parser) header() error {
 	ver := bytes.TrimSpace(line[len(magic):])
 	major, minor, ok := parseVersion(ver)
 	if !ok || major < 2 || major > 5 || major == 5 && minor > 1 {
-		return p.errAt(off, "unsupported file version %q (want 2.0 to 5.1)", truncate(ver))
+		return p.errAt(off, "unsupported file version %q (want 2.0 to 5.1)", geom.Excerpt(ver))
 	}
 	if _, off, ok = p.rawLine(); !ok {
 		return p.errAt(off, "file ends after the first line; want a title line")
@@ -326,17 +318,17 @@ func (p *parser) header() error {
 	case bytes.EqualFold(f, []byte("binary")):
 		p.binary = true
 	default:
-		return p.errAt(off, "want ASCII or BINARY, found %q", truncate(f))
+		return p.errAt(off, "want ASCII or BINARY, found %q", geom.Excerpt(f))
 	}
 	off, ok = p.nextLine()
 	if !ok {
 		return p.errAt(off, "file ends before the DATASET line")
 	}
 	if p.keyword(0) != "dataset" {
-		return p.errAt(off, "want a DATASET line, found %q", truncate(p.fields[0]))
+		return p.errAt(off, "want a DATASET line, found %q", geom.Excerpt(p.fields[0]))
 	}
 	if ds := p.keyword(1); ds != "unstructured_grid" {
-		return p.errAt(off, "unsupported dataset type %q (want UNSTRUCTURED_GRID)", truncate([]byte(ds)))
+		return p.errAt(off, "unsupported dataset type %q (want UNSTRUCTURED_GRID)", geom.Excerpt([]byte(ds)))
 	}
 	return nil
 }
@@ -384,7 +376,7 @@ func (p *parser) asciiFail(i, k, n int, what string) error {
 		return p.errAt(i, "%s: file ends after %d of %d values", what, k, n)
 	}
 	tok := p.data[i:tokenEnd(p.data, i)]
-	return p.errAt(i, "%s: value %d of %d: %q is not a valid number here", what, k+1, n, truncate(tok))
+	return p.errAt(i, "%s: value %d of %d: %q is not a valid number here", what, k+1, n, geom.Excerpt(tok))
 }
 
 // readInts reads n integer values of type t; off is the keyword line.
@@ -637,7 +629,7 @@ func (p *parser) expect(kw string) (int, error) {
 		return off, p.errAt(off, "file ends; want %s", kw)
 	}
 	if p.keyword(0) != kw {
-		return off, p.errAt(off, "want %s, found %q", kw, truncate(p.fields[0]))
+		return off, p.errAt(off, "want %s, found %q", kw, geom.Excerpt(p.fields[0]))
 	}
 	return off, nil
 }
@@ -797,7 +789,7 @@ func (p *parser) array(off int, name []byte, ncomp, ntuples int, t dtype, where 
 	case where == attrCell && string(name) == "thickness":
 		reals, arr = &p.cs.Thickness, geom.ArrayThickness
 	default:
-		what := fmt.Sprintf("array %q", truncate(name))
+		what := fmt.Sprintf("array %q", geom.Excerpt(name))
 		return p.skipValues(off, int64(ncomp)*int64(ntuples), t, what)
 	}
 	what := fmt.Sprintf("array %s", name)
@@ -847,7 +839,7 @@ func (p *parser) field(off int, where attrs, nvals int) error {
 		if err != nil {
 			return err
 		}
-		t, err := p.dataType(aoff, 3, fmt.Sprintf("FIELD array %s", truncate(name)))
+		t, err := p.dataType(aoff, 3, fmt.Sprintf("FIELD array %s", geom.Excerpt(name)))
 		if err != nil {
 			return err
 		}
@@ -868,7 +860,7 @@ func (p *parser) scalars(off int, where attrs, nvals int) error {
 		return p.errAt(off, "SCALARS: want \"SCALARS name type [components]\"")
 	}
 	name := p.fields[1]
-	t, err := p.dataType(off, 2, fmt.Sprintf("SCALARS %s", truncate(name)))
+	t, err := p.dataType(off, 2, fmt.Sprintf("SCALARS %s", geom.Excerpt(name)))
 	if err != nil {
 		return err
 	}

@@ -296,8 +296,8 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // count checks the number of values n of an array of ncomp components
 // against the tuples wanted.
-func (p *parser) count(a *arrayDesc, n int, want int64, why, where string) error {
-	if int64(n) != want*int64(a.ncomp) {
+func (p *parser) count(a *arrayDesc, n int64, want int64, why, where string) error {
+	if n != want*int64(a.ncomp) {
 		if a.ncomp == 1 {
 			return p.errLine(a.line, "%sarray %q has %d values, want %d (%s)", where, a.name, n, want, why)
 		}
@@ -306,24 +306,29 @@ func (p *parser) count(a *arrayDesc, n int, want int64, why, where string) error
 	return nil
 }
 
-// binaryBytes returns the payload of a binary array, checked to hold a
-// whole number of values.
-func (p *parser) binaryBytes(a *arrayDesc, where string) ([]byte, int, error) {
-	b, err := p.payload(a)
+// binaryBytes returns the payload of a binary array of want tuples,
+// checked to hold a whole number of values, and their number. The size
+// the array's header declares is checked against want (why says where
+// want comes from) before the data is read or inflated.
+func (p *parser) binaryBytes(a *arrayDesc, want int64, why, where string) ([]byte, int, error) {
+	size := int64(a.typ.size())
+	b, err := p.payload(a, func(declared int64) error {
+		if declared%size != 0 {
+			return p.errLine(a.line, "%sarray %q: %d bytes is not a whole number of %d-byte %s values", where, a.name, declared, size, a.typ)
+		}
+		return p.count(a, declared/size, want, why, where)
+	})
 	if err != nil {
 		return nil, 0, err
 	}
-	if len(b)%a.typ.size() != 0 {
-		return nil, 0, p.errLine(a.line, "%sarray %q: %d bytes is not a whole number of %d-byte %s values", where, a.name, len(b), a.typ.size(), a.typ)
-	}
-	return b, len(b) / a.typ.size(), nil
+	return b, len(b) / int(size), nil
 }
 
 // checkASCII checks that an ascii text can hold want values at all before
 // memory is set aside for them: each takes a character and a separator.
 func (p *parser) checkASCII(a *arrayDesc, want int64, why, where string) error {
 	if want*int64(a.ncomp) > int64(len(a.text)+1)/2 {
-		return p.count(a, countTokens(a.text), want, why, where)
+		return p.count(a, int64(countTokens(a.text)), want, why, where)
 	}
 	return nil
 }
@@ -353,11 +358,8 @@ func (p *parser) checkType(a *arrayDesc, where string) error {
 func (p *parser) typeValues(a *arrayDesc, nc int64, where string) ([]uint8, error) {
 	why := fmt.Sprintf("NumberOfCells=%d", nc)
 	if a.format != formatASCII && (a.typ == typeUInt8 || a.typ == typeInt8) && a.ncomp == 1 {
-		b, n, err := p.binaryBytes(a, where)
+		b, _, err := p.binaryBytes(a, nc, why, where)
 		if err != nil {
-			return nil, err
-		}
-		if err := p.count(a, n, nc, why, where); err != nil {
 			return nil, err
 		}
 		if a.typ == typeInt8 {
@@ -410,16 +412,13 @@ func (p *parser) intValues(a *arrayDesc, want int64, lead int, why, where string
 			}
 			n++
 		}
-		if err := p.count(a, n, want, why, where); err != nil {
+		if err := p.count(a, int64(n), want, why, where); err != nil {
 			return nil, err
 		}
 		return all, nil
 	}
-	b, n, err := p.binaryBytes(a, where)
+	b, n, err := p.binaryBytes(a, want, why, where)
 	if err != nil {
-		return nil, err
-	}
-	if err := p.count(a, n, want, why, where); err != nil {
 		return nil, err
 	}
 	all := make([]int64, lead+n)
@@ -447,11 +446,8 @@ func (p *parser) floatValues(a *arrayDesc, want int64, why, where string) ([]flo
 		}
 		return dst, nil
 	}
-	b, n, err := p.binaryBytes(a, where)
+	b, n, err := p.binaryBytes(a, want, why, where)
 	if err != nil {
-		return nil, err
-	}
-	if err := p.count(a, n, want, why, where); err != nil {
 		return nil, err
 	}
 	dst := make([]float64, n)
@@ -475,7 +471,7 @@ func (p *parser) asciiFloats(a *arrayDesc, dst []float64, want int64, why, where
 		}
 		n++
 	}
-	return p.count(a, n, want, why, where)
+	return p.count(a, int64(n), want, why, where)
 }
 
 // pointValues decodes the Points array of np points.
@@ -498,11 +494,8 @@ func (p *parser) pointValues(a *arrayDesc, np int64, where string) ([]r3.Vec, er
 		}
 		return pts, nil
 	}
-	b, n, err := p.binaryBytes(a, where)
+	b, _, err := p.binaryBytes(a, np, why, where)
 	if err != nil {
-		return nil, err
-	}
-	if err := p.count(a, n, np, why, where); err != nil {
 		return nil, err
 	}
 	pts := make([]r3.Vec, np)

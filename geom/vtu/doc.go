@@ -3,8 +3,15 @@
 //
 // Every data-array layout of the format is read: ascii, inline binary
 // (base64) and appended data (raw bytes or base64), with UInt32 or UInt64
-// size headers, either byte order, and optionally compressed with the
-// blocked zlib layout. Several pieces in one file are concatenated.
+// size headers, either byte order, and optionally compressed in VTK's
+// blocked layout with zlib (vtkZLibDataCompressor) or LZMA
+// (vtkLZMADataCompressor, each block an .xz stream). Several pieces in one
+// file are concatenated.
+//
+// Compressed data cannot make the reader use more memory than the arrays
+// it reads: the sizes a file declares are compared with what each array
+// needs (its count of values times their size) before anything is
+// inflated, and no block is inflated beyond its declared size.
 //
 // The reader keeps triangles (VTK type 5), quads (9), quadratic triangles
 // (22), quadratic quads (23) and biquadratic quads (28); other cells are

@@ -67,7 +67,7 @@ func TestASCIIErrors(t *testing.T) {
 		{"poly data", `type="UnstructuredGrid"`, `type="PolyData"`, `bad.vtu:2: VTKFile type "PolyData"`},
 		{"byte order", `"LittleEndian"`, `"Middle"`, `bad.vtu:2: byte_order "Middle"`},
 		{"header type", `header_type="UInt32"`, `header_type="Int8"`, `bad.vtu:2: header_type "Int8"`},
-		{"compressor", `header_type="UInt32"`, `compressor="vtkLZMADataCompressor"`, `bad.vtu:2: compressor "vtkLZMADataCompressor" is not supported`},
+		{"compressor", `header_type="UInt32"`, `compressor="vtkLZ4DataCompressor"`, `bad.vtu:2: compressor "vtkLZ4DataCompressor" is not supported`},
 		{"xml mismatch", "</Points>", "</Pointz>", "bad.vtu:19: xml: element <Points> closed by </Pointz>"},
 		{"truncated xml", "      </Cells>", "", "bad.vtu:25: xml: element <Cells> closed by </Piece>"},
 		{"truncated inside text", errTemplate, errTemplate[:strings.Index(errTemplate, "1 1 0 0")], "bad.vtu:17: xml: unexpected EOF"},
@@ -198,7 +198,7 @@ func TestBinaryErrors(t *testing.T) {
 	add("truncated header", raw[:pts+2], `bad.vtu: byte %d: array "Points": truncated: needs 4 bytes, the file has 2 left`, pts)
 	d := bytes.Clone(raw)
 	le.PutUint32(d[pts:], 0xfffffff0)
-	add("lying size", d, `bad.vtu: byte %d: array "Points": truncated: needs 4294967280 bytes`, pts+4)
+	add("lying size", d, `bad.vtu:15: array "Points" has 536870910 values, want 12 tuples of 3 (NumberOfPoints=12)`)
 	d = bytes.Clone(raw)
 	le.PutUint32(d[pts:], 280)
 	add("size not whole", d, `bad.vtu:15: array "Points" has 35 values, want 12 tuples of 3 (NumberOfPoints=12)`)
@@ -250,22 +250,32 @@ func TestBinaryErrors(t *testing.T) {
 	add("zlib checksum", d, `bad.vtu: byte %d: array "Points": zlib block 0: zlib: invalid checksum`, zp+88)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp+8:], 1<<30)
-	add("zlib lying block size", d, `bad.vtu: byte %d: array "Points": block 0 declares 1073741824 bytes from`, zp)
+	add("zlib lying block size", d, `bad.vtu:15: array "Points" has 939524097 values, want 12 tuples of 3 (NumberOfPoints=12)`)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp:], 1<<39)
-	add("zlib lying block count", d, `bad.vtu: byte %d: array "Points": truncated: 549755813888 compressed blocks declared`, zp)
+	add("zlib lying block count", d, `bad.vtu: byte %d: array "Points": 549755813888 blocks of 40 bytes are more than the input allows`, zp)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp:], 1<<50)
 	add("zlib huge word", d, `bad.vtu: byte %d: array "Points": block count 1125899906842624 is larger than the input allows`, zp)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp+16:], 4)
-	add("zlib short last block", d, `bad.vtu: byte %d: array "Points": zlib block 7: inflates to more than the declared 4 bytes`, zp+88+sumWords(z[zp+24:zp+80]))
+	add("zlib short last block", d, `bad.vtu:15: array "Points": 284 bytes is not a whole number of 8-byte Float64 values`)
+	// Sizes that add up to what the array needs, but blocks that do not
+	// inflate to them: found while inflating, never past a block's size.
+	d = bytes.Clone(z)
+	le.PutUint64(d[zp+8:], 36)
+	le.PutUint64(d[zp+16:], 288-7*36)
+	add("zlib block too long", d, `bad.vtu: byte %d: array "Points": zlib block 0: inflates to more than the declared 36 bytes`, zp+88)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp+16:], 41)
 	add("zlib last above block", d, `bad.vtu: byte %d: array "Points": last block size 41 exceeds the block size 40`, zp)
 	d = bytes.Clone(z)
 	le.PutUint64(d[zp+8:], 48)
-	add("zlib too few bytes", d, `bad.vtu: byte %d: array "Points": zlib block 0: inflates to fewer than the declared 48 bytes`, zp+88)
+	add("zlib declares too many bytes", d, `bad.vtu:15: array "Points" has 43 values, want 12 tuples of 3 (NumberOfPoints=12)`)
+	d = bytes.Clone(z)
+	le.PutUint64(d[zp+8:], 41)
+	le.PutUint64(d[zp+16:], 288-7*41)
+	add("zlib too few bytes", d, `bad.vtu: byte %d: array "Points": zlib block 0: inflates to fewer than the declared 41 bytes`, zp+88)
 	add("zlib truncated", z[:zp+100], `bad.vtu: byte %d: array "Points": truncated: blocks 0..2 need`, zp)
 
 	// Inline base64.
@@ -284,11 +294,12 @@ func TestBinaryErrors(t *testing.T) {
 		j := i + bytes.IndexByte(b64[i:], '<')
 		return append(append(append([]byte{}, b64[:i]...), s...), b64[j:]...)
 	}
-	add("base64 too long", partB64(le.AppendUint32(nil, 4), make([]byte, 8)), `bad.vtu: byte %d: array "part": base64 text holds more bytes than its size header declares`, i+16)
-	add("base64 too short", partB64(le.AppendUint32(nil, 12), make([]byte, 8)), `bad.vtu: byte %d: array "part": truncated: needs 12 bytes, the base64 text holds at most 9`, i+8)
-	add("base64 size lies", partB64(le.AppendUint32(nil, 1<<31), make([]byte, 8)), `bad.vtu: byte %d: array "part": truncated: needs 2147483648 bytes`, i+8)
-	d = append(append(append([]byte{}, b64[:i]...), "BgAAAA==AAAAAA"...), b64[i+bytes.IndexByte(b64[i:], '<'):]...)
-	add("base64 half group", d, `bad.vtu: byte %d: array "part": base64 text ends inside a group`, i+14)
+	add("base64 size below need", partB64(le.AppendUint32(nil, 4), make([]byte, 8)), `bad.vtu:14: array "part" has 1 values, want 6 (NumberOfCells=6)`)
+	add("base64 too long", partB64(le.AppendUint32(nil, 24), make([]byte, 28)), `bad.vtu: byte %d: array "part": base64 text holds more bytes than its size header declares`, i+40)
+	add("base64 too short", partB64(le.AppendUint32(nil, 24), make([]byte, 8)), `bad.vtu: byte %d: array "part": truncated: needs 24 bytes, the base64 text holds at most 9`, i+8)
+	add("base64 size lies", partB64(le.AppendUint32(nil, 1<<31), make([]byte, 8)), `bad.vtu:14: array "part" has 536870912 values, want 6 (NumberOfCells=6)`)
+	d = append(append(append([]byte{}, b64[:i]...), "GAAAAA=="+strings.Repeat("A", 30)...), b64[i+bytes.IndexByte(b64[i:], '<'):]...)
+	add("base64 half group", d, `bad.vtu: byte %d: array "part": base64 text ends inside a group`, i+38)
 	add("base64 not whole", partB64(le.AppendUint32(nil, 6), make([]byte, 6)), `bad.vtu:14: array "part": 6 bytes is not a whole number of 4-byte Int32 values`)
 	add("base64 count", partB64(le.AppendUint32(nil, 12), make([]byte, 12)), `bad.vtu:14: array "part" has 3 values, want 6 (NumberOfCells=6)`)
 
@@ -314,15 +325,6 @@ func mustOffset(t *testing.T, data []byte, name string) int {
 	}
 	off, _ := strconv.Atoi(string(m[1]))
 	return off
-}
-
-// sumWords adds the little-endian UInt64 words of b.
-func sumWords(b []byte) int {
-	s := 0
-	for i := 0; i+8 <= len(b); i += 8 {
-		s += int(binary.LittleEndian.Uint64(b[i:]))
-	}
-	return s
 }
 
 func TestPieceErrors(t *testing.T) {
@@ -370,4 +372,46 @@ func TestPieceErrors(t *testing.T) {
 	}
 	_, err = Read(&b, "bad.vtu", geom.ReadOptions{})
 	checkErr(t, err, `bad.vtu:47: node id 101 appears twice (points 0 and 12; first at line 10)`)
+}
+
+// A file whose appended data is not followed by </AppendedData> and
+// </VTKFile> is refused (issue: a .vtu missing its final </VTKFile> was
+// accepted), while white space after them is not an error.
+func TestAppendedEnd(t *testing.T) {
+	for _, enc := range []string{"raw", "base64"} {
+		data, _ := appendedFile(t, smallTypes, wOpts{format: "appended", encoding: enc})
+		body := strings.TrimRight(string(data), " \t\r\n")
+		if !strings.HasSuffix(body, "</AppendedData>\n</VTKFile>") {
+			t.Fatalf("%s: unexpected end of the writer's file: %q", enc, body[len(body)-40:])
+		}
+		noFile := strings.TrimSuffix(body, "</VTKFile>")
+		noBoth := strings.TrimSuffix(strings.TrimRight(noFile, "\n"), "</AppendedData>")
+		for name, c := range map[string]struct {
+			data string
+			want string
+		}{
+			"no </VTKFile>":  {noFile, "does not end with </AppendedData> and </VTKFile>"},
+			"no end tags":    {noBoth, "does not end with </AppendedData> and </VTKFile>"},
+			"text after end": {body + "\n<extra/>\n", "does not end with </AppendedData> and </VTKFile>"},
+			"white space":    {body + "\n\n  \n", ""},
+		} {
+			t.Run(enc+"/"+name, func(t *testing.T) {
+				_, err := Read(strings.NewReader(c.data), "bad.vtu", geom.ReadOptions{})
+				if c.want == "" {
+					if err != nil {
+						t.Fatal(err)
+					}
+					return
+				}
+				checkErr(t, err, c.want)
+			})
+		}
+	}
+}
+
+func TestInlineEnd(t *testing.T) {
+	data, _ := appendedFile(t, smallTypes, wOpts{format: "binary"})
+	body := strings.TrimSuffix(strings.TrimRight(string(data), " \t\r\n"), "</VTKFile>")
+	_, err := Read(strings.NewReader(body), "bad.vtu", geom.ReadOptions{})
+	checkErr(t, err, "bad.vtu:42: xml: unexpected EOF")
 }

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math/bits"
 
 	"github.com/joinery-cae/joinery/geom"
 )
@@ -191,6 +192,22 @@ func (s *b64Source) rest() error {
 // overflow; the real bounds come from the bytes present.
 const maxWord = 1 << 40
 
+// maxCompression bounds the ratio of the bytes a file's compressed arrays
+// inflate to (those Joinery reads, together) to the size of the file,
+// so that a small file cannot claim gigabytes through arrays whose sizes
+// agree with its counts. Mesh data compresses far less: a 300 x 300 grid
+// of quads with regular coordinates, sequential ids and constant part and
+// thickness, the most compressible mesh there is, written by VTK 9.1 at
+// compression level 9, compresses 7 times with zlib and 20 times with
+// LZMA (measured for this limit); ordinary meshes compress 2 to 5 times.
+// A compression bomb inflates hundreds of times (the 5.6 MB file of the
+// issue that led to this limit: 4 GB, 700 times). compressionSlack lets
+// tiny files through whatever their ratio.
+const (
+	maxCompression   = 128
+	compressionSlack = 1 << 20
+)
+
 // maxInflate bounds the bytes a zlib stream of n bytes can inflate to:
 // deflate codes a match of at most 258 bytes in no fewer than 2 bits
 // (RFC 1951), so 1032 bytes per input byte, plus slack for tiny streams.
@@ -215,9 +232,21 @@ func (p *parser) source(a *arrayDesc) (byteSource, error) {
 	return &rawSource{file: p.file, name: a.name, data: p.data, pos: start}, nil
 }
 
+// compressor is the compression of a file's binary arrays.
+type compressor int8
+
+const (
+	compressNone compressor = iota
+	compressZlib            // vtkZLibDataCompressor
+	compressLZMA            // vtkLZMADataCompressor: each block an .xz stream
+)
+
 // payload returns the decoded bytes of a binary (inline or appended)
-// array, decompressed when the file says so.
-func (p *parser) payload(a *arrayDesc) ([]byte, error) {
+// array, decompressed when the file says so. check is called with the
+// number of bytes the array's headers declare before they are read or
+// inflated, so that a size the array cannot have is refused before any
+// memory is set aside for it.
+func (p *parser) payload(a *arrayDesc, check func(declared int64) error) ([]byte, error) {
 	src, err := p.source(a)
 	if err != nil {
 		return nil, err
@@ -245,16 +274,19 @@ func (p *parser) payload(a *arrayDesc) ([]byte, error) {
 		return int(v), nil
 	}
 	var out []byte
-	if !p.compressed {
+	if p.compressor == compressNone {
 		n, err := word("byte count")
 		if err != nil {
+			return nil, err
+		}
+		if err := check(int64(n)); err != nil {
 			return nil, err
 		}
 		if out, err = src.next(n); err != nil {
 			return nil, err
 		}
 	} else {
-		if out, err = p.inflate(a, src, word, start); err != nil {
+		if out, err = p.inflate(a, src, word, start, check); err != nil {
 			return nil, err
 		}
 	}
@@ -266,10 +298,13 @@ func (p *parser) payload(a *arrayDesc) ([]byte, error) {
 	return out, nil
 }
 
-// inflate reads the blocked zlib layout: a header of block count, block
-// size, size of the last block (0 when it is full) and the compressed size
-// of every block, followed by the compressed blocks.
-func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, error), start int64) ([]byte, error) {
+// inflate reads the blocked layout of compressed arrays: a header of block
+// count, block size, size of the last block (0 when it is full) and the
+// compressed size of every block, followed by the compressed blocks.
+// The uncompressed size the header declares is checked (check) before
+// any block is read, and each block is inflated into its own place of
+// the output, never beyond its declared size.
+func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, error), start int64, check func(int64) error) ([]byte, error) {
 	nb, err := word("block count")
 	if err != nil {
 		return nil, err
@@ -283,7 +318,7 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 		return nil, err
 	}
 	if nb == 0 {
-		return nil, nil
+		return nil, check(0)
 	}
 	if last == 0 {
 		last = bs
@@ -291,6 +326,22 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 	if last > bs {
 		return nil, geom.OffsetError(p.file, start, "array %q: last block size %d exceeds the block size %d", a.name, last, bs)
 	}
+	hi, lo := bits.Mul64(uint64(nb-1), uint64(bs))
+	if hi != 0 || lo > maxWord {
+		return nil, geom.OffsetError(p.file, start, "array %q: %d blocks of %d bytes are more than the input allows", a.name, nb, bs)
+	}
+	declared := int64(lo) + int64(last)
+	if err := check(declared); err != nil {
+		return nil, err
+	}
+	if budget := maxCompression*int64(len(p.data)) + compressionSlack; p.inflated+declared > budget {
+		before := ""
+		if p.inflated > 0 {
+			before = fmt.Sprintf(" (%d with the arrays before it)", p.inflated+declared)
+		}
+		return nil, geom.OffsetError(p.file, start, "array %q: %d bytes once inflated%s is more than %d times the file's %d bytes, more than mesh data compresses: a damaged file or a compression bomb", a.name, declared, before, maxCompression, len(p.data))
+	}
+	p.inflated += declared
 	hs := 4
 	if p.header64 {
 		hs = 8
@@ -299,7 +350,7 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 		return nil, geom.OffsetError(p.file, start, "array %q: truncated: %d compressed blocks declared, too many for the input", a.name, nb)
 	}
 	csize := make([]int, nb)
-	var ctotal, rtotal int
+	var ctotal int
 	for i := range csize {
 		if csize[i], err = word("compressed block size"); err != nil {
 			return nil, err
@@ -308,11 +359,10 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 		if i == nb-1 {
 			raw = last
 		}
-		if uint64(raw) > maxInflate(uint64(csize[i])) {
+		if p.compressor == compressZlib && uint64(raw) > maxInflate(uint64(csize[i])) {
 			return nil, geom.OffsetError(p.file, start, "array %q: block %d declares %d bytes from %d compressed bytes, more than zlib can produce", a.name, i, raw, csize[i])
 		}
 		ctotal += csize[i]
-		rtotal += raw
 		if ctotal > src.avail() {
 			return nil, geom.OffsetError(p.file, start, "array %q: truncated: blocks 0..%d need %d compressed bytes, at most %d are left", a.name, i, ctotal, src.avail())
 		}
@@ -322,12 +372,16 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 	if err != nil {
 		return nil, err
 	}
-	out := make([]byte, rtotal)
+	out := make([]byte, declared)
 	var (
 		br  bytes.Reader
 		zr  io.ReadCloser
 		one [1]byte
 	)
+	name := "zlib"
+	if p.compressor == compressLZMA {
+		name = "LZMA"
+	}
 	o, c := 0, 0
 	for i, cs := range csize {
 		raw := bs
@@ -336,26 +390,35 @@ func (p *parser) inflate(a *arrayDesc, src byteSource, word func(string) (int, e
 		}
 		where := func(err error) error {
 			if _, isRaw := src.(*rawSource); isRaw {
-				return geom.OffsetError(p.file, cstart+int64(c), "array %q: zlib block %d: %w", a.name, i, err)
+				return geom.OffsetError(p.file, cstart+int64(c), "array %q: %s block %d: %w", a.name, name, i, err)
 			}
-			return geom.OffsetError(p.file, start, "array %q: zlib block %d (decoded byte %d): %w", a.name, i, c, err)
+			return geom.OffsetError(p.file, start, "array %q: %s block %d (decoded byte %d): %w", a.name, name, i, c, err)
 		}
-		br.Reset(comp[c : c+cs])
-		if zr == nil {
-			zr, err = zlib.NewReader(&br)
+		block := comp[c : c+cs]
+		var r io.Reader
+		if p.compressor == compressLZMA {
+			if r, err = newXZReader(block, raw); err != nil {
+				return nil, where(err)
+			}
 		} else {
-			err = zr.(zlib.Resetter).Reset(&br, nil)
+			br.Reset(block)
+			if zr == nil {
+				zr, err = zlib.NewReader(&br)
+			} else {
+				err = zr.(zlib.Resetter).Reset(&br, nil)
+			}
+			if err != nil {
+				return nil, where(err)
+			}
+			r = zr
 		}
-		if err != nil {
-			return nil, where(err)
-		}
-		if _, err := io.ReadFull(zr, out[o:o+raw]); err != nil {
+		if _, err := io.ReadFull(r, out[o:o+raw]); err != nil {
 			if errors.Is(err, io.ErrUnexpectedEOF) || err == io.EOF {
 				err = fmt.Errorf("inflates to fewer than the declared %d bytes", raw)
 			}
 			return nil, where(err)
 		}
-		if n, err := zr.Read(one[:]); n > 0 {
+		if n, err := r.Read(one[:]); n > 0 {
 			return nil, where(fmt.Errorf("inflates to more than the declared %d bytes", raw))
 		} else if err != io.EOF {
 			if err == nil {

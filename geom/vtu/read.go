@@ -44,6 +44,9 @@ func readBytes(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, erro
 	if err != nil {
 		return nil, err
 	}
+	if p.endErr != nil {
+		return nil, p.endErr
+	}
 	return geom.MeshFromCells(cs, opt)
 }
 
@@ -130,17 +133,24 @@ type parser struct {
 
 	bigEndian  bool
 	header64   bool
-	compressed bool
+	compressor compressor
 	fileLine   int
 
 	pieces []*piece
 	sizes  []pieceSize // per piece, once decoded, for locate
+	// inflated counts the bytes compressed arrays have declared so far,
+	// for the bound maxCompression.
+	inflated int64
 
 	hasAppended   bool
 	appendedLine  int
 	appendedB64   bool
 	appendedStart int // index in data of the first byte after '_'
-	appendedEnd   int // base64: end of the text; raw: len(data)
+	appendedEnd   int // base64: end of the text; raw: start of </AppendedData>
+	// endErr reports a document that does not end after its appended
+	// data, once the arrays have been read (whose errors say more about
+	// a truncated file).
+	endErr error
 }
 
 // line returns the file line of the decoder's position.
@@ -266,7 +276,7 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			case "BigEndian":
 				p.bigEndian = true
 			default:
-				return p.errLine(p.fileLine, "byte_order %q: want LittleEndian or BigEndian", a.Value)
+				return p.errLine(p.fileLine, "byte_order %q: want LittleEndian or BigEndian", geom.Excerpt(a.Value))
 			}
 		case "header_type":
 			switch a.Value {
@@ -274,20 +284,22 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			case "UInt64":
 				p.header64 = true
 			default:
-				return p.errLine(p.fileLine, "header_type %q: want UInt32 or UInt64", a.Value)
+				return p.errLine(p.fileLine, "header_type %q: want UInt32 or UInt64", geom.Excerpt(a.Value))
 			}
 		case "compressor":
 			switch a.Value {
 			case "":
 			case "vtkZLibDataCompressor":
-				p.compressed = true
+				p.compressor = compressZlib
+			case "vtkLZMADataCompressor":
+				p.compressor = compressLZMA
 			default:
-				return p.errLine(p.fileLine, "compressor %q is not supported (only vtkZLibDataCompressor)", a.Value)
+				return p.errLine(p.fileLine, "compressor %q is not supported (Joinery reads vtkZLibDataCompressor and vtkLZMADataCompressor)", geom.Excerpt(a.Value))
 			}
 		}
 	}
 	if typ != "UnstructuredGrid" {
-		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid", typ)
+		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid", geom.Excerpt(typ))
 	}
 	return nil
 }
@@ -338,7 +350,7 @@ func (p *parser) piece(se xml.StartElement) error {
 		}
 		v, err := strconv.ParseInt(a.Value, 10, 64)
 		if err != nil || v < 0 || v > maxCount {
-			return p.errLine(pc.line, "Piece %s=%q is not a valid count", a.Name.Local, a.Value)
+			return p.errLine(pc.line, "Piece %s=%q is not a valid count", a.Name.Local, geom.Excerpt(a.Value))
 		}
 		*dst = v
 	}
@@ -444,7 +456,9 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 	for _, at := range se.Attr {
 		switch at.Name.Local {
 		case "Name":
-			a.name = at.Value
+			// Cut to an excerpt for messages: a long name is none of
+			// the few Joinery reads either way.
+			a.name = geom.Excerpt(at.Value)
 		case "type":
 			a.typ = parseType(at.Value)
 			if a.typ < 0 {
@@ -453,7 +467,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 		case "NumberOfComponents":
 			v, err := strconv.Atoi(at.Value)
 			if err != nil || v < 1 || v > 1<<20 {
-				return nil, p.errLine(a.line, "DataArray %q: NumberOfComponents=%q is not a positive count", a.name, at.Value)
+				return nil, p.errLine(a.line, "DataArray %q: NumberOfComponents=%q is not a positive count", a.name, geom.Excerpt(at.Value))
 			}
 			a.ncomp = v
 		case "format":
@@ -461,7 +475,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 		case "offset":
 			v, err := strconv.ParseInt(at.Value, 10, 64)
 			if err != nil || v < 0 {
-				return nil, p.errLine(a.line, "DataArray %q: offset=%q is not a valid offset", a.name, at.Value)
+				return nil, p.errLine(a.line, "DataArray %q: offset=%q is not a valid offset", a.name, geom.Excerpt(at.Value))
 			}
 			a.offset = v
 		}
@@ -477,7 +491,7 @@ func (p *parser) dataArray(se xml.StartElement) (*arrayDesc, error) {
 			return nil, p.errLine(a.line, "appended DataArray %q has no offset attribute", a.name)
 		}
 	default:
-		return nil, p.errLine(a.line, "DataArray %q: unknown format %q", a.name, formatName)
+		return nil, p.errLine(a.line, "DataArray %q: unknown format %q", a.name, geom.Excerpt(formatName))
 	}
 	if a.typ < 0 {
 		return nil, p.errLine(a.line, "DataArray %q has no type attribute", a.name)
@@ -591,7 +605,7 @@ func (p *parser) appended(se xml.StartElement) error {
 	case "base64":
 		p.appendedB64 = true
 	default:
-		return p.errLine(p.appendedLine, "AppendedData encoding %q: want raw or base64", enc)
+		return p.errLine(p.appendedLine, "AppendedData encoding %q: want raw or base64", geom.Excerpt(enc))
 	}
 	pos := p.rd.pos
 	if int64(pos) != p.dec.InputOffset()+p.skipped || (pos >= 2 && p.data[pos-2] == '/') {
@@ -607,6 +621,21 @@ func (p *parser) appended(se xml.StartElement) error {
 		if j := bytes.IndexByte(p.data[p.appendedStart:], '<'); j >= 0 {
 			p.appendedEnd = p.appendedStart + j
 		}
+	}
+	// The document must end with the closing tags after the data; raw
+	// data ends where they start.
+	const ws = " \t\r\n"
+	tail, ok := bytes.CutSuffix(bytes.TrimRight(p.data[p.appendedStart:], ws), []byte("</VTKFile>"))
+	if ok {
+		tail, ok = bytes.CutSuffix(bytes.TrimRight(tail, ws), []byte("</AppendedData>"))
+	}
+	switch {
+	case !ok:
+		p.endErr = p.errLine(1+bytes.Count(p.data, []byte{'\n'}), "the file does not end with </AppendedData> and </VTKFile>: is it truncated?")
+	case p.appendedB64 && p.appendedStart+len(tail) != p.appendedEnd:
+		p.endErr = p.errLine(p.appendedLine, "AppendedData: base64 text followed by something else than </AppendedData> and </VTKFile>")
+	case !p.appendedB64:
+		p.appendedEnd = p.appendedStart + len(tail)
 	}
 	return nil
 }

@@ -55,6 +55,12 @@ func smallVariants() []smallVariant {
 		{"small_appended_base64.vtu",
 			wTypes{points: typeFloat32, conn: typeInt64, offsets: typeInt32, types: typeUInt8, nodeID: typeInt64, elemID: typeInt32, part: typeInt32, thick: typeFloat64},
 			wOpts{format: "appended", encoding: "base64"}},
+		{"small_base64_lzma.vtu",
+			wTypes{points: typeFloat64, conn: typeInt32, offsets: typeInt64, types: typeUInt8, nodeID: typeInt32, elemID: typeInt64, part: typeInt16, thick: typeFloat32},
+			wOpts{format: "binary", compress: true, lzma: true, blockSize: 64}},
+		{"small_appended_raw_lzma.vtu",
+			wTypes{points: typeFloat32, conn: typeInt64, offsets: typeInt32, types: typeUInt8, nodeID: typeInt64, elemID: typeInt32, part: typeInt32, thick: typeFloat64},
+			wOpts{format: "appended", compress: true, lzma: true, header64: true, bigEndian: true}},
 		{"small_uint64header.vtu",
 			wTypes{points: typeFloat64, conn: typeInt64, offsets: typeInt64, types: typeUInt8, nodeID: typeInt64, elemID: typeInt64, part: typeInt64, thick: typeFloat64},
 			wOpts{format: "binary", compress: true, header64: true}},
@@ -315,12 +321,13 @@ func TestReadFileMissing(t *testing.T) {
 }
 
 // TestVTKWrittenFiles reads the small fixture as VTK's own XML writer
-// lays it out with zlib compression (python3-vtk9, written by
+// lays it out with zlib and LZMA compression (python3-vtk9, written by
 // testdata/vtu/vtk9_write.py): inline binary with 32- and 64-bit size
 // headers and appended base64, where VTK base64-encodes the size header
-// and the compressed blocks as two separate streams.
+// and the compressed blocks as two separate streams, and appended raw.
 func TestVTKWrittenFiles(t *testing.T) {
-	for _, name := range []string{"vtk9_binary_zlib.vtu", "vtk9_binary_zlib_uint64.vtu", "vtk9_appended_base64_zlib.vtu"} {
+	for _, name := range []string{"vtk9_binary_zlib.vtu", "vtk9_binary_zlib_uint64.vtu", "vtk9_appended_base64_zlib.vtu",
+		"vtk9_binary_lzma.vtu", "vtk9_appended_base64_lzma_uint64.vtu", "vtk9_appended_raw_lzma.vtu"} {
 		path := filepath.Join("../../testdata/vtu", name)
 		m, err := ReadFile(path, geom.ReadOptions{})
 		if err != nil {

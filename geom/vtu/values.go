@@ -8,6 +8,8 @@ import (
 	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
 )
 
 // Binary decoding. Each function decodes len(dst) values of type t from b,
@@ -267,16 +269,16 @@ func asciiValue(tok []byte, t dtype, asInt bool) (int64, float64, error) {
 		f, err := strconv.ParseFloat(string(tok), bits)
 		if err != nil {
 			if ne, ok := err.(*strconv.NumError); ok && ne.Err == strconv.ErrRange {
-				return 0, 0, fmt.Errorf("%q is out of range for %s", tok, t)
+				return 0, 0, fmt.Errorf("%q is out of range for %s", geom.Excerpt(tok), t)
 			}
-			return 0, 0, fmt.Errorf("%q is not a number", tok)
+			return 0, 0, fmt.Errorf("%q is not a number", geom.Excerpt(tok))
 		}
 		if !asInt {
 			return 0, f, nil
 		}
 		v, ok := integral(f)
 		if !ok {
-			return 0, 0, fmt.Errorf("%q is not an integer", tok)
+			return 0, 0, fmt.Errorf("%q is not an integer", geom.Excerpt(tok))
 		}
 		return v, 0, nil
 	}
@@ -289,10 +291,10 @@ func asciiValue(tok []byte, t dtype, asInt bool) (int64, float64, error) {
 		}
 		if bytes.ContainsAny(tok, ".eE") {
 			if _, err := strconv.ParseFloat(string(tok), 64); err == nil {
-				return 0, 0, fmt.Errorf("%q is not an integer, as type %s requires", tok, t)
+				return 0, 0, fmt.Errorf("%q is not an integer, as type %s requires", geom.Excerpt(tok), t)
 			}
 		}
-		return 0, 0, fmt.Errorf("%q is not a number", tok)
+		return 0, 0, fmt.Errorf("%q is not a number", geom.Excerpt(tok))
 	}
 	lo, hi := t.intRange()
 	if v < lo || (v > 0 && uint64(v) > hi) {

@@ -10,6 +10,7 @@ import (
 	"math"
 	"strconv"
 
+	"github.com/ulikunitz/xz"
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
@@ -63,6 +64,7 @@ type wOpts struct {
 	format    string // "ascii", "binary" or "appended"
 	encoding  string // appended: "raw" (default) or "base64"
 	compress  bool
+	lzma      bool // with compress: LZMA (.xz streams) instead of zlib
 	header64  bool
 	bigEndian bool
 	blockSize int // compression block size; 0 means 32768
@@ -134,7 +136,10 @@ func (o *wOpts) block(data []byte) (header, body []byte) {
 	var sizes []int
 	for i := 0; i < len(data); i += bs {
 		var z bytes.Buffer
-		zw := zlib.NewWriter(&z)
+		var zw io.WriteCloser = zlib.NewWriter(&z)
+		if o.lzma {
+			zw, _ = xz.NewWriter(&z)
+		}
 		zw.Write(data[i:min(i+bs, len(data))])
 		zw.Close()
 		sizes = append(sizes, z.Len())
@@ -203,7 +208,10 @@ func writeVTU(w io.Writer, pieces []wPiece, o wOpts) error {
 	}
 	out.WriteString("<?xml version=\"1.0\"?>\n")
 	fmt.Fprintf(&out, "<VTKFile type=\"UnstructuredGrid\" version=\"1.0\" byte_order=%q header_type=%q", bo, ht)
-	if o.compress {
+	switch {
+	case o.compress && o.lzma:
+		out.WriteString(" compressor=\"vtkLZMADataCompressor\"")
+	case o.compress:
 		out.WriteString(" compressor=\"vtkZLibDataCompressor\"")
 	}
 	out.WriteString(">\n  <UnstructuredGrid>\n")

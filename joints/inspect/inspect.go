@@ -34,13 +34,15 @@ func DefaultOptions() Options {
 	return Options{WarpLimit: 10, BoxMargin: 5, MaxListed: 10}
 }
 
-// Validate checks that the limits are finite and not negative.
+// Validate checks that the limits are finite and not negative, the warp
+// limit at most 180 degrees (the largest angle between two normals) and
+// the box margin at most joints.MaxReach.
 func (o Options) Validate() error {
-	if math.IsNaN(o.WarpLimit) || math.IsInf(o.WarpLimit, 0) || o.WarpLimit < 0 {
-		return fmt.Errorf("warp-limit %g: want a finite angle, 0 or more", o.WarpLimit)
+	if math.IsNaN(o.WarpLimit) || math.IsInf(o.WarpLimit, 0) || o.WarpLimit < 0 || o.WarpLimit > 180 {
+		return fmt.Errorf("warp-limit %g: want a finite angle from 0 to 180 degrees", o.WarpLimit)
 	}
-	if math.IsNaN(o.BoxMargin) || math.IsInf(o.BoxMargin, 0) || o.BoxMargin < 0 {
-		return fmt.Errorf("box-margin %g: want a finite length, 0 or more", o.BoxMargin)
+	if math.IsNaN(o.BoxMargin) || math.IsInf(o.BoxMargin, 0) || o.BoxMargin < 0 || o.BoxMargin > joints.MaxReach {
+		return fmt.Errorf("box-margin %g: want a finite length from 0 to %g mm", o.BoxMargin, float64(joints.MaxReach))
 	}
 	if o.MaxListed < 0 {
 		return fmt.Errorf("max-listed %d: want 0 or more", o.MaxListed)

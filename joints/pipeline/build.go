@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"strings"
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
@@ -131,8 +132,11 @@ func buildFiles(conn *document.ConnectorsDoc, rep *document.ReportDoc) []writers
 // not supported. It returns the assembled result with new ids.
 func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env Env) (*joints.Result, error) {
 	m := in.Model.Mesh
-	if missing := in.Model.MissingThickness(); len(missing) > 0 {
-		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
+	if err := in.missingThickness(); err != nil {
+		return nil, err
+	}
+	if err := in.checkIDStart(o.IDStart); err != nil {
+		return nil, err
 	}
 	o = o.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
@@ -155,12 +159,53 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	return res, nil
 }
 
+// missingThickness fails when parts have elements without a thickness,
+// naming the mesh files that hold them (with a parts table, every part
+// has one).
+func (in *Inputs) missingThickness() error {
+	missing := in.Model.MissingThickness()
+	if len(missing) == 0 {
+		return nil
+	}
+	const show = 10
+	files := in.Model.PartFiles(missing[:min(len(missing), show)])
+	var b strings.Builder
+	for i, id := range missing[:min(len(missing), show)] {
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%d (in %s)", id, files[i])
+	}
+	if len(missing) > show {
+		fmt.Fprintf(&b, " and %d more", len(missing)-show)
+	}
+	where := files[0]
+	if in.Job.Parts != "" {
+		where = in.Job.Parts
+	}
+	return geom.FileError(where, "parts without a thickness: %s; give them one in a parts table", b.String())
+}
+
+// checkIDStart fails when a first new id collides with the mesh's ids,
+// at the job file's line of id_start or naming the flag.
+func (in *Inputs) checkIDStart(start int64) error {
+	m := in.Model.Mesh
+	maxID := max(m.MaxNodeID(), m.MaxElemID())
+	if start <= 0 || start > maxID {
+		return nil
+	}
+	if line := in.Job.Build.IDStartLine; line > 0 && in.Job.File != "" {
+		return geom.LineError(in.Job.File, line, "id_start: %d would collide with mesh ids (the largest is %d)", start, maxID)
+	}
+	return UsageError(fmt.Errorf("--id-start %d would collide with mesh ids (the largest is %d)", start, maxID))
+}
+
 // RunInfo returns the record of a run's inputs for its documents: the
 // input paths as recorded (Job.RecordedPath) and the run id of the run
 // that made res (inputs loaded with LoadForSet).
 func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInfo, error) {
 	job := in.Job
-	info := document.RunInfo{Generator: generator}
+	info := document.RunInfo{Generator: generator, Unit: in.Unit}
 	for _, p := range job.Meshes {
 		info.Meshes = append(info.Meshes, job.RecordedPath(p))
 	}

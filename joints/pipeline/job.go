@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"os"
 	"path/filepath"
 
 	"gopkg.in/yaml.v3"
@@ -30,6 +29,7 @@ const JobVersion = 1
 //	out: out                         # output directory
 //	renumber: false                  # shift clashing ids of later meshes
 //	part_array: part                 # VTK cell array with the part ids
+//	units: mm                        # mm | m | in: unit of every input length
 //	build:
 //	  reach: 0                       # mm, 0 = automatic
 //	  gap_allowance: 0               # mm, 0 = automatic
@@ -60,8 +60,12 @@ type Job struct {
 	Renumber *bool    `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").
-	PartArray string   `yaml:"part_array,omitempty" json:",omitempty"` // omitted when empty, so that run ids of jobs without it keep their value
-	Build     JobBuild `yaml:"build,omitempty"`
+	PartArray string `yaml:"part_array,omitempty" json:",omitempty"` // omitted when empty, so that run ids of jobs without it keep their value
+	// Units is the unit of every length in the inputs: meshes, parts
+	// table, joint lists ("mm", "m" or "in"; "" is mm). Build settings
+	// (reach, gap allowance) are in mm whatever it is.
+	Units string   `yaml:"units,omitempty"`
+	Build JobBuild `yaml:"build,omitempty"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
 	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
@@ -81,6 +85,7 @@ type JobBuild struct {
 	Attach       string              `yaml:"attach,omitempty"`
 	SpotDOFs     []string            `yaml:"spot_dofs,omitempty"`
 	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
+	IDStartLine  int                 `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
 	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
 	FailOn       string              `yaml:"fail_on,omitempty"`
 	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
@@ -126,7 +131,7 @@ func (b *JobBuild) Apply(o *joints.BuildOptions) error {
 		}
 		a, err := joints.ParseAttach(g.Attach)
 		if err != nil {
-			return fmt.Errorf("group %q: %w", name, err)
+			return fmt.Errorf("group %q: %w", geom.Excerpt(name), err)
 		}
 		if o.GroupAttach == nil {
 			o.GroupAttach = map[string]joints.Attach{}
@@ -175,11 +180,13 @@ func CheckPartArray(name string) error {
 // LoadJob reads the job file at path and resolves its relative paths
 // against the file's directory.
 func LoadJob(path string) (*Job, error) {
-	f, err := os.Open(path)
-	if errors.Is(err, fs.ErrNotExist) {
+	f, err := geom.OpenRegular(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
 		return nil, geom.FileError(path, "job file not found")
-	}
-	if err != nil {
+	case errors.Is(err, geom.ErrInput):
+		return nil, fmt.Errorf("job file: %w", err)
+	case err != nil:
 		return nil, geom.FileError(path, "job file: %w", err)
 	}
 	defer f.Close()
@@ -234,7 +241,7 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 		return out, nil
 	}
 	var hasVersion, hasMeshes bool
-	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "build"}
+	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "units", "build"}
 	err = y.Map(root, "job", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "version":
@@ -269,6 +276,12 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 					err = y.Errorf(v, "part_array: %w", err)
 				}
 			}
+		case "units":
+			if job.Units, err = y.String(v, "units"); err == nil {
+				if _, perr := joints.ParseUnit(job.Units); perr != nil || job.Units == "" {
+					err = y.Errorf(v, "units: %q: want mm, m or in", geom.Excerpt(job.Units))
+				}
+			}
 		case "build":
 			err = readJobBuild(y, v, &job.Build)
 		}
@@ -288,11 +301,16 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 
 // readJobBuild reads and checks the build map of a job.
 func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
-	// distance reads a length that must be 0 (automatic) or positive.
-	distance := func(v *yaml.Node, what string) (*float64, error) {
+	// distance reads a length, mm, that must be 0 (automatic) or
+	// positive and at most limit.
+	distance := func(v *yaml.Node, what string, limit float64) (*float64, error) {
 		d, err := y.Float(v, what)
-		if err == nil && d < 0 {
+		switch {
+		case err != nil:
+		case d < 0:
 			err = y.Errorf(v, "%s: %g mm is negative (0 means automatic)", what, d)
+		case d > limit:
+			err = y.Errorf(v, "%s: %g mm is more than the %g mm that can make sense for a spot weld", what, d, limit)
 		}
 		return &d, err
 	}
@@ -315,9 +333,9 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 	return y.Map(n, "build", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "reach":
-			b.Reach, err = distance(v, key)
+			b.Reach, err = distance(v, key, joints.MaxReach)
 		case "gap_allowance":
-			b.GapAllowance, err = distance(v, key)
+			b.GapAllowance, err = distance(v, key, joints.MaxGapAllowance)
 		case "attach":
 			b.Attach, err = choice(v, key, attach)
 		case "spot_dofs":
@@ -332,7 +350,7 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 			if id, err = y.Int(v, key); err == nil && id < 0 {
 				err = y.Errorf(v, "id_start: %d is negative (0 means above every id in the mesh)", id)
 			}
-			b.IDStart = &id
+			b.IDStart, b.IDStartLine = &id, v.Line
 		case "nugget_rule":
 			b.NuggetRule, err = choice(v, key, func(s string) error { _, err := joints.ParseNuggetRule(s); return err })
 		case "fail_on":

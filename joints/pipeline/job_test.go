@@ -31,12 +31,14 @@ func TestLoadJobExample(t *testing.T) {
 		Joints:   []string{filepath.Join(dir, "welds.csv")},
 		Out:      filepath.Join(dir, "out"),
 		Renumber: ptr(false),
+		Units:    "mm",
 		Build: JobBuild{
 			Reach:        ptr(0.0),
 			GapAllowance: ptr(0.0),
 			Attach:       "interpolated",
 			SpotDOFs:     []string{"tx", "ty", "tz", "rx", "ry", "rz"},
 			IDStart:      ptr(int64(0)),
+			IDStartLine:  14,
 			NuggetRule:   "5sqrt",
 			FailOn:       "error",
 			Groups:       map[string]JobGroup{"rear-rail": {Attach: "node-pair"}},
@@ -129,7 +131,7 @@ func TestReadJobErrors(t *testing.T) {
 		{"mesh not list", "version: 1\nmeshes: a.vtk\n", `j.yaml:2: meshes: want a list, got "a.vtk"`},
 		{"empty path", "version: 1\nmeshes: ['']\n", "j.yaml:2: meshes: empty path"},
 		{"unknown key", head + "mesh: [b.vtk]\n", `j.yaml:3: job: unknown key "mesh" (did you mean "meshes"?)`},
-		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, build)`},
+		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, units, build)`},
 		{"duplicate key", head + "out: a\nout: b\n", `j.yaml:4: job: key "out" given twice (lines 3 and 4)`},
 		{"renumber", head + "renumber: yes please\n", `j.yaml:3: renumber: want true or false, got "yes please"`},
 		{"build key", head + "build:\n  atach: patch\n", `j.yaml:4: build: unknown key "atach" (did you mean "attach"?)`},
@@ -165,6 +167,9 @@ func FuzzLoadJob(f *testing.F) {
 		f.Add(string(b))
 	}
 	f.Add("version: 1\nmeshes: [a.vtk]\nbuild: {groups: {g: {attach: patch}}, spot_dofs: [rz]}\n")
+	// Hostile inputs of issue 7.
+	f.Add("version: 1\nmeshes: [a.vtk]\nunits: in\nbuild: {reach: 1e300, id_start: 5}\n")
+	f.Add("version: 1\nmeshes: [a.vtk]\nunits: km\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		job, err := ReadJob(strings.NewReader(in), "d/f.yaml")
 		if err != nil {
@@ -175,6 +180,9 @@ func FuzzLoadJob(f *testing.F) {
 		}
 		if job.Version != JobVersion || len(job.Meshes) == 0 {
 			t.Fatalf("job %+v", job)
+		}
+		if _, err := joints.ParseUnit(job.Units); err != nil {
+			t.Fatalf("units %q: %v", job.Units, err)
 		}
 		// A job that loads applies without error.
 		var o joints.BuildOptions

@@ -55,12 +55,18 @@ func (e *Env) note(format string, a ...any) {
 	}
 }
 
-// Inputs is everything a job reads.
+// Inputs is everything a job reads, with every length in millimetres.
 type Inputs struct {
-	Job      *Job
-	Model    *meshio.Model
-	Joints   []joints.Joint
+	Job    *Job
+	Model  *meshio.Model
+	Joints []joints.Joint
+	// Unit is the unit the inputs were given in; Model and Joints have
+	// been scaled from it to mm, and outputs are written back in it.
+	Unit     joints.Unit
 	Warnings []joints.InputWarning
+	// Findings are the findings about the inputs as a whole (a
+	// units-suspect warning), for the report of a run.
+	Findings []joints.Finding
 	// Tags names the free tag columns of each joint list that has some.
 	Tags []joints.ListTags
 	// sums holds the SHA-256 of every input file, taken as it was read
@@ -68,8 +74,10 @@ type Inputs struct {
 	sums *inputSums
 }
 
-// Load reads the model and the joint lists a job names. Input warnings
-// go to env's notes and are kept in Inputs.Warnings.
+// Load reads the model and the joint lists a job names, holds their
+// values to the plausible ranges (geom.MaxThickness, geom.MaxCoordinate,
+// joints.CheckJoints) and scales them from the job's unit to mm. Input
+// warnings go to env's notes and are kept in Inputs.Warnings.
 func Load(ctx context.Context, job *Job, env Env) (*Inputs, error) { return load(ctx, job, env, nil) }
 
 // LoadForSet loads like Load and also hashes every input file as it is
@@ -88,8 +96,13 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 			return nil, UsageError(fmt.Errorf("part array: %w", err))
 		}
 	}
+	unit, err := joints.ParseUnit(job.Units)
+	if err != nil {
+		return nil, UsageError(fmt.Errorf("units: %w", err))
+	}
+	scale := unit.MM()
 	lo := meshio.LoadOptions{Meshes: job.Meshes, Parts: job.Parts, Renumber: job.Renumber != nil && *job.Renumber,
-		PartArray: job.PartArray, Progress: env.progress()}
+		PartArray: job.PartArray, Progress: env.progress(), Scale: scale}
 	var digest func(string) io.Writer
 	if sums != nil {
 		digest = sums.writer
@@ -99,6 +112,7 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 	if err != nil {
 		return nil, err
 	}
+	model.Mesh.Scale(scale)
 	// The readers' file buffers, often larger than the model, are garbage
 	// now; collect them before the next steps grow the heap, so that the
 	// process reuses their memory instead of asking the system for more.
@@ -113,8 +127,16 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 	for _, t := range lists.Tags {
 		env.note("note: %s: kept as free tags: %s", t.File, strings.Join(t.Columns, ", "))
 	}
+	if err := joints.CheckJoints(lists.Joints, scale); err != nil {
+		return nil, err
+	}
+	joints.ScaleJoints(lists.Joints, scale)
 	if err := joints.CheckParts(lists.Joints, model.Mesh); err != nil {
 		return nil, err
 	}
-	return &Inputs{Job: job, Model: model, Joints: lists.Joints, Warnings: lists.Warnings, Tags: lists.Tags, sums: sums}, ctx.Err()
+	in := &Inputs{Job: job, Model: model, Joints: lists.Joints, Unit: unit, Warnings: lists.Warnings, Tags: lists.Tags, sums: sums}
+	if f, ok := joints.UnitsSuspect(model.Mesh, unit); ok {
+		in.Findings = append(in.Findings, f)
+	}
+	return in, ctx.Err()
 }

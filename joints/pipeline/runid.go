@@ -82,6 +82,9 @@ func (in *Inputs) runID(generator string, res *joints.Result) (string, error) {
 	// (recorded above) and the output directory (not part of the set).
 	settings := *job
 	settings.Meshes, settings.Parts, settings.Joints, settings.Out, settings.File, settings.Sum = nil, "", nil, "", "", nil
+	if settings.Units == joints.Millimetre.String() {
+		settings.Units = "" // the default, given or not: the same outputs
+	}
 	s, err := json.Marshal(&settings)
 	if err != nil {
 		return "", fmt.Errorf("pipeline: run id: %w", err)

@@ -15,21 +15,27 @@ import (
 
 // attach ties an end to every sheet of a stack with the given
 // attachment; diameter is the nugget diameter, mm (the patch radius is
-// half of it).
-func attach(x *geom.Index, st *joints.Stack, a joints.Attach, diameter float64) []joints.End {
+// half of it). It reports patch ends capped at joints.MaxPatchNodes.
+func attach(x *geom.Index, st *joints.Stack, a joints.Attach, diameter float64, j *joints.Joint) ([]joints.End, []joints.Finding) {
 	ends := make([]joints.End, len(st.Sheets))
+	var out []joints.Finding
 	for i := range st.Sheets {
 		s := &st.Sheets[i]
 		switch a {
 		case joints.NodePair:
 			ends[i] = attachNodePair(x, s)
 		case joints.Patch:
-			ends[i] = attachPatch(x, s, diameter/2)
+			var within int
+			ends[i], within = attachPatch(x, s, diameter/2)
+			if within > joints.MaxPatchNodes {
+				out = append(out, j.Finding(joints.Warning, joints.CodePatchCapped, []int64{s.Part},
+					fmt.Sprintf("%d nodes of part %d lie within the nugget radius %s mm; the patch ties the %d nearest", within, s.Part, joints.MM(diameter/2), joints.MaxPatchNodes)))
+			}
 		default:
 			ends[i] = attachInterpolated(x.Mesh(), s)
 		}
 	}
-	return ends
+	return ends, out
 }
 
 // attachInterpolated ties the end to every node of the host element with
@@ -83,7 +89,11 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 // point. A rigid translation of the nodes thus moves the end by the same
 // amount, and loads spread as evenly as the geometry allows. When the
 // nodes do not span the plane, the interpolated weights are used.
-func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) joints.End {
+//
+// At most joints.MaxPatchNodes nodes are tied: the host's corners and the
+// nodes nearest the point (ties to the lower node id). attachPatch also
+// returns how many nodes the patch would hold without the cap.
+func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) (joints.End, int) {
 	m := x.Mesh()
 	q := s.Proj.Point
 	pi := m.ElemPart[s.Proj.Elem]
@@ -107,12 +117,29 @@ func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) joints.End {
 	for n := range set {
 		nodes = append(nodes, n)
 	}
-	slices.SortFunc(nodes, func(a, b int32) int { return cmp.Compare(m.NodeIDs[a], m.NodeIDs[b]) })
+	within := len(nodes)
+	byID := func(a, b int32) int { return cmp.Compare(m.NodeIDs[a], m.NodeIDs[b]) }
+	if len(nodes) > joints.MaxPatchNodes {
+		// Host corners first, then by distance from the point.
+		isHost := func(n int32) bool { return slices.Contains(host.Nodes, n) }
+		slices.SortFunc(nodes, func(a, b int32) int {
+			if ha, hb := isHost(a), isHost(b); ha != hb {
+				if ha {
+					return -1
+				}
+				return 1
+			}
+			da, db := r3.Norm2(r3.Sub(m.Coords[a], q)), r3.Norm2(r3.Sub(m.Coords[b], q))
+			return cmp.Or(cmp.Compare(da, db), byID(a, b))
+		})
+		nodes = nodes[:joints.MaxPatchNodes]
+	}
+	slices.SortFunc(nodes, byID)
 	w, ok := patchWeights(m, nodes, q, s.Proj.Normal)
 	if !ok {
-		return host
+		return host, within
 	}
-	return joints.End{Point: q, NodeIndex: -1, Nodes: nodes, Weights: w}
+	return joints.End{Point: q, NodeIndex: -1, Nodes: nodes, Weights: w}, within
 }
 
 // patchWeights solves for the weights described at attachPatch.

@@ -86,7 +86,9 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		return c
 	}
 	c.Findings = append(c.Findings, checkStack(x, j, &c.Stack, c.Diameter, o)...)
-	c.Ends = attach(x, &c.Stack, c.Attach, c.Diameter)
+	var capped []joints.Finding
+	c.Ends, capped = attach(x, &c.Stack, c.Attach, c.Diameter, j)
+	c.Findings = append(c.Findings, capped...)
 	if c.Attach == joints.NodePair {
 		c.Findings = append(c.Findings, checkFacing(&c.Stack, c.Ends, c.Diameter/2, o.NodeFactor*c.Diameter/2, j)...)
 	}

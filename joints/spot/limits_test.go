@@ -54,3 +54,48 @@ func TestDefaultSearchReachesFourSheets(t *testing.T) {
 		t.Errorf("stack %v, status %v with no finding: part 4 (0.1 mm off contact) silently left out", c.Stack.Parts(), c.Status)
 	}
 }
+
+// A patch end ties at most joints.MaxPatchNodes nodes, the nearest ones,
+// and says so (issue: a 1000 mm nugget in patch mode wrote a 200 MB
+// connectors.json). The weights still sum to 1 and reproduce the point.
+func TestPatchCapped(t *testing.T) {
+	// 1 mm quads: a 50 mm nugget (joints.MaxNugget) covers about
+	// π·25² ≈ 1960 nodes of each sheet.
+	m := plates(plate{Part: 1, T: 1, NX: 60, NY: 60, H: 1}, plate{Part: 2, T: 1, Z: 1, NX: 60, NY: 60, H: 1})
+	p := r3.Vec{X: 30.3, Y: 29.6, Z: 0.5}
+	c := buildOne1(t, m, joints.Joint{ID: "W1", Point: p, Diameter: joints.MaxNugget}, joints.BuildOptions{Attach: joints.Patch})
+	if len(c.Ends) != 2 {
+		t.Fatalf("%d ends; findings %v", len(c.Ends), codes(c))
+	}
+	capped := 0
+	for _, f := range c.Findings {
+		if f.Code == joints.CodePatchCapped {
+			capped++
+		}
+	}
+	if capped != 2 {
+		t.Errorf("%d patch-capped findings, want one per sheet: %v", capped, codes(c))
+	}
+	for i, e := range c.Ends {
+		if len(e.Nodes) != joints.MaxPatchNodes {
+			t.Errorf("end %d ties %d nodes, want %d", i, len(e.Nodes), joints.MaxPatchNodes)
+		}
+		var sum float64
+		var at r3.Vec
+		far := 0.0
+		for k, n := range e.Nodes {
+			sum += e.Weights[k]
+			at = r3.Add(at, r3.Scale(e.Weights[k], m.Coords[n]))
+			d := m.Coords[n]
+			far = math.Max(far, math.Hypot(d.X-p.X, d.Y-p.Y))
+		}
+		if math.Abs(sum-1) > 1e-9 || math.Abs(at.X-p.X) > 1e-9 || math.Abs(at.Y-p.Y) > 1e-9 {
+			t.Errorf("end %d: weights sum to %g and give (%g, %g), want 1 and (%g, %g)", i, sum, at.X, at.Y, p.X, p.Y)
+		}
+		// The 100 nearest nodes of a 1 mm grid lie within about
+		// sqrt(100/π) ≈ 5.6 mm of the point.
+		if far > 7 {
+			t.Errorf("end %d ties a node %g mm away: not the nearest", i, far)
+		}
+	}
+}

@@ -30,7 +30,7 @@ func decode(r io.Reader, name, schema string, version int, v any) error {
 	}
 	switch {
 	case h.Schema != schema:
-		return geom.FileError(name, "not a %s document (schema %q)", schema, excerpt(h.Schema))
+		return geom.FileError(name, "not a %s document (schema %q)", schema, geom.Excerpt(h.Schema))
 	case h.Version != version:
 		return geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
 	}
@@ -54,15 +54,6 @@ func jsonError(name string, data []byte, err error) error {
 		return geom.LineError(name, 1+bytes.Count(data[:off], []byte("\n")), "%v", err)
 	}
 	return geom.FileError(name, "%v", err)
-}
-
-// excerpt cuts a text echoed in a message to a readable length.
-func excerpt(s string) string {
-	const limit = 40
-	if len(s) <= limit {
-		return s
-	}
-	return s[:limit] + "..."
 }
 
 // errWriter keeps the first error of a sequence of writes.

@@ -37,7 +37,8 @@ type ConnectorsDoc struct {
 	Connectors []ConnectorDoc `json:"connectors"`
 }
 
-// Units names the units of every number.
+// Units names the units of every number: lengths in the unit of the
+// inputs ("mm", "m" or "in"), angles in degrees.
 type Units struct {
 	Length string `json:"length"`
 	Angle  string `json:"angle"`
@@ -125,7 +126,8 @@ func clean(v float64) float64 {
 	return v
 }
 
-// NewConnectors converts a build result into the connectors document.
+// NewConnectors converts a build result, in mm, into the connectors
+// document, with lengths in info.Unit.
 func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc {
 	o := r.Options
 	doc := &ConnectorsDoc{
@@ -150,6 +152,7 @@ func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc 
 	for i := range r.Connectors {
 		doc.Connectors = append(doc.Connectors, connectorDoc(m, &r.Connectors[i]))
 	}
+	doc.toUnit(info.Unit)
 	return doc
 }
 

@@ -14,6 +14,7 @@ type ReportDoc struct {
 	Generator string       `json:"generator"`
 	RunID     string       `json:"run_id"`
 	Caution   string       `json:"caution"`
+	Units     Units        `json:"units"`
 	Inputs    Inputs       `json:"inputs"`
 	Summary   Summary      `json:"summary"`
 	Findings  []FindingDoc `json:"findings"`
@@ -29,7 +30,8 @@ type FindingDoc struct {
 	Location *Vec    `json:"location"`
 }
 
-// NewReport converts a build result into the report document.
+// NewReport converts a build result, in mm, into the report document,
+// with finding locations in info.Unit.
 func NewReport(r *joints.Result, info RunInfo) *ReportDoc {
 	doc := &ReportDoc{
 		Schema: ReportSchema, Version: ReportVersion, Generator: info.Generator, RunID: info.RunID, Caution: Caution,
@@ -40,6 +42,7 @@ func NewReport(r *joints.Result, info RunInfo) *ReportDoc {
 	for _, f := range r.Findings {
 		doc.Findings = append(doc.Findings, findingDoc(f))
 	}
+	doc.toUnit(info.Unit)
 	return doc
 }
 

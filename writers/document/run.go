@@ -1,12 +1,18 @@
 package document
 
+import "github.com/joinery-cae/joinery/joints"
+
 // RunInfo says how a run was made, for the record in every output.
 type RunInfo struct {
-	Generator string   // "joinery <version>"
-	RunID     string   // the run id every file of the set carries (see RunIDLen)
-	Meshes    []string // input paths, as recorded
-	Parts     string
-	Joints    []string
+	Generator string // "joinery <version>"
+	RunID     string // the run id every file of the set carries (see RunIDLen)
+	// Unit is the unit of the inputs' lengths: the documents give every
+	// length in it (converted from the mm the build works in) and record
+	// it, so that outputs overlay the meshes.
+	Unit   joints.Unit
+	Meshes []string // input paths, as recorded
+	Parts  string
+	Joints []string
 	// Renumbered lists the id offsets applied to mesh files (--renumber),
 	// so that connector node ids can be mapped back to the files.
 	Renumbered []Shift

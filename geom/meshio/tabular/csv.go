@@ -77,7 +77,7 @@ func NewCSV(r io.Reader, file string) (*CSV, error) {
 		}
 		low := strings.ToLower(name)
 		if prev, dup := seen[low]; dup {
-			return nil, geom.LineError(file, c.HeaderLine, "column %q given twice (columns %d and %d)", name, prev+1, i+1)
+			return nil, geom.LineError(file, c.HeaderLine, "column %q given twice (columns %d and %d)", geom.Excerpt(name), prev+1, i+1)
 		}
 		seen[low] = i
 		c.Header[i] = name
@@ -187,7 +187,7 @@ func (c *CSV) Require(at []int, known []string, required ...int) error {
 // UnknownColumn returns the error for a header column that is not in
 // known, suggesting the known name it resembles.
 func (c *CSV) UnknownColumn(col int, known []string) error {
-	return geom.LineError(c.File, c.HeaderLine, "unknown column %q%s", c.Header[col], didYouMean(c.Header[col], known))
+	return geom.LineError(c.File, c.HeaderLine, "unknown column %q%s", geom.Excerpt(c.Header[col]), didYouMean(c.Header[col], known))
 }
 
 // Read returns the next data row, trimmed, with exactly one field per
@@ -253,10 +253,10 @@ func (c *CSV) Float(rec []string, col int) (float64, error) {
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		if dot := strings.Replace(s, ",", ".", 1); dot != s && !strings.Contains(dot, ",") {
 			if _, err := strconv.ParseFloat(dot, 64); err == nil {
-				return 0, c.Errorf(col, "%s: %q has a decimal comma; write %s (the decimal separator is '.')", c.Header[col], s, dot)
+				return 0, c.Errorf(col, "%s: %q has a decimal comma; write %s (the decimal separator is '.')", geom.Excerpt(c.Header[col]), geom.Excerpt(s), geom.Excerpt(dot))
 			}
 		}
-		return 0, c.Errorf(col, "%s: %q is not a finite number", c.Header[col], s)
+		return 0, c.Errorf(col, "%s: %q is not a finite number", geom.Excerpt(c.Header[col]), geom.Excerpt(s))
 	}
 	return v, nil
 }
@@ -265,7 +265,7 @@ func (c *CSV) Float(rec []string, col int) (float64, error) {
 func (c *CSV) Int(rec []string, col int) (int64, error) {
 	v, err := strconv.ParseInt(rec[col], 10, 64)
 	if err != nil {
-		return 0, c.Errorf(col, "%s: %q is not an integer", c.Header[col], rec[col])
+		return 0, c.Errorf(col, "%s: %q is not an integer", geom.Excerpt(c.Header[col]), geom.Excerpt(rec[col]))
 	}
 	return v, nil
 }

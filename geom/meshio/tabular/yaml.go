@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"gopkg.in/yaml.v3"
 
@@ -28,6 +29,9 @@ func (y YAML) Parse(r io.Reader) (root *yaml.Node, err error) {
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, fmt.Errorf("reading %s: %w", y.File, err)
+	}
+	if err := checkUTF8(data, y.File); err != nil {
+		return nil, err
 	}
 	defer func() {
 		// yaml.v3 reports syntax errors by panicking internally and
@@ -58,6 +62,23 @@ func (y YAML) Parse(r io.Reader) (root *yaml.Node, err error) {
 		return nil, geom.FileError(y.File, "YAML aliases expand the document from %d to over %d nodes", raw, maxExpanded)
 	}
 	return resolve(doc.Content[0]), nil
+}
+
+// checkUTF8 refuses a document that is not valid UTF-8, naming the line of
+// the first bad byte (yaml.v3 names none). Documents starting with a
+// UTF-16 byte-order mark are left to yaml.v3, which reads them.
+func checkUTF8(data []byte, file string) error {
+	if bytes.HasPrefix(data, []byte{0xfe, 0xff}) || bytes.HasPrefix(data, []byte{0xff, 0xfe}) || utf8.Valid(data) {
+		return nil
+	}
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n <= 1 {
+			return geom.LineError(file, 1+bytes.Count(data[:i], []byte{'\n'}), "not valid UTF-8 text (byte 0x%02x): save the file as UTF-8", data[i])
+		}
+		i += n
+	}
+	return nil
 }
 
 // maxExpanded bounds the nodes a document may expand to through aliases
@@ -153,11 +174,11 @@ func (y YAML) Map(n *yaml.Node, what string, known []string, f func(key string, 
 		}
 		key := k.Value
 		if prev, dup := seen[key]; dup {
-			return y.Errorf(k, "%s: key %q given twice (lines %d and %d)", what, key, prev, k.Line)
+			return y.Errorf(k, "%s: key %q given twice (lines %d and %d)", what, geom.Excerpt(key), prev, k.Line)
 		}
 		seen[key] = k.Line
 		if known != nil && !contains(known, key) {
-			return y.Errorf(k, "%s: unknown key %q%s", what, key, didYouMean(key, known))
+			return y.Errorf(k, "%s: unknown key %q%s", what, geom.Excerpt(key), didYouMean(key, known))
 		}
 		if err := f(key, k, v); err != nil {
 			return err
@@ -226,14 +247,14 @@ func (y YAML) Float(n *yaml.Node, what string) (float64, error) {
 		return 0, y.Errorf(n, "%s: want a number, got %s", what, describe(n))
 	}
 	if l := strings.ToLower(n.Value); strings.Contains(l, "nan") || strings.Contains(l, "inf") {
-		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a finite number", what, geom.Excerpt(n.Value))
 	}
 	if !plainDecimal(n.Value, true) {
-		return 0, y.Errorf(n, "%s: %q: write numbers as plain decimals (like 1.5 or -2e-3)", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q: write numbers as plain decimals (like 1.5 or -2e-3)", what, geom.Excerpt(n.Value))
 	}
 	v, err := strconv.ParseFloat(n.Value, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, y.Errorf(n, "%s: %q is not a finite number", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a finite number", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -291,11 +312,11 @@ func (y YAML) Int(n *yaml.Node, what string) (int64, error) {
 		return 0, y.Errorf(n, "%s: want an integer, got %s", what, describe(n))
 	}
 	if !plainDecimal(n.Value, false) {
-		return 0, y.Errorf(n, "%s: %q: write integers as plain decimals (like 1042)", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q: write integers as plain decimals (like 1042)", what, geom.Excerpt(n.Value))
 	}
 	v, err := strconv.ParseInt(n.Value, 10, 64)
 	if err != nil {
-		return 0, y.Errorf(n, "%s: %q is not a 64-bit integer", what, n.Value)
+		return 0, y.Errorf(n, "%s: %q is not a 64-bit integer", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -308,7 +329,7 @@ func (y YAML) Bool(n *yaml.Node, what string) (bool, error) {
 	}
 	var v bool
 	if err := n.Decode(&v); err != nil {
-		return false, y.Errorf(n, "%s: %q is not true or false", what, n.Value)
+		return false, y.Errorf(n, "%s: %q is not true or false", what, geom.Excerpt(n.Value))
 	}
 	return v, nil
 }
@@ -334,11 +355,7 @@ func describe(n *yaml.Node) string {
 	case n.Kind == yaml.ScalarNode && n.ShortTag() == "!!null":
 		return "nothing"
 	case n.Kind == yaml.ScalarNode:
-		v := n.Value
-		if len(v) > 40 {
-			v = v[:40] + "..."
-		}
-		return fmt.Sprintf("%q", v)
+		return fmt.Sprintf("%q", geom.Excerpt(n.Value))
 	}
 	return "an unsupported YAML node"
 }
