@@ -20,24 +20,30 @@ type header struct {
 // A document of another schema or version, or one that is not JSON, is
 // an input error naming the file.
 func decode(r io.Reader, name, schema string, version int, v any) error {
+	_, err := decodeRaw(r, name, schema, version, v)
+	return err
+}
+
+// decodeRaw is decode, returning the bytes read.
+func decodeRaw(r io.Reader, name, schema string, version int, v any) ([]byte, error) {
 	data, err := io.ReadAll(bufio.NewReader(r))
 	if err != nil {
-		return fmt.Errorf("document: reading %s: %w", name, err)
+		return nil, fmt.Errorf("document: reading %s: %w", name, err)
 	}
 	var h header
 	if err := json.Unmarshal(data, &h); err != nil {
-		return jsonError(name, data, err)
+		return nil, jsonError(name, data, err)
 	}
 	switch {
 	case h.Schema != schema:
-		return geom.FileError(name, "not a %s document (schema %q)", schema, excerpt(h.Schema))
+		return nil, geom.FileError(name, "not a %s document (schema %q)", schema, excerpt(h.Schema))
 	case h.Version != version:
-		return geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
+		return nil, geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
 	}
 	if err := json.Unmarshal(data, v); err != nil {
-		return jsonError(name, data, err)
+		return nil, jsonError(name, data, err)
 	}
-	return nil
+	return data, nil
 }
 
 // jsonError turns a JSON syntax or type error into an input error at its

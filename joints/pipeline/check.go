@@ -1,0 +1,222 @@
+package pipeline
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/audit"
+	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// CheckSettings are a check's settings, read from a job and the command
+// line, and checked.
+type CheckSettings struct {
+	// Options: the reach (for the sheets of extra joint points), the gap
+	// allowance and the node factor (for node pairs), the nugget rule and
+	// the degrees of freedom of node-pair links that give none.
+	Options joints.BuildOptions
+	// Connectors are the files to check: connectors.json documents or
+	// node-pair lists (.csv).
+	Connectors []string
+	FailOn     joints.Severity
+	Fail       bool // false for --fail-on never
+	Out        string
+}
+
+// CheckSettings reads and checks the job's settings for a check of the
+// given connector files. Errors are usage errors.
+func (job *Job) CheckSettings(connectors []string) (CheckSettings, error) {
+	b, err := job.BuildSettings()
+	if err != nil {
+		return CheckSettings{}, err
+	}
+	return CheckSettings{Options: b.Options, Connectors: connectors, FailOn: b.FailOn, Fail: b.Fail, Out: b.Out}, nil
+}
+
+// CheckFiles are the names of the files a check writes, in order.
+func CheckFiles() []string { return []string{"report.json", "report.txt"} }
+
+// Check runs a whole check: load the job's model and joint lists (their
+// spot welds are extra points to check against, not built), read the
+// connectors, audit them, and write the report set into s.Out.
+func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, error) {
+	if len(s.Connectors) == 0 {
+		return nil, UsageError(errors.New("no connectors given: name a connectors.json or a node-pair list (.csv) with --connectors"))
+	}
+	out, err := OpenOutput(s.Out)
+	if err != nil {
+		return nil, err
+	}
+	defer out.Close()
+	in, err := LoadForSet(ctx, job, env)
+	if err != nil {
+		return nil, err
+	}
+	m := in.Model.Mesh
+	if missing := in.Model.MissingThickness(); len(missing) > 0 {
+		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
+	}
+	o := s.Options.Defaults(joints.MaxThickness(m))
+	conns, err := ReadConnectors(m, s.Connectors, o, env)
+	if err != nil {
+		return nil, err
+	}
+	res := &joints.Result{Connectors: conns, Options: o}
+	for _, c := range conns {
+		res.Findings = append(res.Findings, c.Findings...)
+	}
+	rep, err := audit.Run(ctx, m, conns, in.Joints, o, env.progress())
+	if err != nil {
+		return nil, err
+	}
+	res.Findings = append(res.Findings, rep.Findings...)
+	res.Kinematics = &rep.Kinematics
+	info, err := in.RunInfo(env.Generator, res)
+	if err != nil {
+		return nil, err
+	}
+	info.Connectors = slices.Clone(s.Connectors)
+	doc := document.NewReport(res, info)
+	doc.Command = "check"
+	rendered, err := writers.Render([]writers.File{
+		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, doc) }},
+		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteReportText(w, doc) }},
+	})
+	if err != nil {
+		return nil, err
+	}
+	if err := out.Write(writers.Set{Job: "check", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
+		return nil, err
+	}
+	return &Outcome{Out: s.Out, Files: CheckFiles(), RunID: info.RunID, Report: doc, Result: res, Reached: s.Fail && res.Reached(s.FailOn)}, nil
+}
+
+// ReadConnectors reads connector files against mesh m: connectors.json
+// documents (read back through the document types that write them) and
+// node-pair lists (.csv, see audit.ReadNodePairs). Node-pair connectors
+// of a document are rebuilt from their node pairs as those of a list
+// are, keeping their weld point and nugget diameter, so that both forms
+// give the same findings. Connector ids must be unique across files.
+// The connectors come sorted by id.
+func ReadConnectors(m *geom.Mesh, paths []string, o joints.BuildOptions, env Env) ([]joints.Connector, error) {
+	var conns []joints.Connector
+	where := map[string]string{}
+	seen := map[string]bool{}
+	add := func(c joints.Connector, file string, line int) error {
+		if prev, dup := where[c.Joint.ID]; dup {
+			return geom.LineError(file, line, "connector id %q already used at %s", excerpt(c.Joint.ID), prev)
+		}
+		where[c.Joint.ID] = fmt.Sprintf("%s:%d", file, line)
+		conns = append(conns, c)
+		return nil
+	}
+	for _, p := range paths {
+		if seen[filepath.Clean(p)] {
+			return nil, geom.FileError(p, "connector file given twice")
+		}
+		seen[filepath.Clean(p)] = true
+		switch ext := strings.ToLower(filepath.Ext(p)); ext {
+		case ".json":
+			f, err := os.Open(p)
+			if err != nil {
+				return nil, geom.FileError(p, "connectors: %w", err)
+			}
+			doc, err := document.DecodeConnectors(f, p)
+			f.Close()
+			if err != nil {
+				return nil, err
+			}
+			cs, err := doc.ToConnectors(m, p)
+			if err != nil {
+				return nil, err
+			}
+			var pairs []audit.NodePairWeld
+			var pairIdx []int
+			for i := range doc.Connectors {
+				d := &doc.Connectors[i]
+				links, ok := d.NodePairs()
+				if !ok {
+					continue
+				}
+				w := audit.NodePairWeld{ID: d.ID, DOFs: cs[i].DOFs, Point: cs[i].Joint.Point, HasPoint: true, Group: d.Group,
+					File: p, Line: doc.ConnectorLine(i)}
+				if d.Diameter != nil {
+					w.Diameter = *d.Diameter
+				}
+				for _, l := range links {
+					w.Links = append(w.Links, audit.NodePairLink{A: l[0], B: l[1], Line: w.Line})
+				}
+				pairs = append(pairs, w)
+				pairIdx = append(pairIdx, i)
+			}
+			if len(pairs) > 0 {
+				rebuilt, err := audit.NodePairConnectors(m, pairs, o)
+				if err != nil {
+					return nil, err
+				}
+				for k, i := range pairIdx {
+					rebuilt[k].Joint.Parts, rebuilt[k].Joint.Tags = cs[i].Joint.Parts, cs[i].Joint.Tags
+					cs[i] = rebuilt[k]
+				}
+			}
+			for i, c := range cs {
+				if err := add(c, p, doc.ConnectorLine(i)); err != nil {
+					return nil, err
+				}
+			}
+		case ".csv":
+			welds, warns, err := audit.ReadNodePairsFile(p)
+			if err != nil {
+				return nil, err
+			}
+			for _, w := range warns {
+				env.note("warning: %s", w)
+			}
+			cs, err := audit.NodePairConnectors(m, welds, o)
+			if err != nil {
+				return nil, err
+			}
+			for _, c := range cs {
+				if err := add(c, p, c.Joint.Line); err != nil {
+					return nil, err
+				}
+			}
+		default:
+			return nil, geom.FileError(p, "unknown connector file type %q (want .json: a connectors.json, or .csv: a node-pair list)", ext)
+		}
+	}
+	slices.SortStableFunc(conns, func(a, b joints.Connector) int { return joints.CompareIDs(a.Joint.ID, b.Joint.ID) })
+	return conns, nil
+}
+
+// CheckConnectors is a build's check step: it audits the connectors of
+// res (the same checks as Check, on what the build made) and adds the
+// findings and kinematic counts to res. The build's own node-pair checks
+// are not repeated.
+func CheckConnectors(ctx context.Context, in *Inputs, res *joints.Result, env Env) error {
+	rep, err := audit.Run(ctx, in.Model.Mesh, res.Connectors, nil, res.Options, env.progress())
+	if err != nil {
+		return err
+	}
+	res.Findings = append(res.Findings, rep.Findings...)
+	res.Kinematics = &rep.Kinematics
+	return nil
+}
+
+// excerpt cuts a text echoed in a message to a readable length.
+func excerpt(s string) string {
+	const limit = 40
+	if len(s) <= limit {
+		return s
+	}
+	return s[:limit] + "..."
+}
