@@ -81,10 +81,13 @@ type Body struct {
 //     collinear) nodes it follows only the part's translation at the end
 //     point: a tie on tx,ty,tz, leaving the end's rotations to the link;
 //   - a link between the ends on sheets From and To ties the two ends'
-//     bodies at the To end's point on the connector's DOFs: the To end's
-//     tied degrees of freedom follow the rigid motion of the From end
-//     (u_to = u_from + w_from × (x_to − x_from) on the tied translations,
-//     w_to = w_from on the tied rotations), as a rigid link does;
+//     bodies at the link's midpoint on the connector's DOFs: the two ends
+//     move alike there, where the link crosses the faying surfaces (the
+//     nugget), on the tied translations, and turn alike on the tied
+//     rotations. For a link on all six degrees of freedom this is a rigid
+//     link; for a link on translations only it is a ball joint at the
+//     nugget, so that a row of such welds is a hinge about the row
+//     whichever way each stack is ordered;
 //   - a ring coupled to a centre node in the rigid form (each ring node i
 //     follows the centre's rigid motion, u_i = u_c + w_c × r_i on the tied
 //     DOFs) is one tie per ring node, between the ring's part and the
@@ -175,8 +178,8 @@ func (k *Constraints) AddConnector(m *geom.Mesh, c *Connector) {
 // AddSpotWeld adds the ties of a spot-weld connector, as Tie describes:
 // ends that are mesh nodes are their parts; other ends are NodeBodies
 // tied to their part (on all six degrees of freedom when their nodes
-// span a plane, else on translations); each link ties its ends at its To
-// end on c.DOFs.
+// span a plane, else on translations); each link ties its ends at its
+// midpoint on c.DOFs.
 func (k *Constraints) AddSpotWeld(m *geom.Mesh, c *Connector) {
 	body := make([]int, len(c.Ends))
 	for i, e := range c.Ends {
@@ -203,7 +206,8 @@ func (k *Constraints) AddSpotWeld(m *geom.Mesh, c *Connector) {
 		if l.From < 0 || l.To < 0 || l.From >= len(body) || l.To >= len(body) {
 			continue
 		}
-		k.Tie(body[l.From], body[l.To], c.Ends[l.To].Point, c.DOFs, c.Joint.ID)
+		mid := r3.Scale(0.5, r3.Add(c.Ends[l.From].Point, c.Ends[l.To].Point))
+		k.Tie(body[l.From], body[l.To], mid, c.DOFs, c.Joint.ID)
 	}
 }
 

@@ -92,6 +92,14 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 	return ew.err
 }
 
+// counted returns "1 group" or "n groups".
+func counted(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}
+
 // severityCounts says how many findings there are of each severity:
 // "3 warning", "1 error, 2 warning".
 func severityCounts(fs []*document.FindingDoc) string {
@@ -271,8 +279,8 @@ func summaryLines(ew *errWriter, doc *document.ReportDoc) {
 		ew.printf("by code     %s\n", countList(s.ByCode))
 	}
 	if a := s.Assembly; a != nil {
-		ew.printf("assembly    %d groups of parts (%d grounded), %d rigid-body modes, %d mechanism motions, %d unrestrained\n",
-			a.Groups, a.Grounded, a.RigidBodyModes, a.Mechanisms, a.Unrestrained)
+		ew.printf("assembly    %s of parts (%d grounded), %s, %s, %d unrestrained\n",
+			counted(a.Groups, "group"), a.Grounded, counted(a.RigidBodyModes, "rigid-body mode"), counted(a.Mechanisms, "mechanism motion"), a.Unrestrained)
 	}
 }
 

@@ -58,6 +58,28 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	o = o.Defaults(joints.MaxThickness(m))
 	prog.Start("checking the welds", 0)
 	defer prog.Done()
+	// The set checks and the assembly checks are independent: run them
+	// side by side, and join their findings in a fixed order.
+	type assembly struct {
+		fs  []joints.Finding
+		kin joints.Kinematics
+	}
+	ch := make(chan assembly, 1)
+	go func() {
+		parts := make([]int64, len(m.Parts))
+		for i, p := range m.Parts {
+			parts[i] = p.ID
+		}
+		slices.Sort(parts)
+		k := joints.NewConstraints(parts)
+		for i := range conns {
+			k.AddConnector(m, &conns[i])
+		}
+		groups := Groups(k)
+		fs := freeParts(m, k, groups)
+		kin, kinFs := Kinematic(k, groups)
+		ch <- assembly{append(fs, kinFs...), kin}
+	}()
 	welds := collectWelds(m, conns, extra, &o)
 	rep := &Report{}
 	dups, dupFs := duplicates(m, welds)
@@ -65,23 +87,9 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	rep.Findings = append(rep.Findings, seamFs...)
 	rep.Findings = append(rep.Findings, dupFs...)
 	rep.Findings = append(rep.Findings, pitchShort(welds, dups, seams)...)
-	if err := ctx.Err(); err != nil {
-		return nil, fmt.Errorf("audit: interrupted: %w", err)
-	}
-	parts := make([]int64, len(m.Parts))
-	for i, p := range m.Parts {
-		parts[i] = p.ID
-	}
-	slices.Sort(parts)
-	k := joints.NewConstraints(parts)
-	for i := range conns {
-		k.AddConnector(m, &conns[i])
-	}
-	groups := Groups(k)
-	rep.Findings = append(rep.Findings, freeParts(m, k, groups)...)
-	kin, kinFs := Kinematic(k, groups)
-	rep.Kinematics = kin
-	rep.Findings = append(rep.Findings, kinFs...)
+	asm := <-ch
+	rep.Findings = append(rep.Findings, asm.fs...)
+	rep.Kinematics = asm.kin
 	return rep, ctx.Err()
 }
 

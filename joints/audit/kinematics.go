@@ -611,7 +611,14 @@ func (s *solver) eliminateOne(c int32) []int32 {
 		}
 	}
 	var svd mat.SVD
-	svd.Factorize(S, mat.SVDFullU|mat.SVDFullV)
+	if !svd.Factorize(S, mat.SVDFullU|mat.SVDFullV) {
+		// Not finite rows (coordinates out of range): nothing can be said.
+		for _, ei := range inc {
+			s.kill(ei)
+		}
+		s.cl[c].alive = false
+		return nbrs
+	}
 	sv := svd.Values(nil)
 	tau := threshold(sv[0])
 	rank := 0
@@ -999,7 +1006,9 @@ func nullSpace(rows [][]float64, n int) [][]float64 {
 		a.SetRow(r, row)
 	}
 	var svd mat.SVD
-	svd.Factorize(a, mat.SVDFullV)
+	if !svd.Factorize(a, mat.SVDFullV) {
+		return nil
+	}
 	sv := svd.Values(nil)
 	tau := threshold(sv[0])
 	rank := 0

@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"context"
 	"errors"
 	"os"
 	"path/filepath"
@@ -131,6 +132,35 @@ func FuzzReadNodePairs(f *testing.F) {
 					t.Fatalf("link %+v", l)
 				}
 			}
+		}
+	})
+}
+
+// FuzzAuditNodePairs runs the whole audit on node-pair lists against a
+// fixed three-sheet mesh: whatever the list, no panic, and errors are
+// input errors.
+func FuzzAuditNodePairs(f *testing.F) {
+	m := plates(
+		plate{Part: 1, T: 1, NX: 8, NY: 4, H: 5},
+		plate{Part: 2, T: 1, Z: 1, NX: 8, NY: 4, H: 5},
+		plate{Part: 3, T: 1.5, Z: 2.25, NX: 4, NY: 2, H: 10},
+	)
+	f.Add([]byte("id,node_a,node_b,dofs\nW1,100001,200001,tx+ty+tz\nW2,100002,200002,\nW2,200002,300002,\nW3,100003,200003,rz\n"))
+	f.Add([]byte("id,node_a,node_b\nW1,100001,200002\nW1,200002,300003\nW2,100001,200002\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		welds, _, err := ReadNodePairs(strings.NewReader(string(data)), "f.csv")
+		if err != nil {
+			return
+		}
+		conns, err := NodePairConnectors(m, welds, joints.BuildOptions{})
+		if err != nil {
+			if !errors.Is(err, geom.ErrInput) {
+				t.Fatalf("not an input error: %v", err)
+			}
+			return
+		}
+		if _, err := Run(context.Background(), m, conns, nil, joints.BuildOptions{}, nil); err != nil {
+			t.Fatal(err)
 		}
 	})
 }

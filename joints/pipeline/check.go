@@ -3,7 +3,6 @@ package pipeline
 import (
 	"context"
 	"errors"
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -57,16 +56,31 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 		return nil, err
 	}
 	defer out.Close()
+	// The connector files need no mesh to be read: read them while the
+	// mesh is.
+	type parsed struct {
+		files []connectorFile
+		err   error
+	}
+	ch := make(chan parsed, 1)
+	go func() {
+		files, err := parseConnectorFiles(s.Connectors)
+		ch <- parsed{files, err}
+	}()
 	in, err := LoadForSet(ctx, job, env)
+	got := <-ch
 	if err != nil {
 		return nil, err
+	}
+	if got.err != nil {
+		return nil, got.err
 	}
 	m := in.Model.Mesh
 	if missing := in.Model.MissingThickness(); len(missing) > 0 {
 		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
 	}
 	o := s.Options.Defaults(joints.MaxThickness(m))
-	conns, err := ReadConnectors(m, s.Connectors, o, env)
+	conns, err := resolveConnectors(m, got.files, o, env)
 	if err != nil {
 		return nil, err
 	}
@@ -100,6 +114,50 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	return &Outcome{Out: s.Out, Files: CheckFiles(), RunID: info.RunID, Report: doc, Result: res, Reached: s.Fail && res.Reached(s.FailOn)}, nil
 }
 
+// connectorFile is a connector file read, not yet resolved against a
+// mesh: a connectors.json document or a node-pair list.
+type connectorFile struct {
+	path  string
+	doc   *document.ConnectorsDoc
+	welds []audit.NodePairWeld
+	warns []joints.InputWarning
+}
+
+// parseConnectorFiles reads connector files (see ReadConnectors) without
+// the mesh, so that it can run while the mesh is read.
+func parseConnectorFiles(paths []string) ([]connectorFile, error) {
+	var out []connectorFile
+	seen := map[string]bool{}
+	for _, p := range paths {
+		if seen[filepath.Clean(p)] {
+			return nil, geom.FileError(p, "connector file given twice")
+		}
+		seen[filepath.Clean(p)] = true
+		cf := connectorFile{path: p}
+		switch ext := strings.ToLower(filepath.Ext(p)); ext {
+		case ".json":
+			f, err := os.Open(p)
+			if err != nil {
+				return nil, geom.FileError(p, "connectors: %w", err)
+			}
+			cf.doc, err = document.DecodeConnectors(f, p)
+			f.Close()
+			if err != nil {
+				return nil, err
+			}
+		case ".csv":
+			var err error
+			if cf.welds, cf.warns, err = audit.ReadNodePairsFile(p); err != nil {
+				return nil, err
+			}
+		default:
+			return nil, geom.FileError(p, "unknown connector file type %q (want .json: a connectors.json, or .csv: a node-pair list)", ext)
+		}
+		out = append(out, cf)
+	}
+	return out, nil
+}
+
 // ReadConnectors reads connector files against mesh m: connectors.json
 // documents (read back through the document types that write them) and
 // node-pair lists (.csv, see audit.ReadNodePairs). Node-pair connectors
@@ -108,90 +166,92 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 // give the same findings. Connector ids must be unique across files.
 // The connectors come sorted by id.
 func ReadConnectors(m *geom.Mesh, paths []string, o joints.BuildOptions, env Env) ([]joints.Connector, error) {
+	files, err := parseConnectorFiles(paths)
+	if err != nil {
+		return nil, err
+	}
+	return resolveConnectors(m, files, o, env)
+}
+
+// resolveConnectors turns connector files read into connectors of m.
+func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOptions, env Env) ([]joints.Connector, error) {
 	var conns []joints.Connector
-	where := map[string]string{}
-	seen := map[string]bool{}
-	add := func(c joints.Connector, file string, line int) error {
-		if prev, dup := where[c.Joint.ID]; dup {
-			return geom.LineError(file, line, "connector id %q already used at %s", excerpt(c.Joint.ID), prev)
+	// Where each id was first seen: its file and the index of the
+	// connector there (lines are looked up only for a message).
+	type place struct {
+		file *connectorFile
+		i    int
+	}
+	where := map[string]place{}
+	lineOf := func(pl place) int {
+		if pl.file.doc != nil {
+			return pl.file.doc.ConnectorLine(pl.i)
 		}
-		where[c.Joint.ID] = fmt.Sprintf("%s:%d", file, line)
+		return pl.file.welds[pl.i].Line
+	}
+	add := func(c joints.Connector, pl place) error {
+		if prev, dup := where[c.Joint.ID]; dup {
+			return geom.LineError(pl.file.path, lineOf(pl), "connector id %q already used at %s:%d", excerpt(c.Joint.ID), prev.file.path, lineOf(prev))
+		}
+		where[c.Joint.ID] = pl
 		conns = append(conns, c)
 		return nil
 	}
-	for _, p := range paths {
-		if seen[filepath.Clean(p)] {
-			return nil, geom.FileError(p, "connector file given twice")
+	for fi := range files {
+		cf := &files[fi]
+		for _, w := range cf.warns {
+			env.note("warning: %s", w)
 		}
-		seen[filepath.Clean(p)] = true
-		switch ext := strings.ToLower(filepath.Ext(p)); ext {
-		case ".json":
-			f, err := os.Open(p)
-			if err != nil {
-				return nil, geom.FileError(p, "connectors: %w", err)
-			}
-			doc, err := document.DecodeConnectors(f, p)
-			f.Close()
+		if cf.doc == nil {
+			cs, err := audit.NodePairConnectors(m, cf.welds, o)
 			if err != nil {
 				return nil, err
-			}
-			cs, err := doc.ToConnectors(m, p)
-			if err != nil {
-				return nil, err
-			}
-			var pairs []audit.NodePairWeld
-			var pairIdx []int
-			for i := range doc.Connectors {
-				d := &doc.Connectors[i]
-				links, ok := d.NodePairs()
-				if !ok {
-					continue
-				}
-				w := audit.NodePairWeld{ID: d.ID, DOFs: cs[i].DOFs, Point: cs[i].Joint.Point, HasPoint: true, Group: d.Group,
-					File: p, Line: doc.ConnectorLine(i)}
-				if d.Diameter != nil {
-					w.Diameter = *d.Diameter
-				}
-				for _, l := range links {
-					w.Links = append(w.Links, audit.NodePairLink{A: l[0], B: l[1], Line: w.Line})
-				}
-				pairs = append(pairs, w)
-				pairIdx = append(pairIdx, i)
-			}
-			if len(pairs) > 0 {
-				rebuilt, err := audit.NodePairConnectors(m, pairs, o)
-				if err != nil {
-					return nil, err
-				}
-				for k, i := range pairIdx {
-					rebuilt[k].Joint.Parts, rebuilt[k].Joint.Tags = cs[i].Joint.Parts, cs[i].Joint.Tags
-					cs[i] = rebuilt[k]
-				}
 			}
 			for i, c := range cs {
-				if err := add(c, p, doc.ConnectorLine(i)); err != nil {
+				if err := add(c, place{cf, i}); err != nil {
 					return nil, err
 				}
 			}
-		case ".csv":
-			welds, warns, err := audit.ReadNodePairsFile(p)
+			continue
+		}
+		doc, p := cf.doc, cf.path
+		cs, err := doc.ToConnectors(m, p)
+		if err != nil {
+			return nil, err
+		}
+		var pairs []audit.NodePairWeld
+		var pairIdx []int
+		for i := range doc.Connectors {
+			d := &doc.Connectors[i]
+			links, ok := d.NodePairs()
+			if !ok {
+				continue
+			}
+			w := audit.NodePairWeld{ID: d.ID, DOFs: cs[i].DOFs, Point: cs[i].Joint.Point, HasPoint: true, Group: d.Group,
+				File: p, Line: doc.ConnectorLine(i)}
+			if d.Diameter != nil {
+				w.Diameter = *d.Diameter
+			}
+			for _, l := range links {
+				w.Links = append(w.Links, audit.NodePairLink{A: l[0], B: l[1], Line: w.Line})
+			}
+			pairs = append(pairs, w)
+			pairIdx = append(pairIdx, i)
+		}
+		if len(pairs) > 0 {
+			rebuilt, err := audit.NodePairConnectors(m, pairs, o)
 			if err != nil {
 				return nil, err
 			}
-			for _, w := range warns {
-				env.note("warning: %s", w)
+			for k, i := range pairIdx {
+				rebuilt[k].Joint.Parts, rebuilt[k].Joint.Tags = cs[i].Joint.Parts, cs[i].Joint.Tags
+				cs[i] = rebuilt[k]
 			}
-			cs, err := audit.NodePairConnectors(m, welds, o)
-			if err != nil {
+		}
+		for i, c := range cs {
+			if err := add(c, place{cf, i}); err != nil {
 				return nil, err
 			}
-			for _, c := range cs {
-				if err := add(c, p, c.Joint.Line); err != nil {
-					return nil, err
-				}
-			}
-		default:
-			return nil, geom.FileError(p, "unknown connector file type %q (want .json: a connectors.json, or .csv: a node-pair list)", ext)
 		}
 	}
 	slices.SortStableFunc(conns, func(a, b joints.Connector) int { return joints.CompareIDs(a.Joint.ID, b.Joint.ID) })

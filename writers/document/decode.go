@@ -31,7 +31,15 @@ func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Conn
 	return out, nil
 }
 
+// maxCoordinate bounds the coordinates and lengths a document may give,
+// mm: far beyond any model, far below the range where products of them
+// overflow.
+const maxCoordinate = 1e12
+
 func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
+	if err := d.checkNumbers(); err != nil {
+		return joints.Connector{}, err
+	}
 	kind, err := joints.ParseKind(d.Kind)
 	if err != nil {
 		return joints.Connector{}, err
@@ -126,6 +134,31 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 			Length: l.Length, Direction: l.Direction.r3(), Contact: l.ContactGap, MidGap: l.MidGap})
 	}
 	return c, nil
+}
+
+// checkNumbers refuses coordinates, lengths and weights out of range.
+func (d *ConnectorDoc) checkNumbers() error {
+	bad := func(v float64) bool { return !(math.Abs(v) <= maxCoordinate) }
+	vec := func(v *Vec) bool { return v != nil && (bad(v[0]) || bad(v[1]) || bad(v[2])) }
+	if vec(&d.Point) || vec(d.Axis) || d.Diameter != nil && bad(*d.Diameter) {
+		return fmt.Errorf("a point, axis or diameter beyond %g mm", maxCoordinate)
+	}
+	for i, s := range d.Sheets {
+		if vec(&s.Point) || vec(s.EndPoint) || bad(s.Thickness) || bad(s.Position) || bad(s.Lateral) || bad(s.Distance) {
+			return fmt.Errorf("sheet %d: a value beyond %g mm", i, maxCoordinate)
+		}
+		for _, w := range s.Weights {
+			if bad(w) {
+				return fmt.Errorf("sheet %d: a weight beyond %g", i, maxCoordinate)
+			}
+		}
+	}
+	for _, l := range d.Links {
+		if vec(&l.Start) || vec(&l.End) || vec(&l.Direction) || bad(l.Length) || bad(l.ContactGap) || bad(l.MidGap) {
+			return fmt.Errorf("link %d: a value beyond %g mm", l.ID, maxCoordinate)
+		}
+	}
+	return nil
 }
 
 // NodePairs returns the mesh node ids each link of a node-pair
