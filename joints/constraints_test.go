@@ -19,7 +19,7 @@ func TestAddSpotWeld(t *testing.T) {
 		name     string
 		ends     []End
 		dofs     DOFs
-		nodes    int  // NodeBodies added
+		nodes    int    // NodeBodies added
 		endTie   []DOFs // the ties of the ends to their parts, in order
 		linkTies int
 	}{
