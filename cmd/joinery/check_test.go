@@ -291,3 +291,47 @@ func TestCheckBadInput(t *testing.T) {
 		t.Errorf("output directory written on bad input")
 	}
 }
+
+// check reads a build's output set whole: given the directory, or the
+// connectors.json inside it; a set changed since it was written is
+// refused; the check's own outputs form a set whose run id depends on
+// the connectors read.
+func TestCheckReadsOutputSets(t *testing.T) {
+	dir := t.TempDir()
+	_, mesh, parts := benchModel(t, dir)
+	list := filepath.Join(dir, "welds.csv")
+	write(t, list, "id,x,y,z\nW1,20,50,0.5\nW2,60,50,0.5\nW3,100,45,0.5\n")
+	built := filepath.Join(dir, "built")
+	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", built, "--quiet"); code != exitOK {
+		t.Fatalf("build: exit %d: %s", code, errs)
+	}
+	var ids []string
+	var sets [][]string
+	for i, in := range []string{built, filepath.Join(built, "connectors.json")} {
+		out := filepath.Join(dir, fmt.Sprint("check", i))
+		if code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", in, "--out", out, "--quiet"); code != exitOK {
+			t.Fatalf("check %s: exit %d: %s", in, code, errs)
+		}
+		doc := reportOf(t, out)
+		ids = append(ids, doc.RunID)
+		sets = append(sets, findingSet(doc))
+	}
+	if !slices.Equal(sets[0], sets[1]) || !slices.Equal(sets[0], []string{"free-part [] [3]"}) {
+		t.Errorf("findings %v", sets)
+	}
+	if ids[0] == "" || ids[0] == ids[1] {
+		// The recorded connector paths differ, so do the run ids.
+		t.Errorf("run ids %v", ids)
+	}
+	// Change the set's connectors.json: refused.
+	cj := filepath.Join(built, "connectors.json")
+	raw, err := os.ReadFile(cj)
+	if err != nil {
+		t.Fatal(err)
+	}
+	write(t, cj, strings.Replace(string(raw), `"W3"`, `"W9"`, 1))
+	code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", built, "--out", filepath.Join(dir, "check9"))
+	if code != exitBadInput || !strings.Contains(errs, "connectors.json") {
+		t.Errorf("changed set: exit %d, %q", code, errs)
+	}
+}

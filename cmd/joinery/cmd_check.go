@@ -30,7 +30,7 @@ func (o *checkOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddFlags(fs)
 	fs.Lookup("joints").Usage = "joint list (.csv or .yaml) of planned welds to check against, not built; repeat for several"
-	fs.StringArrayVarP(&o.connectors, "connectors", "c", nil, "connectors to check: a connectors.json, or a node-pair list (.csv: id,node_a,node_b[,dofs]); repeat for several")
+	fs.StringArrayVarP(&o.connectors, "connectors", "c", nil, "connectors to check: a connectors.json (or the output directory of a build), or a node-pair list (.csv: id,node_a,node_b[,dofs]); repeat for several")
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./"+pipeline.DefaultOut+")")
 	fs.Float64Var(&o.reach, "reach", 0, fmt.Sprintf("mm; for points of --joints: sheets farther are not theirs (0: %g x the largest thickness)", joints.DefaultReachFactor))
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; node pairs: allowed deviation of a gap from contact (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
@@ -98,7 +98,7 @@ same checks on what it builds.
 ` + document.Caution + `
 
 ` + exitStatusHelp,
-		Example: `  joinery check --mesh body.vtk --parts parts.yaml --connectors out/connectors.json --out audit/
+		Example: `  joinery check --mesh body.vtk --parts parts.yaml --connectors out/ --out audit/
   joinery check job.yaml --connectors legacy-welds.csv --spot-dofs tx,ty,tz --fail-on warning
   joinery check job.yaml --connectors out/connectors.json --joints new-welds.csv --json`,
 		Args: cobra.MaximumNArgs(1),

@@ -1,6 +1,7 @@
 package pipeline
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"io"
@@ -75,6 +76,12 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	if got.err != nil {
 		return nil, got.err
 	}
+	for _, cf := range got.files {
+		in.Connectors = append(in.Connectors, cf.path)
+		if in.sums != nil {
+			in.sums.writer(cf.path).Write(cf.data)
+		}
+	}
 	m := in.Model.Mesh
 	if missing := in.Model.MissingThickness(); len(missing) > 0 {
 		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
@@ -98,7 +105,9 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	if err != nil {
 		return nil, err
 	}
-	info.Connectors = slices.Clone(s.Connectors)
+	for _, p := range in.Connectors {
+		info.Connectors = append(info.Connectors, job.RecordedPath(p))
+	}
 	doc := document.NewReport(res, info)
 	doc.Command = "check"
 	rendered, err := writers.Render([]writers.File{
@@ -115,12 +124,45 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 }
 
 // connectorFile is a connector file read, not yet resolved against a
-// mesh: a connectors.json document or a node-pair list.
+// mesh: a connectors.json document or a node-pair list, with its bytes
+// (for the run id).
 type connectorFile struct {
 	path  string
+	data  []byte
 	doc   *document.ConnectorsDoc
 	welds []audit.NodePairWeld
 	warns []joints.InputWarning
+}
+
+// readConnectorBytes returns the bytes of a connector file and the name
+// to read them as. A directory is a Joinery output set, and its
+// connectors.json is read; a file in an output set is read from the set.
+// Either way the set is checked whole and of one run first
+// (writers.ReadSet), so that a mixed or damaged set is refused.
+func readConnectorBytes(p string) ([]byte, string, error) {
+	fi, err := os.Stat(p)
+	if err != nil {
+		return nil, p, geom.FileError(p, "connectors: %w", err)
+	}
+	dir, name := filepath.Dir(p), filepath.Base(p)
+	if fi.IsDir() {
+		dir, name = p, "connectors.json"
+	} else if _, err := os.Stat(filepath.Join(dir, document.SetMarker)); err != nil {
+		data, err := os.ReadFile(p)
+		if err != nil {
+			return nil, p, geom.FileError(p, "connectors: %w", err)
+		}
+		return data, p, nil
+	}
+	set, err := writers.ReadSet(dir)
+	if err != nil {
+		return nil, p, err
+	}
+	data, ok := set.Files[name]
+	if !ok {
+		return nil, p, geom.FileError(filepath.Join(dir, name), "not a file of the output set of run %s (%s wrote it)", set.Marker.RunID, set.Marker.Job)
+	}
+	return data, filepath.Join(dir, name), nil
 }
 
 // parseConnectorFiles reads connector files (see ReadConnectors) without
@@ -133,25 +175,22 @@ func parseConnectorFiles(paths []string) ([]connectorFile, error) {
 			return nil, geom.FileError(p, "connector file given twice")
 		}
 		seen[filepath.Clean(p)] = true
-		cf := connectorFile{path: p}
-		switch ext := strings.ToLower(filepath.Ext(p)); ext {
+		data, name, err := readConnectorBytes(p)
+		if err != nil {
+			return nil, err
+		}
+		cf := connectorFile{path: p, data: data}
+		switch ext := strings.ToLower(filepath.Ext(name)); ext {
 		case ".json":
-			f, err := os.Open(p)
-			if err != nil {
-				return nil, geom.FileError(p, "connectors: %w", err)
-			}
-			cf.doc, err = document.DecodeConnectors(f, p)
-			f.Close()
-			if err != nil {
+			if cf.doc, err = document.DecodeConnectors(bytes.NewReader(data), name); err != nil {
 				return nil, err
 			}
 		case ".csv":
-			var err error
-			if cf.welds, cf.warns, err = audit.ReadNodePairsFile(p); err != nil {
+			if cf.welds, cf.warns, err = audit.ReadNodePairs(bytes.NewReader(data), name); err != nil {
 				return nil, err
 			}
 		default:
-			return nil, geom.FileError(p, "unknown connector file type %q (want .json: a connectors.json, or .csv: a node-pair list)", ext)
+			return nil, geom.FileError(p, "unknown connector file type %q (want .json: a connectors.json, or .csv: a node-pair list; or an output directory)", ext)
 		}
 		out = append(out, cf)
 	}
