@@ -27,33 +27,50 @@ type Group struct {
 // stable: groups with the most parts first, then by smallest part id;
 // groups without parts (nodes tied to no part) last, by smallest body.
 func Groups(k *joints.Constraints) []Group {
+	// Bodies tied on all six degrees of freedom are one vertex of the
+	// graph (a connector's end nodes and their parts, mostly), so that
+	// the graph stays as small as the assembly's parts.
+	uf := newUnionFind(len(k.Bodies))
+	for _, t := range k.Ties {
+		if t.DOFs&joints.AllDOFs == joints.AllDOFs {
+			uf.union(t.A, t.B)
+		}
+	}
 	g := simple.NewUndirectedGraph()
 	for i := range k.Bodies {
-		g.AddNode(simple.Node(i))
+		if uf.find(i) == i {
+			g.AddNode(simple.Node(i))
+		}
 	}
 	for _, t := range k.Ties {
-		if t.A != t.B && !g.HasEdgeBetween(int64(t.A), int64(t.B)) {
-			g.SetEdge(g.NewEdge(simple.Node(t.A), simple.Node(t.B)))
+		a, b := uf.find(t.A), uf.find(t.B)
+		if a != b && !g.HasEdgeBetween(int64(a), int64(b)) {
+			g.SetEdge(g.NewEdge(simple.Node(a), simple.Node(b)))
 		}
 	}
 	comps := topo.ConnectedComponents(g)
+	compOf := make(map[int]int, len(k.Bodies))
+	for ci, c := range comps {
+		for _, n := range c {
+			compOf[int(n.ID())] = ci
+		}
+	}
 	groupOf := make([]int, len(k.Bodies))
 	groups := make([]Group, len(comps))
-	for ci, c := range comps {
+	for b := range k.Bodies {
+		ci := compOf[uf.find(b)]
+		groupOf[b] = ci
 		gr := &groups[ci]
-		for _, n := range c {
-			b := int(n.ID())
-			groupOf[b] = ci
-			gr.Bodies = append(gr.Bodies, b)
-			switch body := k.Bodies[b]; body.Kind {
-			case joints.PartBody:
-				gr.Parts = append(gr.Parts, body.Part)
-			case joints.GroundBody:
-				gr.Ground = true
-			}
+		gr.Bodies = append(gr.Bodies, b) // increasing: b counts up
+		switch body := k.Bodies[b]; body.Kind {
+		case joints.PartBody:
+			gr.Parts = append(gr.Parts, body.Part)
+		case joints.GroundBody:
+			gr.Ground = true
 		}
-		slices.Sort(gr.Bodies)
-		slices.Sort(gr.Parts)
+	}
+	for ci := range groups {
+		slices.Sort(groups[ci].Parts)
 	}
 	for ti, t := range k.Ties {
 		gr := &groups[groupOf[t.A]]

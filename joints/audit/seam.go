@@ -3,7 +3,10 @@ package audit
 import (
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -45,10 +48,8 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 	if len(ws) < 2 {
 		return chain, nil
 	}
+	// head[n] is 1 + the first attachment of node n, 0 for none.
 	head := make([]int32, m.NumNodes())
-	for i := range head {
-		head[i] = -1
-	}
 	var att []attachment
 	for i := range ws {
 		c := ws[i].conn
@@ -64,29 +65,54 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 				continue
 			}
 			for _, n := range e.Nodes {
-				att = append(att, attachment{weld: int32(i), part: pi, next: head[n]})
-				head[n] = int32(len(att) - 1)
+				att = append(att, attachment{weld: int32(i), part: pi, next: head[n] - 1})
+				head[n] = int32(len(att))
 			}
 		}
 	}
-	var touches []touch
-	var here []int32
-	for e := range m.NumElems() {
-		pe := m.ElemPart[e]
-		here = here[:0]
-		for _, n := range m.ElemNodes(e) {
-			for a := head[n]; a >= 0; a = att[a].next {
-				if att[a].part == pe && !slices.Contains(here, att[a].weld) {
-					here = append(here, att[a].weld)
+	// The elements are scanned in blocks side by side; the touches are
+	// sorted afterwards, so the result does not depend on the blocks.
+	const block = 1 << 16
+	ne := m.NumElems()
+	nb := (ne + block - 1) / block
+	found := make([][]touch, nb)
+	workers := min(runtime.GOMAXPROCS(0), nb)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Go(func() {
+			var here []int32
+			for {
+				bi := int(next.Add(1) - 1)
+				if bi >= nb {
+					return
 				}
+				var ts []touch
+				for e := bi * block; e < min(ne, (bi+1)*block); e++ {
+					pe := m.ElemPart[e]
+					here = here[:0]
+					for _, n := range m.ElemNodes(e) {
+						for a := head[n] - 1; a >= 0; a = att[a].next {
+							if att[a].part == pe && !slices.Contains(here, att[a].weld) {
+								here = append(here, att[a].weld)
+							}
+						}
+					}
+					for x := 0; x < len(here); x++ {
+						for y := x + 1; y < len(here); y++ {
+							p := pairOf(here[x], here[y])
+							ts = append(ts, touch{a: p[0], b: p[1], part: pe})
+						}
+					}
+				}
+				found[bi] = ts
 			}
-		}
-		for x := 0; x < len(here); x++ {
-			for y := x + 1; y < len(here); y++ {
-				p := pairOf(here[x], here[y])
-				touches = append(touches, touch{a: p[0], b: p[1], part: pe})
-			}
-		}
+		})
+	}
+	wg.Wait()
+	var touches []touch
+	for _, ts := range found {
+		touches = append(touches, ts...)
 	}
 	if len(touches) == 0 {
 		return chain, nil

@@ -30,9 +30,11 @@ func decodeRaw(r io.Reader, name, schema string, version int, v any) ([]byte, er
 	if err != nil {
 		return nil, fmt.Errorf("document: reading %s: %w", name, err)
 	}
-	var h header
-	if err := json.Unmarshal(data, &h); err != nil {
-		return nil, jsonError(name, data, err)
+	h, ok := quickHeader(data)
+	if !ok {
+		if err := json.Unmarshal(data, &h); err != nil {
+			return nil, jsonError(name, data, err)
+		}
 	}
 	switch {
 	case h.Schema != schema:
@@ -44,6 +46,43 @@ func decodeRaw(r io.Reader, name, schema string, version int, v any) ([]byte, er
 		return nil, jsonError(name, data, err)
 	}
 	return data, nil
+}
+
+// quickHeader reads the schema and version of a document from the
+// first keys of its top-level object, where Joinery writes them, without
+// a pass over the rest (a connectors.json of a large body is megabytes);
+// ok is false when that fails, and the caller reads the whole document.
+func quickHeader(data []byte) (header, bool) {
+	var h header
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return h, false
+	}
+	var hasSchema, hasVersion bool
+	for dec.More() && !(hasSchema && hasVersion) {
+		key, err := dec.Token()
+		if err != nil {
+			return h, false
+		}
+		switch key {
+		case "schema":
+			hasSchema = dec.Decode(&h.Schema) == nil
+			if !hasSchema {
+				return h, false
+			}
+		case "version":
+			hasVersion = dec.Decode(&h.Version) == nil
+			if !hasVersion {
+				return h, false
+			}
+		default:
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return h, false
+			}
+		}
+	}
+	return h, hasSchema && hasVersion
 }
 
 // jsonError turns a JSON syntax or type error into an input error at its

@@ -5,6 +5,9 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -19,14 +22,33 @@ import (
 // out of range, is an input error naming the connector's line. Findings
 // are not carried over (a check makes its own).
 func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Connector, error) {
-	out := make([]joints.Connector, 0, len(doc.Connectors))
-	for i := range doc.Connectors {
-		c, err := doc.Connectors[i].toConnector(m)
+	n := len(doc.Connectors)
+	out := make([]joints.Connector, n)
+	errs := make([]error, n)
+	// Blocks of connectors are converted side by side, each into its
+	// place; the first error in document order is the one reported.
+	const block = 512
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), (n+block-1)/block) {
+		wg.Go(func() {
+			for {
+				lo := int(next.Add(block)) - block
+				if lo >= n {
+					return
+				}
+				for i := lo; i < min(n, lo+block); i++ {
+					out[i], errs[i] = doc.Connectors[i].toConnector(m)
+					out[i].Joint.File = name
+				}
+			}
+		})
+	}
+	wg.Wait()
+	for i, err := range errs {
 		if err != nil {
 			return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", excerpt(doc.Connectors[i].ID), err)
 		}
-		c.Joint.File = name
-		out = append(out, c)
 	}
 	return out, nil
 }
