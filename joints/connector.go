@@ -158,6 +158,9 @@ type Result struct {
 	Options  BuildOptions
 	IDStart  int64 // first new id
 	NextID   int64 // one past the last new id used
+	// Kinematics holds the counts of the kinematic checks run on the
+	// connectors (joints/audit); nil when they were not run.
+	Kinematics *Kinematics
 }
 
 // Reached reports whether any finding is at or above level.

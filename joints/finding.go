@@ -71,6 +71,15 @@ const (
 	CodeThicknessClash = "thickness-mismatch"
 	CodeUnitsSuspect   = "units-suspect" // thicknesses and element sizes implausible for sheet metal in mm
 	CodePatchCapped    = "patch-capped"  // a patch end ties MaxPatchNodes nodes, fewer than its nugget covers
+
+	// Codes of the audit of a set of welds (joints/audit), run by check
+	// and after every build.
+	CodeSeam         = "seam"         // welds whose attachments on a sheet touch, in a chain: the flange cannot open between them
+	CodeDuplicate    = "duplicate"    // two welds whose nuggets overlap on a shared sheet, or on the same node pair
+	CodePitchShort   = "pitch-short"  // consecutive welds of a part pair closer than the minimum spacing
+	CodeFreePart     = "free-part"    // a part or group of parts joined by no connector to the largest group
+	CodeMechanism    = "mechanism"    // parts the connectors do not hold against every rigid-body motion
+	CodeUnrestrained = "unrestrained" // a node a connector creates with degrees of freedom nothing holds
 )
 
 // Finding is one problem found with a joint (or with the run when Joint
@@ -83,6 +92,25 @@ type Finding struct {
 	Message  string
 	Point    r3.Vec // where, mm
 	HasPoint bool
+	// Joints lists every joint a finding about several concerns, Joint
+	// first (a seam chain, a duplicate pair, the welds of a hinge); nil
+	// when it concerns Joint alone.
+	Joints []string
+	// Motion is the free motion of a mechanism or unrestrained finding;
+	// nil for the others.
+	Motion *Motion
+}
+
+// AllJoints returns the joints f concerns: Joints, else Joint alone,
+// else none.
+func (f *Finding) AllJoints() []string {
+	switch {
+	case len(f.Joints) > 0:
+		return f.Joints
+	case f.Joint != "":
+		return []string{f.Joint}
+	}
+	return nil
 }
 
 // Finding returns a finding about j, located at its point.

@@ -11,12 +11,31 @@ import (
 	"github.com/joinery-cae/joinery/writers/document"
 )
 
+// fullCodes are the codes whose findings report.txt always lists in
+// full, however many: every seam chain, loose group and free motion.
+var fullCodes = []string{"seam", "mechanism", "unrestrained", "free-part"}
+
+// groupAbove is the number of findings of one code above which
+// report.txt groups them by the parts they concern, with counts.
+const groupAbove = 20
+
+// idsPerLine is the number of joint ids per line in report.txt.
+const idsPerLine = 12
+
 // WriteReportText writes the report for a person: a one-screen summary,
-// the findings grouped by code, the part-pair table, and the caution.
+// the findings by code (each with its joints, parts with their names,
+// location and message; codes with many findings grouped by the parts
+// they concern, with counts, except seams, mechanisms, unrestrained
+// nodes and free parts, always in full), the part-pair table, and the
+// caution.
 func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 	ew := &errWriter{w: w}
 	s := doc.Summary
-	ew.printf("joinery connector report (%s; run %s)\n\n", doc.Generator, doc.RunID)
+	what := "connector report"
+	if doc.Command == "check" {
+		what = "check report"
+	}
+	ew.printf("joinery %s (%s; run %s)\n\n", what, doc.Generator, doc.RunID)
 	summaryLines(ew, doc)
 	ew.printf("inputs      %s", strings.Join(doc.Inputs.Meshes, " "))
 	if doc.Inputs.Parts != "" {
@@ -25,9 +44,16 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 	if len(doc.Inputs.Joints) > 0 {
 		ew.printf(" | joints %s", strings.Join(doc.Inputs.Joints, " "))
 	}
+	if len(doc.Inputs.Connectors) > 0 {
+		ew.printf(" | connectors %s", strings.Join(doc.Inputs.Connectors, " "))
+	}
 	ew.printf("\n")
 	inputLines(ew, doc.Inputs)
 
+	names := map[int64]string{}
+	for _, p := range doc.PartNames {
+		names[p.ID] = p.Name
+	}
 	codes := make([]string, 0, len(s.ByCode))
 	for c := range s.ByCode {
 		codes = append(codes, c)
@@ -38,17 +64,20 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 		}
 		return strings.Compare(a, b)
 	})
+	byCode := map[string][]*document.FindingDoc{}
+	for i := range doc.Findings {
+		f := &doc.Findings[i]
+		byCode[f.Code] = append(byCode[f.Code], f)
+	}
 	for _, code := range codes {
-		ew.printf("\n%s (%d)\n", code, s.ByCode[code])
-		for _, f := range doc.Findings {
-			if f.Code != code {
-				continue
-			}
-			joint := "-"
-			if f.Joint != nil {
-				joint = *f.Joint
-			}
-			ew.printf("  %-7s %-12s %s\n", f.Severity, joint, f.Message)
+		fs := byCode[code]
+		ew.printf("\n%s (%s)\n", code, severityCounts(fs))
+		if len(fs) > groupAbove && !slices.Contains(fullCodes, code) {
+			groupedFindings(ew, fs, names)
+			continue
+		}
+		for _, f := range fs {
+			fullFinding(ew, f, names)
 		}
 	}
 
@@ -61,6 +90,171 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 	tw.Flush()
 	ew.printf("\nCAUTION: %s\n", doc.Caution)
 	return ew.err
+}
+
+// counted returns "1 group" or "n groups".
+func counted(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}
+
+// severityCounts says how many findings there are of each severity:
+// "3 warning", "1 error, 2 warning".
+func severityCounts(fs []*document.FindingDoc) string {
+	n := map[string]int{}
+	for _, f := range fs {
+		n[f.Severity]++
+	}
+	var parts []string
+	for _, sev := range []string{"error", "warning", "info"} {
+		if n[sev] > 0 {
+			parts = append(parts, fmt.Sprintf("%d %s", n[sev], sev))
+		}
+	}
+	return strings.Join(parts, ", ")
+}
+
+// fullFinding writes one finding: its joints, then its parts with their
+// names and its location, then its motion, then its message.
+func fullFinding(ew *errWriter, f *document.FindingDoc, names map[int64]string) {
+	ids := f.Joints
+	if len(ids) == 0 && f.Joint != nil {
+		ids = []string{*f.Joint}
+	}
+	head := "-"
+	if len(ids) > 0 {
+		head = strings.Join(ids[:min(len(ids), idsPerLine)], " ")
+	}
+	ew.printf("  %-7s %s\n", f.Severity, head)
+	for k := idsPerLine; k < len(ids); k += idsPerLine {
+		ew.printf("          %s\n", strings.Join(ids[k:min(len(ids), k+idsPerLine)], " "))
+	}
+	var where []string
+	if len(f.Parts) > 0 {
+		where = append(where, partsText(f.Parts, names))
+	}
+	if f.Location != nil {
+		where = append(where, "at "+point(*f.Location))
+	}
+	if len(where) > 0 {
+		ew.printf("          %s\n", strings.Join(where, "; "))
+	}
+	if m := f.Motion; m != nil {
+		ew.printf("          motion: %s\n", motionText(m))
+	}
+	ew.printf("          %s\n", f.Message)
+}
+
+// groupedFindings writes the findings of one code grouped by the parts
+// they concern: per group the count, the joints (the first few) and the
+// first finding's location and message.
+func groupedFindings(ew *errWriter, fs []*document.FindingDoc, names map[int64]string) {
+	type group struct {
+		parts []int64
+		fs    []*document.FindingDoc
+	}
+	var gs []*group
+	at := map[string]*group{}
+	for _, f := range fs {
+		ps := slices.Clone(f.Parts)
+		slices.Sort(ps)
+		key := fmt.Sprint(ps)
+		g := at[key]
+		if g == nil {
+			g = &group{parts: ps}
+			at[key] = g
+			gs = append(gs, g)
+		}
+		g.fs = append(g.fs, f)
+	}
+	slices.SortStableFunc(gs, func(a, b *group) int { return slices.Compare(a.parts, b.parts) })
+	ew.printf("  grouped by the parts they concern (every finding is in report.json)\n")
+	for _, g := range gs {
+		what := "no part"
+		if len(g.parts) > 0 {
+			what = partsText(g.parts, names)
+		}
+		ew.printf("  %s: %d\n", what, len(g.fs))
+		var ids []string
+		for _, f := range g.fs {
+			switch {
+			case len(f.Joints) > 0:
+				ids = append(ids, strings.Join(f.Joints, "+"))
+			case f.Joint != nil:
+				ids = append(ids, *f.Joint)
+			}
+		}
+		if len(ids) > 0 {
+			line := strings.Join(ids[:min(len(ids), idsPerLine)], " ")
+			if len(ids) > idsPerLine {
+				line += fmt.Sprintf(" ... (%d more)", len(ids)-idsPerLine)
+			}
+			ew.printf("          %s\n", line)
+		}
+		first := g.fs[0]
+		loc := ""
+		if first.Location != nil {
+			loc = "at " + point(*first.Location) + ": "
+		}
+		ew.printf("          first: %s%s\n", loc, first.Message)
+	}
+}
+
+// partsText lists parts with their names: "parts 100 rear floor panel,
+// 200 rear cross-member".
+func partsText(ps []int64, names map[int64]string) string {
+	items := make([]string, len(ps))
+	for i, p := range ps {
+		items[i] = strconv.FormatInt(p, 10)
+		if n := names[p]; n != "" {
+			items[i] += " " + n
+		}
+	}
+	if len(ps) == 1 {
+		return "part " + items[0]
+	}
+	return "parts " + strings.Join(items, ", ")
+}
+
+// point formats a location with at most three decimals.
+func point(v document.Vec) string {
+	return "(" + mm(v[0]) + ", " + mm(v[1]) + ", " + mm(v[2]) + ")"
+}
+
+func mm(v float64) string {
+	s := strconv.FormatFloat(v, 'f', 3, 64)
+	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	if s == "-0" || s == "" {
+		return "0"
+	}
+	return s
+}
+
+// motionText describes a free motion on one line.
+func motionText(m *document.MotionDoc) string {
+	s := fmt.Sprintf("%s x %d", m.Kind, m.Count)
+	if m.Point != nil {
+		s += ", point " + point(*m.Point)
+	}
+	if m.Direction != nil {
+		d := *m.Direction
+		s += fmt.Sprintf(", direction (%s, %s, %s)", unitText(d[0]), unitText(d[1]), unitText(d[2]))
+	}
+	if m.Pitch != nil {
+		s += ", pitch " + mm(*m.Pitch) + " mm/rad"
+	}
+	return s
+}
+
+func unitText(v float64) string {
+	s := strconv.FormatFloat(v, 'f', 4, 64)
+	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	if s == "-0" || s == "" {
+		return "0"
+	}
+	return s
 }
 
 // WriteBuildSummary writes the few lines a build prints on stdout.
@@ -83,6 +277,10 @@ func summaryLines(ew *errWriter, doc *document.ReportDoc) {
 	ew.printf("findings    %d error, %d warning, %d info\n", s.BySev["error"], s.BySev["warning"], s.BySev["info"])
 	if len(s.ByCode) > 0 {
 		ew.printf("by code     %s\n", countList(s.ByCode))
+	}
+	if a := s.Assembly; a != nil {
+		ew.printf("assembly    %s of parts (%d grounded), %s, %s, %d unrestrained\n",
+			counted(a.Groups, "group"), a.Grounded, counted(a.RigidBodyModes, "rigid-body mode"), counted(a.Mechanisms, "mechanism motion"), a.Unrestrained)
 	}
 }
 

@@ -319,7 +319,9 @@ func TestBuildIgnoresElementOrder(t *testing.T) {
 		writeLines(t, mesh, lines)
 		out := filepath.Join(dir, fmt.Sprint("out", trial))
 		for _, attach := range []string{"interpolated", "node-pair", "patch"} {
-			if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--joints", list, "--out", out, "--attach", attach, "--quiet"); code != exitOK {
+			// The welds lie a few mm apart (the audit reports them as
+			// duplicates): this test is about element order alone.
+			if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--joints", list, "--out", out, "--attach", attach, "--quiet", "--fail-on", "never"); code != exitOK {
 				t.Fatalf("exit %d: %s", code, errs)
 			}
 			// The run id hashes the mesh file, which the shuffle changed.

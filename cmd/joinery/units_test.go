@@ -265,3 +265,46 @@ func TestUnitsMMIsTheDefault(t *testing.T) {
 		t.Errorf("run ids %s and %s", a.RunID, b.RunID)
 	}
 }
+
+// check reads back a connectors.json written in metres: checking the
+// example built in m with --units m finds what checking it in mm finds.
+func TestCheckReadsUnits(t *testing.T) {
+	skipWithoutExample(t)
+	codesOf := func(u joints.Unit) []string {
+		_, args := scaledExample(t, u)
+		args = append(args, "--units", u.String())
+		built := t.TempDir()
+		if code, _, errs := runCLI(t, append([]string{"build", "--out", built, "--quiet", "--fail-on", "never"}, args...)...); code != exitOK {
+			t.Fatalf("build in %s: exit %d: %s", u, code, errs)
+		}
+		out := t.TempDir()
+		chk := append([]string{"check", "--connectors", filepath.Join(built, "connectors.json"), "--out", out, "--quiet", "--fail-on", "never"}, args...)
+		for i := 0; i < len(chk); i++ { // check takes no joint lists here
+			if chk[i] == "--joints" {
+				chk = append(chk[:i], chk[i+2:]...)
+				break
+			}
+		}
+		if code, _, errs := runCLI(t, chk...); code != exitOK {
+			t.Fatalf("check in %s: exit %d: %s", u, code, errs)
+		}
+		f, err := os.Open(filepath.Join(out, "report.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		rep, err := document.DecodeReport(f, "report.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		var codes []string
+		for _, fd := range rep.Findings {
+			codes = append(codes, fmt.Sprint(fd.Joint != nil && *fd.Joint != "", ":", fd.Code, fd.Joints))
+		}
+		return codes
+	}
+	mm, m := codesOf(joints.Millimetre), codesOf(joints.Metre)
+	if strings.Join(mm, " ") != strings.Join(m, " ") {
+		t.Errorf("check in m found\n %v\nin mm\n %v", m, mm)
+	}
+}

@@ -84,6 +84,9 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	if err != nil {
 		return nil, err
 	}
+	if err := CheckConnectors(ctx, in, res, env); err != nil {
+		return nil, err
+	}
 	info, err := in.RunInfo(env.Generator, res)
 	if err != nil {
 		return nil, err
@@ -205,7 +208,12 @@ func (in *Inputs) checkIDStart(start int64) error {
 // that made res (inputs loaded with LoadForSet).
 func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInfo, error) {
 	job := in.Job
-	info := document.RunInfo{Generator: generator, Unit: in.Unit}
+	info := document.RunInfo{Generator: generator, Unit: in.Unit, PartNames: map[int64]string{}}
+	for _, p := range in.Model.Mesh.Parts {
+		if p.Name != "" {
+			info.PartNames[p.ID] = p.Name
+		}
+	}
 	for _, p := range job.Meshes {
 		info.Meshes = append(info.Meshes, job.RecordedPath(p))
 	}

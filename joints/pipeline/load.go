@@ -69,6 +69,9 @@ type Inputs struct {
 	Findings []joints.Finding
 	// Tags names the free tag columns of each joint list that has some.
 	Tags []joints.ListTags
+	// Connectors are the connector files a check read, as given; they
+	// enter the run id with their bytes' SHA-256.
+	Connectors []string
 	// sums holds the SHA-256 of every input file, taken as it was read
 	// (LoadForSet); nil after Load.
 	sums *inputSums

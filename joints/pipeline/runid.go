@@ -55,7 +55,7 @@ const runIDVersion = "joinery run id 1"
 // bytes, in hex, of a SHA-256 over the recipe's version, the generator
 // (Joinery and its version), the job file's bytes, each input file's
 // recorded path and the SHA-256 of its bytes (hashed as the file was
-// read: no second pass), the job's settings and the options as resolved.
+// read: no second pass; for a check, the connector files too), the job's settings and the options as resolved.
 // Everything that shapes the outputs enters it, and nothing else (not
 // the working directory, not the output directory), so the same inputs
 // give the same id and the files of two runs cannot pass for one set.
@@ -77,6 +77,9 @@ func (in *Inputs) runID(generator string, res *joints.Result) (string, error) {
 	}
 	for _, p := range job.Joints {
 		fmt.Fprintf(h, "joints %q %s\n", job.RecordedPath(p), in.sums.sum(p))
+	}
+	for _, p := range in.Connectors {
+		fmt.Fprintf(h, "connectors %q %s\n", job.RecordedPath(p), in.sums.sum(p))
 	}
 	// The settings as the job and the flags gave them, without the paths
 	// (recorded above) and the output directory (not part of the set).

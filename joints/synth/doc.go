@@ -5,11 +5,20 @@
 //
 // # Layout
 //
-// A model is a yard of assemblies, each a few sheets extruded along a
-// length and joined along one or two flanges. Every assembly is drawn in
-// a local frame (x along its length, y across, z normal to its flanges),
-// turned by a random rotation and set in its own cell of a square grid, so
-// assemblies never touch one another. There are four kinds:
+// A model is one chained body of assemblies, each a few sheets extruded
+// along a length and joined along one or two flanges. Every assembly is
+// drawn in a local frame (x along its length, y across, z normal to its
+// flanges). The assemblies lie side by side along a chain (their local
+// y), each tilted about its own x axis by up to 25 degrees (a bounded
+// random walk, at most 10 degrees between neighbours), and the whole
+// chain is turned by one random rotation. The outermost sheet of each
+// side of an assembly runs on as a flat strip where it has too little
+// bare width, and a bent link plate lies under the right strip of each
+// assembly and the left strip of the next, welded to each by three spot
+// welds in a triangle (25 and 40 mm apart), so that every part belongs to
+// one assembly, held rigidly even by welds that couple translations
+// only, unless the welds are too few: links take at most half of the
+// welds. There are four kinds of assembly:
 //
 //   - rail on floor: a hat-section rail whose two flanges sit on a flat
 //     floor panel (two weld lines);
@@ -31,7 +40,8 @@
 // flanges never have matching meshes; some parts have a few per cent of
 // their quads split into triangles, and some have their element normals
 // reversed. Part ids are 100*a+j for assembly a (from 1) and sheet j (from
-// 1); node and element ids of part p start at p*1,000,000+1, so ids are
+// 1; the link plate to the next assembly is the assembly's last sheet);
+// node and element ids of part p start at p*1,000,000+1, so ids are
 // sparse and never contiguous across parts. Coordinates are rounded to
 // 0.001 mm.
 //
@@ -56,6 +66,9 @@
 // either side of them left empty. About 15 per cent of the welds and half
 // of the bolts list their parts; about 30 per cent of the welds give a
 // nugget diameter of 5*sqrt(t) (t the governing thickness).
+//
+// Link welds (group "<assembly>-link") come after the welds of the
+// flanges; their stacks are the link plate, then the strip's sheet.
 //
 // Generation is deterministic for a Config: the same Config gives the same
 // model, bit for bit.

@@ -52,15 +52,16 @@ func stationCount(l, pitch float64) int {
 // placeJoints puts cfg.Welds spot welds and cfg.Bolts bolts on the weld
 // segments of asms at one pitch and fills the joints and ground truth of
 // model.
-func placeJoints(cfg Config, asms []*asmPlan, rng *rand.Rand, model *Model) error {
+func placeJoints(cfg Config, asms []*asmPlan, links []linkPlan, rng *rand.Rand, model *Model) error {
 	var segs []segRef
 	for _, a := range asms {
 		for i := range a.segs {
 			segs = append(segs, segRef{asm: a, seg: &a.segs[i]})
 		}
 	}
-	need := cfg.Welds + 3*cfg.Bolts
+	need := cfg.Welds - linkWelds*len(links) + 3*cfg.Bolts
 	if need == 0 {
+		emitLinks(links, cfg.Welds, rng, model)
 		return nil
 	}
 	capacity := func(p float64) int {
@@ -103,7 +104,33 @@ func placeJoints(cfg Config, asms []*asmPlan, rng *rand.Rand, model *Model) erro
 	}
 	trim(segs, capacity(pitch)-need, rng)
 	emit(segs, rng, model)
+	emitLinks(links, cfg.Welds-linkWelds*len(links), rng, model)
 	return nil
+}
+
+// emitLinks adds the welds of the links, after the welds of the
+// flanges (numbered from after the first nw welds): per link, the three
+// on the first assembly's strip, then the three on the second's.
+func emitLinks(links []linkPlan, nw int, rng *rand.Rand, model *Model) {
+	for _, l := range links {
+		for _, side := range l.sides() {
+			a := side.asm
+			nugget := math.Round(5*math.Sqrt(governing(side.ts))*10) / 10
+			for _, p := range side.points {
+				nw++
+				j := joints.Joint{ID: strconv.Itoa(nw), Kind: joints.Spot, Point: a.toGlobal(p[0], p[1], p[2]), Group: a.spec.name + "-link"}
+				if rng.Float64() < 0.15 {
+					j.Parts = slices.Clone(side.stack)
+				}
+				if rng.Float64() < 0.3 {
+					j.Diameter = nugget
+				}
+				model.Joints = append(model.Joints, j)
+				model.Stacks = append(model.Stacks, slices.Clone(side.stack))
+				model.Normals = append(model.Normals, r3.Unit(a.normal()))
+			}
+		}
+	}
 }
 
 // chooseBolts turns n stations into bolts: middle stations of disjoint

@@ -15,35 +15,6 @@ import (
 // larger.
 const idStride = 1_000_000
 
-// place gives every assembly a random rotation and a cell of a square
-// grid wide enough that no two assemblies can touch.
-func place(asms []*asmPlan, rng *rand.Rand) {
-	var maxR float64
-	for _, a := range asms {
-		lo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
-		hi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
-		for _, p := range a.parts {
-			lo[0], hi[0] = min(lo[0], p.x0), max(hi[0], p.x1)
-			for _, q := range p.prof {
-				lo[1], hi[1] = min(lo[1], q.y), max(hi[1], q.y)
-				lo[2], hi[2] = min(lo[2], q.z), max(hi[2], q.z)
-			}
-		}
-		var r2 float64
-		for k := range 3 {
-			a.ctr[k] = (lo[k] + hi[k]) / 2
-			r2 += (hi[k] - lo[k]) * (hi[k] - lo[k]) / 4
-		}
-		maxR = max(maxR, math.Sqrt(r2))
-		a.rot = randomRotation(rng)
-	}
-	cell := 2*maxR + 50
-	cols := int(math.Ceil(math.Sqrt(float64(len(asms)))))
-	for i, a := range asms {
-		a.pos = [3]float64{float64(i%cols) * cell, float64(i/cols) * cell, 0}
-	}
-}
-
 // randomRotation returns a rotation matrix drawn uniformly from all
 // rotations (a normalised quaternion of four normal variates).
 func randomRotation(rng *rand.Rand) [3][3]float64 {

@@ -21,7 +21,16 @@ const (
 	endMargin  = 12.0 // weld station to the end of any sheet of its stack
 	doublerGap = 4.0  // doubler end to the end of the flange it sits on
 	elemsPerAs = 10_000
+	// stripNeed is the flat width the link plate to the next assembly
+	// needs at each side of an assembly (linkReach, plus 5 mm to the
+	// nearest other sheet); where the outermost sheet has less bare
+	// width, a strip continues it in its plane.
+	stripNeed = linkReach + 5
 )
+
+// strip returns the width of the strip that must continue a sheet whose
+// bare flat width at the side is bare.
+func strip(bare float64) float64 { return math.Max(0, stripNeed-bare) }
 
 // pt is a point of a cross-section: y across, z normal to the flanges.
 type pt struct{ y, z float64 }
@@ -82,11 +91,20 @@ type spec struct {
 	lines int
 }
 
+// edge is the outer end of the strip on one side of an assembly, in
+// its local frame: the sheet it ends (index into parts), where.
+type edge struct {
+	sheet int
+	y, z  float64
+}
+
 // asmPlan is a sized assembly with its placement.
 type asmPlan struct {
 	spec  *spec
 	parts []partPlan
 	segs  []segPlan
+	edges [2]edge       // left (outward -y) and right (outward +y)
+	tilt  float64       // rotation about the local x axis, radians
 	rot   [3][3]float64 // local to global rotation
 	ctr   [3]float64    // local point placed at pos
 	pos   [3]float64
@@ -203,8 +221,9 @@ func addDoublers(specs []*spec, rng *rand.Rand, h float64) {
 
 // layout returns the sheets and weld segments of s for width scale c and
 // length L (the length of the flanges carrying the welds), in the
-// assembly's local frame.
-func (s *spec) layout(c, L float64) ([]partPlan, []segPlan) {
+// assembly's local frame, and the outer ends of its two side strips
+// (each outermost sheet continued by stripWidth mm in its plane).
+func (s *spec) layout(c, L float64) ([]partPlan, []segPlan, [2]edge) {
 	F := s.f
 	sheet := func(j int, suffix string, prof []pt, x0, x1 float64) partPlan {
 		return partPlan{
@@ -216,6 +235,7 @@ func (s *spec) layout(c, L float64) ([]partPlan, []segPlan) {
 	var (
 		parts []partPlan
 		segs  []segPlan
+		edges [2]edge
 	)
 	// Hat flanges for rails and boxes; lines at y = -/+(B/2 + F/2).
 	hat := func(z, height float64) []pt {
@@ -232,13 +252,21 @@ func (s *spec) layout(c, L float64) ([]partPlan, []segPlan) {
 		zf := (s.t[0] + s.t[1]) / 2
 		if s.kind == kindRail {
 			E := c * s.e0
+			S := strip(E)
 			parts = append(parts,
-				sheet(0, "-floor", []pt{{-B/2 - F - E, 0}, {B/2 + F + E, 0}}, long0, long1),
+				sheet(0, "-floor", []pt{{-B/2 - F - E - S, 0}, {B/2 + F + E + S, 0}}, long0, long1),
 				sheet(1, "-rail", hat(zf, c*s.h0), 0, L))
+			edges = [2]edge{{0, -B/2 - F - E - S, 0}, {0, B/2 + F + E + S, 0}}
 		} else {
+			// The inner hat's flanges run on beyond the outer's as the strips.
+			S := strip(0)
+			inner := hat(0, -c*s.h1)
+			inner[0].y -= S
+			inner[len(inner)-1].y += S
 			parts = append(parts,
-				sheet(0, "-inner", hat(0, -c*s.h1), long0, long1),
+				sheet(0, "-inner", inner, long0, long1),
 				sheet(1, "-outer", hat(zf, c*s.h0), -s.ext[2]*L, L*(1+s.ext[3])))
+			edges = [2]edge{{0, -B/2 - F - S, 0}, {0, B/2 + F + S, 0}}
 		}
 		side := [2]string{"-left", "-right"}
 		for line := range 2 {
@@ -274,19 +302,23 @@ func (s *spec) layout(c, L float64) ([]partPlan, []segPlan) {
 		}
 	case kindLap:
 		zf := (s.t[0] + s.t[1]) / 2
+		S1, S2 := strip(c*s.w1-F/2), strip(c*s.w2-F/2)
 		parts = append(parts,
-			sheet(0, "-a", []pt{{-c * s.w1, 0}, {F / 2, 0}}, long0, long1),
-			sheet(1, "-b", []pt{{-F / 2, zf}, {c * s.w2, zf}}, 0, L))
+			sheet(0, "-a", []pt{{-c*s.w1 - S1, 0}, {F / 2, 0}}, long0, long1),
+			sheet(1, "-b", []pt{{-F / 2, zf}, {c*s.w2 + S2, zf}}, 0, L))
 		segs = append(segs, segPlan{z: zf / 2, x0: endMargin, x1: L - endMargin, stack: []int{0, 1}, flange: F, group: s.name})
+		edges = [2]edge{{0, -c*s.w1 - S1, 0}, {1, c*s.w2 + S2, zf}}
 	case kindAngle:
 		zf := (s.t[0] + s.t[1]) / 2
 		W := F/2 + c*s.e0
+		S := strip(c * s.e0)
 		parts = append(parts,
-			sheet(0, "-panel", []pt{{-W, 0}, {W, 0}}, long0, long1),
+			sheet(0, "-panel", []pt{{-W - S, 0}, {W + S, 0}}, long0, long1),
 			sheet(1, "-angle", []pt{{-F / 2, zf + c*s.h0}, {-F / 2, zf}, {F / 2, zf}}, 0, L))
 		segs = append(segs, segPlan{z: zf / 2, x0: endMargin, x1: L - endMargin, stack: []int{0, 1}, flange: F, group: s.name})
+		edges = [2]edge{{0, -W - S, 0}, {0, W + S, 0}}
 	}
-	return parts, segs
+	return parts, segs, edges
 }
 
 // divisions returns the number of elements of p along x and along each
@@ -341,14 +373,15 @@ func sizeModel(cfg Config, specs []*spec) []*asmPlan {
 		targetPitch = 32.5
 	)
 	target := float64(cfg.Elements)
+	links := float64(linkCount(cfg, len(specs)))
 	total := func(c, lambda float64) (elems, stations float64) {
 		for _, s := range specs {
-			p, g := s.layout(c, lambda*s.r)
+			p, g, _ := s.layout(c, lambda*s.r)
 			e, st := estimate(p, g, targetPitch)
 			elems += e
 			stations += st
 		}
-		return elems, stations
+		return elems + links*linkElements(cfg.ElementSize), stations
 	}
 	// lambdaFor solves total(c, lambda) = target for lambda, refining on
 	// the rounded element counts.
@@ -366,7 +399,7 @@ func sizeModel(cfg Config, specs []*spec) []*asmPlan {
 		return lambda, st
 	}
 	c := 1.0
-	if need := float64(cfg.Welds + 3*cfg.Bolts); need > 0 {
+	if need := float64(cfg.Welds - linkWelds*linkCount(cfg, len(specs)) + 3*cfg.Bolts); need > 0 {
 		// Stations fall as c grows: bisect for the c that gives need.
 		lo, hi := cmin, cmax
 		if _, st := lambdaFor(lo); st <= need {
@@ -388,8 +421,8 @@ func sizeModel(cfg Config, specs []*spec) []*asmPlan {
 	lambda, _ := lambdaFor(c)
 	asms := make([]*asmPlan, len(specs))
 	for i, s := range specs {
-		parts, segs := s.layout(c, lambda*s.r)
-		asms[i] = &asmPlan{spec: s, parts: parts, segs: segs}
+		parts, segs, edges := s.layout(c, lambda*s.r)
+		asms[i] = &asmPlan{spec: s, parts: parts, segs: segs, edges: edges}
 	}
 	return asms
 }

@@ -72,9 +72,9 @@ func Generate(cfg Config) (*Model, error) {
 	rng := rand.New(rand.NewPCG(cfg.Seed, 0x5eed_b0d7))
 	specs := newSpecs(cfg, rng)
 	asms := sizeModel(cfg, specs)
-	place(asms, rng)
+	links := place(cfg, asms, rng)
 	model := &Model{}
-	if err := placeJoints(cfg, asms, rng, model); err != nil {
+	if err := placeJoints(cfg, asms, links, rng, model); err != nil {
 		return nil, err
 	}
 	mesh, err := buildMesh(cfg, asms)

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -95,8 +96,9 @@ func TestCounts(t *testing.T) {
 			if cfg.Welds > 0 && (m.Pitch < MinPitch || m.Pitch > MaxPitch) {
 				t.Errorf("pitch %g outside %g..%g", m.Pitch, MinPitch, MaxPitch)
 			}
-			// About Elements/5000 main parts, plus doublers.
-			if want, got := max(2, float64(cfg.Elements)/5000), float64(len(m.Mesh.Parts)); got < 0.8*want || got > 1.5*want+1 {
+			// About Elements/5000 main parts, plus doublers (a few) and a
+			// link plate between consecutive assemblies (Elements/10000).
+			if want, got := max(2, float64(cfg.Elements)/5000), float64(len(m.Mesh.Parts)); got < 0.8*want || got > 2*want+1 {
 				t.Errorf("%v parts, want about %v", got, want)
 			}
 			if cfg.Welds >= 200 {
@@ -374,16 +376,23 @@ func TestNormals(t *testing.T) {
 func TestSpacing(t *testing.T) {
 	m := mustGenerate(t, Config{Elements: 50_000, Welds: 150, Bolts: 4, Seed: 41})
 	for i, a := range m.Joints {
-		near := math.Inf(1)
+		near, nearLine := math.Inf(1), math.Inf(1)
 		for k, b := range m.Joints {
 			if k != i {
-				near = min(near, r3.Norm(r3.Sub(a.Point, b.Point)))
+				d := r3.Norm(r3.Sub(a.Point, b.Point))
+				near = min(near, d)
+				if !strings.HasSuffix(b.Group, "-link") {
+					nearLine = min(nearLine, d)
+				}
 			}
 		}
 		if near < 20 {
 			t.Errorf("joint %s: nearest joint %.2f mm away", a.ID, near)
 		}
 		if a.Kind == joints.Bolt {
+			// The stations either side of a bolt on its flange are left
+			// empty (the link welds, on the strips, are not on a flange).
+			near = nearLine
 			if a.Diameter == 0 || a.Washer <= a.Diameter || a.Hole <= a.Diameter {
 				t.Errorf("bolt %+v", a)
 			}
@@ -480,6 +489,52 @@ func BenchmarkGenerate200k(b *testing.B) {
 	for b.Loop() {
 		if _, err := Generate(Config{Elements: 200_000, Welds: 600, Bolts: 4, Seed: 1}); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// TestChained checks that the welds join every part into one assembly
+// (by the ground-truth stacks: consecutive sheets of a stack are
+// joined), once there are enough welds for the links.
+func TestChained(t *testing.T) {
+	for _, cfg := range []Config{
+		{Elements: 60_000, Welds: 300, Bolts: 4, Seed: 7},
+		{Elements: 200_000, Welds: 600, Bolts: 4, Seed: 1},
+		{Elements: 100_000, Welds: 300, Bolts: 10, Seed: 5, ElementSize: 4},
+	} {
+		m := mustGenerate(t, cfg)
+		parent := map[int64]int64{}
+		var find func(int64) int64
+		find = func(p int64) int64 {
+			if q, ok := parent[p]; ok && q != p {
+				r := find(q)
+				parent[p] = r
+				return r
+			}
+			parent[p] = p
+			return p
+		}
+		for _, p := range m.Mesh.Parts {
+			find(p.ID)
+		}
+		links := 0
+		for i, st := range m.Stacks {
+			if strings.HasSuffix(m.Joints[i].Group, "-link") {
+				links++
+			}
+			for k := 1; k < len(st); k++ {
+				parent[find(st[k])] = find(st[k-1])
+			}
+		}
+		roots := map[int64]bool{}
+		for _, p := range m.Mesh.Parts {
+			roots[find(p.ID)] = true
+		}
+		if len(roots) != 1 {
+			t.Errorf("%+v: %d separate groups of parts, want one assembly", cfg, len(roots))
+		}
+		if want := linkWelds * (cfg.Elements/elemsPerAs - 1); links != want {
+			t.Errorf("%+v: %d link welds, want %d", cfg, links, want)
 		}
 	}
 }

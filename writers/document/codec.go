@@ -20,24 +20,69 @@ type header struct {
 // A document of another schema or version, or one that is not JSON, is
 // an input error naming the file.
 func decode(r io.Reader, name, schema string, version int, v any) error {
+	_, err := decodeRaw(r, name, schema, version, v)
+	return err
+}
+
+// decodeRaw is decode, returning the bytes read.
+func decodeRaw(r io.Reader, name, schema string, version int, v any) ([]byte, error) {
 	data, err := io.ReadAll(bufio.NewReader(r))
 	if err != nil {
-		return fmt.Errorf("document: reading %s: %w", name, err)
+		return nil, fmt.Errorf("document: reading %s: %w", name, err)
 	}
-	var h header
-	if err := json.Unmarshal(data, &h); err != nil {
-		return jsonError(name, data, err)
+	h, ok := quickHeader(data)
+	if !ok {
+		if err := json.Unmarshal(data, &h); err != nil {
+			return nil, jsonError(name, data, err)
+		}
 	}
 	switch {
 	case h.Schema != schema:
-		return geom.FileError(name, "not a %s document (schema %q)", schema, geom.Excerpt(h.Schema))
+		return nil, geom.FileError(name, "not a %s document (schema %q)", schema, geom.Excerpt(h.Schema))
 	case h.Version != version:
-		return geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
+		return nil, geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
 	}
 	if err := json.Unmarshal(data, v); err != nil {
-		return jsonError(name, data, err)
+		return nil, jsonError(name, data, err)
 	}
-	return nil
+	return data, nil
+}
+
+// quickHeader reads the schema and version of a document from the
+// first keys of its top-level object, where Joinery writes them, without
+// a pass over the rest (a connectors.json of a large body is megabytes);
+// ok is false when that fails, and the caller reads the whole document.
+func quickHeader(data []byte) (header, bool) {
+	var h header
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return h, false
+	}
+	var hasSchema, hasVersion bool
+	for dec.More() && !(hasSchema && hasVersion) {
+		key, err := dec.Token()
+		if err != nil {
+			return h, false
+		}
+		switch key {
+		case "schema":
+			hasSchema = dec.Decode(&h.Schema) == nil
+			if !hasSchema {
+				return h, false
+			}
+		case "version":
+			hasVersion = dec.Decode(&h.Version) == nil
+			if !hasVersion {
+				return h, false
+			}
+		default:
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return h, false
+			}
+		}
+	}
+	return h, hasSchema && hasVersion
 }
 
 // jsonError turns a JSON syntax or type error into an input error at its

@@ -35,6 +35,9 @@ type ConnectorsDoc struct {
 	Options    OptionsDoc     `json:"options"`
 	IDs        IDRange        `json:"new_ids"`
 	Connectors []ConnectorDoc `json:"connectors"`
+
+	raw   []byte // the file DecodeConnectors read, for ConnectorLine
+	lines []int  // line of each connector, found on first use
 }
 
 // Units names the units of every number: lengths in the unit of the
@@ -267,8 +270,10 @@ func compactJSON(v any) ([]byte, error) {
 // versioning rule).
 func DecodeConnectors(r io.Reader, name string) (*ConnectorsDoc, error) {
 	var doc ConnectorsDoc
-	if err := decode(r, name, ConnectorsSchema, ConnectorsVersion, &doc); err != nil {
+	raw, err := decodeRaw(r, name, ConnectorsSchema, ConnectorsVersion, &doc)
+	if err != nil {
 		return nil, err
 	}
+	doc.raw = raw
 	return &doc, nil
 }

@@ -18,6 +18,10 @@ type RunInfo struct {
 	Renumbered []Shift
 	// Tags lists, per joint list, the columns kept as free tags.
 	Tags []TagColumns
+	// Connectors lists the connector files a check read.
+	Connectors []string
+	// PartNames gives part names by id, for the reports.
+	PartNames map[int64]string
 }
 
 // Inputs lists the input files of a run and what was done to them.
@@ -27,6 +31,9 @@ type Inputs struct {
 	Joints     []string     `json:"joints"`
 	Renumbered []Shift      `json:"renumbered"`
 	TagColumns []TagColumns `json:"tag_columns"`
+	// Connectors lists the connector files a check read (absent for a
+	// build).
+	Connectors []string `json:"connectors,omitempty"`
 }
 
 // Shift is a renumbering applied to one mesh file's ids: the file's id
@@ -46,7 +53,7 @@ type TagColumns struct {
 
 func (info RunInfo) inputs() Inputs {
 	in := Inputs{Meshes: nonNil(info.Meshes), Parts: info.Parts, Joints: nonNil(info.Joints),
-		Renumbered: info.Renumbered, TagColumns: info.Tags}
+		Renumbered: info.Renumbered, TagColumns: info.Tags, Connectors: info.Connectors}
 	if in.Renumbered == nil {
 		in.Renumbered = []Shift{}
 	}

@@ -17,6 +17,25 @@ type Summary struct {
 	ByCode    map[string]int `json:"by_code"`
 	BySev     map[string]int `json:"by_severity"`
 	PartPairs []PairCount    `json:"part_pairs"`
+	// Assembly holds the counts of the kinematic checks; absent when they
+	// did not run.
+	Assembly *AssemblyCounts `json:"assembly,omitempty"`
+}
+
+// AssemblyCounts are the counts of the kinematic checks (see
+// joints.Kinematics).
+type AssemblyCounts struct {
+	// Groups of parts joined by connectors (a part alone is a group).
+	Groups int `json:"groups"`
+	// Grounded groups are tied to ground.
+	Grounded int `json:"grounded"`
+	// RigidBodyModes: free motions of the whole assembly, 6 per group not
+	// grounded plus every mechanism and unrestrained motion.
+	RigidBodyModes int `json:"rigid_body_modes"`
+	// Mechanisms: free motions of parts relative to each other.
+	Mechanisms int `json:"mechanism_motions"`
+	// Unrestrained: free motions of nodes that connectors create.
+	Unrestrained int `json:"unrestrained_motions"`
 }
 
 // PairCount counts the connectors that join two parts directly (as
@@ -77,6 +96,10 @@ func Summarize(r *joints.Result) Summary {
 	slices.SortFunc(s.PartPairs, func(x, y PairCount) int { return cmp.Or(cmp.Compare(x.A, y.A), cmp.Compare(x.B, y.B)) })
 	if s.PartPairs == nil {
 		s.PartPairs = []PairCount{}
+	}
+	if k := r.Kinematics; k != nil {
+		s.Assembly = &AssemblyCounts{Groups: k.Groups, Grounded: k.Grounded, RigidBodyModes: k.RigidBodyModes,
+			Mechanisms: k.Mechanisms, Unrestrained: k.Unrestrained}
 	}
 	return s
 }

@@ -1,6 +1,10 @@
 package document
 
-import "github.com/joinery-cae/joinery/joints"
+import (
+	"fmt"
+
+	"github.com/joinery-cae/joinery/joints"
+)
 
 // Joinery builds in millimetres; the documents give lengths in the unit
 // of the inputs (RunInfo.Unit), so that points overlay the meshes, and
@@ -29,36 +33,61 @@ func ptrIn(p *float64, mm float64) {
 // and records u.
 func (d *ConnectorsDoc) toUnit(u joints.Unit) {
 	d.Units.Length = u.String()
-	mm := u.MM()
-	if mm == 1 {
-		return
+	if mm := u.MM(); mm != 1 {
+		d.scaleLengths(func(v float64) float64 { return lengthIn(v, mm) })
+	}
+}
+
+// ToMillimetres converts every length of a decoded connectors document
+// from its units.length to mm, in place, and records mm, so that its
+// connectors can be resolved against a mesh read in mm. A document
+// without units.length is in mm.
+func (d *ConnectorsDoc) ToMillimetres() error {
+	u, err := joints.ParseUnit(d.Units.Length)
+	if err != nil {
+		return fmt.Errorf("units.length: %w", err)
+	}
+	d.Units.Length = joints.Millimetre.String()
+	if mm := u.MM(); mm != 1 {
+		d.scaleLengths(func(v float64) float64 { return v * mm })
+	}
+	return nil
+}
+
+// scaleLengths applies f to every length of the document.
+func (d *ConnectorsDoc) scaleLengths(f func(float64) float64) {
+	vec := func(v Vec) Vec { return Vec{f(v[0]), f(v[1]), f(v[2])} }
+	ptr := func(p *float64) {
+		if p != nil {
+			*p = f(*p)
+		}
 	}
 	o := &d.Options
-	o.Reach = lengthIn(o.Reach, mm)
-	ptrIn(o.GapAllowance, mm)
+	o.Reach = f(o.Reach)
+	ptr(o.GapAllowance)
 	for i := range d.Connectors {
 		c := &d.Connectors[i]
-		c.Point = vecIn(c.Point, mm)
-		ptrIn(c.Diameter, mm)
+		c.Point = vec(c.Point)
+		ptr(c.Diameter)
 		for k := range c.Sheets {
 			s := &c.Sheets[k]
-			s.Point = vecIn(s.Point, mm)
-			s.Distance = lengthIn(s.Distance, mm)
-			s.Thickness = lengthIn(s.Thickness, mm)
-			s.Position = lengthIn(s.Position, mm)
-			s.Lateral = lengthIn(s.Lateral, mm)
-			ptrIn(s.EdgeDistance, mm)
+			s.Point = vec(s.Point)
+			s.Distance = f(s.Distance)
+			s.Thickness = f(s.Thickness)
+			s.Position = f(s.Position)
+			s.Lateral = f(s.Lateral)
+			ptr(s.EdgeDistance)
 			if s.EndPoint != nil {
-				p := vecIn(*s.EndPoint, mm)
+				p := vec(*s.EndPoint)
 				s.EndPoint = &p
 			}
 		}
 		for k := range c.Links {
 			l := &c.Links[k]
-			l.Start, l.End = vecIn(l.Start, mm), vecIn(l.End, mm)
-			l.Length = lengthIn(l.Length, mm)
-			l.ContactGap = lengthIn(l.ContactGap, mm)
-			l.MidGap = lengthIn(l.MidGap, mm)
+			l.Start, l.End = vec(l.Start), vec(l.End)
+			l.Length = f(l.Length)
+			l.ContactGap = f(l.ContactGap)
+			l.MidGap = f(l.MidGap)
 		}
 	}
 }
@@ -72,6 +101,13 @@ func (d *ReportDoc) toUnit(u joints.Unit) {
 		if l := d.Findings[i].Location; l != nil && mm != 1 {
 			v := vecIn(*l, mm)
 			d.Findings[i].Location = &v
+		}
+		if m := d.Findings[i].Motion; m != nil && mm != 1 {
+			if m.Point != nil {
+				v := vecIn(*m.Point, mm)
+				m.Point = &v
+			}
+			ptrIn(m.Pitch, mm)
 		}
 	}
 }

@@ -1,0 +1,281 @@
+package audit
+
+import (
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// flangeMesh returns two 0.8 mm sheets in contact (mid-surfaces 0.8 mm
+// apart: contact (t1+t2)/2, shell mid-surface geometry, common
+// practice), 200 x 50 mm, meshed alike with 5 mm quads, so that nodes
+// face each other.
+func flangeMesh() []plate {
+	return []plate{
+		{Part: 1, T: 0.8, NX: 40, NY: 10, H: 5},
+		{Part: 2, T: 0.8, Z: 0.8, NX: 40, NY: 10, H: 5},
+	}
+}
+
+// along returns weld points on the flange's centre line y = 25, mid-way
+// between the sheets, at the given x.
+func along(xs ...float64) []r3.Vec {
+	pts := make([]r3.Vec, len(xs))
+	for i, x := range xs {
+		pts[i] = r3.Vec{X: x, Y: 25, Z: 0.4}
+	}
+	return pts
+}
+
+func steps(from, step float64, n int) []float64 {
+	xs := make([]float64, n)
+	for i := range xs {
+		xs[i] = from + float64(i)*step
+	}
+	return xs
+}
+
+// Planted seams are found, each chain once with all its welds; a clean
+// pitch on the same flange is not; node-pair lists and connectors give
+// the same findings.
+func TestSeams(t *testing.T) {
+	nodePair := joints.BuildOptions{Attach: joints.NodePair}
+	cases := []struct {
+		name   string
+		plates []plate
+		welds  []r3.Vec
+		o      joints.BuildOptions
+		chains [][]string // the welds of each seam chain
+		parts  [][]int64
+		length []float64
+	}{
+		{
+			// The classic case: every facing pair along 30 mm connected.
+			name: "every facing pair along 30 mm", plates: flangeMesh(), welds: along(steps(50, 5, 7)...), o: nodePair,
+			chains: [][]string{{"W1", "W2", "W3", "W4", "W5", "W6", "W7"}}, parts: [][]int64{{1, 2}}, length: []float64{30},
+		},
+		{
+			// The smallest case: two welds on mesh-adjacent nodes.
+			name: "two welds on adjacent nodes", plates: flangeMesh(), welds: along(100, 105), o: nodePair,
+			chains: [][]string{{"W1", "W2"}}, parts: [][]int64{{1, 2}}, length: []float64{5},
+		},
+		{
+			name: "interpolated welds in neighbouring elements", plates: flangeMesh(), welds: along(102.5, 107.5, 160), o: joints.BuildOptions{},
+			chains: [][]string{{"W1", "W2"}}, parts: [][]int64{{1, 2}}, length: []float64{5},
+		},
+		{
+			// Three sheets: only the middle one (a coarse 16 mm mesh)
+			// has the two welds' attachments in one element; the outer
+			// sheets (2 mm mesh) keep them apart.
+			name: "three sheets, one sheet's attachments touch",
+			plates: []plate{
+				{Part: 1, T: 1, NX: 100, NY: 25, H: 2},
+				{Part: 2, T: 1, Z: 1, NX: 12, NY: 3, H: 16, X0: 4},
+				{Part: 3, T: 1, Z: 2, NX: 100, NY: 25, H: 2},
+			},
+			welds: []r3.Vec{{X: 85, Y: 25, Z: 1}, {X: 99, Y: 25, Z: 1}}, o: joints.BuildOptions{},
+			chains: [][]string{{"W1", "W2"}}, parts: [][]int64{{2, 1, 3}}, length: []float64{14},
+		},
+		{
+			name: "clean 40 mm pitch, node pairs", plates: flangeMesh(), welds: along(steps(20, 40, 5)...), o: nodePair,
+		},
+		{
+			name: "clean 40 mm pitch, interpolated", plates: flangeMesh(), welds: along(steps(22, 40, 5)...), o: joints.BuildOptions{},
+		},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			m := plates(tc.plates...)
+			conns := build(t, m, weldsAt(tc.welds...), tc.o)
+			rep := audit(t, m, conns, nil, tc.o)
+			seams := ofCode(rep.Findings, joints.CodeSeam)
+			if len(seams) != len(tc.chains) {
+				t.Fatalf("%d seams, want %d: %v", len(seams), len(tc.chains), summary(rep.Findings))
+			}
+			for i, f := range seams {
+				if !slices.Equal(f.Joints, tc.chains[i]) || f.Joint != tc.chains[i][0] || !slices.Equal(f.Parts, tc.parts[i]) {
+					t.Errorf("seam %d: joints %v parts %v, want %v %v", i, f.Joints, f.Parts, tc.chains[i], tc.parts[i])
+				}
+				if want := tc.length[i]; !strings.Contains(f.Message, " "+joints.MM(want)+" mm long") {
+					t.Errorf("seam %d: %q does not give the length %g mm", i, f.Message, want)
+				}
+				if f.Severity != SeamSeverity || !f.HasPoint {
+					t.Errorf("seam %d: %+v", i, f)
+				}
+			}
+			if len(tc.chains) == 0 && len(rep.Findings) != 0 {
+				t.Errorf("clean flange: %v", summary(rep.Findings))
+			}
+			if tc.o.Attach == joints.NodePair {
+				// The same welds as a node-pair list exported from a model.
+				again := audit(t, m, fromCSV(t, m, nodePairCSV(m, conns), tc.o), nil, tc.o)
+				if a, b := summary(rep.Findings), summary(again.Findings); !slices.Equal(a, b) {
+					t.Errorf("connectors give %v, the node-pair list %v", a, b)
+				}
+			}
+		})
+	}
+}
+
+// Duplicates and pitch against the minimum spacing of the resistance
+// welding manufacturers' optimum schedule for low-carbon steel (secondary
+// copy of the table, inch values converted; joints.MinSpacing): 19.0 mm
+// for 1.02 mm sheets, 30 per cent more for three sheets (the note with
+// such tables).
+func TestDuplicatesAndPitch(t *testing.T) {
+	two := []plate{{Part: 1, T: 1.02, NX: 60, NY: 10, H: 5}, {Part: 2, T: 1.02, Z: 1.02, NX: 60, NY: 10, H: 5}}
+	three := append(slices.Clone(two), plate{Part: 3, T: 1.02, Z: 2.04, NX: 60, NY: 10, H: 5})
+	mid2, mid3 := 0.51, 1.02
+	at := func(z float64, xs ...float64) []r3.Vec {
+		var pts []r3.Vec
+		for _, x := range xs {
+			pts = append(pts, r3.Vec{X: x, Y: 25, Z: z})
+		}
+		return pts
+	}
+	cases := []struct {
+		name   string
+		plates []plate
+		welds  []r3.Vec
+		want   []string
+	}{
+		// Nugget 5*sqrt(1.02) = 5.05 mm: centres 1 mm apart overlap.
+		{"overlapping nuggets", two, at(mid2, 51, 52, 120), []string{"duplicate [W1 W2] [1 2]"}},
+		{"same point", two, at(mid2, 60, 60), []string{"duplicate [W1 W2] [1 2]"}},
+		// 15 mm < 19.0 mm: too close, but the nuggets stay apart.
+		{"pitch 15 mm, two sheets", two, at(mid2, 50, 65), []string{"pitch-short [W1 W2] [1 2]"}},
+		{"pitch 20 mm, two sheets", two, at(mid2, 50, 70), nil},
+		// Consecutive pairs only: three welds 15 mm apart give two.
+		{"three welds at 15 mm", two, at(mid2, 50, 65, 80), []string{"pitch-short [W1 W2] [1 2]", "pitch-short [W2 W3] [1 2]"}},
+		// 22 mm: above 19.0 for two sheets, below 19.0*1.3 = 24.7 for three.
+		{"pitch 22 mm, three sheets", three, at(mid3, 50, 72), []string{"pitch-short [W1 W2] [1 2]"}},
+		{"pitch 26 mm, three sheets", three, at(mid3, 50, 76), nil},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			m := plates(tc.plates...)
+			conns := build(t, m, weldsAt(tc.welds...), joints.BuildOptions{})
+			rep := audit(t, m, conns, nil, joints.BuildOptions{})
+			var got []string
+			for _, s := range summary(rep.Findings) {
+				if strings.HasPrefix(s, "duplicate") || strings.HasPrefix(s, "pitch-short") {
+					got = append(got, s)
+				}
+			}
+			if !slices.Equal(got, tc.want) {
+				t.Errorf("findings %v, want %v (all: %v)", got, tc.want, summary(rep.Findings))
+			}
+		})
+	}
+	if s := joints.MinSpacing(1.02, 2); math.Abs(s-19.0) > 1e-9 {
+		t.Fatalf("MinSpacing(1.02, 2) = %g, the table's 19.0 mm", s)
+	}
+}
+
+// Two node-pair connectors on the same node pair are one weld twice.
+func TestDuplicateNodePair(t *testing.T) {
+	m := plates(flangeMesh()...)
+	a, b := nodeAt(m, 1, 50, 25), nodeAt(m, 2, 50, 25)
+	csv := "id,node_a,node_b\nW1," + itoa(a) + "," + itoa(b) + "\nW2," + itoa(b) + "," + itoa(a) + "\nW3," + itoa(nodeAt(m, 1, 150, 25)) + "," + itoa(nodeAt(m, 2, 150, 25)) + "\n"
+	rep := audit(t, m, fromCSV(t, m, csv, joints.BuildOptions{}), nil, joints.BuildOptions{})
+	if got := summary(ofCode(rep.Findings, joints.CodeDuplicate)); !slices.Equal(got, []string{"duplicate [W1 W2] [1 2]"}) {
+		t.Errorf("%v", summary(rep.Findings))
+	}
+}
+
+// Extra joint points (a joint list not built) are checked against the
+// connectors: one on top of a weld is a duplicate, one 15 mm from it too
+// close; an extra point with the id of a connector is that weld.
+func TestExtraJoints(t *testing.T) {
+	two := []plate{{Part: 1, T: 1.02, NX: 60, NY: 10, H: 5}, {Part: 2, T: 1.02, Z: 1.02, NX: 60, NY: 10, H: 5}}
+	m := plates(two...)
+	conns := build(t, m, weldsAt(r3.Vec{X: 50, Y: 25, Z: 0.51}, r3.Vec{X: 200, Y: 25, Z: 0.51}), joints.BuildOptions{})
+	extra := []joints.Joint{
+		{ID: "W1", Point: r3.Vec{X: 50, Y: 25, Z: 0.51}},
+		{ID: "N1", Point: r3.Vec{X: 200.5, Y: 25, Z: 0.51}},
+		{ID: "N2", Point: r3.Vec{X: 65, Y: 25, Z: 0.51}},
+	}
+	rep := audit(t, m, conns, extra, joints.BuildOptions{})
+	want := []string{"duplicate [N1 W2] [1 2]", "pitch-short [N2 W1] [1 2]"}
+	var got []string
+	for _, f := range rep.Findings {
+		if f.Code == joints.CodeDuplicate || f.Code == joints.CodePitchShort {
+			got = append(got, summary([]joints.Finding{f})...)
+		}
+	}
+	slices.Sort(got)
+	if !slices.Equal(got, want) {
+		t.Errorf("%v, want %v", got, want)
+	}
+}
+
+// A planted loose part and a loose group are free parts; the welded
+// main group is not.
+func TestFreeParts(t *testing.T) {
+	m := plates(
+		plate{Part: 1, T: 1, NX: 20, NY: 10, H: 5},
+		plate{Part: 2, T: 1, Z: 1, NX: 20, NY: 10, H: 5},
+		plate{Part: 3, T: 1, Z: 50, NX: 4, NY: 4, H: 5},                    // loose part
+		plate{Part: 4, T: 1, Z: 100, NX: 10, NY: 10, H: 5},                 // loose group: 4 and 5
+		plate{Part: 5, T: 1, Z: 101, NX: 10, NY: 10, H: 5, X0: 1, Y0: 1.5}, // welded to 4 only
+	)
+	conns := build(t, m, weldsAt(
+		r3.Vec{X: 20, Y: 25, Z: 0.5}, r3.Vec{X: 60, Y: 25, Z: 0.5},
+		r3.Vec{X: 25, Y: 25, Z: 100.5}), joints.BuildOptions{})
+	rep := audit(t, m, conns, nil, joints.BuildOptions{})
+	free := ofCode(rep.Findings, joints.CodeFreePart)
+	if got := summary(free); !slices.Equal(got, []string{"free-part [] [3]", "free-part [W3] [4 5]"}) {
+		t.Fatalf("%v", summary(rep.Findings))
+	}
+	// The loose part's box is 20 x 20 mm at z = 50.
+	if p := free[0].Point; !free[0].HasPoint || math.Abs(p.X-10) > 1e-9 || math.Abs(p.Z-50) > 1e-9 || free[0].Severity != joints.Warning {
+		t.Errorf("%+v", free[0])
+	}
+	if rep.Kinematics.Groups != 3 || rep.Kinematics.RigidBodyModes != 18 {
+		t.Errorf("%+v, want 3 groups, 18 rigid-body modes", rep.Kinematics)
+	}
+}
+
+// A strip held by one straight line of welds that couple translations
+// only turns about that line: a mechanism whose axis is the weld line;
+// the same welds coupling all six degrees of freedom hold it.
+func TestStripOnALineOfWelds(t *testing.T) {
+	m := plates(
+		plate{Part: 1, T: 1, NX: 40, NY: 20, H: 5},
+		plate{Part: 2, T: 1, Z: 1, NX: 40, NY: 4, H: 5, Y0: 40},
+	)
+	welds := weldsAt(along(steps(20, 35, 5)...)...)
+	for i := range welds {
+		welds[i].Point.Y = 50
+		welds[i].Point.Z = 0.5
+	}
+	for _, tc := range []struct {
+		dofs joints.DOFs
+		mech int
+	}{{joints.Translations, 1}, {joints.AllDOFs, 0}} {
+		o := joints.BuildOptions{SpotDOFs: tc.dofs}
+		rep := audit(t, m, build(t, m, welds, o), nil, o)
+		mech := ofCode(rep.Findings, joints.CodeMechanism)
+		if rep.Kinematics.Mechanisms != tc.mech || len(mech) != tc.mech {
+			t.Fatalf("%v: %+v %v", tc.dofs, rep.Kinematics, summary(rep.Findings))
+		}
+		if tc.mech == 0 {
+			continue
+		}
+		f := mech[0]
+		if f.Motion.Kind != joints.MotionRotation || math.Abs(f.Motion.Direction.X-1) > 1e-6 || math.Abs(f.Motion.Point.Y-50) > 1e-6 {
+			t.Errorf("motion %+v, want a rotation about the weld line y = 50 along x", f.Motion)
+		}
+		if !slices.Equal(f.Parts, []int64{2, 1}) || len(f.Joints) != 5 || f.Severity != joints.Error {
+			t.Errorf("%+v", f)
+		}
+	}
+}
+
+func itoa(v int64) string { return strconv.FormatInt(v, 10) }

@@ -1,0 +1,18 @@
+package audit
+
+import (
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/spot"
+)
+
+// spotFacing applies a build's facing rule to a node-pair connector:
+// the nugget radius, and the node factor times it across the stack.
+func spotFacing(c *joints.Connector, o *joints.BuildOptions) []joints.Finding {
+	r := c.Diameter / 2
+	return spot.CheckFacing(&c.Stack, c.Ends, r, o.NodeFactor*r, &c.Joint)
+}
+
+// spotGap applies a build's gap rule to the sheets a link joins.
+func spotGap(j *joints.Joint, a, b joints.Sheet, o *joints.BuildOptions) (joints.Finding, bool) {
+	return spot.GapFinding(j, a, b, o)
+}

@@ -1,0 +1,265 @@
+package document
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// ToConnectors converts the connectors of a decoded document back into
+// the domain types, resolved against mesh m: node and element ids become
+// indices, normals come from the mesh. name is the document's file, for
+// errors: a node, element or part that is not in the mesh, or a field
+// out of range, is an input error naming the connector's line. Findings
+// are not carried over (a check makes its own).
+func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Connector, error) {
+	n := len(doc.Connectors)
+	out := make([]joints.Connector, n)
+	errs := make([]error, n)
+	// Blocks of connectors are converted side by side, each into its
+	// place; the first error in document order is the one reported.
+	const block = 512
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), (n+block-1)/block) {
+		wg.Go(func() {
+			for {
+				lo := int(next.Add(block)) - block
+				if lo >= n {
+					return
+				}
+				for i := lo; i < min(n, lo+block); i++ {
+					out[i], errs[i] = doc.Connectors[i].toConnector(m)
+					out[i].Joint.File = name
+				}
+			}
+		})
+	}
+	wg.Wait()
+	for i, err := range errs {
+		if err != nil {
+			return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", geom.Excerpt(doc.Connectors[i].ID), err)
+		}
+	}
+	return out, nil
+}
+
+// maxCoordinate bounds the coordinates and lengths a document may give,
+// mm: far beyond any model, far below the range where products of them
+// overflow.
+const maxCoordinate = 1e12
+
+func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
+	if err := d.checkNumbers(); err != nil {
+		return joints.Connector{}, err
+	}
+	kind, err := joints.ParseKind(d.Kind)
+	if err != nil {
+		return joints.Connector{}, err
+	}
+	var st joints.Status
+	switch d.State {
+	case "built":
+		st = joints.Built
+	case "flagged":
+		st = joints.Flagged
+	case "not-built":
+		st = joints.NotBuilt
+	default:
+		return joints.Connector{}, fmt.Errorf("unknown state %q (want built, flagged or not-built)", geom.Excerpt(d.State))
+	}
+	c := joints.Connector{
+		Joint:  joints.Joint{ID: d.ID, Kind: kind, Point: d.Point.r3(), Group: d.Group, Parts: d.Listed, Tags: d.Tags},
+		Status: st, DiameterSource: d.DiameterSource,
+	}
+	if c.Attach, err = joints.ParseAttach(d.Attach); err != nil {
+		return c, err
+	}
+	if len(d.DOFs) > 0 {
+		if c.DOFs, err = joints.ParseDOFs(d.DOFs...); err != nil {
+			return c, err
+		}
+	}
+	if d.Diameter != nil {
+		c.Diameter = *d.Diameter
+	}
+	if st == joints.NotBuilt {
+		return c, nil
+	}
+	if d.Axis != nil {
+		c.Stack.Axis = d.Axis.r3()
+	}
+	node := func(id int64) (int32, error) {
+		n, ok := m.NodeIndex(id)
+		if !ok {
+			return 0, fmt.Errorf("node %d is not in the mesh", id)
+		}
+		return n, nil
+	}
+	for si, s := range d.Sheets {
+		if _, ok := m.PartIndex(s.Part); !ok {
+			return c, fmt.Errorf("sheet %d: part %d is not in the mesh", si, s.Part)
+		}
+		e, ok := m.ElemIndex(s.Element)
+		if !ok {
+			return c, fmt.Errorf("sheet %d: element %d is not in the mesh", si, s.Element)
+		}
+		sh := joints.Sheet{
+			Part: s.Part, Thickness: s.Thickness, Position: s.Position, Lateral: s.Lateral, EdgeDistance: math.Inf(1),
+			Proj: geom.Projection{Elem: int(e), Point: s.Point.r3(), Dist: s.Distance, Normal: m.Normal(int(e))},
+		}
+		if s.EdgeDistance != nil {
+			sh.EdgeDistance = *s.EdgeDistance
+		}
+		c.Stack.Sheets = append(c.Stack.Sheets, sh)
+		if s.EndPoint == nil {
+			continue
+		}
+		if len(s.Nodes) != len(s.Weights) || len(s.Nodes) == 0 {
+			return c, fmt.Errorf("sheet %d: %d nodes and %d weights", si, len(s.Nodes), len(s.Weights))
+		}
+		end := joints.End{Point: s.EndPoint.r3(), NodeIndex: -1, Weights: s.Weights}
+		for _, id := range s.Nodes {
+			n, err := node(id)
+			if err != nil {
+				return c, fmt.Errorf("sheet %d: %w", si, err)
+			}
+			end.Nodes = append(end.Nodes, n)
+		}
+		var endID int64
+		switch {
+		case s.EndNode != nil:
+			endID = *s.EndNode
+		case len(end.Nodes) == 1:
+			end.NodeIndex = end.Nodes[0]
+		}
+		c.Ends = append(c.Ends, end)
+		c.EndIDs = append(c.EndIDs, endID)
+	}
+	if len(c.Ends) != 0 && len(c.Ends) != len(c.Stack.Sheets) {
+		return c, fmt.Errorf("%d of %d sheets have an end", len(c.Ends), len(c.Stack.Sheets))
+	}
+	for _, l := range d.Links {
+		if l.From < 0 || l.To < 0 || l.From >= len(c.Ends) || l.To >= len(c.Ends) || l.From == l.To {
+			return c, fmt.Errorf("link %d joins sheets %d and %d, not two of the %d ends", l.ID, l.From, l.To, len(c.Ends))
+		}
+		c.Links = append(c.Links, joints.Link{ID: l.ID, From: l.From, To: l.To, Start: l.Start.r3(), End: l.End.r3(),
+			Length: l.Length, Direction: l.Direction.r3(), Contact: l.ContactGap, MidGap: l.MidGap})
+	}
+	return c, nil
+}
+
+// checkNumbers refuses coordinates, lengths and weights out of range.
+func (d *ConnectorDoc) checkNumbers() error {
+	bad := func(v float64) bool { return !(math.Abs(v) <= maxCoordinate) }
+	vec := func(v *Vec) bool { return v != nil && (bad(v[0]) || bad(v[1]) || bad(v[2])) }
+	if vec(&d.Point) || vec(d.Axis) || d.Diameter != nil && bad(*d.Diameter) {
+		return fmt.Errorf("a point, axis or diameter beyond %g mm", maxCoordinate)
+	}
+	for i, s := range d.Sheets {
+		if vec(&s.Point) || vec(s.EndPoint) || bad(s.Thickness) || bad(s.Position) || bad(s.Lateral) || bad(s.Distance) {
+			return fmt.Errorf("sheet %d: a value beyond %g mm", i, maxCoordinate)
+		}
+		for _, w := range s.Weights {
+			if bad(w) {
+				return fmt.Errorf("sheet %d: a weight beyond %g", i, maxCoordinate)
+			}
+		}
+	}
+	for _, l := range d.Links {
+		if vec(&l.Start) || vec(&l.End) || vec(&l.Direction) || bad(l.Length) || bad(l.ContactGap) || bad(l.MidGap) {
+			return fmt.Errorf("link %d: a value beyond %g mm", l.ID, maxCoordinate)
+		}
+	}
+	return nil
+}
+
+// NodePairs returns the mesh node ids each link of a node-pair
+// connector joins (the single node of the end on each of its sheets),
+// and false when the connector is not a built node-pair spot weld.
+func (d *ConnectorDoc) NodePairs() ([][2]int64, bool) {
+	if d.Attach != joints.NodePair.String() || d.State == joints.NotBuilt.String() || d.Kind != joints.Spot.String() {
+		return nil, false
+	}
+	var out [][2]int64
+	for _, l := range d.Links {
+		if l.From < 0 || l.To < 0 || l.From >= len(d.Sheets) || l.To >= len(d.Sheets) ||
+			len(d.Sheets[l.From].Nodes) != 1 || len(d.Sheets[l.To].Nodes) != 1 {
+			return nil, false
+		}
+		out = append(out, [2]int64{d.Sheets[l.From].Nodes[0], d.Sheets[l.To].Nodes[0]})
+	}
+	return out, len(out) > 0
+}
+
+func (v Vec) r3() r3.Vec { return r3.Vec{X: v[0], Y: v[1], Z: v[2]} }
+
+// ConnectorLine returns the line on which connector i of a decoded
+// document starts in its file, 0 when unknown. The lines are found on
+// first use, in one pass over the file.
+func (doc *ConnectorsDoc) ConnectorLine(i int) int {
+	if doc.lines == nil && doc.raw != nil {
+		doc.lines = connectorLines(doc.raw)
+		if doc.lines == nil {
+			doc.lines = []int{}
+		}
+	}
+	if i < 0 || i >= len(doc.lines) {
+		return 0
+	}
+	return doc.lines[i]
+}
+
+// connectorLines walks a connectors document's tokens to the elements of
+// its "connectors" array and returns the line each starts on.
+func connectorLines(data []byte) []int {
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return nil
+	}
+	var seen int64 // lines are counted up to here
+	line := 1
+	lineAt := func(off int64) int {
+		for off < int64(len(data)) && (data[off] == ' ' || data[off] == '\n' || data[off] == '\r' || data[off] == '\t' || data[off] == ',') {
+			off++
+		}
+		line += bytes.Count(data[seen:off], []byte("\n"))
+		seen = off
+		return line
+	}
+	for dec.More() {
+		key, err := dec.Token()
+		if err != nil {
+			return nil
+		}
+		if key != "connectors" {
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return nil
+			}
+			continue
+		}
+		if t, err := dec.Token(); err != nil || t != json.Delim('[') {
+			return nil
+		}
+		var lines []int
+		for dec.More() {
+			lines = append(lines, lineAt(dec.InputOffset()))
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return lines
+			}
+		}
+		return lines
+	}
+	return nil
+}

@@ -1,0 +1,85 @@
+package document
+
+import (
+	"bytes"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/geomtest"
+)
+
+// seedConnectors is a connectors document for the 4 x 4 grid of
+// geomtest.Grid (node ids 1 to 25, element ids 1 to 16, part 1): one
+// interpolated end on element 6 and one node-pair end, one link.
+const seedConnectors = `{
+  "schema": "joinery/connectors",
+  "version": 2,
+  "connectors": [
+    {"id":"W1","kind":"spot","state":"built","point":[1.5,1.5,0],"axis":[0,0,1],"diameter":5,"attach":"interpolated","dofs":["tx","ty","tz"],
+     "sheets":[{"part":1,"element":6,"point":[1.5,1.5,0],"distance":0,"thickness":1,"position":0,"lateral":0,"edge_distance":null,"end_node":100,"end_point":[1.5,1.5,0],"nodes":[7,8,13,12],"weights":[0.25,0.25,0.25,0.25]},
+               {"part":1,"element":7,"point":[2,1,0],"distance":0,"thickness":1,"position":0,"lateral":0,"edge_distance":1,"end_node":null,"end_point":[2,1,0],"nodes":[8],"weights":[1]}],
+     "links":[{"id":101,"from":0,"to":1,"start":[1.5,1.5,0],"end":[2,1,0],"length":0.7,"direction":[0.7,-0.7,0],"contact_gap":1,"mid_gap":0}],
+     "findings":[]},
+    {"id":"W2","kind":"spot","state":"not-built","point":[0,0,0],"axis":null,"diameter":null,"attach":"node-pair","dofs":[],"sheets":[],"links":[],"findings":["no-sheet"]}
+  ]
+}`
+
+func TestToConnectors(t *testing.T) {
+	m := geomtest.Grid(geomtest.GridSpec{NX: 4, NY: 4})
+	doc, err := DecodeConnectors(strings.NewReader(seedConnectors), "c.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	cs, err := doc.ToConnectors(m, "c.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := cs[0]
+	if len(c.Ends) != 2 || c.Ends[0].NodeIndex != -1 || c.EndIDs[0] != 100 || c.Ends[1].NodeIndex != 7 || len(c.Links) != 1 || c.DOFs.String() != "tx,ty,tz" {
+		t.Errorf("%+v", c)
+	}
+	if doc.ConnectorLine(0) != 5 || doc.ConnectorLine(1) != 10 {
+		t.Errorf("lines %d %d, want 5 and 10", doc.ConnectorLine(0), doc.ConnectorLine(1))
+	}
+	pairs, ok := doc.Connectors[0].NodePairs()
+	if ok || pairs != nil {
+		t.Errorf("an interpolated connector has no node pairs: %v", pairs)
+	}
+	// A node the mesh lacks: an input error at the connector's line.
+	bad := strings.Replace(seedConnectors, `"nodes":[8]`, `"nodes":[99]`, 1)
+	doc, _ = DecodeConnectors(strings.NewReader(bad), "c.json")
+	if _, err := doc.ToConnectors(m, "c.json"); err == nil || !strings.HasPrefix(err.Error(), `c.json:5: connector "W1": sheet 1: node 99 is not in the mesh`) {
+		t.Errorf("%v", err)
+	}
+}
+
+// FuzzDecodeConnectors checks that no document makes the decoder, the
+// conversion or the line finder panic, and that their errors are input
+// errors.
+func FuzzDecodeConnectors(f *testing.F) {
+	f.Add([]byte(seedConnectors))
+	if b, err := os.ReadFile(filepath.Join("..", "..", "cmd", "joinery", "testdata", "golden", "build-connectors.json")); err == nil {
+		f.Add(b)
+	}
+	m := geomtest.Grid(geomtest.GridSpec{NX: 4, NY: 4})
+	f.Fuzz(func(t *testing.T, data []byte) {
+		doc, err := DecodeConnectors(bytes.NewReader(data), "f.json")
+		if err != nil {
+			if !errors.Is(err, geom.ErrInput) {
+				t.Fatalf("not an input error: %v", err)
+			}
+			return
+		}
+		for i := range doc.Connectors {
+			doc.ConnectorLine(i)
+			doc.Connectors[i].NodePairs()
+		}
+		if _, err := doc.ToConnectors(m, "f.json"); err != nil && !errors.Is(err, geom.ErrInput) {
+			t.Fatalf("not an input error: %v", err)
+		}
+	})
+}
