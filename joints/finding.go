@@ -66,6 +66,14 @@ const (
 	CodeIDRange        = "id-range"        // new ids above 2,147,483,647
 	CodeIDDigits       = "id-digits"       // new ids have more digits than the mesh's
 	CodeThicknessClash = "thickness-mismatch"
+	// Flange finding and weld placement (joinery flanges); pitch-short is
+	// also the audit's code for welds closer than the spacing table allows.
+	CodePitchShort     = "pitch-short"     // pitch below the minimum weld spacing of the table
+	CodeFlangeNarrow   = "flange-narrow"   // flange narrower than the minimum overlap, or than the edge rule needs
+	CodePitchTooFine   = "pitch-too-fine"  // mesh too coarse for the pitch: welds spaced wider so that they stay apart
+	CodeFlangeShort    = "flange-short"    // flange shorter than its two end margins: no weld placed
+	CodeStationSkipped = "station-skipped" // a station left empty (another weld or a sheet edge too near)
+	CodeNoFlange       = "no-flange"       // a part pair asked for has no flange
 )
 
 // Finding is one problem found with a joint (or with the run when Joint
