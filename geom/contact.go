@@ -177,10 +177,11 @@ func FindContacts(ctx context.Context, x *Index, r ContactRule) (*Contacts, erro
 		if r.Pair != nil && !r.Pair(min(pa, pb), max(pa, pb)) {
 			return false
 		}
-		if ra := c.pairReach(a, b); d2 > ra*ra*pruneSlack {
+		ra := c.pairReach(a, b)
+		if d2 > ra*ra*pruneSlack || math.Abs(dot32(na, nb)) < c.cosLimit {
 			return false
 		}
-		return math.Abs(dot32(na, nb)) >= c.cosLimit
+		return true
 	})
 	if err := ctx.Err(); err != nil {
 		return nil, err

@@ -21,7 +21,7 @@ type pairWork struct {
 	bisect      int                 // bisection steps for crossings
 	facing      []geom.FacingPair   // the pair's facing node pairs
 	outlines    []*outline          // aligned with the flanges returned
-	byNode      map[int32]*geom.NodeContact
+	nodes       []int32 // the nodes of recs, for lookups
 }
 
 // vkey names a vertex of the overlap's outline: a node (b = -1) or the
@@ -30,13 +30,16 @@ type vkey struct{ a, b int32 }
 
 // rec returns the host's record of node n, nil when n is not in contact.
 func (w *pairWork) rec(n int32) *geom.NodeContact {
-	if w.byNode == nil {
-		w.byNode = make(map[int32]*geom.NodeContact, len(w.recs))
-		for _, r := range w.recs {
-			w.byNode[r.Node] = r
+	if w.nodes == nil {
+		w.nodes = make([]int32, len(w.recs))
+		for i, r := range w.recs {
+			w.nodes[i] = r.Node
 		}
 	}
-	return w.byNode[n]
+	if i, ok := slices.BinarySearch(w.nodes, n); ok {
+		return w.recs[i]
+	}
+	return nil
 }
 
 // isRegion reports whether element e is a region element.
@@ -119,39 +122,38 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 	}
 	a, b := w.m.Coords[u], w.m.Coords[v]
 	at := func(t float64) r3.Vec { return r3.Add(a, r3.Scale(t, r3.Sub(b, a))) }
-	// Regula falsi with the Illinois rule on the contact margin (not
-	// above 0 in contact), which is close to linear along an edge: the
-	// gap changes smoothly, and the distance beside a straight free edge
-	// grows linearly. Bisection steps take over when it stalls (the
-	// margin jumps where the normals stop being near-parallel).
+	l := r3.Norm(r3.Sub(b, a))
+	// The contact margin (not above 0 in contact) grows about linearly
+	// on the far side of the edge of the contact: the distance beside a
+	// straight free edge, or the gap's growing deviation from contact.
+	// So secant steps from the far end find the edge in two or three
+	// probes; bisection takes over when they do not close in (the margin
+	// jumps where the normals stop being near-parallel). u is in
+	// contact: its margin is taken as 0.
 	lo, hi := 0.0, 1.0
-	rl, _ := w.c.Probe(a, e, w.other)
 	rh, _ := w.c.Probe(b, e, w.other)
-	fl, fh := math.Min(rl.Margin, 0), rh.Margin
-	side := 0
+	fh := rh.Margin
+	t0, f0 := -1.0, 0.0 // a second point beyond the edge, for the secant
 	for range w.bisect {
-		t := (lo + hi) / 2
-		if fh > fl && fh < 1 {
-			t = lo + (hi-lo)*(-fl)/(fh-fl)
-			t = min(max(t, lo+(hi-lo)/16), hi-(hi-lo)/16)
-		}
-		r, in := w.c.Probe(at(t), e, w.other)
-		if in {
-			lo, fl = t, math.Min(r.Margin, 0)
-			if side == -1 {
-				fh /= 2
-			}
-			side = -1
-		} else {
-			hi, fh = t, r.Margin
-			if side == 1 {
-				fl /= 2
-			}
-			side = 1
-		}
-		if (hi-lo)*r3.Norm(r3.Sub(b, a)) < crossingTol {
+		if (hi-lo)*l < crossingTol {
 			break
 		}
+		t := (lo + hi) / 2
+		switch {
+		case fh >= 1:
+		case t0 > hi && f0 > fh:
+			t = hi - fh*(t0-hi)/(f0-fh) // secant through two points beyond
+		default:
+			t = hi - fh/l // as if the margin grew one for one
+		}
+		t = min(max(t, lo+(hi-lo)/64), hi-(hi-lo)/64)
+		r, in := w.c.Probe(at(t), e, w.other)
+		if in {
+			lo = t
+			continue
+		}
+		t0, f0 = hi, fh
+		hi, fh = t, r.Margin
 	}
 	p := r3.Add(a, r3.Scale(lo, r3.Sub(b, a))) // the last point found in contact
 	w.cross[key] = p
@@ -193,15 +195,16 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 	// How many elements of the component use each element edge: an edge
 	// used once bounds the overlap (an edge with a node in contact is
 	// shared only with elements of the same component).
-	uses := make(map[vkey]int32, 4*len(comp))
+	edges := make([]uint64, 0, 4*len(comp))
 	for _, e := range comp {
 		nodes := m.ElemNodes(int(e))
 		nc := m.Type(int(e)).Corners()
 		for k := range nc {
 			u, v := nodes[k], nodes[(k+1)%nc]
-			uses[vkey{min(u, v), max(u, v)}]++
+			edges = append(edges, edgeKey(u, v))
 		}
 	}
+	slices.Sort(edges)
 	for _, e := range comp {
 		nodes := m.ElemNodes(int(e))
 		nc := m.Type(int(e)).Corners()
@@ -242,7 +245,7 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 			default:
 				onEdge = a.edge // crossing on edge k to corner k+1
 			}
-			if u, v := nodes[onEdge], nodes[(onEdge+1)%nc]; uses[vkey{min(u, v), max(u, v)}] == 1 {
+			if u, v := nodes[onEdge], nodes[(onEdge+1)%nc]; edgeUses(edges, edgeKey(u, v)) == 1 {
 				segs = append(segs, segment{a.key, b.key, a.p, b.p, e})
 			}
 		}
@@ -277,6 +280,20 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		samples = append(samples, sample{elem: e, pos: cen, area: area, normal: w.c.Normal(e), nodes: in})
 	}
 	return samples, segs
+}
+
+// edgeKey identifies the edge between nodes u and v, in either
+// direction.
+func edgeKey(u, v int32) uint64 { return uint64(uint32(min(u, v)))<<32 | uint64(uint32(max(u, v))) }
+
+// edgeUses counts key in the sorted keys.
+func edgeUses(keys []uint64, key uint64) int {
+	i, _ := slices.BinarySearch(keys, key)
+	n := 0
+	for ; i < len(keys) && keys[i] == key; i++ {
+		n++
+	}
+	return n
 }
 
 // loop is a chain of outline segments.
