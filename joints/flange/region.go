@@ -21,7 +21,7 @@ type pairWork struct {
 	bisect      int                 // bisection steps for crossings
 	facing      []geom.FacingPair   // the pair's facing node pairs
 	outlines    []*outline          // aligned with the flanges returned
-	nodes       []int32 // the nodes of recs, for lookups
+	nodes       []int32             // the nodes of recs, for lookups
 }
 
 // vkey names a vertex of the overlap's outline: a node (b = -1) or the
