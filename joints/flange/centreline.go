@@ -436,7 +436,7 @@ func farthest(d []float64) int32 {
 // each pass moves it to the middles of cross-sections perpendicular to
 // the previous one; the fit stops once no point moves by more than a
 // thousandth of the station spacing.
-const chartIterations = 6
+const chartIterations = 4
 
 // centreline finds the centreline of an overlap from its pieces and
 // outline loops (the first the outer one), with h the typical element

@@ -165,6 +165,7 @@ func FuzzLoadJob(f *testing.F) {
 		f.Add(string(b))
 	}
 	f.Add("version: 1\nmeshes: [a.vtk]\nbuild: {groups: {g: {attach: patch}}, spot_dofs: [rz]}\n")
+	f.Add("version: 1\nmeshes: [a.vtk]\nflanges: {pitch: 30, end_margin: 0, pairs: [[1, 2]]}\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		job, err := ReadJob(strings.NewReader(in), "d/f.yaml")
 		if err != nil {
@@ -180,6 +181,10 @@ func FuzzLoadJob(f *testing.F) {
 		var o joints.BuildOptions
 		if err := job.Build.Apply(&o); err != nil {
 			t.Fatalf("Apply: %v", err)
+		}
+		var fo joints.FlangeOptions
+		if err := job.Flanges.Apply(&fo); err != nil {
+			t.Fatalf("flanges Apply: %v", err)
 		}
 	})
 }
