@@ -17,7 +17,7 @@ import (
 // lists the sheets of the weld's stack ('; '-separated), group is the
 // flange's id.
 func WriteFlangeJointsCSV(w io.Writer, doc *document.FlangesDoc) error {
-	if _, err := fmt.Fprintf(w, "# joinery flanges welds (%s); CAUTION: %s\n", doc.Generator, document.Caution); err != nil {
+	if _, err := fmt.Fprintf(w, "# joinery flanges welds (%s; run %s); CAUTION: %s\n", doc.Generator, doc.RunID, document.Caution); err != nil {
 		return err
 	}
 	cw := csv.NewWriter(w)
@@ -86,7 +86,7 @@ func WriteFlangesVTK(w io.Writer, doc *document.FlangesDoc, node func(id int64) 
 		npts += len(c.pts)
 		nconn += len(c.pts) + 1
 	}
-	title := fmt.Sprintf("joinery flanges (%s); kind 1 centreline, 2 facing pair, 3 weld; %s", doc.Generator, document.ShortCaution)
+	title := fmt.Sprintf("joinery flanges (%s; run %s); kind 1 centreline, 2 facing pair, 3 weld; %s", doc.Generator, doc.RunID, document.ShortCaution)
 	if len(title) > 255 {
 		title = title[:255]
 	}

@@ -58,7 +58,12 @@ type FlangesOutcome struct {
 // report says how build will take them), and write the set into s.Out.
 func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*FlangesOutcome, error) {
 	job.Joints = nil // flanges reads no joint list
-	in, err := Load(ctx, job, env)
+	dir, err := OpenOutput(s.Out)
+	if err != nil {
+		return nil, err
+	}
+	defer dir.Close()
+	in, err := LoadForSet(ctx, job, env)
 	if err != nil {
 		return nil, err
 	}
@@ -130,7 +135,10 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	if err != nil {
 		return nil, UsageError(err)
 	}
-	info := in.RunInfo(env.Generator)
+	info, err := in.RunInfo(env.Generator, res)
+	if err != nil {
+		return nil, err
+	}
 	fl := document.NewFlanges(m, set.Flanges, o, fo, info)
 	rep := document.NewReport(res, info)
 	node := func(id int64) ([3]float64, bool) {
@@ -152,11 +160,11 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	if err != nil {
 		return nil, err
 	}
-	if err := writers.WriteSet(s.Out, rendered); err != nil {
+	if err := dir.Write(writers.Set{Job: "flanges", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
 		return nil, err
 	}
 	return &FlangesOutcome{
-		Outcome: Outcome{Out: s.Out, Files: FlangesFiles(), Report: rep, Result: res, Reached: s.Fail && res.Reached(s.FailOn)},
+		Outcome: Outcome{Out: s.Out, Files: FlangesFiles(), RunID: info.RunID, Report: rep, Result: res, Reached: s.Fail && res.Reached(s.FailOn)},
 		Flanges: fl,
 	}, nil
 }

@@ -63,7 +63,7 @@ type Job struct {
 	Renumber *bool    `yaml:"renumber,omitempty"`
 	Build    JobBuild `yaml:"build,omitempty"`
 	// Flanges holds the settings of joinery flanges (see JobFlanges).
-	Flanges JobFlanges `yaml:"flanges,omitempty"`
+	Flanges JobFlanges `yaml:"flanges,omitempty" json:",omitzero"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
 	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,

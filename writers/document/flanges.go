@@ -26,6 +26,7 @@ type FlangesDoc struct {
 	Schema    string           `json:"schema"`
 	Version   int              `json:"version"`
 	Generator string           `json:"generator"`
+	RunID     string           `json:"run_id"`
 	Caution   string           `json:"caution"`
 	Units     Units            `json:"units"`
 	Inputs    Inputs           `json:"inputs"`
@@ -95,7 +96,7 @@ type FlangeWeldDoc struct {
 // are the options used, defaults resolved.
 func NewFlanges(m *geom.Mesh, fl []joints.Flange, o joints.BuildOptions, fo joints.FlangeOptions, info RunInfo) *FlangesDoc {
 	doc := &FlangesDoc{
-		Schema: FlangesSchema, Version: FlangesVersion, Generator: info.Generator, Caution: Caution,
+		Schema: FlangesSchema, Version: FlangesVersion, Generator: info.Generator, RunID: info.RunID, Caution: Caution,
 		Units:  Units{Length: "mm", Angle: "degree"},
 		Inputs: info.inputs(),
 		Options: FlangeOptionsDoc{
@@ -165,7 +166,7 @@ func EncodeFlanges(w io.Writer, doc *FlangesDoc) error {
 		key string
 		v   any
 	}{
-		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"caution", doc.Caution}, {"units", doc.Units},
+		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"facing_fields", doc.Fields},
 	}
 	ew.printf("{\n")
