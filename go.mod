@@ -3,6 +3,7 @@ module github.com/joinery-cae/joinery
 go 1.26.8
 
 require (
+	github.com/paulmach/orb v0.14.0
 	github.com/santhosh-tekuri/jsonschema/v6 v6.0.2
 	github.com/spf13/cobra v1.10.2
 	github.com/spf13/pflag v1.0.9

@@ -80,6 +80,13 @@ const (
 	CodeFreePart     = "free-part"    // a part or group of parts joined by no connector to the largest group
 	CodeMechanism    = "mechanism"    // parts the connectors do not hold against every rigid-body motion
 	CodeUnrestrained = "unrestrained" // a node a connector creates with degrees of freedom nothing holds
+	// Flange finding and weld placement (joinery flanges); they use the
+	// audit's pitch-short for a pitch below the table's minimum spacing.
+	CodeFlangeNarrow   = "flange-narrow"   // flange narrower than the minimum overlap, or than the edge rule needs
+	CodePitchTooFine   = "pitch-too-fine"  // mesh too coarse for the pitch: welds spaced wider so that they stay apart
+	CodeFlangeShort    = "flange-short"    // flange shorter than its two end margins: no weld placed
+	CodeStationSkipped = "station-skipped" // a station left empty (another weld or a sheet edge too near)
+	CodeNoFlange       = "no-flange"       // a part pair asked for has no flange
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -40,6 +40,10 @@ const JobVersion = 1
 //	  fail_on: error                 # error | warning | info | never
 //	  groups:                        # per joint group overrides
 //	    rear-rail: {attach: node-pair}
+//	flanges:                         # joinery flanges (see JobFlanges)
+//	  pitch: 30                      # mm, or table; none: no welds placed
+//	  end_margin: 0                  # mm, 0 = one nugget diameter
+//	  pairs: [[100, 200]]            # part pairs; none: every pair in contact
 //
 // Relative paths are relative to the job file's directory; LoadJob
 // resolves them, and the outputs record them as written (RecordedPath).
@@ -66,6 +70,8 @@ type Job struct {
 	// (reach, gap allowance) are in mm whatever it is.
 	Units string   `yaml:"units,omitempty"`
 	Build JobBuild `yaml:"build,omitempty"`
+	// Flanges holds the settings of joinery flanges (see JobFlanges).
+	Flanges JobFlanges `yaml:"flanges,omitempty" json:",omitzero"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
 	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
@@ -241,7 +247,7 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 		return out, nil
 	}
 	var hasVersion, hasMeshes bool
-	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "units", "build"}
+	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "units", "build", "flanges"}
 	err = y.Map(root, "job", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "version":
@@ -284,6 +290,8 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 			}
 		case "build":
 			err = readJobBuild(y, v, &job.Build)
+		case "flanges":
+			err = readJobFlanges(y, v, &job.Flanges)
 		}
 		return err
 	})

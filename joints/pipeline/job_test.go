@@ -131,7 +131,7 @@ func TestReadJobErrors(t *testing.T) {
 		{"mesh not list", "version: 1\nmeshes: a.vtk\n", `j.yaml:2: meshes: want a list, got "a.vtk"`},
 		{"empty path", "version: 1\nmeshes: ['']\n", "j.yaml:2: meshes: empty path"},
 		{"unknown key", head + "mesh: [b.vtk]\n", `j.yaml:3: job: unknown key "mesh" (did you mean "meshes"?)`},
-		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, units, build)`},
+		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, units, build, flanges)`},
 		{"duplicate key", head + "out: a\nout: b\n", `j.yaml:4: job: key "out" given twice (lines 3 and 4)`},
 		{"renumber", head + "renumber: yes please\n", `j.yaml:3: renumber: want true or false, got "yes please"`},
 		{"build key", head + "build:\n  atach: patch\n", `j.yaml:4: build: unknown key "atach" (did you mean "attach"?)`},
@@ -170,6 +170,7 @@ func FuzzLoadJob(f *testing.F) {
 	// Hostile inputs of issue 7.
 	f.Add("version: 1\nmeshes: [a.vtk]\nunits: in\nbuild: {reach: 1e300, id_start: 5}\n")
 	f.Add("version: 1\nmeshes: [a.vtk]\nunits: km\n")
+	f.Add("version: 1\nmeshes: [a.vtk]\nflanges: {pitch: 30, end_margin: 0, pairs: [[1, 2]]}\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		job, err := ReadJob(strings.NewReader(in), "d/f.yaml")
 		if err != nil {
@@ -188,6 +189,10 @@ func FuzzLoadJob(f *testing.F) {
 		var o joints.BuildOptions
 		if err := job.Build.Apply(&o); err != nil {
 			t.Fatalf("Apply: %v", err)
+		}
+		var fo joints.FlangeOptions
+		if err := job.Flanges.Apply(&fo); err != nil {
+			t.Fatalf("flanges Apply: %v", err)
 		}
 	})
 }

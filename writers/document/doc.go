@@ -1,8 +1,9 @@
 // Package document defines Joinery's published documents,
-// connectors.json and report.json: their Go types, the JSON Schemas that
-// describe them (embedded in Schemas), how a run's result becomes a
-// document, and how a document is encoded and decoded. Commands that
-// read a set back (check, sweep) use the same types that wrote it.
+// connectors.json, report.json and flanges.json: their Go types, the
+// JSON Schemas that describe them (embedded in Schemas), how a run's
+// result becomes a document, and how a document is encoded and decoded.
+// Commands that read a set back (check, sweep) use the same types that
+// wrote it.
 //
 // Versioning rule, the same for every document: Version changes only
 // when a field changes meaning or goes away. New fields and new finding

@@ -1,0 +1,203 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"runtime"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+var flangesOutputs = []string{"flanges.json", "joints.csv", "flanges.vtk", "report.json", "report.txt"}
+
+// joinery flanges on the bundled example finds the hat beam's two
+// flanges on the floor, the closing plates on the floor, the beam's
+// flange ends on the closing plates (three-sheet stacks with the floor)
+// and the bracket on the beam's web; its welds build clean.
+func TestFlangesExampleGolden(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	code, out, errs := runCLI(t, "flanges", exampleJob, "--pitch", "30", "--out", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	for _, name := range flangesOutputs {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		golden(t, "flanges-"+name, b)
+	}
+	validate(t, "flanges.schema.json", filepath.Join(dir, "flanges.json"))
+	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
+	f, err := os.Open(filepath.Join(dir, "flanges.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	doc, err := document.DecodeFlanges(f, "flanges.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	pairs := map[[2]int64]int{}
+	for _, fl := range doc.Flanges {
+		pairs[fl.Parts]++
+	}
+	want := map[[2]int64]int{{100, 200}: 2, {100, 300}: 2, {200, 300}: 4, {200, 400}: 1}
+	for p, n := range want {
+		if pairs[p] != n {
+			t.Errorf("parts %v: %d flanges, want %d", p, pairs[p], n)
+		}
+	}
+	var again bytes.Buffer
+	if err := document.EncodeFlanges(&again, doc); err != nil {
+		t.Fatal(err)
+	}
+	raw, _ := os.ReadFile(filepath.Join(dir, "flanges.json"))
+	if !bytes.Equal(again.Bytes(), raw) {
+		t.Errorf("flanges.json does not read back to the same bytes")
+	}
+}
+
+// The round trip: flanges --pitch, then build on its joints.csv, gives
+// every weld built on exactly the sheets it lists, with no gap or edge
+// finding.
+func TestFlangesThenBuild(t *testing.T) {
+	skipWithoutExample(t)
+	for _, attach := range []string{"interpolated", "node-pair", "patch"} {
+		t.Run(attach, func(t *testing.T) {
+			dir := t.TempDir()
+			fl, bl := filepath.Join(dir, "flanges"), filepath.Join(dir, "build")
+			if code, _, errs := runCLI(t, "flanges", exampleJob, "--pitch", "30", "--attach", attach, "--out", fl, "--quiet"); code != exitOK {
+				t.Fatalf("flanges: exit %d: %s", code, errs)
+			}
+			list := filepath.Join(fl, "joints.csv")
+			welds, _, err := joints.ReadJoints(list)
+			if err != nil || len(welds) == 0 {
+				t.Fatalf("joints.csv: %d welds, %v", len(welds), err)
+			}
+			code, _, errs := runCLI(t, "build", exampleJob, "--joints", list, "--attach", attach, "--out", bl, "--quiet")
+			if code != exitOK {
+				t.Fatalf("build: exit %d: %s", code, errs)
+			}
+			f, err := os.Open(filepath.Join(bl, "connectors.json"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer f.Close()
+			doc, err := document.DecodeConnectors(f, "connectors.json")
+			if err != nil {
+				t.Fatal(err)
+			}
+			byID := map[string]joints.Joint{}
+			for _, w := range welds {
+				byID[w.ID] = w
+			}
+			for _, c := range doc.Connectors {
+				var stack []int64
+				for _, s := range c.Sheets {
+					stack = append(stack, s.Part)
+				}
+				listed := slices.Clone(byID[c.ID].Parts)
+				slices.Sort(stack)
+				slices.Sort(listed)
+				bad := slices.ContainsFunc(c.Findings, func(code string) bool {
+					return code == joints.CodeGapOpen || code == joints.CodeGapClosed || code == joints.CodeEdgeClose
+				})
+				if c.State == "not-built" || bad || !slices.Equal(stack, listed) {
+					t.Errorf("weld %s: %s on %v (listed %v), findings %v", c.ID, c.State, stack, listed, c.Findings)
+				}
+				if attach != "node-pair" && c.State != "built" {
+					t.Errorf("weld %s: %s, findings %v", c.ID, c.State, c.Findings)
+				}
+			}
+			if len(doc.Connectors) != len(welds) {
+				t.Errorf("%d connectors for %d welds", len(doc.Connectors), len(welds))
+			}
+		})
+	}
+}
+
+func TestFlangesDeterministicAcrossGOMAXPROCS(t *testing.T) {
+	skipWithoutExample(t)
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	var first map[string][]byte
+	for _, procs := range []int{1, 2, 4} {
+		runtime.GOMAXPROCS(procs)
+		dir := t.TempDir()
+		if code, _, errs := runCLI(t, "flanges", exampleJob, "--pitch", "30", "--out", dir, "--quiet"); code != exitOK {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		got := map[string][]byte{}
+		for _, name := range flangesOutputs {
+			b, err := os.ReadFile(filepath.Join(dir, name))
+			if err != nil {
+				t.Fatal(err)
+			}
+			got[name] = b
+		}
+		if first == nil {
+			first = got
+			continue
+		}
+		for name := range got {
+			if !bytes.Equal(got[name], first[name]) {
+				t.Errorf("GOMAXPROCS=%d: %s differs", procs, name)
+			}
+		}
+	}
+}
+
+// Bad flags and inputs: exit 2 with a message, nothing written.
+func TestFlangesBadInput(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	for _, tc := range []struct {
+		args []string
+		msg  string
+	}{
+		{[]string{"--pair", "100"}, "--pair"},
+		{[]string{"--pair", "100,100"}, "itself"},
+		{[]string{"--pair", "100,999"}, "999"},
+		{[]string{"--pitch", "-3"}, "--pitch"},
+		{[]string{"--pitch", "often"}, "--pitch"},
+		{[]string{"--end-margin", "-1"}, "end margin"},
+		{[]string{"--attach", "glue"}, "glue"},
+	} {
+		args := append([]string{"flanges", exampleJob, "--out", out}, tc.args...)
+		code, _, errs := runCLI(t, args...)
+		if code != exitBadInput || !strings.Contains(errs, tc.msg) {
+			t.Errorf("%v: exit %d, message %q; want 2 naming %q", tc.args, code, errs, tc.msg)
+		}
+	}
+	bad := filepath.Join(dir, "bad.jmesh")
+	if err := os.WriteFile(bad, []byte("joinery-mesh 1\nnode 1 0 0 zero\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, errs := runCLI(t, "flanges", "--mesh", bad, "--out", out); code != exitBadInput || !strings.Contains(errs, "bad.jmesh:2") {
+		t.Errorf("bad mesh: exit %d, %q", code, errs)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("output directory written on bad input")
+	}
+}
+
+// A pair asked for that has no flange is reported; --pair limits the
+// search.
+func TestFlangesPairs(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	code, out, errs := runCLI(t, "flanges", exampleJob, "--pair", "200,100", "--pair", "300,400", "--out", dir, "--fail-on", "never")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "flanges     2 of 1 part pairs") || !strings.Contains(out, "no-flange 1") {
+		t.Errorf("summary:\n%s", out)
+	}
+}

@@ -1,0 +1,1032 @@
+package flange
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/planar"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// spine is a polyline along a flange with the frame that unrolls the
+// flange into a chart: s along the polyline, n across it in the sheet's
+// tangent plane. An open spine extends straight past its ends.
+type spine struct {
+	pts    []r3.Vec
+	cum    []float64 // arc length at pts[i]
+	tan    []r3.Vec  // unit tangent of segment i, from pts[i] to pts[i+1] (closed: the last wraps)
+	lat    []r3.Vec  // unit lateral direction of segment i: normal x tangent
+	closed bool
+	length float64
+}
+
+// makeSpine builds a spine through pts with the sheet normals at them
+// (consistently oriented). Points closer than 1e-9 mm to the previous
+// one are dropped. It returns nil for fewer than two distinct points.
+func makeSpine(pts, normals []r3.Vec, closed bool) *spine {
+	sp := &spine{closed: closed}
+	var ns []r3.Vec
+	for i, p := range pts {
+		if len(sp.pts) > 0 && dist(p, sp.pts[len(sp.pts)-1]) < 1e-9 {
+			continue
+		}
+		sp.pts = append(sp.pts, p)
+		ns = append(ns, normals[i])
+	}
+	if closed && len(sp.pts) > 1 && dist(sp.pts[0], sp.pts[len(sp.pts)-1]) < 1e-9 {
+		sp.pts, ns = sp.pts[:len(sp.pts)-1], ns[:len(ns)-1]
+	}
+	if len(sp.pts) < 2 || closed && len(sp.pts) < 3 {
+		return nil
+	}
+	nseg := len(sp.pts) - 1
+	if closed {
+		nseg++
+	}
+	sp.cum = make([]float64, len(sp.pts))
+	for i := range nseg {
+		j := (i + 1) % len(sp.pts)
+		d := r3.Sub(sp.pts[j], sp.pts[i])
+		l := r3.Norm(d)
+		t := r3.Scale(1/l, d)
+		nrm := r3.Add(ns[i], ns[j])
+		lat := r3.Cross(nrm, t)
+		if ll := r3.Norm(lat); ll > 0 {
+			lat = r3.Scale(1/ll, lat)
+		} else {
+			lat = anyPerpendicular(t)
+		}
+		sp.tan = append(sp.tan, t)
+		sp.lat = append(sp.lat, lat)
+		if j > 0 {
+			sp.cum[j] = sp.cum[i] + l
+		}
+		sp.length = sp.cum[i] + l
+	}
+	return sp
+}
+
+// anyPerpendicular returns a unit vector perpendicular to unit t.
+func anyPerpendicular(t r3.Vec) r3.Vec {
+	ref := r3.Vec{X: 1}
+	if math.Abs(t.X) > 0.9 {
+		ref = r3.Vec{Y: 1}
+	}
+	return r3.Unit(r3.Cross(t, ref))
+}
+
+// segLen returns the length of segment i.
+func (sp *spine) segLen(i int) float64 {
+	if i+1 < len(sp.pts) {
+		return sp.cum[i+1] - sp.cum[i]
+	}
+	return sp.length - sp.cum[i]
+}
+
+// locate returns the chart coordinates of p: s along the spine, n across
+// it (positive on the side of lat). Only the segments within window of
+// the hint are searched when window > 0 (a closed spine's s wraps).
+func (sp *spine) locate(p r3.Vec, hint, window float64) (s, n float64) {
+	nseg := len(sp.tan)
+	bestD := math.Inf(1)
+	try := func(i int) {
+		l := sp.segLen(i)
+		t := r3.Dot(r3.Sub(p, sp.pts[i]), sp.tan[i])
+		switch {
+		case t < 0 && (sp.closed || i > 0):
+			t = 0
+		case t > l && (sp.closed || i < nseg-1):
+			t = l
+		}
+		foot := r3.Add(sp.pts[i], r3.Scale(t, sp.tan[i]))
+		if d := r3.Norm2(r3.Sub(p, foot)); d < bestD {
+			bestD = d
+			s = sp.cum[i] + t
+			n = r3.Dot(r3.Sub(p, foot), sp.lat[i])
+		}
+	}
+	if window <= 0 || 2*window >= sp.length {
+		for i := range nseg {
+			try(i)
+		}
+	} else {
+		lo, hi := hint-window, hint+window
+		if sp.closed {
+			for i := range nseg {
+				a := sp.cum[i]
+				b := a + sp.segLen(i)
+				// The segment's range against [lo, hi] modulo the length.
+				for _, shift := range [3]float64{-sp.length, 0, sp.length} {
+					if b+shift >= lo && a+shift <= hi {
+						try(i)
+						break
+					}
+				}
+			}
+		} else {
+			i0, _ := slices.BinarySearch(sp.cum, lo)
+			i0 = max(0, i0-1)
+			for i := i0; i < nseg && sp.cum[i] <= hi; i++ {
+				try(i)
+			}
+			if math.IsInf(bestD, 1) {
+				for i := range nseg {
+					try(i)
+				}
+			}
+		}
+	}
+	if sp.closed {
+		s = math.Mod(s, sp.length)
+		if s < 0 {
+			s += sp.length
+		}
+	}
+	return s, n
+}
+
+// at returns the point at arc length s and the tangent there; an open
+// spine goes on straight past its ends, a closed one wraps.
+func (sp *spine) at(s float64) (r3.Vec, r3.Vec) {
+	if sp.closed {
+		s = math.Mod(s, sp.length)
+		if s < 0 {
+			s += sp.length
+		}
+	}
+	i := sp.segment(s)
+	return r3.Add(sp.pts[i], r3.Scale(s-sp.cum[i], sp.tan[i])), sp.tan[i]
+}
+
+// outline is what the centreline computation returns.
+type outline struct {
+	centre []r3.Vec // the centreline
+	length float64
+	closed bool
+	width  [3]float64 // min, mean (area / length), max
+	// chart is the spine the flange is unrolled along, and shift the
+	// chart coordinate s of the centreline's start (the centreline's own
+	// s is chart s minus shift, wrapped for a closed flange).
+	chart  *spine
+	shift  float64
+	bound  orb.MultiLineString // the outline in centreline coordinates (s, n); closed: three turns
+	poly   orb.Polygon         // the outline of an open flange as a polygon in centreline coordinates
+	binLen float64
+}
+
+// toCentre returns the centreline coordinates of p.
+func (o *outline) toCentre(p r3.Vec) (s, n float64) {
+	s, n = o.chart.locate(p, 0, 0)
+	s -= o.shift
+	if o.closed {
+		s = math.Mod(s, o.length)
+		if s < 0 {
+			s += o.length
+		}
+	}
+	return s, n
+}
+
+// point returns the centreline point at centreline coordinate s.
+func (o *outline) point(s float64) r3.Vec {
+	p, _ := o.chart.at(s + o.shift)
+	return p
+}
+
+// edgeDistance returns the distance in the chart from the centreline
+// point at s to the overlap's outline.
+func (o *outline) edgeDistance(s float64) float64 {
+	return planar.DistanceFrom(o.bound, orb.Point{s, 0})
+}
+
+// inside reports whether the centreline point at s lies in the overlap.
+func (o *outline) inside(s float64) bool {
+	if o.closed || len(o.poly) == 0 || len(o.poly[0]) < 4 {
+		return true
+	}
+	return planar.PolygonContains(o.poly, orb.Point{s, 0})
+}
+
+// widthAt returns the length of the overlap's cross-section at s: the
+// summed lengths of the stretches of the line s = const inside the
+// outline.
+func (o *outline) widthAt(s float64) float64 {
+	var ns []float64
+	for _, ls := range o.bound {
+		for i := 0; i+1 < len(ls); i++ {
+			a, b := ls[i], ls[i+1]
+			if (a[0] <= s) == (b[0] <= s) {
+				continue
+			}
+			t := (s - a[0]) / (b[0] - a[0])
+			ns = append(ns, a[1]+t*(b[1]-a[1]))
+		}
+	}
+	slices.Sort(ns)
+	w := 0.0
+	for i := 0; i+1 < len(ns); i += 2 {
+		w += ns[i+1] - ns[i]
+	}
+	return w
+}
+
+// graph is the adjacency of the pieces of an overlap, in compressed
+// rows, with the length of every link.
+type graph struct {
+	start []int32
+	to    []int32
+	len   []float64
+}
+
+// pieceGraph links samples whose elements share a node in contact;
+// nodeElems returns the elements that use a node.
+func pieceGraph(samples []sample, nodeElems func(n int32) []int32) *graph {
+	at := make(map[int32]int32, len(samples))
+	for i, s := range samples {
+		at[s.elem] = int32(i)
+	}
+	g := &graph{start: make([]int32, 1, len(samples)+1)}
+	var nb []int32
+	for i, s := range samples {
+		nb = nb[:0]
+		for _, n := range s.nodes {
+			for _, e := range nodeElems(n) {
+				if j, ok := at[e]; ok && j != int32(i) && !slices.Contains(nb, j) {
+					nb = append(nb, j)
+				}
+			}
+		}
+		slices.Sort(nb)
+		for _, j := range nb {
+			g.to = append(g.to, j)
+			g.len = append(g.len, dist(s.pos, samples[j].pos))
+		}
+		g.start = append(g.start, int32(len(g.to)))
+	}
+	return g
+}
+
+// dist returns |a - b|.
+func dist(a, b r3.Vec) float64 { return math.Sqrt(r3.Norm2(r3.Sub(a, b))) }
+
+// queued is a piece waiting in a shortest-path search.
+type queued struct {
+	d float64
+	i int32
+}
+
+// pathQueue is a binary min-heap of queued pieces by distance, then
+// index.
+type pathQueue []queued
+
+func (q pathQueue) less(a, b int) bool { return q[a].d < q[b].d || q[a].d == q[b].d && q[a].i < q[b].i }
+
+func (q *pathQueue) push(x queued) {
+	h := append(*q, x)
+	for i := len(h) - 1; i > 0; {
+		p := (i - 1) / 2
+		if !h.less(i, p) {
+			break
+		}
+		h[i], h[p] = h[p], h[i]
+		i = p
+	}
+	*q = h
+}
+
+func (q *pathQueue) pop() queued {
+	h := *q
+	top := h[0]
+	last := len(h) - 1
+	h[0] = h[last]
+	h = h[:last]
+	for i := 0; ; {
+		l := 2*i + 1
+		if l >= len(h) {
+			break
+		}
+		if r := l + 1; r < len(h) && h.less(r, l) {
+			l = r
+		}
+		if !h.less(l, i) {
+			break
+		}
+		h[i], h[l] = h[l], h[i]
+		i = l
+	}
+	*q = h
+	return top
+}
+
+// search runs Dijkstra's shortest paths over g from the pieces with a
+// finite d (d holds their start distances and is filled in), an edge
+// costing its length times cost(a, b) when cost is set; prev, when not
+// nil, receives each piece's predecessor.
+func (g *graph) search(d []float64, prev []int32, cost func(a, b int32) float64) {
+	var q pathQueue
+	for i, v := range d {
+		if !math.IsInf(v, 1) {
+			q.push(queued{v, int32(i)})
+		}
+	}
+	for len(q) > 0 {
+		x := q.pop()
+		if x.d > d[x.i] {
+			continue
+		}
+		for k := g.start[x.i]; k < g.start[x.i+1]; k++ {
+			j := g.to[k]
+			l := g.len[k]
+			if cost != nil {
+				l *= cost(x.i, j)
+			}
+			if nd := x.d + l; nd < d[j] {
+				d[j] = nd
+				if prev != nil {
+					prev[j] = x.i
+				}
+				q.push(queued{nd, j})
+			}
+		}
+	}
+}
+
+// geodesic returns the distances along the piece graph from piece src,
+// and the predecessor of each piece on its shortest path. With ridge
+// set (each piece's distance to the outline), an edge costs its length
+// divided by the square of its ends' mean ridge distance over the
+// largest: paths keep to the middle of the overlap.
+func geodesic(g *graph, ridge []float64, src int32) ([]float64, []int32) {
+	n := len(g.start) - 1
+	d := make([]float64, n)
+	prev := make([]int32, n)
+	for i := range d {
+		d[i] = math.Inf(1)
+		prev[i] = -1
+	}
+	d[src] = 0
+	var cost func(a, b int32) float64
+	if ridge != nil {
+		top := 0.0
+		for _, r := range ridge {
+			top = math.Max(top, r)
+		}
+		if top > 0 {
+			cost = func(a, b int32) float64 {
+				f := (ridge[a]+ridge[b])/(2*top) + 0.05
+				return 1 / (f * f)
+			}
+		}
+	}
+	g.search(d, prev, cost)
+	return d, prev
+}
+
+// boundaryDistance returns each piece's distance to the overlap's
+// outline, measured along the piece graph from the pieces the outline
+// bounds (a multi-source shortest path).
+func boundaryDistance(samples []sample, g *graph, segs []segment) []float64 {
+	at := make(map[int32]int32, len(samples))
+	for i, s := range samples {
+		at[s.elem] = int32(i)
+	}
+	d := make([]float64, len(samples))
+	for i := range d {
+		d[i] = math.Inf(1)
+	}
+	for _, sg := range segs {
+		i, ok := at[sg.elem]
+		if !ok {
+			continue
+		}
+		p := samples[i].pos
+		t := r3.Sub(sg.pb, sg.pa)
+		u := 0.0
+		if l2 := r3.Norm2(t); l2 > 0 {
+			u = min(max(r3.Dot(r3.Sub(p, sg.pa), t)/l2, 0), 1)
+		}
+		if v := dist(p, r3.Add(sg.pa, r3.Scale(u, t))); v < d[i] {
+			d[i] = v
+		}
+	}
+	g.search(d, nil, nil)
+	for i := range d {
+		if math.IsInf(d[i], 1) {
+			d[i] = 0
+		}
+	}
+	return d
+}
+
+// farthest returns the piece farthest from the sources (ties to the lower
+// index), ignoring unreachable ones.
+func farthest(d []float64) int32 {
+	best := int32(0)
+	for i, v := range d {
+		if !math.IsInf(v, 1) && v > d[best] {
+			best = int32(i)
+		}
+	}
+	return best
+}
+
+// chartIterations bounds the number of times the spine is re-fitted:
+// each pass moves it to the middles of cross-sections perpendicular to
+// the previous one; the fit stops once no point moves by more than a
+// thousandth of the station spacing.
+const chartIterations = 4
+
+// centreline finds the centreline of an overlap from its pieces and
+// outline loops (the first the outer one), with h the typical element
+// size. Rings (ring true) get a closed centreline.
+//
+// Open strips start from the shortest path through the pieces between
+// the two pieces farthest apart (a double sweep), which follows a curved
+// strip round its bend where a best-fit line would cut the chord; rings
+// start from their inner loop. The spine is then re-fitted a few times:
+// the pieces are placed in the chart of the current spine (s along, n
+// across), gathered in bins along s, and the new spine runs through the
+// area-weighted centroids of the bins. An open centreline is extended
+// along its end tangents to where it leaves the overlap.
+func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
+	if len(samples) == 0 {
+		return nil
+	}
+	perim := 0.0
+	for _, l := range lps {
+		perim += l.length
+	}
+	wEst := h
+	if perim > 0 {
+		wEst = math.Max(h, 2*area/perim)
+	}
+	binLen := math.Max(1.5*h, wEst/2)
+	window := 2*wEst + 2*binLen
+	hints := make([]float64, len(samples))
+	var sp *spine
+	if ring {
+		inner := lps[1]
+		for _, l := range lps[2:] {
+			if l.length > inner.length {
+				inner = l
+			}
+		}
+		ns := make([]r3.Vec, len(inner.pts))
+		for i := range ns {
+			ns[i] = samples[0].normal
+		}
+		sp = makeSpine(inner.pts, ns, true)
+		window = 0 // no hints yet: search every segment
+	} else {
+		g := pieceGraph(samples, nodeElems)
+		d0, _ := geodesic(g, nil, 0)
+		a := farthest(d0)
+		da, _ := geodesic(g, nil, a)
+		b := farthest(da)
+		// The path from end to end along the ridge of the distance to
+		// the outline: it follows the middle of the strip (and of a
+		// curved one round its bend), leaving the ends by the corner
+		// bisectors.
+		ridge := boundaryDistance(samples, g, segs)
+		_, prev := geodesic(g, ridge, a)
+		var path []int32
+		for i := b; i >= 0; i = prev[i] {
+			path = append(path, i)
+		}
+		slices.Reverse(path)
+		// The path runs from corner to corner: leave out its first and
+		// last stretch of about a width, where it cuts across the strip;
+		// the spine's extensions cover the ends.
+		total := da[b]
+		trim := math.Min(wEst, total/4)
+		var pts, ns []r3.Vec
+		for _, i := range path {
+			if da[i] >= trim && da[i] <= total-trim {
+				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].normal)
+			}
+		}
+		if len(pts) < 2 {
+			pts, ns = pts[:0], ns[:0]
+			for _, i := range path {
+				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].normal)
+			}
+		}
+		pts = smoothPath(pts, math.Max(binLen, 2*wEst))
+		sp = makeSpine(pts, orientAlong(ns), false)
+		for i := range hints {
+			hints[i] = da[i]
+			if math.IsInf(hints[i], 1) {
+				hints[i] = 0
+			}
+		}
+		if sp == nil {
+			sp = fallbackSpine(samples)
+			window = 0
+		}
+	}
+	if sp == nil {
+		return nil
+	}
+	ss := make([]float64, len(samples))
+	nn := make([]float64, len(samples))
+	for range chartIterations {
+		for i := range samples {
+			ss[i], nn[i] = sp.locate(samples[i].pos, hints[i], window)
+		}
+		next, offset, moved := refit(sp, samples, ss, nn, binLen, false)
+		if next == nil {
+			break
+		}
+		for i := range hints {
+			hints[i] = ss[i] - offset
+		}
+		sp = next
+		window = 2*wEst + 2*binLen
+		if moved < 1e-2*binLen {
+			break // converged
+		}
+	}
+	// A last pass with the end stations, now that the spine no longer
+	// slants across the ends.
+	for i := range samples {
+		ss[i], nn[i] = sp.locate(samples[i].pos, hints[i], window)
+	}
+	if next, _, _ := refit(sp, samples, ss, nn, binLen, true); next != nil {
+		sp = next
+	}
+	return canonical(sp, samples, lps, area, binLen)
+}
+
+// smoothPath returns the points of a polyline averaged over a window of
+// length span along it, at the same number of points: the path through
+// piece centroids zigzags by about half an element, which would tilt a
+// chart's cross-sections.
+func smoothPath(pts []r3.Vec, span float64) []r3.Vec {
+	cum := make([]float64, len(pts))
+	for i := 1; i < len(pts); i++ {
+		cum[i] = cum[i-1] + dist(pts[i], pts[i-1])
+	}
+	out := make([]r3.Vec, len(pts))
+	lo := 0
+	for i := range pts {
+		for cum[lo] < cum[i]-span/2 {
+			lo++
+		}
+		var sum r3.Vec
+		n := 0
+		for j := lo; j < len(pts) && cum[j] <= cum[i]+span/2; j++ {
+			sum = r3.Add(sum, pts[j])
+			n++
+		}
+		out[i] = r3.Scale(1/float64(n), sum)
+	}
+	return out
+}
+
+// orientAlong flips normals so that each agrees with the previous one.
+func orientAlong(ns []r3.Vec) []r3.Vec {
+	out := slices.Clone(ns)
+	for i := 1; i < len(out); i++ {
+		if r3.Dot(out[i], out[i-1]) < 0 {
+			out[i] = r3.Scale(-1, out[i])
+		}
+	}
+	return out
+}
+
+// fallbackSpine returns a straight spine through the samples along their
+// direction of largest spread, for an overlap too small for a path.
+func fallbackSpine(samples []sample) *spine {
+	var c r3.Vec
+	w := 0.0
+	for _, s := range samples {
+		c = r3.Add(c, r3.Scale(s.area, s.pos))
+		w += s.area
+	}
+	c = r3.Scale(1/w, c)
+	// Power iteration on the covariance.
+	var cov [3][3]float64
+	for _, s := range samples {
+		d := r3.Sub(s.pos, c)
+		v := [3]float64{d.X, d.Y, d.Z}
+		for i := range 3 {
+			for j := range 3 {
+				cov[i][j] += s.area * v[i] * v[j]
+			}
+		}
+	}
+	dir := anyPerpendicular(samples[0].normal)
+	for range 50 {
+		v := [3]float64{dir.X, dir.Y, dir.Z}
+		var o [3]float64
+		for i := range 3 {
+			for j := range 3 {
+				o[i] += cov[i][j] * v[j]
+			}
+		}
+		n := r3.Vec{X: o[0], Y: o[1], Z: o[2]}
+		if r3.Norm(n) == 0 {
+			break
+		}
+		dir = r3.Unit(n)
+	}
+	half := 0.0
+	for _, s := range samples {
+		half = math.Max(half, math.Abs(r3.Dot(r3.Sub(s.pos, c), dir)))
+	}
+	half = math.Max(half, 1e-3)
+	n := samples[0].normal
+	return makeSpine([]r3.Vec{r3.Sub(c, r3.Scale(half, dir)), r3.Add(c, r3.Scale(half, dir))}, []r3.Vec{n, n}, false)
+}
+
+// refit moves the spine across itself, at even stations along it, to
+// the middle of the overlap's cross-sections: the new point at station k
+// is the old spine's point there moved to the area-weighted centroid of
+// the samples near it, less the move along the spine's (smoothly
+// turning) tangent. Each sample is shared between the two stations
+// either side of it with hat weights, whose sum over a row of samples
+// does not depend on the row's offset along s, so that an askew spine
+// still finds the middle. Moving across only keeps the stations evenly
+// spaced; taubin then removes any zigzag. It returns the new spine and
+// the s of the old one where it starts.
+func refit(sp *spine, samples []sample, ss, ns []float64, binLen float64, keepEnds bool) (*spine, float64, float64) {
+	lo, hi := 0.0, sp.length
+	if !sp.closed {
+		lo, hi = math.Inf(1), math.Inf(-1)
+		for _, s := range ss {
+			lo, hi = math.Min(lo, s), math.Max(hi, s)
+		}
+	}
+	nb := int(math.Round((hi - lo) / binLen))
+	if sp.closed {
+		nb = max(nb, 6)
+	} else {
+		nb = max(nb, 2)
+	}
+	bl := (hi - lo) / float64(nb)
+	type bin struct {
+		pos      r3.Vec
+		area     float64
+		normal   r3.Vec
+		nlo, nhi float64 // extent across the spine of the samples nearest the station
+	}
+	bins := make([]bin, nb)
+	for k := range bins {
+		bins[k].nlo, bins[k].nhi = math.Inf(1), math.Inf(-1)
+	}
+	ref := samples[0].normal
+	add := func(k int, w float64, i int) {
+		if w <= 0 {
+			return
+		}
+		b := &bins[k]
+		if w >= 0.5 {
+			b.nlo, b.nhi = math.Min(b.nlo, ns[i]), math.Max(b.nhi, ns[i])
+		}
+		wa := w * samples[i].area
+		b.pos = r3.Add(b.pos, r3.Scale(wa, samples[i].pos))
+		b.area += wa
+		nv := samples[i].normal
+		if r3.Dot(nv, ref) < 0 {
+			nv = r3.Scale(-1, nv)
+		}
+		b.normal = r3.Add(b.normal, r3.Scale(wa, nv))
+	}
+	for i := range samples {
+		x := 0.0
+		if bl > 0 {
+			x = (ss[i]-lo)/bl - 0.5 // in station units
+		}
+		k := int(math.Floor(x))
+		f := x - float64(k)
+		switch {
+		case sp.closed:
+			add(((k%nb)+nb)%nb, 1-f, i)
+			add((((k+1)%nb)+nb)%nb, f, i)
+		case k < 0:
+			add(0, 1, i)
+		case k >= nb-1:
+			add(nb-1, 1, i)
+		default:
+			add(k, 1-f, i)
+			add(k+1, f, i)
+		}
+	}
+	var pts, nrm []r3.Vec
+	moved := 0.0
+	for k, b := range bins {
+		if b.area <= 0 {
+			continue
+		}
+		if !keepEnds && !sp.closed && nb >= 4 && (k == 0 || k == nb-1) {
+			// An end station sees the overlap on one side only, cut by
+			// the end at the old spine's slant: leave it out, the
+			// spine's straight extension covers the end.
+			continue
+		}
+		st := lo + (float64(k)+0.5)*bl
+		p, t := sp.at(st)
+		lat := sp.lat[sp.segment(st)]
+		nv := r3.Cross(t, lat)
+		// Across: to the middle of the samples' extent, which an arc
+		// (whose outer side has more area) does not pull outwards as
+		// the centroid would; along the normal: to the mean.
+		d := r3.Sub(r3.Scale(1/b.area, b.pos), p)
+		across := r3.Dot(d, lat)
+		if b.nhi >= b.nlo {
+			across = (b.nlo + b.nhi) / 2
+		}
+		mv := r3.Add(r3.Scale(across, lat), r3.Scale(r3.Dot(d, nv), nv))
+		moved = math.Max(moved, r3.Norm(mv))
+		q := r3.Add(p, mv)
+		pts = append(pts, q)
+		nrm = append(nrm, r3.Unit(b.normal))
+	}
+	next := makeSpine(taubin(pts, sp.closed), orientAlong(nrm), sp.closed)
+	return next, lo + bl/2, moved
+}
+
+// taubin smooths a polyline by one step of G. Taubin's lambda|mu filter
+// (A signal processing approach to fair surface design, SIGGRAPH 1995):
+// p += lambda L(p), then p += mu L(p), L the umbrella operator (the mean
+// of the two neighbours less the point), lambda = 1/2, mu = -0.53. With
+// lambda 1/2 the station-to-station zigzag (the mode a kinked spine
+// feeds, as the pieces beyond a kink's convex side all fall on its
+// vertex) is removed at once, while the mu step undoes the shrinking of
+// slow bends to first order: an arc keeps its radius. An open
+// polyline's ends stay.
+func taubin(pts []r3.Vec, closed bool) []r3.Vec {
+	step := func(in []r3.Vec, f float64) []r3.Vec {
+		out := slices.Clone(in)
+		n := len(in)
+		for i := range in {
+			a, c := i-1, i+1
+			if closed {
+				a, c = (i+n-1)%n, (i+1)%n
+			} else if a < 0 || c >= n {
+				continue
+			}
+			l := r3.Sub(r3.Scale(0.5, r3.Add(in[a], in[c])), in[i])
+			out[i] = r3.Add(in[i], r3.Scale(f, l))
+		}
+		return out
+	}
+	if len(pts) < 3 {
+		return pts
+	}
+	return step(step(pts, 0.5), -0.53)
+}
+
+// atLat returns the point at arc length s and the lateral direction
+// there.
+func (sp *spine) atLat(s float64) (r3.Vec, r3.Vec) {
+	p, _ := sp.at(s)
+	return p, sp.lat[sp.segment(s)]
+}
+
+// tangentAt returns the unit tangent at arc length s, turning smoothly
+// from segment to segment: it is the segment's own at the segment's
+// middle and the mean of two segments' at the vertex between them.
+func (sp *spine) tangentAt(s float64) r3.Vec {
+	i := sp.segment(s)
+	nseg := len(sp.tan)
+	if sp.closed {
+		s = math.Mod(s, sp.length)
+		if s < 0 {
+			s += sp.length
+		}
+	}
+	l := sp.segLen(i)
+	f := 0.5
+	if l > 0 {
+		f = (s - sp.cum[i]) / l
+	}
+	j, w := -1, 0.0
+	switch {
+	case f < 0.5 && (i > 0 || sp.closed):
+		j, w = (i+nseg-1)%nseg, 0.5-f
+	case f > 0.5 && (i < nseg-1 || sp.closed):
+		j, w = (i+1)%nseg, f-0.5
+	}
+	if j < 0 {
+		return sp.tan[i]
+	}
+	w = min(max(w, 0), 0.5)
+	t := r3.Add(r3.Scale(1-w, sp.tan[i]), r3.Scale(w, sp.tan[j]))
+	if n := r3.Norm(t); n > 0 {
+		return r3.Scale(1/n, t)
+	}
+	return sp.tan[i]
+}
+
+// segment returns the segment holding arc length s.
+func (sp *spine) segment(s float64) int {
+	if sp.closed {
+		s = math.Mod(s, sp.length)
+		if s < 0 {
+			s += sp.length
+		}
+	}
+	i, _ := slices.BinarySearch(sp.cum, s)
+	i = min(max(i-1, 0), len(sp.tan)-1)
+	if !sp.closed && s > sp.cum[len(sp.cum)-1] {
+		i = len(sp.tan) - 1
+	}
+	return i
+}
+
+// finish extends an open spine to the overlap's ends, charts the outline
+// and measures the widths.
+func finish(sp *spine, samples []sample, lps []loop, area, binLen float64) *outline {
+	o := &outline{chart: sp, closed: sp.closed, binLen: binLen}
+	// The outline in chart coordinates.
+	chartLoop := func(l loop) orb.LineString {
+		ls := make(orb.LineString, 0, len(l.pts)+1)
+		for _, p := range l.pts {
+			s, n := sp.locate(p, 0, 0)
+			ls = append(ls, orb.Point{s, n})
+		}
+		if l.closed && len(ls) > 0 {
+			ls = append(ls, ls[0])
+		}
+		return ls
+	}
+	var charted []orb.LineString
+	for _, l := range lps {
+		charted = append(charted, chartLoop(l))
+	}
+	if sp.closed {
+		o.length = sp.length
+		o.centre = slices.Clone(sp.pts)
+		o.shift = 0
+		// Unwrap each loop to a continuous curve, then keep three
+		// turns so that distances near the seam are right.
+		for _, ls := range charted {
+			for i := 1; i < len(ls); i++ {
+				for ls[i][0]-ls[i-1][0] > o.length/2 {
+					ls[i][0] -= o.length
+				}
+				for ls[i][0]-ls[i-1][0] < -o.length/2 {
+					ls[i][0] += o.length
+				}
+			}
+			for _, k := range [3]float64{-1, 0, 1} {
+				c := make(orb.LineString, len(ls))
+				for i, p := range ls {
+					c[i] = orb.Point{p[0] + k*o.length, p[1]}
+				}
+				o.bound = append(o.bound, c)
+			}
+		}
+	} else {
+		// Where the line n = 0 leaves the outline beyond the spine's
+		// ends.
+		last := sp.cum[len(sp.cum)-1]
+		start, end := 0.0, last
+		lower, upper := math.Inf(-1), math.Inf(1)
+		for _, ls := range charted {
+			for i := 0; i+1 < len(ls); i++ {
+				a, b := ls[i], ls[i+1]
+				if (a[1] < 0) == (b[1] < 0) {
+					continue
+				}
+				s := a[0] + (0-a[1])/(b[1]-a[1])*(b[0]-a[0])
+				if s <= start+1e-9 && s > lower {
+					lower = s
+				}
+				if s >= end-1e-9 && s < upper {
+					upper = s
+				}
+			}
+		}
+		if !math.IsInf(lower, -1) {
+			start = lower
+		}
+		if !math.IsInf(upper, 1) {
+			end = upper
+		}
+		o.shift = start
+		o.length = end - start
+		p0, _ := sp.at(start)
+		o.centre = append(o.centre, p0)
+		for i, p := range sp.pts {
+			if sp.cum[i] > start+1e-9 && sp.cum[i] < end-1e-9 {
+				o.centre = append(o.centre, p)
+			}
+		}
+		p1, _ := sp.at(end)
+		o.centre = append(o.centre, p1)
+		for k, ls := range charted {
+			c := make(orb.LineString, len(ls))
+			for i, p := range ls {
+				c[i] = orb.Point{p[0] - start, p[1]}
+			}
+			o.bound = append(o.bound, c)
+			if len(c) >= 4 && c[0] == c[len(c)-1] {
+				if k == 0 {
+					o.poly = append(o.poly, orb.Ring(c))
+				} else if len(o.poly) > 0 {
+					o.poly = append(o.poly, orb.Ring(c))
+				}
+			}
+		}
+	}
+	// Widths across the centreline, in bins away from the ends.
+	o.width = [3]float64{math.Inf(1), 0, 0}
+	nb := max(1, int(math.Round(o.length/binLen)))
+	bl := o.length / float64(nb)
+	for k := range nb {
+		s := (float64(k) + 0.5) * bl
+		if !o.closed && nb > 2 && (k == 0 || k == nb-1) {
+			continue // the ends may be cut at a slant
+		}
+		w := o.widthAt(s)
+		if w <= 0 {
+			continue
+		}
+		o.width[0] = math.Min(o.width[0], w)
+		o.width[2] = math.Max(o.width[2], w)
+	}
+	if math.IsInf(o.width[0], 1) {
+		o.width[0] = 0
+	}
+	if o.length > 0 {
+		o.width[1] = area / o.length
+	}
+	return o
+}
+
+// chartLength returns the length of the centreline measured in the
+// chart (planar length of its chart image), which equals its length in
+// space for a chart unrolled along it.
+func (o *outline) chartLength() float64 {
+	ls := make(orb.LineString, 0, len(o.centre)+1)
+	for _, p := range o.centre {
+		s, n := o.toCentre(p)
+		ls = append(ls, orb.Point{s, n})
+	}
+	if o.closed && len(ls) > 0 {
+		ls = append(ls, orb.Point{o.length, ls[0][1]})
+	}
+	return planar.Length(ls)
+}
+
+// lessVec orders points lexicographically.
+func lessVec(a, b r3.Vec) bool {
+	return cmp.Or(cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y), cmp.Compare(a.Z, b.Z)) < 0
+}
+
+// canonical returns the outline of spine sp traced so that ids do not
+// depend on how the spine was found: an open centreline starts at its
+// lexicographically smaller end; a closed one at its smallest point,
+// going towards the smaller of that point's two neighbours.
+func canonical(sp *spine, samples []sample, lps []loop, area, binLen float64) *outline {
+	if !sp.closed {
+		o := finish(sp, samples, lps, area, binLen)
+		if lessVec(o.centre[len(o.centre)-1], o.centre[0]) {
+			o = finish(reverseSpine(sp), samples, lps, area, binLen)
+		}
+		return o
+	}
+	n := len(sp.pts)
+	pts := slices.Clone(sp.pts)
+	ns := make([]r3.Vec, n)
+	for i := range ns {
+		ns[i] = r3.Cross(sp.tan[i], sp.lat[i])
+	}
+	first := 0
+	for i, p := range pts {
+		if lessVec(p, pts[first]) {
+			first = i
+		}
+	}
+	if lessVec(pts[(first+n-1)%n], pts[(first+1)%n]) {
+		slices.Reverse(pts)
+		slices.Reverse(ns)
+		first = n - 1 - first
+	}
+	pts = append(pts[first:], pts[:first]...)
+	ns = append(ns[first:], ns[:first]...)
+	if c := makeSpine(pts, ns, true); c != nil {
+		sp = c
+	}
+	return finish(sp, samples, lps, area, binLen)
+}
+
+// reverseSpine returns open spine sp run the other way, with the lateral
+// direction flipped with it.
+func reverseSpine(sp *spine) *spine {
+	pts := slices.Clone(sp.pts)
+	slices.Reverse(pts)
+	ns := make([]r3.Vec, len(pts))
+	for i := range ns {
+		seg := min(len(pts)-1-i, len(sp.lat)-1)
+		ns[i] = r3.Cross(sp.tan[seg], sp.lat[seg]) // the sheet normal
+	}
+	if r := makeSpine(pts, ns, false); r != nil {
+		return r
+	}
+	return sp
+}

@@ -1,0 +1,394 @@
+package flange
+
+import (
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// pairWork holds the contact of one pair of parts, traced on the host's
+// mesh.
+type pairWork struct {
+	c           *geom.Contacts
+	m           *geom.Mesh
+	host, other int32               // part indices
+	recs        []*geom.NodeContact // the host's nodes in contact, by node
+	elems       []int32             // region elements: host elements paired with other that use a node in contact
+	cross       map[vkey]r3.Vec     // crossing points of the overlap's edge on element edges
+	bisect      int                 // bisection steps for crossings
+	facing      []geom.FacingPair   // the pair's facing node pairs
+	outlines    []*outline          // aligned with the flanges returned
+	nodes       []int32             // the nodes of recs, for lookups
+}
+
+// vkey names a vertex of the overlap's outline: a node (b = -1) or the
+// crossing point on the element edge between nodes a < b.
+type vkey struct{ a, b int32 }
+
+// rec returns the host's record of node n, nil when n is not in contact.
+func (w *pairWork) rec(n int32) *geom.NodeContact {
+	if w.nodes == nil {
+		w.nodes = make([]int32, len(w.recs))
+		for i, r := range w.recs {
+			w.nodes[i] = r.Node
+		}
+	}
+	if i, ok := slices.BinarySearch(w.nodes, n); ok {
+		return w.recs[i]
+	}
+	return nil
+}
+
+// isRegion reports whether element e is a region element.
+func (w *pairWork) isRegion(e int32) bool {
+	_, ok := slices.BinarySearch(w.elems, e)
+	return ok
+}
+
+// collectElems fills w.elems.
+func (w *pairWork) collectElems() {
+	var es []int32
+	for _, r := range w.recs {
+		for _, e := range w.c.NodeElems(r.Node) {
+			if w.m.ElemPart[e] == w.host && len(w.c.PartnersIn(e, w.other)) > 0 {
+				es = append(es, e)
+			}
+		}
+	}
+	slices.Sort(es)
+	w.elems = slices.Compact(es)
+}
+
+// components splits the region elements into connected overlaps:
+// elements that share a node in contact belong together. Components come
+// in order of their smallest element.
+func (w *pairWork) components() [][]int32 {
+	parent := make([]int32, len(w.elems))
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	find := func(i int32) int32 {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	for _, r := range w.recs {
+		first := int32(-1)
+		for _, e := range w.c.NodeElems(r.Node) {
+			i, ok := slices.BinarySearch(w.elems, e)
+			if !ok {
+				continue
+			}
+			if first < 0 {
+				first = int32(i)
+				continue
+			}
+			a, b := find(first), find(int32(i))
+			if a != b {
+				parent[max(a, b)] = min(a, b)
+			}
+		}
+	}
+	groups := map[int32][]int32{}
+	var roots []int32
+	for i := range w.elems {
+		r := find(int32(i))
+		if _, ok := groups[r]; !ok {
+			roots = append(roots, r)
+		}
+		groups[r] = append(groups[r], w.elems[i])
+	}
+	slices.Sort(roots)
+	out := make([][]int32, len(roots))
+	for k, r := range roots {
+		out[k] = groups[r]
+	}
+	return out
+}
+
+// crossing returns the point on element edge u-w (u in contact, w not)
+// where the overlap ends, found by bisection with the contact test on
+// element e; points are cached per edge, so neighbouring elements share
+// them.
+func (w *pairWork) crossing(e, u, v int32) r3.Vec {
+	key := vkey{min(u, v), max(u, v)}
+	if p, ok := w.cross[key]; ok {
+		return p
+	}
+	a, b := w.m.Coords[u], w.m.Coords[v]
+	at := func(t float64) r3.Vec { return r3.Add(a, r3.Scale(t, r3.Sub(b, a))) }
+	l := r3.Norm(r3.Sub(b, a))
+	// The contact margin (not above 0 in contact) grows about linearly
+	// on the far side of the edge of the contact: the distance beside a
+	// straight free edge, or the gap's growing deviation from contact.
+	// So secant steps from the far end find the edge in two or three
+	// probes; bisection takes over when they do not close in (the margin
+	// jumps where the normals stop being near-parallel). u is in
+	// contact: its margin is taken as 0.
+	lo, hi := 0.0, 1.0
+	rh, _ := w.c.Probe(b, e, w.other)
+	fh := rh.Margin
+	t0, f0 := -1.0, 0.0 // a second point beyond the edge, for the secant
+	for range w.bisect {
+		if (hi-lo)*l < crossingTol {
+			break
+		}
+		t := (lo + hi) / 2
+		switch {
+		case fh >= 1:
+		case t0 > hi && f0 > fh:
+			t = hi - fh*(t0-hi)/(f0-fh) // secant through two points beyond
+		default:
+			t = hi - fh/l // as if the margin grew one for one
+		}
+		t = min(max(t, lo+(hi-lo)/64), hi-(hi-lo)/64)
+		r, in := w.c.Probe(at(t), e, w.other)
+		if in {
+			lo = t
+			continue
+		}
+		t0, f0 = hi, fh
+		hi, fh = t, r.Margin
+	}
+	p := r3.Add(a, r3.Scale(lo, r3.Sub(b, a))) // the last point found in contact
+	w.cross[key] = p
+	return p
+}
+
+// sample is a piece of the overlap: the covered part of one host
+// element.
+type sample struct {
+	elem   int32
+	pos    r3.Vec // centroid, moved to the faying surface
+	area   float64
+	normal r3.Vec // the host element's normal
+	nodes  []int32
+}
+
+// segment is a piece of the overlap's outline.
+type segment struct {
+	a, b   vkey
+	pa, pb r3.Vec
+	elem   int32 // the host element it bounds
+}
+
+// trace clips the elements of one component to the overlap and returns
+// the pieces and the outline segments.
+func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
+	m := w.m
+	var (
+		samples []sample
+		segs    []segment
+	)
+	type vert struct {
+		key  vkey
+		p    r3.Vec
+		edge int // the element edge the vertex lies on (crossings), or -1 for corners
+		k    int // corner index for corners
+	}
+	var verts []vert
+	// How many elements of the component use each element edge: an edge
+	// used once bounds the overlap (an edge with a node in contact is
+	// shared only with elements of the same component).
+	edges := make([]uint64, 0, 4*len(comp))
+	for _, e := range comp {
+		nodes := m.ElemNodes(int(e))
+		nc := m.Type(int(e)).Corners()
+		for k := range nc {
+			u, v := nodes[k], nodes[(k+1)%nc]
+			edges = append(edges, edgeKey(u, v))
+		}
+	}
+	slices.Sort(edges)
+	for _, e := range comp {
+		nodes := m.ElemNodes(int(e))
+		nc := m.Type(int(e)).Corners()
+		var cov [4]bool
+		for k := range nc {
+			cov[k] = w.rec(nodes[k]) != nil
+		}
+		verts = verts[:0]
+		for k := range nc {
+			u, v := nodes[k], nodes[(k+1)%nc]
+			if cov[k] {
+				verts = append(verts, vert{key: vkey{u, -1}, p: m.Coords[u], edge: -1, k: k})
+			}
+			if cov[k] != cov[(k+1)%nc] {
+				in, out := u, v
+				if !cov[k] {
+					in, out = v, u
+				}
+				verts = append(verts, vert{key: vkey{min(u, v), max(u, v)}, p: w.crossing(e, in, out), edge: k, k: -1})
+			}
+		}
+		if len(verts) < 3 {
+			continue
+		}
+		// Outline: cuts through the element, and the element's edges
+		// that no other region element shares.
+		for i := range verts {
+			a, b := verts[i], verts[(i+1)%len(verts)]
+			onEdge := -1
+			switch {
+			case a.edge >= 0 && b.edge >= 0:
+				segs = append(segs, segment{a.key, b.key, a.p, b.p, e}) // a cut
+				continue
+			case a.edge < 0 && b.edge < 0:
+				onEdge = a.k // corner k to corner k+1
+			case a.edge < 0:
+				onEdge = a.k // corner k to the crossing on edge k
+			default:
+				onEdge = a.edge // crossing on edge k to corner k+1
+			}
+			if u, v := nodes[onEdge], nodes[(onEdge+1)%nc]; edgeUses(edges, edgeKey(u, v)) == 1 {
+				segs = append(segs, segment{a.key, b.key, a.p, b.p, e})
+			}
+		}
+		// Area and centroid by a fan from the first vertex.
+		var (
+			area float64
+			cen  r3.Vec
+		)
+		for i := 1; i+1 < len(verts); i++ {
+			t := r3.Cross(r3.Sub(verts[i].p, verts[0].p), r3.Sub(verts[i+1].p, verts[0].p))
+			ta := math.Sqrt(r3.Norm2(t)) / 2
+			area += ta
+			cen = r3.Add(cen, r3.Scale(ta/3, r3.Add(verts[0].p, r3.Add(verts[i].p, verts[i+1].p))))
+		}
+		if !(area > 0) {
+			continue
+		}
+		cen = r3.Scale(1/area, cen)
+		// Move to the faying surface by the mean offset of the element's
+		// nodes in contact.
+		var off r3.Vec
+		cnt := 0
+		var in []int32
+		for k := range nc {
+			if r := w.rec(nodes[k]); r != nil {
+				off = r3.Add(off, r3.Sub(r.Faying, m.Coords[nodes[k]]))
+				cnt++
+				in = append(in, nodes[k])
+			}
+		}
+		cen = r3.Add(cen, r3.Scale(1/float64(cnt), off))
+		samples = append(samples, sample{elem: e, pos: cen, area: area, normal: w.c.Normal(e), nodes: in})
+	}
+	return samples, segs
+}
+
+// edgeKey identifies the edge between nodes u and v, in either
+// direction.
+func edgeKey(u, v int32) uint64 { return uint64(uint32(min(u, v)))<<32 | uint64(uint32(max(u, v))) }
+
+// edgeUses counts key in the sorted keys.
+func edgeUses(keys []uint64, key uint64) int {
+	i, _ := slices.BinarySearch(keys, key)
+	n := 0
+	for ; i < len(keys) && keys[i] == key; i++ {
+		n++
+	}
+	return n
+}
+
+// loop is a chain of outline segments.
+type loop struct {
+	pts    []r3.Vec
+	closed bool
+	length float64
+	diag   float64 // bounding-box diagonal
+}
+
+// loops chains outline segments into loops. Where more than two segments
+// meet at a vertex, the unused one of lowest index is taken. Loops come
+// in order of their first segment; the first one returned is the
+// outline (largest bounding box), the others bound holes.
+func loops(segs []segment) []loop {
+	at := map[vkey][]int32{}
+	for i, s := range segs {
+		at[s.a] = append(at[s.a], int32(i))
+		at[s.b] = append(at[s.b], int32(i))
+	}
+	used := make([]bool, len(segs))
+	next := func(v vkey) int32 {
+		for _, i := range at[v] {
+			if !used[i] {
+				return i
+			}
+		}
+		return -1
+	}
+	var out []loop
+	for first := range segs {
+		if used[first] {
+			continue
+		}
+		used[first] = true
+		start := segs[first].a
+		keys := []vkey{start, segs[first].b}
+		pts := []r3.Vec{segs[first].pa, segs[first].pb}
+		walk := func(v vkey, stop vkey) ([]vkey, []r3.Vec) {
+			var ks []vkey
+			var ps []r3.Vec
+			for v != stop {
+				i := next(v)
+				if i < 0 {
+					break
+				}
+				used[i] = true
+				s := segs[i]
+				nv, np := s.b, s.pb
+				if s.b == v {
+					nv, np = s.a, s.pa
+				}
+				ks = append(ks, nv)
+				ps = append(ps, np)
+				v = nv
+			}
+			return ks, ps
+		}
+		fk, fp := walk(segs[first].b, start)
+		keys = append(keys, fk...)
+		pts = append(pts, fp...)
+		lp := loop{}
+		if len(keys) > 2 && keys[len(keys)-1] == start {
+			lp.closed = true
+			pts = pts[:len(pts)-1]
+		} else {
+			bk, bp := walk(start, vkey{-2, -2})
+			_ = bk
+			slices.Reverse(bp)
+			pts = append(bp, pts...)
+		}
+		lp.pts = pts
+		lo, hi := pts[0], pts[0]
+		for i, p := range pts {
+			lo = r3.Vec{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
+			hi = r3.Vec{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y), Z: math.Max(hi.Z, p.Z)}
+			if i > 0 {
+				lp.length += r3.Norm(r3.Sub(p, pts[i-1]))
+			}
+		}
+		if lp.closed {
+			lp.length += r3.Norm(r3.Sub(pts[0], pts[len(pts)-1]))
+		}
+		lp.diag = r3.Norm(r3.Sub(hi, lo))
+		out = append(out, lp)
+	}
+	// The outline first.
+	best := 0
+	for i := range out {
+		if out[i].diag > out[best].diag {
+			best = i
+		}
+	}
+	if best > 0 {
+		out[0], out[best] = out[best], out[0]
+	}
+	return out
+}
