@@ -66,6 +66,12 @@ const (
 	CodeIDRange        = "id-range"        // new ids above 2,147,483,647
 	CodeIDDigits       = "id-digits"       // new ids have more digits than the mesh's
 	CodeThicknessClash = "thickness-mismatch"
+	// Offset links and reference surfaces (--links offset, joinery offsets).
+	CodeOffsetMismatch   = "offset-mismatch"   // faying points of consecutive sheets apart across the stack
+	CodeNormalsFlipped   = "normals-flipped"   // elements whose normals disagree with their neighbours'
+	CodeSurfaceDiffers   = "surface-differs"   // inferred reference surface differs from the parts table's
+	CodeContactDisagrees = "contact-disagrees" // a contact the inferred surfaces do not explain
+	CodeSurfaceUnsure    = "surface-unsure"    // too little evidence to tell a part's surface
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -182,6 +182,9 @@ type BuildOptions struct {
 	// round number above every node and element id of the mesh (see
 	// DefaultIDStart).
 	IDStart int64
+	// Links is the form of the links that bridge a stack (DefaultLinks,
+	// the zero value).
+	Links LinkForm
 }
 
 // Defaults returns o with zero fields set to their defaults; maxThickness

@@ -28,6 +28,22 @@ func stateCode(state string) int {
 	return 0
 }
 
+// linkKindCode returns the number that stands for a link kind in the
+// cell data "link_kind" (joints.LinkKind.Code), gap for a link without a
+// kind (files written before link kinds existed), 0 for a kind this
+// version does not know.
+func linkKindCode(kind string) int {
+	if kind == "" {
+		return joints.GapLink.Code()
+	}
+	for _, k := range joints.LinkKinds() {
+		if k.String() == kind {
+			return k.Code()
+		}
+	}
+	return 0
+}
+
 // ConnectorsVTKTitle returns the title line of connectors.vtk: the
 // generator, the run id, the state codes and a pointer to the caution,
 // within the 256 characters the legacy format allows (a line of at most
@@ -48,7 +64,9 @@ func ConnectorsVTKTitle(generator, runID string) string {
 // was not built. Cell data: "state" (1 built, 2 flagged, 3 not-built),
 // "sheets" (stack size), "connector" (index into connectors.json's
 // connectors array) and "gap_offset" (the link's mid_gap minus its
-// contact_gap, mm; 0 on vertices). Output is deterministic.
+// contact_gap, mm; 0 on vertices), and, when some link is not a gap link
+// (--links offset), "link_kind" (1 gap, 2 offset, 3 faying; 0 on
+// vertices). Output is deterministic.
 func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	type cell struct {
 		typ       int
@@ -57,8 +75,10 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 		sheets    int
 		connector int
 		gap       float64
+		kind      int
 	}
 	var cells []cell
+	kinds := false // some link is not a gap link
 	for i, c := range doc.Connectors {
 		st := stateCode(c.State)
 		if len(c.Links) == 0 {
@@ -66,8 +86,10 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 			continue
 		}
 		for _, l := range c.Links {
+			k := linkKindCode(l.Kind)
+			kinds = kinds || k != joints.GapLink.Code()
 			cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{l.Start, l.End}, state: st, sheets: len(c.Sheets),
-				connector: i, gap: clean(l.MidGap - l.ContactGap)})
+				connector: i, gap: clean(l.MidGap - l.ContactGap), kind: k})
 		}
 	}
 	ew := &errWriter{w: w}
@@ -110,6 +132,9 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	ew.printf("SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
 	for _, c := range cells {
 		ew.printf("%s\n", f64(c.gap))
+	}
+	if kinds {
+		ints("link_kind", func(c cell) int { return c.kind })
 	}
 	if ew.err != nil {
 		return fmt.Errorf("writing connectors VTK: %w", ew.err)
