@@ -10,7 +10,7 @@ import (
 // model: they override the same fields of a job file.
 type inputOptions struct {
 	meshes   []string
-	parts    string
+	parts    []string
 	joints   []string
 	renumber bool
 	flags    *pflag.FlagSet
@@ -20,7 +20,7 @@ type inputOptions struct {
 func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	fs.StringArrayVarP(&o.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu or .jmesh); repeat for several files")
-	fs.StringVarP(&o.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
+	fs.StringArrayVarP(&o.parts, "parts", "p", nil, "parts table (.yaml or .csv): thickness, surface, names; given again, a table laid over the first (e.g. the surfaces.yaml of joinery offsets)")
 	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
 }
@@ -30,8 +30,8 @@ func (o *inputOptions) apply(job *pipeline.Job) {
 	if o.flags.Changed("mesh") {
 		job.Meshes = o.meshes
 	}
-	if o.flags.Changed("parts") {
-		job.Parts = o.parts
+	if o.flags.Changed("parts") && len(o.parts) > 0 {
+		job.Parts, job.PartsOverlays = o.parts[0], o.parts[1:]
 	}
 	if o.flags.Changed("joints") {
 		job.Joints = o.joints

@@ -59,7 +59,7 @@ type Job struct {
 	// PartsOverlays are further parts tables laid over Parts in order
 	// (meshio.Model.Overlay): the job's parts list after its first
 	// entry, or --parts given more than once.
-	PartsOverlays []string `yaml:"-"`
+	PartsOverlays []string `yaml:"-" json:"-"`
 	Joints        []string `yaml:"joints,omitempty"`
 	Out           string   `yaml:"out,omitempty"`
 	Renumber      *bool    `yaml:"renumber,omitempty"`

@@ -93,6 +93,9 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 	if err != nil {
 		return nil, err
 	}
+	if err := model.Overlay(job.PartsOverlays, digest); err != nil {
+		return nil, err
+	}
 	// The readers' file buffers, often larger than the model, are garbage
 	// now; collect them before the next steps grow the heap, so that the
 	// process reuses their memory instead of asking the system for more.
