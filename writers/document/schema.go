@@ -3,8 +3,9 @@ package document
 import "embed"
 
 // Schemas holds the JSON Schema (draft 2020-12) files of Joinery's
-// documents: schema/connectors.schema.json, schema/report.schema.json
-// and schema/set.schema.json (the marker of an output set).
+// documents: schema/connectors.schema.json, schema/report.schema.json,
+// schema/surfaces.schema.json and schema/set.schema.json (the marker of
+// an output set).
 //
 //go:embed schema/*.schema.json
 var Schemas embed.FS
