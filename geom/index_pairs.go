@@ -29,6 +29,12 @@ func (x *Index) ElemPairsNear(r float64, group []int32) [][2]int32 {
 		return nil
 	}
 	j := &pairJoin{t: t, group: group, r2: r * r * pruneSlack, label: make([]int32, len(t.boxes))}
+	return j.run()
+}
+
+// run labels the tree, walks it against itself and returns the pairs
+// found, in task order.
+func (j *pairJoin) run() [][2]int32 {
 	j.labels()
 	// Split the walk into tasks at the top of the tree, run them
 	// concurrently and join their answers in task order.
@@ -67,6 +73,10 @@ type pairJoin struct {
 	// label holds, per tree node (indexed like boxes), the one group all
 	// its elements belong to, or -1 when they belong to several.
 	label []int32
+	// leaves makes the walk stop at leaves: it returns pairs of leaf
+	// indices (level-1 nodes) instead of elements, a leaf paired with
+	// itself when it holds several groups.
+	leaves bool
 }
 
 // pairTask is a pair of tree nodes to walk; a == b walks a node against
@@ -105,7 +115,7 @@ func (j *pairJoin) tasks(want int) []pairTask {
 		var split []pairTask
 		grew := false
 		for _, tk := range tasks {
-			if tk.a != tk.b || tk.a.l == 0 {
+			if tk.a != tk.b || tk.a.l == 0 || j.leaves && tk.a.l == 1 {
 				split = append(split, tk)
 				continue
 			}
@@ -149,6 +159,12 @@ func (j *pairJoin) walk(a, b treeRef, dst [][2]int32) [][2]int32 {
 		if a.l == 0 {
 			return dst
 		}
+		if j.leaves && a.l == 1 {
+			if j.label[j.node(a)] < 0 {
+				dst = append(dst, [2]int32{a.i, a.i})
+			}
+			return dst
+		}
 		lo, hi := t.children(int(a.l), int(a.i))
 		base := t.level[a.l-1]
 		for c := lo; c < hi; c++ {
@@ -163,8 +179,10 @@ func (j *pairJoin) walk(a, b treeRef, dst [][2]int32) [][2]int32 {
 		return dst
 	}
 	switch {
+	case a.l == 1 && b.l == 1 && j.leaves:
+		return append(dst, [2]int32{min(a.i, b.i), max(a.i, b.i)})
 	case a.l == 1 && b.l == 1:
-		return j.leaves(int(a.i), int(b.i), dst)
+		return j.leafItems(int(a.i), int(b.i), dst)
 	case a.l == 0 && b.l == 0:
 		ea, eb := t.ids[a.i], t.ids[b.i]
 		if j.group[ea] == j.group[eb] {
@@ -186,9 +204,9 @@ func (j *pairJoin) walk(a, b treeRef, dst [][2]int32) [][2]int32 {
 	return dst
 }
 
-// leaves appends the pairs of items of two leaves (level-1 nodes a and
-// b, a != b).
-func (j *pairJoin) leaves(a, b int, dst [][2]int32) [][2]int32 {
+// leafItems appends the pairs of items of two leaves (level-1 nodes a
+// and b, a != b).
+func (j *pairJoin) leafItems(a, b int, dst [][2]int32) [][2]int32 {
 	t := j.t
 	alo, ahi := t.children(1, a)
 	blo, bhi := t.children(1, b)

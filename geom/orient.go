@@ -99,7 +99,7 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 						e := queue[0]
 						queue = queue[1:]
 						piece = append(piece, e)
-						nc := m.Type(int(e)).Corners()
+						nc := cornerCount(m.ElemStart[e+1] - m.ElemStart[e])
 						for k := 0; k < nc; k++ {
 							f, same, ok := edgeMate(m, adj, int(e), k)
 							if !ok {
@@ -132,9 +132,9 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 // (so that their normals disagree). ok is false for a collapsed edge, a
 // free edge, or an edge that more than two elements of the part share.
 func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, same, ok bool) {
-	nodes := m.ElemNodes(e)
-	nc := m.Type(e).Corners()
-	a, b := nodes[k], nodes[(k+1)%nc]
+	s0 := m.ElemStart[e]
+	nc := cornerCount(m.ElemStart[e+1] - s0)
+	a, b := m.Conn[s0+int32(k)], m.Conn[s0+int32((k+1)%nc)]
 	if a == b {
 		return 0, false, false
 	}
@@ -144,10 +144,11 @@ func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, same, ok bool) {
 		if int(f) == e || m.ElemPart[f] != part {
 			continue
 		}
-		fn := m.ElemNodes(int(f))
-		fc := m.Type(int(f)).Corners()
-		for i := 0; i < fc; i++ {
-			if fn[i] != a {
+		fs := m.ElemStart[f]
+		fc := cornerCount(m.ElemStart[f+1] - fs)
+		fn := m.Conn[fs : fs+int32(fc)]
+		for i, n := range fn {
+			if n != a {
 				continue
 			}
 			switch b {
@@ -162,6 +163,15 @@ func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, same, ok bool) {
 		}
 	}
 	return mate, same, found == 1
+}
+
+// cornerCount returns the corners of an element of n nodes: 3 for
+// triangles (3 or 6 nodes), else 4.
+func cornerCount(n int32) int {
+	if n == 3 || n == 6 {
+		return 3
+	}
+	return 4
 }
 
 // flipPiece marks as flipped the elements of one piece in the orientation

@@ -64,11 +64,32 @@ type Contact struct {
 // contacts clusters the samples into contacts, sorted by A, B, Opposed,
 // Separation. allowance gives the agreement allowance of two thicknesses.
 func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) float64) []Contact {
-	slices.SortFunc(samples, func(x, y sample) int {
-		return cmp.Or(cmp.Compare(m.Parts[x.a].ID, m.Parts[y.a].ID), cmp.Compare(m.Parts[x.b].ID, m.Parts[y.b].ID),
-			cmpBool(x.opposed, y.opposed), cmp.Compare(x.s, y.s), cmpBool(x.site, y.site),
-			cmp.Compare(x.at.X, y.at.X), cmp.Compare(x.at.Y, y.at.Y), cmp.Compare(x.at.Z, y.at.Z))
+	// Sort an order, not the samples themselves (they are large).
+	order := make([]int32, len(samples))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	slices.SortFunc(order, func(i, j int32) int {
+		x, y := &samples[i], &samples[j]
+		switch {
+		case x.ida != y.ida:
+			return cmp.Compare(x.ida, y.ida)
+		case x.idb != y.idb:
+			return cmp.Compare(x.idb, y.idb)
+		case x.opposed != y.opposed:
+			return cmpBool(x.opposed, y.opposed)
+		case x.s != y.s:
+			return cmp.Compare(x.s, y.s)
+		case x.site != y.site:
+			return cmpBool(x.site, y.site)
+		}
+		return cmp.Or(cmp.Compare(x.at.X, y.at.X), cmp.Compare(x.at.Y, y.at.Y), cmp.Compare(x.at.Z, y.at.Z))
 	})
+	sorted := make([]sample, len(samples))
+	for i, k := range order {
+		sorted[i] = samples[k]
+	}
+	samples = sorted
 	var out []Contact
 	for lo := 0; lo < len(samples); {
 		hi := lo + 1

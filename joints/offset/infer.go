@@ -82,7 +82,7 @@ type Result struct {
 // package documentation. o gives the allowance (GapAllowanceFor), the
 // angle limit and, for joint sites, the reach, the lateral factor and the
 // nugget rule; zero values mean the build defaults. x must index every
-// element (geom.NewIndex).
+// element (geom.NewIndex or geom.NewElemIndex).
 func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
 	if err := o.Validate(); err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
@@ -97,14 +97,15 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 	allowance := func(t1, t2 float64) float64 { return Tolerance(&o, t1, t2) }
 
 	prog.Start("orienting normals", 0)
-	or := geom.OrientNormals(m, geom.NodeElements(m))
+	adj := geom.NodeElements(m)
+	or := geom.OrientNormals(m, adj)
 	prog.Done()
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("offset: interrupted: %w", err)
 	}
 	reach := 2*tmax + allowance(tmax, tmax)
 	prog.Start("measuring overlaps", 0)
-	samples := overlapSamples(x, &or, reach, cosTol, allowance)
+	samples := overlapSamples(x, adj, &or, reach, cosTol, allowance)
 	samples = append(samples, siteSamples(x, &or, js, &o, cosTol)...)
 	prog.Done()
 	if err := ctx.Err(); err != nil {

@@ -20,193 +20,82 @@ import (
 // made consistent by the orientation), and whether b's normal points the
 // other way.
 type sample struct {
-	a, b    int32   // part indices, Parts[a].ID < Parts[b].ID
-	s       float64 // mm, along a's normal from a's mesh to b's
-	opposed bool    // b's normal points against a's
-	ta, tb  float64 // thicknesses of the two elements, mm
-	w       float64 // weight: overlap area, mm² (0 for joint sites)
-	site    bool    // measured at a joint site
-	at      r3.Vec  // where: the sampling element's centroid, or the joint point
+	a, b     int32   // part indices, Parts[a].ID < Parts[b].ID
+	ida, idb int64   // their ids
+	s        float64 // mm, along a's normal from a's mesh to b's
+	opposed  bool    // b's normal points against a's
+	ta, tb   float64 // thicknesses of the two elements, mm
+	w        float64 // weight: overlap area, mm² (0 for joint sites)
+	site     bool    // measured at a joint site
+	at       r3.Vec  // where: the sampling element's centroid, or the joint point
 }
 
-// facet is an element seen as a flat polygon: its centroid, its unit
-// normal as made consistent, and the radius of the sphere about the
-// centroid that holds its corners.
-type facet struct {
-	c, n   r3.Vec
-	radius float64
-}
-
-func newFacet(m *geom.Mesh, or *geom.Orientation, e int) facet {
-	f := facet{c: m.Centroid(e), n: r3.Scale(or.Sign(e), m.Normal(e))}
-	for k := range m.Type(e).Corners() {
-		f.radius = math.Max(f.radius, r3.Norm(r3.Sub(m.Corner(e, k), f.c)))
+// overlapSamples measures, for every element that another part faces
+// (geom.Index.FacingElements within reach: its centroid's normal line
+// meets an element of the other part, parallel to it within cosTol), the
+// separation to that part, if it lies within the pair's window (|s| at
+// most t1+t2 plus the allowance). Of the parts facing an element on one
+// side only the nearest counts (a sheet beyond a sheet is not in contact
+// with it); a part coinciding with the element (|s| within 5 per cent
+// of its thickness: meshes drawn on one surface coincide but for
+// rounding) counts as lying on both sides. Each pair of parts is
+// measured from the elements of the part of lower index (in the mesh's
+// part order), each sample weighing its element's area, so that a
+// contact weighs its overlap area. The order depends only on the index.
+func overlapSamples(x *geom.Index, adj geom.Adjacency, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
+	m := x.Mesh()
+	// Each pair of parts is sampled from its part of lower index; the
+	// parts of higher index are looked at only to tell whether they lie
+	// in between (upward).
+	fs := x.FacingElements(adj, m.ElemPart, reach, cosTol, true)
+	// Facings come grouped by element.
+	var out []sample
+	type found struct {
+		part int32
+		s, t float64
+		opp  bool
 	}
-	return f
-}
-
-// inside reports whether point p, a point of element e's plane (through
-// its centroid, square to its mean normal n as the node order gives it),
-// lies within e's polygon, with a margin of tol mm. Warped quads are
-// taken as their mean plane: the error is their warp, negligible for
-// measuring separations of shells.
-func inside(m *geom.Mesh, e int, n, p r3.Vec, tol float64) bool {
-	nc := m.Type(e).Corners()
-	// In-plane test: p lies on the inner side of every edge (the polygon
-	// is taken convex; shell elements are).
-	for k := range nc {
-		a, b := m.Corner(e, k), m.Corner(e, (k+1)%nc)
-		edge := r3.Sub(b, a)
-		l := r3.Norm(edge)
-		if l == 0 {
+	var cur []found
+	flush := func(e int32) {
+		if len(cur) == 0 {
+			return
+		}
+		te := m.Thickness(int(e))
+		coincide := 0.05 * te
+		up, down := -1, -1
+		for i, c := range cur {
+			if c.s >= -coincide && (up < 0 || c.s < cur[up].s || c.s == cur[up].s && c.part < cur[up].part) {
+				up = i
+			}
+			if c.s <= coincide && (down < 0 || c.s > cur[down].s || c.s == cur[down].s && c.part < cur[down].part) {
+				down = i
+			}
+		}
+		at, w := m.Centroid(int(e)), m.Area(int(e))
+		for i, c := range cur {
+			if (i == up || i == down) && c.part > m.ElemPart[e] {
+				out = append(out, newSample(m, m.ElemPart[e], c.part, c.s, c.opp, te, c.t, w, false, at))
+			}
+		}
+		cur = cur[:0]
+	}
+	for i, f := range fs {
+		if i > 0 && fs[i-1].Elem != f.Elem {
+			flush(fs[i-1].Elem)
+		}
+		se, sf := or.Sign(int(f.Elem)), or.Sign(int(f.Other))
+		te, tf := m.Thickness(int(f.Elem)), m.Thickness(int(f.Other))
+		s := se * f.Dist
+		if math.Abs(s) > te+tf+allowance(te, tf) {
 			continue
 		}
-		// Inward normal of the edge within the plane.
-		in := r3.Scale(1/l, r3.Cross(n, edge))
-		if r3.Dot(r3.Sub(p, a), in) < -tol {
-			return false
-		}
+		opp := se*sf*r3.Dot(m.Normal(int(f.Elem)), m.Normal(int(f.Other))) < 0
+		cur = append(cur, found{part: m.ElemPart[f.Other], s: s, t: tf, opp: opp})
 	}
-	return true
-}
-
-// overlapSamples measures, for every element near an element of another
-// part (geom.Index.ElemPairsNear within reach), the separation to each
-// other part that faces it: whose element, parallel to it within cosTol,
-// contains the foot of the element's centroid along its normal within
-// the pair's window (|s| at most t1+t2 plus the allowance). Of the parts
-// facing an element on one side only the nearest counts (a sheet beyond
-// a sheet is not in contact with it); a part coinciding with the element
-// (|s| within coincide) counts as lying on both sides. Samples come in
-// element order, whatever the number of goroutines.
-func overlapSamples(x *geom.Index, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
-	m := x.Mesh()
-	pairs := x.ElemPairsNear(reach, m.ElemPart)
-	// Candidates of each element, both ways (compressed rows).
-	ne := m.NumElems()
-	start := make([]int32, ne+1)
-	for _, p := range pairs {
-		start[p[0]+1]++
-		start[p[1]+1]++
+	if len(fs) > 0 {
+		flush(fs[len(fs)-1].Elem)
 	}
-	for i := 1; i <= ne; i++ {
-		start[i] += start[i-1]
-	}
-	cand := make([]int32, start[ne])
-	fill := make([]int32, ne)
-	for _, p := range pairs {
-		a, b := p[0], p[1]
-		cand[start[a]+fill[a]] = b
-		fill[a]++
-		cand[start[b]+fill[b]] = a
-		fill[b]++
-	}
-	pairs, fill = nil, nil
-	// Facets of the elements that have candidates.
-	slot := make([]int32, ne)
-	var involved []int32
-	for e := range ne {
-		slot[e] = -1
-		if start[e+1] > start[e] {
-			slot[e] = int32(len(involved))
-			involved = append(involved, int32(e))
-		}
-	}
-	facets := make([]facet, len(involved))
-	parallelRange(len(involved), 4096, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			facets[i] = newFacet(m, or, int(involved[i]))
-		}
-	})
-	const block = 4096
-	out := make([][]sample, (len(involved)+block-1)/block)
-	parallelRange(len(out), 1, func(lo, hi int) {
-		type best struct {
-			part  int32
-			elem  int32
-			s, t  float64
-			score float64 // lateral distance of the candidate's centroid from the foot line
-		}
-		var found []best
-		var order []best
-		for bi := lo; bi < hi; bi++ {
-			var res []sample
-			for _, e := range involved[bi*block : min((bi+1)*block, len(involved))] {
-				fe := &facets[slot[e]]
-				if r3.Norm2(fe.n) == 0 {
-					continue
-				}
-				te := m.Thickness(int(e))
-				pe := m.ElemPart[e]
-				order = order[:0]
-				for _, f := range cand[start[e]:start[e+1]] {
-					ff := &facets[slot[f]]
-					cos := r3.Dot(fe.n, ff.n)
-					if math.Abs(cos) < cosTol {
-						continue
-					}
-					tf := m.Thickness(int(f))
-					// Distance along e's normal from e's centroid to f's plane.
-					s := r3.Dot(r3.Sub(ff.c, fe.c), ff.n) / cos
-					if math.Abs(s) > te+tf+allowance(te, tf) {
-						continue
-					}
-					foot := r3.Add(fe.c, r3.Scale(s, fe.n))
-					lat := r3.Norm(r3.Sub(foot, ff.c))
-					if lat > ff.radius {
-						continue
-					}
-					order = append(order, best{part: m.ElemPart[f], elem: f, s: s, t: tf, score: lat})
-				}
-				// Per part, the candidate whose polygon holds the foot,
-				// nearest centroid first.
-				slices.SortFunc(order, func(a, b best) int {
-					return cmp.Or(cmp.Compare(a.part, b.part), cmp.Compare(a.score, b.score), cmp.Compare(a.elem, b.elem))
-				})
-				found = found[:0]
-				for i := 0; i < len(order); i++ {
-					c := order[i]
-					if len(found) > 0 && found[len(found)-1].part == c.part {
-						continue
-					}
-					ff := &facets[slot[c.elem]]
-					if inside(m, int(c.elem), r3.Scale(or.Sign(int(c.elem)), ff.n), r3.Add(fe.c, r3.Scale(c.s, fe.n)), 1e-6*ff.radius) {
-						found = append(found, c)
-					}
-				}
-				if len(found) == 0 {
-					continue
-				}
-				// The nearest part on each side; a coinciding one (meshes
-				// drawn on one surface coincide but for rounding; 5 per
-				// cent of the thickness) blocks both.
-				coincide := 0.05 * te
-				up, down := -1, -1
-				for i, c := range found {
-					if c.s >= -coincide && (up < 0 || c.s < found[up].s || c.s == found[up].s && c.part < found[up].part) {
-						up = i
-					}
-					if c.s <= coincide && (down < 0 || c.s > found[down].s || c.s == found[down].s && c.part < found[down].part) {
-						down = i
-					}
-				}
-				area := m.Area(int(e))
-				for i, c := range found {
-					if i != up && i != down {
-						continue
-					}
-					ff := &facets[slot[c.elem]]
-					res = append(res, newSample(m, pe, c.part, c.s, r3.Dot(fe.n, ff.n) < 0, te, c.t, area/2, false, fe.c))
-				}
-			}
-			out[bi] = res
-		}
-	})
-	var all []sample
-	for _, o := range out {
-		all = append(all, o...)
-	}
-	return all
+	return out
 }
 
 // newSample makes a sample measured from part pa's side (s along pa's
@@ -219,7 +108,7 @@ func newSample(m *geom.Mesh, pa, pb int32, s float64, opposed bool, ta, tb, w fl
 		}
 		pa, pb, ta, tb = pb, pa, tb, ta
 	}
-	return sample{a: pa, b: pb, s: s, opposed: opposed, ta: ta, tb: tb, w: w, site: site, at: at}
+	return sample{a: pa, b: pb, ida: m.Parts[pa].ID, idb: m.Parts[pb].ID, s: s, opposed: opposed, ta: ta, tb: tb, w: w, site: site, at: at}
 }
 
 // siteSamples measures the separation of consecutive sheets at every
@@ -245,8 +134,41 @@ func siteSamples(x *geom.Index, or *geom.Orientation, js []joints.Joint, o *join
 
 func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
 	m := x.Mesh()
-	prs := x.ProjectNear(j.Point, o.Reach, func(e int) bool {
-		return len(j.Parts) == 0 || slices.Contains(j.Parts, m.Parts[m.ElemPart[e]].ID)
+	// The closest point of every part within reach: elements by their
+	// box distance, each projected only while it may beat its part's
+	// best (the box distance bounds the true one from below); ties go to
+	// the lower element index.
+	type near struct {
+		e  int32
+		d2 float64
+	}
+	var buf [256]int32
+	elems := x.ElemsNear(j.Point, o.Reach, buf[:0])
+	list := make([]near, 0, len(elems))
+	for _, e := range elems {
+		if len(j.Parts) == 0 || slices.Contains(j.Parts, m.Parts[m.ElemPart[e]].ID) {
+			list = append(list, near{e, geom.BoxDist2(m.ElemBox(int(e)), j.Point)})
+		}
+	}
+	slices.SortFunc(list, func(a, b near) int { return cmp.Or(cmp.Compare(a.d2, b.d2), cmp.Compare(a.e, b.e)) })
+	var best []geom.Projection
+	for _, c := range list {
+		pi := m.ElemPart[c.e]
+		k := slices.IndexFunc(best, func(pr geom.Projection) bool { return m.ElemPart[pr.Elem] == pi })
+		if k >= 0 && c.d2 > best[k].Dist*best[k].Dist {
+			continue
+		}
+		pr := m.Project(int(c.e), j.Point)
+		switch {
+		case !(pr.Dist <= o.Reach):
+		case k < 0:
+			best = append(best, pr)
+		case pr.Dist < best[k].Dist || pr.Dist == best[k].Dist && pr.Elem < best[k].Elem:
+			best[k] = pr
+		}
+	}
+	slices.SortFunc(best, func(a, b geom.Projection) int {
+		return cmp.Or(cmp.Compare(a.Dist, b.Dist), cmp.Compare(a.Elem, b.Elem))
 	})
 	type sheet struct {
 		part  int32
@@ -255,12 +177,11 @@ func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.
 		along float64
 	}
 	var sheets []sheet
-	for _, pr := range prs { // by distance, then element index: the first per part is its closest
-		p := m.ElemPart[pr.Elem]
-		if slices.ContainsFunc(sheets, func(s sheet) bool { return s.part == p }) || r3.Norm2(pr.Normal) == 0 {
+	for _, pr := range best {
+		if r3.Norm2(pr.Normal) == 0 {
 			continue
 		}
-		sheets = append(sheets, sheet{part: p, q: pr.Point, n: r3.Scale(or.Sign(pr.Elem), pr.Normal), t: m.Thickness(pr.Elem)})
+		sheets = append(sheets, sheet{part: m.ElemPart[pr.Elem], q: pr.Point, n: r3.Scale(or.Sign(pr.Elem), pr.Normal), t: m.Thickness(pr.Elem)})
 	}
 	if len(sheets) < 2 {
 		return nil

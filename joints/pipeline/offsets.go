@@ -51,7 +51,7 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 	}
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
-	x := geom.NewIndex(m)
+	x := geom.NewElemIndex(m)
 	prog.Done()
 	res, err := offset.Infer(ctx, x, in.Joints, s.Options, prog)
 	if err != nil {
