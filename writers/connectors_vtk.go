@@ -100,39 +100,67 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	}
 	ew.printf("# vtk DataFile Version 3.0\n%s\nASCII\nDATASET UNSTRUCTURED_GRID\n", ConnectorsVTKTitle(doc.Generator, doc.RunID))
 	ew.printf("POINTS %d double\n", npts)
-	for _, c := range cells {
-		for _, p := range c.pts {
-			ew.printf("%s %s %s\n", f64(p[0]), f64(p[1]), f64(p[2]))
+	// Numbers are appended to a buffer flushed in pieces: the file has a
+	// line per point and per cell, too many for a formatted print each.
+	var buf []byte
+	flush := func(force bool) {
+		if force || len(buf) > 1<<16 {
+			ew.Write(buf)
+			buf = buf[:0]
 		}
 	}
+	num := func(v float64, sep byte) {
+		buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
+		buf = append(buf, sep)
+	}
+	for _, c := range cells {
+		for _, p := range c.pts {
+			num(p[0], ' ')
+			num(p[1], ' ')
+			num(p[2], '\n')
+			flush(false)
+		}
+	}
+	flush(true)
 	ew.printf("CELLS %d %d\n", len(cells), nconn)
 	k := 0
 	for _, c := range cells {
-		ew.printf("%d", len(c.pts))
+		buf = strconv.AppendInt(buf, int64(len(c.pts)), 10)
 		for range c.pts {
-			ew.printf(" %d", k)
+			buf = append(buf, ' ')
+			buf = strconv.AppendInt(buf, int64(k), 10)
 			k++
 		}
-		ew.printf("\n")
+		buf = append(buf, '\n')
+		flush(false)
 	}
+	flush(true)
 	ew.printf("CELL_TYPES %d\n", len(cells))
 	for _, c := range cells {
-		ew.printf("%d\n", c.typ)
+		buf = strconv.AppendInt(buf, int64(c.typ), 10)
+		buf = append(buf, '\n')
+		flush(false)
 	}
+	flush(true)
 	ew.printf("CELL_DATA %d\n", len(cells))
 	ints := func(name string, get func(c cell) int) {
 		ew.printf("SCALARS %s int 1\nLOOKUP_TABLE default\n", name)
 		for _, c := range cells {
-			ew.printf("%s\n", strconv.Itoa(get(c)))
+			buf = strconv.AppendInt(buf, int64(get(c)), 10)
+			buf = append(buf, '\n')
+			flush(false)
 		}
+		flush(true)
 	}
 	ints("state", func(c cell) int { return c.state })
 	ints("sheets", func(c cell) int { return c.sheets })
 	ints("connector", func(c cell) int { return c.connector })
 	ew.printf("SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
 	for _, c := range cells {
-		ew.printf("%s\n", f64(c.gap))
+		num(c.gap, '\n')
+		flush(false)
 	}
+	flush(true)
 	if kinds {
 		ints("link_kind", func(c cell) int { return c.kind })
 	}
