@@ -90,6 +90,12 @@ directory:
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
   report.json       summary and findings (schema joinery/report, version 2)
   report.txt        the same for a person
+Links bridge each pair of consecutive sheets between their ends (--links gap),
+or (--links offset) by an offset link from each sheet's end along its normal to
+its faying face (t/2 from a mid-surface mesh, 0 or t from an outer-face one, as
+the parts table's surface says) and a zero-length faying joint between the two
+faying points. --parts given again lays a table of surfaces over the parts
+table (the surfaces.yaml of joinery offsets).
 Inputs and settings come from a job file, from flags, or both (flags win).
 Bolts are reported as not yet supported.
 

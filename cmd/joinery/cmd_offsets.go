@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"path/filepath"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -27,7 +28,7 @@ type offsetsOptions struct {
 func (o *offsetsOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddFlags(fs)
-	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./"+pipeline.DefaultOut+")")
+	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: "+pipeline.OffsetsDir+" in the job's out, else ./"+filepath.Join(pipeline.DefaultOut, pipeline.OffsetsDir)+", beside a build's outputs)")
 	fs.Float64Var(&o.reach, "reach", 0, fmt.Sprintf("mm; around joint sites, sheets farther away are ignored (0: %g x the largest thickness)", joints.DefaultReachFactor))
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; a separation agrees with a pair of surfaces within it, and within a quarter of the thinner sheet (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
@@ -100,6 +101,9 @@ func runOffsets(c *cobra.Command, o *offsetsOptions, g *globalOptions, args []st
 	s, err := job.BuildSettings()
 	if err != nil {
 		return err
+	}
+	if !o.flags.Changed("out") {
+		s.Out = filepath.Join(s.Out, pipeline.OffsetsDir)
 	}
 	out, err := pipeline.Offsets(c.Context(), job, s, g.env())
 	if err != nil {

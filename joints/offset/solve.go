@@ -13,8 +13,10 @@ import (
 // allowance of what the two labels predict (Contact.fit). The assignment
 // chosen is the best by, in this order:
 //
-//  1. the total weight of the contacts that agree (a vote: the
-//     assignment that most of the evidence supports);
+//  1. the vote: the sum over the contacts that agree of their weight
+//     times 1 - (residual/allowance)², so that a contact met exactly
+//     counts in full and one met at the edge of its allowance hardly
+//     (the assignment that most of the evidence supports, best);
 //  2. the number of parts on their mid-surface (where the evidence
 //     cannot tell, as for two equal sheets both meshed on their top
 //     faces, which look like two mid-surface meshes, mid is preferred);
@@ -27,7 +29,7 @@ import (
 // contacts) from several starts, all mid and, from the part with the
 // most evidence, each label spread along the strongest contacts, each
 // improved one part at a time until no single change helps; the best
-// end wins. A part's confidence is how much agreeing weight the best
+// end wins. A part's confidence is how much of the vote the best
 // assignment loses, as a share of the part's own evidence, when the part
 // is forced to another label and the others adapt: 1 when every other
 // label costs all its evidence, 0 when another label explains as much.
@@ -47,8 +49,12 @@ type score struct {
 type solver struct {
 	cs     []Contact
 	byPart [][]int32 // contacts of each part index
-	// agree and resid are indexed by contact, then 3*labelA + labelB.
+	// agree, fit and resid are indexed by contact, then 3*labelA +
+	// labelB: whether the contact agrees, its share of the vote (its
+	// weight times 1 - (residual/allowance)², 0 when it disagrees) and
+	// its weighted squared residual.
 	agree [][9]bool
+	fit   [][9]float64
 	resid [][9]float64
 	eps   float64 // weights closer than this are equal
 	// declared is the label the parts table gives each part index.
@@ -57,7 +63,7 @@ type solver struct {
 
 func newSolver(declared []geom.Surface, cs []Contact) *solver {
 	nparts := len(declared)
-	sv := &solver{cs: cs, byPart: make([][]int32, nparts), agree: make([][9]bool, len(cs)), resid: make([][9]float64, len(cs)), declared: make([]int8, nparts)}
+	sv := &solver{cs: cs, byPart: make([][]int32, nparts), agree: make([][9]bool, len(cs)), fit: make([][9]float64, len(cs)), resid: make([][9]float64, len(cs)), declared: make([]int8, nparts)}
 	for p, s := range declared {
 		sv.declared[p] = int8(slices.Index(labels[:], s))
 	}
@@ -70,6 +76,10 @@ func newSolver(declared []geom.Surface, cs []Contact) *solver {
 			for lb, sb := range labels {
 				_, _, r := c.fit(sa, sb)
 				sv.agree[i][3*la+lb] = r <= c.Allowance
+				if r <= c.Allowance {
+					q := r / c.Allowance
+					sv.fit[i][3*la+lb] = c.Weight * (1 - q*q)
+				}
 				sv.resid[i][3*la+lb] = c.Weight * r * r
 			}
 		}
@@ -110,9 +120,7 @@ func (sv *solver) local(p int32, l int8, lab []int8) score {
 		if c.b == p {
 			k = 3*int(lab[c.a]) + int(l)
 		}
-		if sv.agree[ci][k] {
-			s.agree += c.Weight
-		}
+		s.agree += sv.fit[ci][k]
 		s.resid += sv.resid[ci][k]
 	}
 	return s
@@ -134,9 +142,7 @@ func (sv *solver) total(group []int32, lab []int8) score {
 				continue
 			}
 			k := 3*int(lab[c.a]) + int(lab[c.b])
-			if sv.agree[ci][k] {
-				s.agree += c.Weight
-			}
+			s.agree += sv.fit[ci][k]
 			s.resid += sv.resid[ci][k]
 		}
 	}
@@ -238,8 +244,8 @@ func (sv *solver) spread(group []int32, seed int32, l int8, lab []int8, done []b
 					o = c.b
 					k = 3*int(l) + int(lab[c.b])
 				}
-				if done[o] && sv.agree[ci][k] {
-					w += c.Weight
+				if done[o] {
+					w += sv.fit[ci][k]
 				}
 			}
 			if w > bestW+sv.eps {

@@ -12,6 +12,11 @@ import (
 	"github.com/joinery-cae/joinery/writers/document"
 )
 
+// OffsetsDir is where joinery offsets writes within the job's output
+// directory when no directory is named, so that its report does not
+// replace a build's.
+const OffsetsDir = "offsets"
+
 // OffsetsFiles are the names of the files joinery offsets writes, in
 // order.
 func OffsetsFiles() []string {
