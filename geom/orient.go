@@ -77,6 +77,9 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 		fill[p]++
 	}
 	parity := make([]int8, ne) // 0 unvisited, 1 or 2 the two orientations
+	// from is the edge of each element through which the walk reached
+	// it (-1 for a piece's first element): already known to agree.
+	from := make([]int8, ne)
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), max(1, len(m.Parts))) {
@@ -92,7 +95,7 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 						continue
 					}
 					o.Pieces[p]++
-					parity[root] = 1
+					parity[root], from[root] = 1, -1
 					queue = append(queue[:0], root)
 					piece = piece[:0]
 					for len(queue) > 0 {
@@ -101,7 +104,10 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 						piece = append(piece, e)
 						nc := cornerCount(m.ElemStart[e+1] - m.ElemStart[e])
 						for k := 0; k < nc; k++ {
-							f, same, ok := edgeMate(m, adj, int(e), k)
+							if int8(k) == from[e] {
+								continue
+							}
+							f, fk, same, ok := edgeMate(m, adj, int(e), k)
 							if !ok {
 								continue
 							}
@@ -111,7 +117,7 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 							}
 							switch {
 							case parity[f] == 0:
-								parity[f] = want
+								parity[f], from[f] = want, fk
 								queue = append(queue, f)
 							case parity[f] != want && e < f:
 								o.Conflicts[p]++
@@ -128,15 +134,15 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 }
 
 // edgeMate returns the one other element of e's part that shares edge k
-// of e, and whether it runs along the edge in the same direction as e
-// (so that their normals disagree). ok is false for a collapsed edge, a
-// free edge, or an edge that more than two elements of the part share.
-func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, same, ok bool) {
+// of e, which edge of it that is (mk), and whether it runs along the edge in
+// the same direction as e (so that their normals disagree). ok is false for a
+// collapsed edge, a free edge, or an edge more than two elements of the part share.
+func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, mk int8, same, ok bool) {
 	s0 := m.ElemStart[e]
 	nc := cornerCount(m.ElemStart[e+1] - s0)
 	a, b := m.Conn[s0+int32(k)], m.Conn[s0+int32((k+1)%nc)]
 	if a == b {
-		return 0, false, false
+		return 0, 0, false, false
 	}
 	part := m.ElemPart[e]
 	found := 0
@@ -154,15 +160,15 @@ func edgeMate(m *Mesh, adj Adjacency, e, k int) (mate int32, same, ok bool) {
 			switch b {
 			case fn[(i+1)%fc]:
 				found++
-				mate, same = f, true
+				mate, mk, same = f, int8(i), true
 			case fn[(i+fc-1)%fc]:
 				found++
-				mate, same = f, false
+				mate, mk, same = f, int8((i+fc-1)%fc), false
 			}
 			break
 		}
 	}
-	return mate, same, found == 1
+	return mate, mk, same, found == 1
 }
 
 // cornerCount returns the corners of an element of n nodes: 3 for

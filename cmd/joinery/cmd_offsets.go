@@ -29,7 +29,7 @@ func (o *offsetsOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddFlags(fs)
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: "+pipeline.OffsetsDir+" in the job's out, else ./"+filepath.Join(pipeline.DefaultOut, pipeline.OffsetsDir)+", beside a build's outputs)")
-	fs.Float64Var(&o.reach, "reach", 0, fmt.Sprintf("mm; around joint sites, sheets farther away are ignored (0: %g x the largest thickness)", joints.DefaultReachFactor))
+	fs.Float64Var(&o.reach, "reach", 0, "mm; around joint sites, sheets farther away are ignored (0: twice the largest thickness plus its allowance, the window overlaps are sought in)")
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; a separation agrees with a pair of surfaces within it, and within a quarter of the thinner sheet (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
 }

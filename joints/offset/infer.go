@@ -80,8 +80,9 @@ type Result struct {
 // other (every overlap within the window 0 to t1+t2 plus the allowance,
 // and every joint site of js), whatever the parts table declares; see the
 // package documentation. o gives the allowance (GapAllowanceFor), the
-// angle limit and, for joint sites, the reach, the lateral factor and the
-// nugget rule; zero values mean the build defaults. x must index every
+// angle limit and, for joint sites, the reach (default: the window, twice
+// the largest thickness plus its allowance), the lateral factor and the
+// nugget rule; other zero values mean the build defaults. x must index every
 // element (geom.NewIndex or geom.NewElemIndex).
 func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
 	if err := o.Validate(); err != nil {
@@ -89,6 +90,7 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 	}
 	m := x.Mesh()
 	tmax := joints.MaxThickness(m)
+	givenReach := o.Reach > 0
 	o = o.Defaults(tmax)
 	if prog == nil {
 		prog = geom.NoProgress{}
@@ -104,6 +106,12 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 		return nil, fmt.Errorf("offset: interrupted: %w", err)
 	}
 	reach := 2*tmax + allowance(tmax, tmax)
+	// Around joint sites the sheets that matter lie within the window
+	// of each other, and the joint point among them: unless the caller
+	// gives a reach, the window is reach enough.
+	if !givenReach {
+		o.Reach = reach
+	}
 	prog.Start("measuring overlaps", 0)
 	samples := overlapSamples(x, adj, &or, reach, cosTol, allowance)
 	samples = append(samples, siteSamples(x, &or, js, &o, cosTol)...)
