@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"path/filepath"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -28,7 +27,7 @@ type offsetsOptions struct {
 func (o *offsetsOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddFlags(fs)
-	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: "+pipeline.OffsetsDir+" in the job's out, else ./"+filepath.Join(pipeline.DefaultOut, pipeline.OffsetsDir)+", beside a build's outputs)")
+	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out with "+pipeline.OffsetsSuffix+" appended, else ./"+pipeline.DefaultOut+pipeline.OffsetsSuffix+": beside a build's set, not in it)")
 	fs.Float64Var(&o.reach, "reach", 0, "mm; around joint sites, sheets farther away are ignored (0: twice the largest thickness plus its allowance, the window overlaps are sought in)")
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; a separation agrees with a pair of surfaces within it, and within a quarter of the thinner sheet (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
@@ -80,7 +79,7 @@ Inputs and settings come from a job file, from flags, or both (flags win).
 ` + document.Caution + `
 
 ` + exitStatusHelp,
-		Example: `  joinery offsets examples/van-rear-crossmember/job.yaml --out offsets/
+		Example: `  joinery offsets examples/van-rear-crossmember/job.yaml
   joinery offsets --mesh body.vtk --parts parts.yaml --joints welds.csv --out offsets/
   joinery build --mesh body.vtk --parts parts.yaml --parts offsets/surfaces.yaml --joints welds.csv`,
 		Args: cobra.MaximumNArgs(1),
@@ -103,7 +102,7 @@ func runOffsets(c *cobra.Command, o *offsetsOptions, g *globalOptions, args []st
 		return err
 	}
 	if !o.flags.Changed("out") {
-		s.Out = filepath.Join(s.Out, pipeline.OffsetsDir)
+		s.Out = pipeline.OffsetsOut(s.Out)
 	}
 	out, err := pipeline.Offsets(c.Context(), job, s, g.env())
 	if err != nil {

@@ -84,7 +84,7 @@ type JobBuild struct {
 	SpotDOFs     []string            `yaml:"spot_dofs,omitempty"`
 	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
 	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
-	Links        string              `yaml:"links,omitempty"`
+	Links        string              `yaml:"links,omitempty" json:",omitempty"`
 	FailOn       string              `yaml:"fail_on,omitempty"`
 	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
 }

@@ -12,10 +12,15 @@ import (
 	"github.com/joinery-cae/joinery/writers/document"
 )
 
-// OffsetsDir is where joinery offsets writes within the job's output
-// directory when no directory is named, so that its report does not
-// replace a build's.
-const OffsetsDir = "offsets"
+// OffsetsSuffix is appended to the job's output directory to name the
+// directory joinery offsets writes to when none is named: beside a
+// build's set (a set's directory holds that set and nothing else), so
+// that its report does not replace the build's.
+const OffsetsSuffix = "-offsets"
+
+// OffsetsOut returns the default output directory of joinery offsets
+// for the build output directory out: out with OffsetsSuffix appended.
+func OffsetsOut(out string) string { return filepath.Clean(out) + OffsetsSuffix }
 
 // OffsetsFiles are the names of the files joinery offsets writes, in
 // order.
