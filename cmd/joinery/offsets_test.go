@@ -126,6 +126,7 @@ func TestOffsetsPlantedModel(t *testing.T) {
 	if d := fs[joints.CodeSurfaceDiffers]; len(d) != 2 {
 		t.Errorf("surface-differs %+v, want parts 20 and 30", d)
 	}
+	runIDs := map[string]bool{}
 	gaps := func(args ...string) int {
 		bo := filepath.Join(dir, "build")
 		code, _, errs := runCLI(t, append([]string{"build", "--mesh", mesh, "--joints", welds, "--out", bo, "--fail-on", "never"}, args...)...)
@@ -133,6 +134,8 @@ func TestOffsetsPlantedModel(t *testing.T) {
 			t.Fatalf("build %v: exit %d: %s", args, code, errs)
 		}
 		fs := findingCodes(t, filepath.Join(bo, "report.json"))
+		raw, _ := os.ReadFile(filepath.Join(bo, "report.json"))
+		runIDs[document.FindRunID(raw)] = true
 		return len(fs[joints.CodeGapOpen]) + len(fs[joints.CodeGapClosed])
 	}
 	if n := gaps("--parts", parts); n == 0 {
@@ -140,6 +143,9 @@ func TestOffsetsPlantedModel(t *testing.T) {
 	}
 	if n := gaps("--parts", parts, "--parts", filepath.Join(out, "surfaces.yaml")); n != 0 {
 		t.Errorf("build with the surfaces found: %d gap finding(s), want none", n)
+	}
+	if len(runIDs) != 2 {
+		t.Errorf("the table laid over the first does not enter the run id: %v", runIDs)
 	}
 }
 
