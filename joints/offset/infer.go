@@ -134,14 +134,17 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 		c.Side, c.Expected, _ = c.fit(sa, sb)
 		c.Agrees = sv.agree[i][3*int(lab[c.a])+int(lab[c.b])]
 	}
-	stats := m.PartStats()
+	elems := make([]int, len(m.Parts))
+	for _, pi := range m.ElemPart {
+		elems[pi]++
+	}
 	flipped := or.Flipped(m)
 	for pi := range m.Parts {
-		if stats[pi].Elems == 0 {
+		if elems[pi] == 0 {
 			continue
 		}
 		p := &m.Parts[pi]
-		ps := PartSurface{Part: p.ID, Thickness: p.Thickness, Elements: stats[pi].Elems, Declared: p.Surface,
+		ps := PartSurface{Part: p.ID, Thickness: p.Thickness, Elements: elems[pi], Declared: p.Surface,
 			Surface: labels[lab[pi]], Confidence: conf[pi], Conflicts: or.Conflicts[pi], Pieces: or.Pieces[pi]}
 		if !(ps.Thickness > 0) {
 			ps.Thickness = m.Thickness(slices.Index(m.ElemPart, int32(pi)))
