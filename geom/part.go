@@ -1,6 +1,9 @@
 package geom
 
-import "fmt"
+import (
+	"fmt"
+	"math"
+)
 
 // Surface says which surface of a sheet its mesh was drawn on.
 type Surface int8
@@ -62,4 +65,21 @@ type Part struct {
 	// Mesh optionally names the mesh file (by base name) whose elements all
 	// belong to this part, for files that carry no part array.
 	Mesh string
+}
+
+// OffsetTolerance, mm, is how far an offset given in a parts table may
+// differ from the one its surface implies: half a unit in the third
+// decimal, the precision tables in millimetres are written to.
+const OffsetTolerance = 0.0005
+
+// SurfaceForOffset returns the surface whose MidOffset(t) is off, to
+// within OffsetTolerance, and false when none is: Joinery places a sheet's
+// mid-surface on its meshed surface or half its thickness to either side.
+func SurfaceForOffset(off, t float64) (Surface, bool) {
+	for _, s := range []Surface{SurfaceMid, SurfaceTop, SurfaceBottom} {
+		if math.Abs(off-s.MidOffset(t)) <= OffsetTolerance {
+			return s, true
+		}
+	}
+	return SurfaceMid, false
 }

@@ -96,21 +96,46 @@ type End struct {
 	Weights   []float64 // one per node, sum 1
 }
 
-// Link joins the ends of a connector on two consecutive sheets.
+// Link is one element of a connector between two of its nodes: across
+// the gap between two consecutive sheets (GapLink), from a sheet's end
+// to its faying face (OffsetLink), or between the faying points of two
+// consecutive sheets (FayingJoint); see LinkKind.
 type Link struct {
-	ID        int64 // new element id
-	From, To  int   // sheet indices in the stack
+	ID   int64 // new element id
+	Kind LinkKind
+	// From and To are sheet indices in the stack: the two sheets a gap
+	// link or faying joint joins; for an offset link, its own sheet
+	// (From) and the sheet whose faying face it reaches toward (To).
+	From, To  int
 	Start     r3.Vec
 	End       r3.Vec
 	Length    float64 // mm
 	Direction r3.Vec  // unit, Start to End; the zero vector for a zero-length link
-	// Contact is the mid-surface gap of sheets in contact, (t1+t2)/2, mm.
+	// Contact is the mid-surface gap of sheets From and To in contact,
+	// (t1+t2)/2, mm.
 	Contact float64
-	// MidGap is the gap between the two sheets' mid-surfaces along the
-	// stack axis, mm: the figure to compare with Contact. It differs from
+	// MidGap is the gap between the mid-surfaces of sheets From and To
+	// along the stack axis (the later sheet's minus the earlier's), mm:
+	// the figure to compare with Contact. It differs from a gap link's
 	// Length when a part is meshed on an outer surface, when the ends are
 	// nodes (node-pair), or when the sheets are tilted to the axis.
 	MidGap float64
+	// StartAt and EndAt name the nodes at the link's two ends.
+	StartAt, EndAt NodeRef
+	// NewEnd marks a link that brings a new node at End (an offset
+	// link's faying point); NewResult gives it the id NewNode.
+	NewEnd  bool
+	NewNode int64
+	// StartNode and EndNode are the ids of the nodes at the two ends,
+	// set by NewResult: new end nodes, mesh nodes (node-pair) or new
+	// faying nodes.
+	StartNode, EndNode int64
+	// DOFs are the degrees of freedom the link couples: the connector's
+	// for gap links and faying joints, all six for offset links.
+	DOFs DOFs
+	// Mismatch (faying joints) is the distance across the stack axis
+	// between the two faying points, mm; see OffsetMismatchFactor.
+	Mismatch float64
 }
 
 // Connector is what a builder makes of one joint.
@@ -175,10 +200,12 @@ func (r *Result) Reached(level Severity) bool {
 
 // NewResult sorts the connectors by joint id (natural order, see
 // CompareIDs), hands out new node and element ids in that order from
-// o.IDStart (or DefaultIDStart above every id of m), and collects the
-// findings, run findings first, then those about the new ids (see
-// idFindings). It fails when the id start collides with the mesh's ids
-// or the new ids do not fit in an int64.
+// o.IDStart (or DefaultIDStart above every id of m): per connector its
+// new end nodes, then the new nodes its links bring, then its link
+// elements. It sets every link's node ids and collects the findings,
+// run findings first, then those about the new ids (see idFindings).
+// It fails when the id start collides with the mesh's ids or the new
+// ids do not fit in an int64.
 func NewResult(m *geom.Mesh, conns []Connector, run []Finding, o BuildOptions) (*Result, error) {
 	maxID := max(m.MaxNodeID(), m.MaxElemID())
 	if o.IDStart > 0 && o.IDStart <= maxID {
@@ -200,6 +227,11 @@ func NewResult(m *geom.Mesh, conns []Connector, run []Finding, o BuildOptions) (
 				need++
 			}
 		}
+		for _, l := range c.Links {
+			if l.NewEnd {
+				need++
+			}
+		}
 	}
 	if res.IDStart <= 0 || res.IDStart-1 > math.MaxInt64-need {
 		return nil, fmt.Errorf("joints: %d new ids do not fit between the mesh's largest id %d (or the id start) and the largest int64", need, maxID)
@@ -218,8 +250,17 @@ func NewResult(m *geom.Mesh, conns []Connector, run []Finding, o BuildOptions) (
 			}
 		}
 		for k := range c.Links {
+			if c.Links[k].NewEnd {
+				c.Links[k].NewNode = id
+				id++
+			}
+		}
+		for k := range c.Links {
 			c.Links[k].ID = id
 			id++
+		}
+		if err := c.resolveLinkNodes(m); err != nil {
+			return nil, err
 		}
 	}
 	res.NextID = id

@@ -87,6 +87,12 @@ const (
 	CodeFlangeShort    = "flange-short"    // flange shorter than its two end margins: no weld placed
 	CodeStationSkipped = "station-skipped" // a station left empty (another weld or a sheet edge too near)
 	CodeNoFlange       = "no-flange"       // a part pair asked for has no flange
+	// Offset links and reference surfaces (--links offset, joinery offsets).
+	CodeOffsetMismatch   = "offset-mismatch"   // faying points of consecutive sheets apart across the stack
+	CodeNormalsFlipped   = "normals-flipped"   // elements whose normals disagree with their neighbours'
+	CodeSurfaceDiffers   = "surface-differs"   // inferred reference surface differs from the parts table's
+	CodeContactDisagrees = "contact-disagrees" // a contact the inferred surfaces do not explain
+	CodeSurfaceUnsure    = "surface-unsure"    // too little evidence to tell a part's surface
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -184,6 +184,10 @@ type BuildOptions struct {
 	// round number above every node and element id of the mesh (see
 	// DefaultIDStart).
 	IDStart int64
+	// Links is the form of the links that bridge a stack (DefaultLinks,
+	// the zero value; left out of the run id's options when it is, so
+	// that gap-form runs keep the ids they had before link forms).
+	Links LinkForm `json:",omitempty"`
 }
 
 // Defaults returns o with zero fields set to their defaults; maxThickness

@@ -28,6 +28,22 @@ func stateCode(state string) int {
 	return 0
 }
 
+// linkKindCode returns the number that stands for a link kind in the
+// cell data "link_kind" (joints.LinkKind.Code), gap for a link without a
+// kind (files written before link kinds existed), 0 for a kind this
+// version does not know.
+func linkKindCode(kind string) int {
+	if kind == "" {
+		return joints.GapLink.Code()
+	}
+	for _, k := range joints.LinkKinds() {
+		if k.String() == kind {
+			return k.Code()
+		}
+	}
+	return 0
+}
+
 // ConnectorsVTKTitle returns the title line of connectors.vtk: the
 // generator, the run id, the state codes and a pointer to the caution,
 // within the 256 characters the legacy format allows (a line of at most
@@ -48,7 +64,9 @@ func ConnectorsVTKTitle(generator, runID string) string {
 // was not built. Cell data: "state" (1 built, 2 flagged, 3 not-built),
 // "sheets" (stack size), "connector" (index into connectors.json's
 // connectors array) and "gap_offset" (the link's mid_gap minus its
-// contact_gap, mm; 0 on vertices). Output is deterministic.
+// contact_gap, mm; 0 on vertices), and, when some link is not a gap link
+// (--links offset), "link_kind" (1 gap, 2 offset, 3 faying; 0 on
+// vertices). Output is deterministic.
 func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	type cell struct {
 		typ       int
@@ -57,8 +75,10 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 		sheets    int
 		connector int
 		gap       float64
+		kind      int
 	}
 	var cells []cell
+	kinds := false // some link is not a gap link
 	for i, c := range doc.Connectors {
 		st := stateCode(c.State)
 		if len(c.Links) == 0 {
@@ -66,8 +86,10 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 			continue
 		}
 		for _, l := range c.Links {
+			k := linkKindCode(l.Kind)
+			kinds = kinds || k != joints.GapLink.Code()
 			cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{l.Start, l.End}, state: st, sheets: len(c.Sheets),
-				connector: i, gap: clean(l.MidGap - l.ContactGap)})
+				connector: i, gap: clean(l.MidGap - l.ContactGap), kind: k})
 		}
 	}
 	ew := &errWriter{w: w}
@@ -78,38 +100,69 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	}
 	ew.printf("# vtk DataFile Version 3.0\n%s\nASCII\nDATASET UNSTRUCTURED_GRID\n", ConnectorsVTKTitle(doc.Generator, doc.RunID))
 	ew.printf("POINTS %d double\n", npts)
-	for _, c := range cells {
-		for _, p := range c.pts {
-			ew.printf("%s %s %s\n", f64(p[0]), f64(p[1]), f64(p[2]))
+	// Numbers are appended to a buffer flushed in pieces: the file has a
+	// line per point and per cell, too many for a formatted print each.
+	var buf []byte
+	flush := func(force bool) {
+		if force || len(buf) > 1<<16 {
+			ew.Write(buf)
+			buf = buf[:0]
 		}
 	}
+	num := func(v float64, sep byte) {
+		buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
+		buf = append(buf, sep)
+	}
+	for _, c := range cells {
+		for _, p := range c.pts {
+			num(p[0], ' ')
+			num(p[1], ' ')
+			num(p[2], '\n')
+			flush(false)
+		}
+	}
+	flush(true)
 	ew.printf("CELLS %d %d\n", len(cells), nconn)
 	k := 0
 	for _, c := range cells {
-		ew.printf("%d", len(c.pts))
+		buf = strconv.AppendInt(buf, int64(len(c.pts)), 10)
 		for range c.pts {
-			ew.printf(" %d", k)
+			buf = append(buf, ' ')
+			buf = strconv.AppendInt(buf, int64(k), 10)
 			k++
 		}
-		ew.printf("\n")
+		buf = append(buf, '\n')
+		flush(false)
 	}
+	flush(true)
 	ew.printf("CELL_TYPES %d\n", len(cells))
 	for _, c := range cells {
-		ew.printf("%d\n", c.typ)
+		buf = strconv.AppendInt(buf, int64(c.typ), 10)
+		buf = append(buf, '\n')
+		flush(false)
 	}
+	flush(true)
 	ew.printf("CELL_DATA %d\n", len(cells))
 	ints := func(name string, get func(c cell) int) {
 		ew.printf("SCALARS %s int 1\nLOOKUP_TABLE default\n", name)
 		for _, c := range cells {
-			ew.printf("%s\n", strconv.Itoa(get(c)))
+			buf = strconv.AppendInt(buf, int64(get(c)), 10)
+			buf = append(buf, '\n')
+			flush(false)
 		}
+		flush(true)
 	}
 	ints("state", func(c cell) int { return c.state })
 	ints("sheets", func(c cell) int { return c.sheets })
 	ints("connector", func(c cell) int { return c.connector })
 	ew.printf("SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
 	for _, c := range cells {
-		ew.printf("%s\n", f64(c.gap))
+		num(c.gap, '\n')
+		flush(false)
+	}
+	flush(true)
+	if kinds {
+		ints("link_kind", func(c cell) int { return c.kind })
 	}
 	if ew.err != nil {
 		return fmt.Errorf("writing connectors VTK: %w", ew.err)

@@ -19,17 +19,35 @@ var connectorsCSVHeader = []string{
 	"x", "y", "z", "distance", "thickness", "edge_distance", "diameter", "attach", "dofs", "nodes", "weights",
 }
 
+// offsetCSVHeader are the columns connectors.csv adds when some link is
+// an offset link (--links offset): per end, the new faying nodes of the
+// sheet's offset links and their lengths, ';'-separated, toward the
+// previous sheet first.
+var offsetCSVHeader = []string{"faying_nodes", "offsets"}
+
 // WriteConnectorsCSV writes a comment line with the generator, the run
-// id and the caution, the header, then one row per connector end (sheet); connectors
-// not built get one row with the sheet columns empty.
+// id and the caution, the header, then one row per connector end
+// (sheet); connectors not built get one row with the sheet columns
+// empty. With offset links (--links offset) two columns follow (see
+// offsetCSVHeader).
 func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 	// A comment line first: Joinery's own CSV readers skip lines that
 	// start with '#', and the caution travels with the file.
 	if _, err := fmt.Fprintf(w, "# joinery connectors (%s; run %s); CAUTION: %s\n", doc.Generator, doc.RunID, document.Caution); err != nil {
 		return err
 	}
+	offsets := false
+	for _, c := range doc.Connectors {
+		for _, l := range c.Links {
+			offsets = offsets || l.Kind == joints.OffsetLink.String()
+		}
+	}
+	header := connectorsCSVHeader
+	if offsets {
+		header = append(slices.Clone(header), offsetCSVHeader...)
+	}
 	cw := csv.NewWriter(w)
-	if err := cw.Write(connectorsCSVHeader); err != nil {
+	if err := cw.Write(header); err != nil {
 		return err
 	}
 	for _, c := range doc.Connectors {
@@ -42,6 +60,9 @@ func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 		if c.State == joints.NotBuilt.String() || len(c.Sheets) == 0 {
 			row := append(append(slices.Clone(base), make([]string, 10)...), tail...)
 			row = append(row, "", "")
+			if offsets {
+				row = append(row, "", "")
+			}
 			if err := cw.Write(row); err != nil {
 				return err
 			}
@@ -73,6 +94,16 @@ func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 				f64(p[0]), f64(p[1]), f64(p[2]), f64(s.Distance), f64(s.Thickness), ed)
 			row = append(row, tail...)
 			row = append(row, strings.Join(nodes, ";"), strings.Join(weights, ";"))
+			if offsets {
+				var fn, off []string
+				for _, l := range c.Links {
+					if l.Kind == joints.OffsetLink.String() && l.From == i {
+						fn = append(fn, strconv.FormatInt(l.EndNode, 10))
+						off = append(off, f64(l.Length))
+					}
+				}
+				row = append(row, strings.Join(fn, ";"), strings.Join(off, ";"))
+			}
 			if err := cw.Write(row); err != nil {
 				return err
 			}

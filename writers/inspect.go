@@ -63,6 +63,7 @@ func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 			for _, q := range d.Listed {
 				ew.printf("  element %d %s: warp %s°, aspect %s, shortest edge %s mm\n", q.Element, q.Problem, num(q.Warp, 2), num(q.Aspect, 2), num(q.MinEdge, 3))
 			}
+			writeFlipped(ew, d)
 		}
 	}
 	ew.printf("\njoints: %d", in.Joints.Total)
@@ -195,4 +196,22 @@ func thickRange(lo, hi, part float64) string {
 		return thick(lo)
 	}
 	return thick(lo) + "-" + thick(hi)
+}
+
+// writeFlipped writes a part's normals-flipped line, when it has one.
+func writeFlipped(ew *errWriter, d *inspect.PartDeep) {
+	if d.Flipped == 0 && d.Unorientable == 0 {
+		return
+	}
+	ew.printf("  normals-flipped: %d element(s) with normals opposite to their neighbours'", d.Flipped)
+	if len(d.FlipElems) > 0 {
+		ew.printf(": flip %s", ints(d.FlipElems))
+		if d.Flipped > len(d.FlipElems) {
+			ew.printf(" ... (%d more)", d.Flipped-len(d.FlipElems))
+		}
+	}
+	if d.Unorientable > 0 {
+		ew.printf("; %d shared edge(s) disagree whichever way the part is turned", d.Unorientable)
+	}
+	ew.printf("\n")
 }

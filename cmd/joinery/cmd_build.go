@@ -22,6 +22,7 @@ type buildOptions struct {
 	spotDOFs     string
 	idStart      int64
 	nuggetRule   string
+	links        string
 	failOn       string
 	flags        *pflag.FlagSet
 }
@@ -38,6 +39,7 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.spotDOFs, "spot-dofs", joints.DefaultSpotDOFs.String(), "degrees of freedom a spot weld couples (from tx,ty,tz,rx,ry,rz)")
 	fs.Int64Var(&o.idStart, "id-start", 0, "first id for new nodes and elements (0: the round number above every mesh id)")
 	fs.StringVar(&o.nuggetRule, "nugget-rule", joints.DefaultNuggetRule.String(), "default nugget diameter from the governing thickness t: 4sqrt or 5sqrt (d = K*sqrt(t))")
+	fs.StringVar(&o.links, "links", joints.DefaultLinks.String(), fmt.Sprintf("how links bridge a stack: %s (one link between the ends of consecutive sheets, across the gap) or %s (per sheet an offset link to its faying face, joined by zero-length faying joints)", joints.GapLinks, joints.OffsetLinks))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
 }
 
@@ -67,6 +69,9 @@ func (o *buildOptions) apply(job *pipeline.Job) {
 	if set("nugget-rule") {
 		b.NuggetRule = o.nuggetRule
 	}
+	if set("links") {
+		b.Links = o.links
+	}
 	if set("fail-on") {
 		b.FailOn = o.failOn
 	}
@@ -85,6 +90,12 @@ directory:
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
   report.json       summary and findings (schema joinery/report, version 2)
   report.txt        the same for a person
+Links bridge each pair of consecutive sheets between their ends (--links gap),
+or (--links offset) by an offset link from each sheet's end along its normal to
+its faying face (t/2 from a mid-surface mesh, 0 or t from an outer-face one, as
+the parts table's surface says) and a zero-length faying joint between the two
+faying points. --parts given again lays a table of surfaces over the parts
+table (the surfaces.yaml of joinery offsets).
 Inputs and settings come from a job file, from flags, or both (flags win).
 Bolts are reported as not yet supported.
 
@@ -93,7 +104,8 @@ Bolts are reported as not yet supported.
 ` + exitStatusHelp,
 		Example: `  joinery build examples/van-rear-crossmember/job.yaml
   joinery build --mesh body.vtk --parts parts.yaml --joints welds.csv --out build/
-  joinery build job.yaml --attach node-pair --spot-dofs tx,ty,tz --fail-on warning`,
+  joinery build job.yaml --attach node-pair --spot-dofs tx,ty,tz --fail-on warning
+  joinery build job.yaml --links offset --parts parts.yaml --parts offsets/surfaces.yaml`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(c *cobra.Command, args []string) error {
 			return runBuild(c, o, g, args)

@@ -29,10 +29,7 @@ type flangesOptions struct {
 // build without --joints (flanges reads no joint list).
 func (o *flangesOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
-	o.in.flags = fs
-	fs.StringArrayVarP(&o.in.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu or .jmesh); repeat for several files")
-	fs.StringVarP(&o.in.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
-	fs.BoolVar(&o.in.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
+	o.in.AddModelFlags(fs)
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./"+pipeline.DefaultOut+")")
 	fs.StringArrayVar(&o.pairs, "pair", nil, "part pair A,B to find flanges of; repeat for several (default: every pair of parts in contact)")
 	fs.StringVar(&o.pitch, "pitch", "", "place spot welds every MM along each flange, or 'table' for the minimum spacing of the spacing table (default: place none)")

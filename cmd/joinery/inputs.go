@@ -11,7 +11,7 @@ import (
 // model: they override the same fields of a job file.
 type inputOptions struct {
 	meshes   []string
-	parts    string
+	parts    []string
 	joints   []string
 	renumber bool
 	// partArray names the VTK cell array of part ids.
@@ -22,10 +22,16 @@ type inputOptions struct {
 
 // AddFlags registers the input flags.
 func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
+	o.AddModelFlags(fs)
+	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
+}
+
+// AddModelFlags registers the input flags of the model alone, without
+// --joints, for commands that read no joint list.
+func (o *inputOptions) AddModelFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	fs.StringArrayVarP(&o.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu or .jmesh); repeat for several files")
-	fs.StringVarP(&o.parts, "parts", "p", "", "parts table (.yaml or .csv): thickness, surface, names")
-	fs.StringArrayVarP(&o.joints, "joints", "j", nil, "joint list (.csv or .yaml); repeat for several lists")
+	fs.StringArrayVarP(&o.parts, "parts", "p", nil, "parts table (.yaml or .csv): thickness, surface, names; given again, a table laid over the first (e.g. the surfaces.yaml of joinery offsets)")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
 	fs.StringVar(&o.partArray, "part-array", geom.DefaultPartArray, "VTK cell array that holds the part ids (gmsh writes CellEntityIds)")
 	fs.StringVar(&o.units, "units", "mm", "unit of every input length (meshes, parts table, joint lists): mm, m or in; outputs keep it, rules and options work in mm")
@@ -36,8 +42,8 @@ func (o *inputOptions) apply(job *pipeline.Job) {
 	if o.flags.Changed("mesh") {
 		job.Meshes = o.meshes
 	}
-	if o.flags.Changed("parts") {
-		job.Parts = o.parts
+	if o.flags.Changed("parts") && len(o.parts) > 0 {
+		job.Parts, job.PartsOverlays = o.parts[0], o.parts[1:]
 	}
 	if o.flags.Changed("joints") {
 		job.Joints = o.joints

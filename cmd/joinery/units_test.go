@@ -119,22 +119,25 @@ func buildDocs(t *testing.T, args ...string) (*document.ConnectorsDoc, *document
 // rules apply in mm, and the outputs come back in the model's unit.
 func TestUnitsGiveTheSameConnectors(t *testing.T) {
 	skipWithoutExample(t)
-	dirMM, argsMM := scaledExample(t, joints.Millimetre)
-	_ = dirMM
-	refConn, refRep := buildDocs(t, argsMM...)
-	if refConn.Units.Length != "mm" || refRep.Units.Length != "mm" {
-		t.Fatalf("units %q, %q; want mm", refConn.Units.Length, refRep.Units.Length)
-	}
-	for _, u := range []joints.Unit{joints.Metre, joints.Inch} {
-		t.Run(u.String(), func(t *testing.T) {
-			_, args := scaledExample(t, u)
-			conn, rep := buildDocs(t, append(args, "--units", u.String())...)
-			if conn.Units.Length != u.String() || rep.Units.Length != u.String() {
-				t.Errorf("units recorded %q and %q, want %q", conn.Units.Length, rep.Units.Length, u)
-			}
-			compareConnectors(t, refConn, conn, u.MM())
-			compareFindings(t, refRep, rep, u.MM())
-		})
+	_, argsMM := scaledExample(t, joints.Millimetre)
+	// Both link forms: offset links carry lengths of their own (offsets,
+	// faying mismatch).
+	for _, links := range []string{"gap", "offset"} {
+		refConn, refRep := buildDocs(t, append(argsMM, "--links", links)...)
+		if refConn.Units.Length != "mm" || refRep.Units.Length != "mm" {
+			t.Fatalf("units %q, %q; want mm", refConn.Units.Length, refRep.Units.Length)
+		}
+		for _, u := range []joints.Unit{joints.Metre, joints.Inch} {
+			t.Run(links+"/"+u.String(), func(t *testing.T) {
+				_, args := scaledExample(t, u)
+				conn, rep := buildDocs(t, append(args, "--units", u.String(), "--links", links)...)
+				if conn.Units.Length != u.String() || rep.Units.Length != u.String() {
+					t.Errorf("units recorded %q and %q, want %q", conn.Units.Length, rep.Units.Length, u)
+				}
+				compareConnectors(t, refConn, conn, u.MM())
+				compareFindings(t, refRep, rep, u.MM())
+			})
+		}
 	}
 }
 
@@ -181,7 +184,8 @@ func compareConnectors(t *testing.T, ref, got *document.ConnectorsDoc, scale flo
 		for k, rl := range r.Links {
 			gl := g.Links[k]
 			if rl.ID != gl.ID || !vec(rl.Start, gl.Start) || !vec(rl.End, gl.End) || !near(rl.Length, gl.Length, scale) ||
-				!near(rl.ContactGap, gl.ContactGap, scale) || !near(rl.MidGap, gl.MidGap, scale) {
+				!near(rl.ContactGap, gl.ContactGap, scale) || !near(rl.MidGap, gl.MidGap, scale) ||
+				(rl.Mismatch == nil) != (gl.Mismatch == nil) || rl.Mismatch != nil && !near(*rl.Mismatch, *gl.Mismatch, scale) {
 				t.Errorf("connector %s link %d differs:\n got %+v\nwant %+v (mm)", r.ID, k, gl, rl)
 			}
 		}

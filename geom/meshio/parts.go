@@ -16,7 +16,7 @@ import (
 // partKeys returns the keys of a parts table entry, which are also the
 // columns of its CSV form.
 func partKeys() []string {
-	return []string{"id", "name", "thickness", "material", "surface", "mesh"}
+	return []string{"id", "name", "thickness", "material", "surface", "mesh", "offset"}
 }
 
 // ReadParts reads the parts table in the named file: YAML for .yaml and
@@ -86,9 +86,12 @@ func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error)
 	}
 	for _, it := range items {
 		var (
-			p              geom.Part
-			hasID, hasT    bool
-			idLine, meshLn int
+			p               geom.Part
+			hasID, hasT     bool
+			hasSurf, hasOff bool
+			off             float64
+			idLine, meshLn  int
+			offNode         *yaml.Node
 		)
 		err := y.Map(it, "part", keys, func(key string, _, v *yaml.Node) (err error) {
 			switch key {
@@ -106,7 +109,11 @@ func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error)
 				}
 			case "material":
 				p.Material, err = y.String(v, "material")
+			case "offset":
+				hasOff, offNode = true, v
+				off, err = y.Float(v, "offset")
 			case "surface":
+				hasSurf = true
 				var s string
 				if s, err = y.String(v, "surface"); err == nil {
 					p.Surface, err = parseSurface(s)
@@ -128,6 +135,11 @@ func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error)
 		}
 		if !hasT {
 			return nil, y.Errorf(it, "part %d has no thickness", p.ID)
+		}
+		if hasOff {
+			if err := combineOffset(&p, hasSurf, off); err != nil {
+				return nil, y.Errorf(offNode, "%w", err)
+			}
 		}
 		if err := t.add(p, idLine, meshLn); err != nil {
 			return nil, err
@@ -159,6 +171,7 @@ func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) 
 		kMaterial
 		kSurface
 		kMesh
+		kOffset
 	)
 	if err := c.Require(at, keys, kID, kThickness); err != nil {
 		return nil, err
@@ -205,6 +218,15 @@ func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) 
 				return nil, c.Errorf(col, "%w", err)
 			}
 		}
+		if col := at[kOffset]; col >= 0 && rec[col] != "" {
+			off, err := c.Float(rec, col)
+			if err != nil {
+				return nil, err
+			}
+			if err := combineOffset(&p, at[kSurface] >= 0 && rec[at[kSurface]] != "", off); err != nil {
+				return nil, c.Errorf(col, "%w", err)
+			}
+		}
 		if col := at[kMesh]; col >= 0 {
 			p.Mesh = rec[col]
 			if err := checkMeshName(p.Mesh); err != nil {
@@ -243,6 +265,25 @@ func parseSurface(s string) (geom.Surface, error) {
 		return surf, fmt.Errorf("surface: %w", err)
 	}
 	return surf, nil
+}
+
+// combineOffset applies the offset an entry gives to its part: the
+// signed distance, mm, from the meshed surface to the mid-surface along
+// the element normals, which must be that of mid (0), top (-t/2) or
+// bottom (+t/2) to within geom.OffsetTolerance. Alone it sets the
+// surface; given with a surface, the two must agree.
+func combineOffset(p *geom.Part, hasSurface bool, off float64) error {
+	s, ok := geom.SurfaceForOffset(off, p.Thickness)
+	switch {
+	case !ok:
+		return fmt.Errorf("offset: %g mm for thickness %g mm is none of 0 (mid), %g (top) or %g (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
+			off, p.Thickness, geom.SurfaceTop.MidOffset(p.Thickness), geom.SurfaceBottom.MidOffset(p.Thickness))
+	case hasSurface && s != p.Surface:
+		return fmt.Errorf("offset: %g mm is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %g mm)",
+			off, s, p.Surface, p.Surface.MidOffset(p.Thickness), p.Thickness)
+	}
+	p.Surface = s
+	return nil
 }
 
 // checkMeshName accepts "" and file base names.

@@ -109,7 +109,7 @@ func TestReadPartsCSVErrors(t *testing.T) {
 		name, in, want string
 	}{
 		{"unknown column", "id,thicknes\n", `p.csv:1: unknown column "thicknes" (did you mean "thickness"?)`},
-		{"unknown column far", "id,thickness,colour\n", `p.csv:1: unknown column "colour" (known: id, name, thickness, material, surface, mesh)`},
+		{"unknown column far", "id,thickness,colour\n", `p.csv:1: unknown column "colour" (known: id, name, thickness, material, surface, mesh, offset)`},
 		{"no thickness column", "id,name\n", `p.csv:1: missing required column "thickness"`},
 		{"no id column", "# c\nthickness\n", `p.csv:2: missing required column "id"`},
 		{"empty thickness", "id,thickness\n1,\n", "p.csv:2: part 1 has no thickness"},

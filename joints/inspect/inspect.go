@@ -142,6 +142,14 @@ type PartDeep struct {
 	MaxAspect  float64       `json:"worst_aspect"`
 	MinEdge    float64       `json:"shortest_edge_mm"`
 	Listed     []ElemQuality `json:"listed,omitempty"`
+	// Flipped counts the elements whose normals are opposite to their
+	// neighbours' across shared edges (geom.OrientNormals, as joinery
+	// offsets reports them: normals-flipped); FlipElems lists the first
+	// MaxListed of their ids; Unorientable counts the shared edges that
+	// disagree whichever way the part is turned.
+	Flipped      int     `json:"normals_flipped"`
+	FlipElems    []int64 `json:"flip_elements,omitempty"`
+	Unorientable int     `json:"unorientable_edges,omitempty"`
 }
 
 // LoopSummary describes one free-edge loop.
@@ -260,6 +268,7 @@ func Run(mi ModelInfo, js []joints.Joint, opt Options) *Inspection {
 func deepLook(m *geom.Mesh, in *Inspection, opt Options) {
 	adj := geom.NodeElements(m)
 	loops := geom.FreeEdgeLoops(m, geom.FreeEdges(m, adj))
+	orient := geom.OrientNormals(m, adj)
 	deep := make([]PartDeep, len(m.Parts))
 	for i := range deep {
 		deep[i].MinEdge = math.Inf(1)
@@ -276,6 +285,12 @@ func deepLook(m *geom.Mesh, in *Inspection, opt Options) {
 	}
 	for e := range m.ElemIDs {
 		d := &deep[m.ElemPart[e]]
+		if orient.Flip[e] {
+			d.Flipped++
+			if len(d.FlipElems) < opt.MaxListed {
+				d.FlipElems = append(d.FlipElems, m.ElemIDs[e])
+			}
+		}
 		q := m.ElemQuality(e)
 		if q.Warp > d.WorstWarp {
 			d.WorstWarp, d.WorstElem = q.Warp, m.ElemIDs[e]
@@ -299,6 +314,8 @@ func deepLook(m *geom.Mesh, in *Inspection, opt Options) {
 	}
 	for i := range in.Parts {
 		d := deep[i]
+		d.Unorientable = orient.Conflicts[i]
+		slices.Sort(d.FlipElems)
 		if math.IsInf(d.MinEdge, 1) {
 			d.MinEdge = 0
 		}

@@ -220,6 +220,9 @@ func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInf
 	if job.Parts != "" {
 		info.Parts = job.RecordedPath(job.Parts)
 	}
+	for _, p := range job.PartsOverlays {
+		info.PartsOverlays = append(info.PartsOverlays, job.RecordedPath(p))
+	}
 	for _, p := range job.Joints {
 		info.Joints = append(info.Joints, job.RecordedPath(p))
 	}

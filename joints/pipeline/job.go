@@ -24,7 +24,8 @@ const JobVersion = 1
 //	# joinery job, version 1
 //	version: 1                       # required
 //	meshes: [mesh/floor.vtk, mesh/beam.jmesh]   # required, at least one
-//	parts: parts.yaml                # optional parts table
+//	parts: parts.yaml                # optional parts table; a list lays later
+//	                                 # tables over the first (surfaces.yaml)
 //	joints: [welds.csv]              # joint lists
 //	out: out                         # output directory
 //	renumber: false                  # shift clashing ids of later meshes
@@ -37,6 +38,7 @@ const JobVersion = 1
 //	  spot_dofs: [tx, ty, tz, rx, ry, rz]
 //	  id_start: 0                    # 0 = above every id in the mesh
 //	  nugget_rule: 5sqrt             # 4sqrt | 5sqrt
+//	  links: gap                     # gap | offset
 //	  fail_on: error                 # error | warning | info | never
 //	  groups:                        # per joint group overrides
 //	    rear-rail: {attach: node-pair}
@@ -56,12 +58,16 @@ const JobVersion = 1
 // the user set on the command line (pflag's Changed), so a flag overrides
 // the job and the job overrides the defaults.
 type Job struct {
-	Version  int      `yaml:"version"`
-	Meshes   []string `yaml:"meshes"`
-	Parts    string   `yaml:"parts,omitempty"`
-	Joints   []string `yaml:"joints,omitempty"`
-	Out      string   `yaml:"out,omitempty"`
-	Renumber *bool    `yaml:"renumber,omitempty"`
+	Version int      `yaml:"version"`
+	Meshes  []string `yaml:"meshes"`
+	Parts   string   `yaml:"parts,omitempty"`
+	// PartsOverlays are further parts tables laid over Parts in order
+	// (meshio.Model.Overlay): the job's parts list after its first
+	// entry, or --parts given more than once.
+	PartsOverlays []string `yaml:"-" json:"-"`
+	Joints        []string `yaml:"joints,omitempty"`
+	Out           string   `yaml:"out,omitempty"`
+	Renumber      *bool    `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").
 	PartArray string `yaml:"part_array,omitempty" json:",omitempty"` // omitted when empty, so that run ids of jobs without it keep their value
@@ -93,6 +99,7 @@ type JobBuild struct {
 	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
 	IDStartLine  int                 `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
 	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
+	Links        string              `yaml:"links,omitempty" json:",omitempty"`
 	FailOn       string              `yaml:"fail_on,omitempty"`
 	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
 }
@@ -128,6 +135,11 @@ func (b *JobBuild) Apply(o *joints.BuildOptions) error {
 	}
 	if b.NuggetRule != "" {
 		if o.Rule, err = joints.ParseNuggetRule(b.NuggetRule); err != nil {
+			return err
+		}
+	}
+	if b.Links != "" {
+		if o.Links, err = joints.ParseLinkForm(b.Links); err != nil {
 			return err
 		}
 	}
@@ -263,7 +275,13 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 			}
 			hasMeshes = true
 		case "parts":
-			if !tabular.IsNull(v) {
+			switch {
+			case v.Kind == yaml.SequenceNode:
+				var ps []string
+				if ps, err = paths(v, "parts"); err == nil && len(ps) > 0 {
+					job.Parts, job.PartsOverlays = ps[0], ps[1:]
+				}
+			case !tabular.IsNull(v):
 				job.Parts, err = path(v, "parts")
 			}
 		case "joints":
@@ -337,7 +355,7 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 		return s, nil
 	}
 	attach := func(s string) error { _, err := joints.ParseAttach(s); return err }
-	keys := []string{"reach", "gap_allowance", "attach", "spot_dofs", "id_start", "nugget_rule", "fail_on", "groups"}
+	keys := []string{"reach", "gap_allowance", "attach", "spot_dofs", "id_start", "nugget_rule", "fail_on", "groups", "links"}
 	return y.Map(n, "build", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "reach":
@@ -363,6 +381,8 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 			b.NuggetRule, err = choice(v, key, func(s string) error { _, err := joints.ParseNuggetRule(s); return err })
 		case "fail_on":
 			b.FailOn, err = choice(v, key, func(s string) error { _, _, err := joints.ParseFailOn(s); return err })
+		case "links":
+			b.Links, err = choice(v, key, func(s string) error { _, err := joints.ParseLinkForm(s); return err })
 		case "groups":
 			b.Groups = map[string]JobGroup{}
 			err = y.Map(v, "groups", nil, func(name string, k, gv *yaml.Node) error {

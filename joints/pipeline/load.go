@@ -115,6 +115,11 @@ func load(ctx context.Context, job *Job, env Env, sums *inputSums) (*Inputs, err
 	if err != nil {
 		return nil, err
 	}
+	// Overlays compare their thicknesses with the first table's, both
+	// in the inputs' unit: lay them before scaling to mm.
+	if err := model.Overlay(job.PartsOverlays, digest, scale); err != nil {
+		return nil, err
+	}
 	model.Mesh.Scale(scale)
 	// The readers' file buffers, often larger than the model, are garbage
 	// now; collect them before the next steps grow the heap, so that the

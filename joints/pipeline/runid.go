@@ -75,6 +75,9 @@ func (in *Inputs) runID(generator string, res *joints.Result) (string, error) {
 	if job.Parts != "" {
 		fmt.Fprintf(h, "parts %q %s\n", job.RecordedPath(job.Parts), in.sums.sum(job.Parts))
 	}
+	for _, p := range job.PartsOverlays {
+		fmt.Fprintf(h, "parts-overlay %q %s\n", job.RecordedPath(p), in.sums.sum(p))
+	}
 	for _, p := range job.Joints {
 		fmt.Fprintf(h, "joints %q %s\n", job.RecordedPath(p), in.sums.sum(p))
 	}

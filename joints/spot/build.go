@@ -92,7 +92,9 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	if c.Attach == joints.NodePair {
 		c.Findings = append(c.Findings, checkFacing(&c.Stack, c.Ends, c.Diameter/2, o.NodeFactor*c.Diameter/2, j)...)
 	}
-	c.Links = link(&c.Stack, c.Ends)
+	var lfs []joints.Finding
+	c.Links, lfs = link(x.Mesh(), j, &c.Stack, c.Ends, c.DOFs, o)
+	c.Findings = append(c.Findings, lfs...)
 	c.SetStatus()
 	return c
 }

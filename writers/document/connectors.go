@@ -59,6 +59,7 @@ type OptionsDoc struct {
 	GroupAttach   map[string]string `json:"group_attach"`
 	SpotDOFs      []string          `json:"spot_dofs"`
 	NuggetRule    string            `json:"nugget_rule"`
+	Links         string            `json:"links"` // gap or offset
 }
 
 // IDRange gives the new node and element ids a build used: First up to,
@@ -103,17 +104,25 @@ type SheetDoc struct {
 	Weights      []float64 `json:"weights"`
 }
 
-// LinkDoc is one link between consecutive sheets.
+// LinkDoc is one link of a connector: across the gap between
+// consecutive sheets (kind gap), from a sheet's end to its faying point
+// (offset) or between two faying points (faying).
 type LinkDoc struct {
-	ID         int64   `json:"id"`
-	From       int     `json:"from"`
-	To         int     `json:"to"`
-	Start      Vec     `json:"start"`
-	End        Vec     `json:"end"`
-	Length     float64 `json:"length"`
-	Direction  Vec     `json:"direction"`
-	ContactGap float64 `json:"contact_gap"`
-	MidGap     float64 `json:"mid_gap"`
+	ID         int64    `json:"id"`
+	Kind       string   `json:"kind"`
+	From       int      `json:"from"`
+	To         int      `json:"to"`
+	Start      Vec      `json:"start"`
+	End        Vec      `json:"end"`
+	StartNode  int64    `json:"start_node"`
+	EndNode    int64    `json:"end_node"`
+	NewNode    bool     `json:"new_node,omitempty"` // end_node is a new node the link brings, at end
+	Length     float64  `json:"length"`
+	Direction  Vec      `json:"direction"`
+	DOFs       []string `json:"dofs"`
+	ContactGap float64  `json:"contact_gap"`
+	MidGap     float64  `json:"mid_gap"`
+	Mismatch   *float64 `json:"mismatch,omitempty"` // faying joints: faying points apart across the axis, in units.length
 }
 
 // Vec is a point or direction, [x, y, z].
@@ -141,6 +150,7 @@ func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc 
 			Reach: o.Reach, AngleLimit: o.AngleLimit, LateralFactor: o.LateralFactor,
 			EdgeFactor: o.EdgeFactor, NodeFactor: o.NodeFactor, Attach: o.Attach.String(),
 			GroupAttach: map[string]string{}, SpotDOFs: o.SpotDOFs.Names(), NuggetRule: o.Rule.String(),
+			Links: o.Links.String(),
 		},
 		IDs:        IDRange{First: r.IDStart, Next: r.NextID},
 		Connectors: make([]ConnectorDoc, 0, len(r.Connectors)),
@@ -199,8 +209,18 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 		d.Sheets = append(d.Sheets, sd)
 	}
 	for _, l := range c.Links {
-		d.Links = append(d.Links, LinkDoc{ID: l.ID, From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
-			Length: l.Length, Direction: vecOf(l.Direction), ContactGap: l.Contact, MidGap: clean(l.MidGap)})
+		dofs := l.DOFs
+		if dofs == 0 {
+			dofs = c.DOFs
+		}
+		ld := LinkDoc{ID: l.ID, Kind: l.Kind.String(), From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
+			StartNode: l.StartNode, EndNode: l.EndNode, NewNode: l.NewEnd,
+			Length: l.Length, Direction: vecOf(l.Direction), DOFs: dofs.Names(), ContactGap: l.Contact, MidGap: clean(l.MidGap)}
+		if l.Kind == joints.FayingJoint {
+			mm := clean(l.Mismatch)
+			ld.Mismatch = &mm
+		}
+		d.Links = append(d.Links, ld)
 	}
 	seen := map[string]bool{}
 	for _, f := range c.Findings {

@@ -12,7 +12,9 @@ type RunInfo struct {
 	Unit   joints.Unit
 	Meshes []string // input paths, as recorded
 	Parts  string
-	Joints []string
+	// PartsOverlays are the parts tables laid over Parts, in order.
+	PartsOverlays []string
+	Joints        []string
 	// Renumbered lists the id offsets applied to mesh files (--renumber),
 	// so that connector node ids can be mapped back to the files.
 	Renumbered []Shift
@@ -26,11 +28,14 @@ type RunInfo struct {
 
 // Inputs lists the input files of a run and what was done to them.
 type Inputs struct {
-	Meshes     []string     `json:"meshes"`
-	Parts      string       `json:"parts"`
-	Joints     []string     `json:"joints"`
-	Renumbered []Shift      `json:"renumbered"`
-	TagColumns []TagColumns `json:"tag_columns"`
+	Meshes []string `json:"meshes"`
+	Parts  string   `json:"parts"`
+	// PartsOverlays lists the parts tables laid over Parts (--parts
+	// given again); absent when there are none.
+	PartsOverlays []string     `json:"parts_overlays,omitempty"`
+	Joints        []string     `json:"joints"`
+	Renumbered    []Shift      `json:"renumbered"`
+	TagColumns    []TagColumns `json:"tag_columns"`
 	// Connectors lists the connector files a check read (absent for a
 	// build).
 	Connectors []string `json:"connectors,omitempty"`
@@ -53,7 +58,7 @@ type TagColumns struct {
 
 func (info RunInfo) inputs() Inputs {
 	in := Inputs{Meshes: nonNil(info.Meshes), Parts: info.Parts, Joints: nonNil(info.Joints),
-		Renumbered: info.Renumbered, TagColumns: info.Tags, Connectors: info.Connectors}
+		Renumbered: info.Renumbered, TagColumns: info.Tags, Connectors: info.Connectors, PartsOverlays: info.PartsOverlays}
 	if in.Renumbered == nil {
 		in.Renumbered = []Shift{}
 	}

@@ -88,6 +88,7 @@ func (d *ConnectorsDoc) scaleLengths(f func(float64) float64) {
 			l.Length = f(l.Length)
 			l.ContactGap = f(l.ContactGap)
 			l.MidGap = f(l.MidGap)
+			ptr(l.Mismatch)
 		}
 	}
 }

@@ -1,0 +1,275 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/geom/meshio"
+	"github.com/joinery-cae/joinery/geom/native"
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/offset/offsettest"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// writeModel writes plates as a native mesh, a parts table declaring
+// the given surfaces (id -> surface; mid where not given) and a weld
+// list, and returns their paths.
+func writeModel(t *testing.T, dir string, plates []offsettest.Plate, declared map[int64]string, welds []joints.Joint) (mesh, parts, list string) {
+	t.Helper()
+	m, err := offsettest.Mesh(plates, offsettest.H)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mesh = filepath.Join(dir, "model.jmesh")
+	f, err := os.Create(mesh)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := native.Write(f, m); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	var pt strings.Builder
+	pt.WriteString("parts:\n")
+	for _, p := range plates {
+		s := declared[p.ID]
+		if s == "" {
+			s = "mid"
+		}
+		fmt.Fprintf(&pt, "  - {id: %d, thickness: %g, surface: %s}\n", p.ID, p.Thickness, s)
+	}
+	parts = filepath.Join(dir, "parts.yaml")
+	var wl strings.Builder
+	wl.WriteString("id,x,y,z\n")
+	for _, w := range welds {
+		fmt.Fprintf(&wl, "%s,%g,%g,%g\n", w.ID, w.Point.X, w.Point.Y, w.Point.Z)
+	}
+	list = filepath.Join(dir, "welds.csv")
+	for name, text := range map[string]string{parts: pt.String(), list: wl.String()} {
+		if err := os.WriteFile(name, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return mesh, parts, list
+}
+
+// findingCodes reads a report.json and returns its findings by code.
+func findingCodes(t *testing.T, path string) map[string][]document.FindingDoc {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rep, err := document.DecodeReport(f, path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := map[string][]document.FindingDoc{}
+	for _, fd := range rep.Findings {
+		out[fd.Code] = append(out[fd.Code], fd)
+	}
+	return out
+}
+
+// The planted model end to end: offsets finds every surface and every
+// flipped element; a build with surfaces.yaml laid over the parts table
+// (which says mid everywhere) reports no gap finding, where the build
+// without it reports several.
+func TestOffsetsPlantedModel(t *testing.T) {
+	dir := t.TempDir()
+	plates := offsettest.Planted()
+	mesh, parts, welds := writeModel(t, dir, plates, nil, offsettest.PlantedWelds())
+	out := filepath.Join(dir, "offsets")
+	code, stdout, errs := runCLI(t, "offsets", "--mesh", mesh, "--parts", parts, "--joints", welds, "--out", out)
+	if code != exitOK {
+		t.Fatalf("offsets: exit %d: %s\n%s", code, errs, stdout)
+	}
+	validate(t, "surfaces.schema.json", filepath.Join(out, "surfaces.json"))
+	validate(t, "report.schema.json", filepath.Join(out, "report.json"))
+	table, err := meshio.ReadParts(filepath.Join(out, "surfaces.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := os.Open(filepath.Join(out, "surfaces.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := document.DecodeSurfaces(f, "surfaces.json")
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range plates {
+		if table[i].ID != p.ID || table[i].Surface != p.Surface || table[i].Thickness != p.Thickness {
+			t.Errorf("surfaces.yaml: %+v, want part %d %s", table[i], p.ID, p.Surface)
+		}
+		if want := offsettest.FlippedIDs(p, offsettest.H); !slices.Equal(doc.Parts[i].Flip, append([]int64{}, want...)) || doc.Parts[i].FlipCount != len(want) {
+			t.Errorf("part %d: flip %v, want %v", p.ID, doc.Parts[i].Flip, want)
+		}
+	}
+	fs := findingCodes(t, filepath.Join(out, "report.json"))
+	if d := fs[joints.CodeContactDisagrees]; len(d) != 1 || !slices.Equal(d[0].Parts, []int64{10, 50}) {
+		t.Errorf("contact-disagrees %+v, want one, parts 10 and 50", d)
+	}
+	if d := fs[joints.CodeNormalsFlipped]; len(d) != 1 || !strings.Contains(d[0].Message, "part 40: 40 of its 80 elements") {
+		t.Errorf("normals-flipped %+v", d)
+	}
+	if d := fs[joints.CodeSurfaceDiffers]; len(d) != 2 {
+		t.Errorf("surface-differs %+v, want parts 20 and 30", d)
+	}
+	runIDs := map[string]bool{}
+	gaps := func(args ...string) int {
+		bo := filepath.Join(dir, "build")
+		code, _, errs := runCLI(t, append([]string{"build", "--mesh", mesh, "--joints", welds, "--out", bo, "--fail-on", "never"}, args...)...)
+		if code != exitOK {
+			t.Fatalf("build %v: exit %d: %s", args, code, errs)
+		}
+		fs := findingCodes(t, filepath.Join(bo, "report.json"))
+		raw, _ := os.ReadFile(filepath.Join(bo, "report.json"))
+		runIDs[document.FindRunID(raw)] = true
+		return len(fs[joints.CodeGapOpen]) + len(fs[joints.CodeGapClosed])
+	}
+	if n := gaps("--parts", parts); n == 0 {
+		t.Errorf("build with the table's surfaces: no gap finding; the planted outer-face meshes should give some")
+	}
+	if n := gaps("--parts", parts, "--parts", filepath.Join(out, "surfaces.yaml")); n != 0 {
+		t.Errorf("build with the surfaces found: %d gap finding(s), want none", n)
+	}
+	if len(runIDs) != 2 {
+		t.Errorf("the table laid over the first does not enter the run id: %v", runIDs)
+	}
+}
+
+// The new user's case: a part meshed on its top face whose element
+// normals point down, declared top, comes out of build as gap-closed
+// (the sheets penetrate by 1 mm, a whole thickness: the mid-surface is
+// placed on the wrong side of the mesh). offsets tells that, relative
+// to its normals, the mesh lies on its bottom face; with that laid
+// over the table, the build finds the sheets in contact.
+func TestOffsetsNewUserFlippedTopMesh(t *testing.T) {
+	dir := t.TempDir()
+	plates := []offsettest.Plate{
+		{ID: 1, Thickness: 1, Surface: geom.SurfaceMid, Mid: 0, X0: 0, X1: 50, Y0: 0, Y1: 50},
+		// Under part 1, drawn on its physical top face (z = -0.5, the
+		// faying face), normals pointing down: relative to them that face
+		// is its bottom.
+		{ID: 2, Thickness: 1, Surface: geom.SurfaceBottom, FlipAll: true, Mid: -1, X0: 0, X1: 50, Y0: 0, Y1: 50},
+	}
+	welds := []joints.Joint{{ID: "W1", Kind: joints.Spot, Point: geom3(22.5, 22.5, -0.25)}}
+	mesh, parts, list := writeModel(t, dir, plates, map[int64]string{2: "top"}, welds)
+	bo := filepath.Join(dir, "build")
+	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", bo); code != exitOK {
+		t.Fatalf("build: exit %d: %s", code, errs)
+	}
+	fs := findingCodes(t, filepath.Join(bo, "report.json"))
+	if g := fs[joints.CodeGapClosed]; len(g) != 1 || !strings.Contains(g[0].Message, "the sheets penetrate by 1 mm") {
+		t.Fatalf("build with the declared top: %+v, want gap-closed, penetrating by 1 mm", fs)
+	}
+	out := filepath.Join(dir, "offsets")
+	if code, _, errs := runCLI(t, "offsets", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", out, "--quiet"); code != exitOK {
+		t.Fatalf("offsets: exit %d: %s", code, errs)
+	}
+	table, err := meshio.ReadParts(filepath.Join(out, "surfaces.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if table[1].ID != 2 || table[1].Surface != geom.SurfaceBottom {
+		t.Errorf("surfaces.yaml part 2: %+v, want bottom", table[1])
+	}
+	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--parts", filepath.Join(out, "surfaces.yaml"), "--joints", list, "--out", bo); code != exitOK {
+		t.Fatalf("build with surfaces: exit %d: %s", code, errs)
+	}
+	fs = findingCodes(t, filepath.Join(bo, "report.json"))
+	if len(fs[joints.CodeGapClosed])+len(fs[joints.CodeGapOpen]) != 0 {
+		t.Errorf("build with the surfaces found: %+v, want no gap finding", fs)
+	}
+}
+
+func TestOffsetsExampleGolden(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	code, out, errs := runCLI(t, "offsets", exampleJob, "--out", dir)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	for _, name := range []string{"surfaces.yaml", "report.txt"} {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		golden(t, "offsets-"+name, b)
+	}
+	validate(t, "surfaces.schema.json", filepath.Join(dir, "surfaces.json"))
+	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
+	code, out, _ = runCLI(t, "offsets", exampleJob, "--out", dir, "--json")
+	var js offsetsJSON
+	if code != exitOK || json.Unmarshal([]byte(out), &js) != nil || len(js.Parts) != 4 {
+		t.Errorf("--json: exit %d, %s", code, out)
+	}
+}
+
+// build --links offset on the example: the documents validate, every
+// connector has three links per pair of sheets, connectors.csv and
+// connectors.vtk carry the offset form.
+func TestBuildOffsetLinksExample(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	code, _, errs := runCLI(t, "build", exampleJob, "--out", dir, "--links", "offset")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	validate(t, "connectors.schema.json", filepath.Join(dir, "connectors.json"))
+	f, err := os.Open(filepath.Join(dir, "connectors.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := document.DecodeConnectors(f, "connectors.json")
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if doc.Options.Links != "offset" {
+		t.Errorf("options.links %q", doc.Options.Links)
+	}
+	for _, c := range doc.Connectors {
+		if c.State == "not-built" {
+			continue
+		}
+		if len(c.Links) != 3*(len(c.Sheets)-1) {
+			t.Errorf("%s: %d links for %d sheets", c.ID, len(c.Links), len(c.Sheets))
+		}
+		for _, l := range c.Links {
+			// Mid-surface meshes in contact: offsets of t/2.
+			if l.Kind == "offset" && abs(l.Length-c.Sheets[l.From].Thickness/2) > 1e-9 {
+				t.Errorf("%s: offset %g on a %g mm sheet", c.ID, l.Length, c.Sheets[l.From].Thickness)
+			}
+		}
+	}
+	csv, _ := os.ReadFile(filepath.Join(dir, "connectors.csv"))
+	vtk, _ := os.ReadFile(filepath.Join(dir, "connectors.vtk"))
+	if !strings.Contains(string(csv), ",faying_nodes,offsets\n") || !strings.Contains(string(vtk), "SCALARS link_kind int 1") {
+		t.Errorf("connectors.csv or .vtk lacks the offset form")
+	}
+	code, _, errs = runCLI(t, "build", exampleJob, "--out", dir, "--links", "rigid")
+	if code != exitBadInput || !strings.Contains(errs, `unknown link form "rigid"`) {
+		t.Errorf("--links rigid: exit %d, %s", code, errs)
+	}
+}
+
+func abs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+func geom3(x, y, z float64) r3.Vec { return r3.Vec{X: x, Y: y, Z: z} }

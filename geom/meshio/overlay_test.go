@@ -1,0 +1,88 @@
+package meshio
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// The offset column: alone it sets the surface it stands for, with the
+// surface the two must agree, and only 0, -t/2 and +t/2 are offsets.
+func TestPartsOffsetColumn(t *testing.T) {
+	ok := []struct {
+		yaml, csv string
+		want      geom.Surface
+	}{
+		{"{id: 1, thickness: 0.8, offset: -0.4}", "1,0.8,,-0.4", geom.SurfaceTop},
+		{"{id: 1, thickness: 0.8, offset: 0.4}", "1,0.8,,0.4", geom.SurfaceBottom},
+		{"{id: 1, thickness: 0.8, offset: 0}", "1,0.8,,0", geom.SurfaceMid},
+		{"{id: 1, thickness: 0.8, offset: -0.4, surface: top}", "1,0.8,top,-0.4", geom.SurfaceTop},
+		{"{id: 1, thickness: 1.5, offset: 0.7504}", "1,1.5,,0.7504", geom.SurfaceBottom}, // within 0.0005 mm
+		{"{id: 1, thickness: 0.8, surface: top}", "1,0.8,top,", geom.SurfaceTop},
+	}
+	for _, tc := range ok {
+		y, err := ReadPartsYAML(strings.NewReader("parts:\n- "+tc.yaml+"\n"), "p.yaml")
+		if err != nil || y[0].Surface != tc.want {
+			t.Errorf("%s: %v, %v; want %s", tc.yaml, y, err, tc.want)
+		}
+		c, err := ReadPartsCSV(strings.NewReader("id,thickness,surface,offset\n"+tc.csv+"\n"), "p.csv")
+		if err != nil || c[0].Surface != tc.want {
+			t.Errorf("%s: %v, %v; want %s", tc.csv, c, err, tc.want)
+		}
+	}
+	bad := []struct{ yaml, want string }{
+		{"{id: 1, thickness: 1, offset: -0.3}", "p.yaml:2: offset: -0.3 mm for thickness 1 mm is none of 0 (mid), -0.5 (top) or 0.5 (bottom)"},
+		{"{id: 1, thickness: 1, offset: 0.5, surface: top}", "p.yaml:2: offset: 0.5 mm is the offset of surface bottom, but the entry gives surface top"},
+		{"{id: 1, thickness: 1, offset: thin}", `p.yaml:2: offset: want a number`},
+	}
+	for _, tc := range bad {
+		_, err := ReadPartsYAML(strings.NewReader("parts:\n- "+tc.yaml+"\n"), "p.yaml")
+		if err == nil || !strings.HasPrefix(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput) {
+			t.Errorf("%s: err %v, want %q", tc.yaml, err, tc.want)
+		}
+	}
+	if _, err := ReadPartsCSV(strings.NewReader("id,thickness,offset\n1,1,0.2\n"), "p.csv"); err == nil || !strings.HasPrefix(err.Error(), "p.csv:2:") {
+		t.Errorf("csv bad offset: %v", err)
+	}
+}
+
+// A table laid over the first sets surfaces, keeps what it does not give,
+// and refuses other thicknesses and mesh names.
+func TestOverlay(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	m := &geom.Mesh{Parts: []geom.Part{{ID: 1, Name: "floor", Thickness: 0.8, Material: "DC04"}, {ID: 2, Thickness: 1.5, Surface: geom.SurfaceTop}}}
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	md := &Model{Mesh: m}
+	s := write("surfaces.yaml", "parts:\n- {id: 1, thickness: 0.8, surface: bottom, offset: 0.4}\n- {id: 9, thickness: 1, surface: top}\n")
+	if err := md.Overlay([]string{s}, nil, 1); err != nil {
+		t.Fatal(err)
+	}
+	if p := m.Parts[0]; p.Surface != geom.SurfaceBottom || p.Name != "floor" || p.Material != "DC04" || p.Thickness != 0.8 {
+		t.Errorf("part 1 %+v", p)
+	}
+	if m.Parts[1].Surface != geom.SurfaceTop || len(md.UnusedParts) != 1 || md.UnusedParts[0] != 9 {
+		t.Errorf("part 2 %+v, unused %v", m.Parts[1], md.UnusedParts)
+	}
+	for _, tc := range []struct{ text, want string }{
+		{"parts:\n- {id: 1, thickness: 1.0, surface: top}\n", "part 1 has thickness 1 mm here and 0.8 mm in the tables before it"},
+		{"parts:\n- {id: 1, thickness: 0.8, mesh: floor.vtk}\n", `part 1: mesh "floor.vtk": only the first parts table`},
+	} {
+		err := md.Overlay([]string{write("bad.yaml", tc.text)}, nil, 1)
+		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput) {
+			t.Errorf("err %v, want %q", err, tc.want)
+		}
+	}
+}

@@ -1,0 +1,181 @@
+package offset
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+)
+
+// JointSiteWeight, mm², is the weight of one joint site in the vote, as
+// if it were that much overlap: a joint asserts that its sheets touch
+// (an overlap only that they lie near), and one spot weld serves some
+// 400 to 800 mm² of flange (a 25 to 40 mm pitch, common practice, on a
+// 15 to 20 mm flange); a quarter of that lets a few sites outweigh a
+// stray overlap while one misplaced weld does not outvote a flange (our
+// choice).
+const JointSiteWeight = 100.0
+
+// MinContactSamples is the fewest overlap samples (elements) that make a
+// contact without a joint site: fewer are noise at a bend or an edge
+// (our choice).
+const MinContactSamples = 3
+
+// Contact is what the samples say about one place where two parts face
+// each other: one pair of parts, one relative orientation of their
+// normals, and one cluster of separations (samples of the pair whose
+// separations lie within half the allowance of each other chain
+// together; a pair that touches in one place and stands off in another
+// thus gives two contacts).
+type Contact struct {
+	A, B int64 // part ids, A < B
+	// Opposed is set when B's normals point against A's (after the
+	// normals of each part were made consistent).
+	Opposed bool
+	// Separation is the weighted median of the signed distances from
+	// A's mesh to B's along A's normal, mm; Min and Max bound them.
+	Separation, Min, Max float64
+	// TA and TB are the thicknesses at the contact, mm.
+	TA, TB float64
+	// Area is the overlap area sampled, mm²; Sites the joint sites;
+	// Samples the measurements (elements of either part, and sites).
+	Area    float64
+	Sites   int
+	Samples int
+	// Point is where a sample near the median was taken, mm.
+	Point r3.Vec
+	// Weight is the contact's vote: Area plus JointSiteWeight per site.
+	Weight float64
+	// Filled by the solve: Expected is the separation the assignment
+	// predicts (the nearer of the two sides), Side +1 when B lies on the
+	// side A's normal points to, -1 when opposite, and Agrees tells
+	// whether Separation lies within Allowance of Expected.
+	Expected  float64
+	Side      int
+	Allowance float64
+	Agrees    bool
+
+	a, b int32 // part indices
+}
+
+// contacts clusters the samples into contacts, sorted by A, B, Opposed,
+// Separation. allowance gives the agreement allowance of two thicknesses.
+func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) float64) []Contact {
+	// Sort an order, not the samples themselves (they are large).
+	order := make([]int32, len(samples))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	slices.SortFunc(order, func(i, j int32) int {
+		x, y := &samples[i], &samples[j]
+		switch {
+		case x.ida != y.ida:
+			return cmp.Compare(x.ida, y.ida)
+		case x.idb != y.idb:
+			return cmp.Compare(x.idb, y.idb)
+		case x.opposed != y.opposed:
+			return cmpBool(x.opposed, y.opposed)
+		case x.s != y.s:
+			return cmp.Compare(x.s, y.s)
+		case x.site != y.site:
+			return cmpBool(x.site, y.site)
+		}
+		return cmp.Or(cmp.Compare(x.at.X, y.at.X), cmp.Compare(x.at.Y, y.at.Y), cmp.Compare(x.at.Z, y.at.Z))
+	})
+	sorted := make([]sample, len(samples))
+	for i, k := range order {
+		sorted[i] = samples[k]
+	}
+	samples = sorted
+	var out []Contact
+	for lo := 0; lo < len(samples); {
+		hi := lo + 1
+		for hi < len(samples) {
+			p, q := &samples[hi-1], &samples[hi]
+			if q.a != p.a || q.b != p.b || q.opposed != p.opposed || q.s-p.s > allowance(p.ta, p.tb)/2 {
+				break
+			}
+			hi++
+		}
+		if c, ok := newContact(m, samples[lo:hi]); ok {
+			c.Allowance = allowance(c.TA, c.TB)
+			out = append(out, c)
+		}
+		lo = hi
+	}
+	return out
+}
+
+// newContact sums up one cluster of samples, sorted by separation.
+func newContact(m *geom.Mesh, ss []sample) (Contact, bool) {
+	c := Contact{a: ss[0].a, b: ss[0].b, A: m.Parts[ss[0].a].ID, B: m.Parts[ss[0].b].ID, Opposed: ss[0].opposed,
+		Min: ss[0].s, Max: ss[len(ss)-1].s, Samples: len(ss)}
+	w := func(s *sample) float64 {
+		if s.site {
+			return JointSiteWeight
+		}
+		return s.w
+	}
+	for i := range ss {
+		if ss[i].site {
+			c.Sites++
+		} else {
+			c.Area += ss[i].w
+		}
+		c.Weight += w(&ss[i])
+	}
+	if c.Sites == 0 && len(ss) < MinContactSamples || !(c.Weight > 0) {
+		return c, false
+	}
+	// Weighted median: the first sample at which half the weight is
+	// reached (samples are sorted by separation).
+	half, acc := c.Weight/2, 0.0
+	med := len(ss) - 1
+	for i := range ss {
+		acc += w(&ss[i])
+		if acc >= half {
+			med = i
+			break
+		}
+	}
+	c.Separation, c.Point, c.TA, c.TB = ss[med].s, ss[med].at, ss[med].ta, ss[med].tb
+	return c, true
+}
+
+func cmpBool(a, b bool) int {
+	switch {
+	case a == b:
+		return 0
+	case a:
+		return 1
+	}
+	return -1
+}
+
+// predict returns the separation from A's mesh to B's along A's normal
+// that parts meshed on surfaces sa and sb, in contact, would show on side
+// side (+1: B on the side of A's normal), mm: A's mid-surface lies at
+// oA along A's normal, B's at s + c·oB, and in contact they lie
+// (tA+tB)/2 apart, so s = oA - c·oB + side·(tA+tB)/2, c = -1 for opposed
+// normals.
+func (c *Contact) predict(sa, sb geom.Surface, side int) float64 {
+	cs := 1.0
+	if c.Opposed {
+		cs = -1
+	}
+	return sa.MidOffset(c.TA) - cs*sb.MidOffset(c.TB) + float64(side)*(c.TA+c.TB)/2
+}
+
+// fit returns, for surfaces sa and sb, the side that explains the
+// separation best, the separation it predicts and the residual.
+func (c *Contact) fit(sa, sb geom.Surface) (side int, expected, residual float64) {
+	up, down := c.predict(sa, sb, 1), c.predict(sa, sb, -1)
+	ru, rd := math.Abs(c.Separation-up), math.Abs(c.Separation-down)
+	if rd < ru {
+		return -1, down, rd
+	}
+	return 1, up, ru
+}

@@ -1,0 +1,108 @@
+package pipeline
+
+import (
+	"context"
+	"io"
+	"path/filepath"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/offset"
+	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// OffsetsSuffix is appended to the job's output directory to name the
+// directory joinery offsets writes to when none is named: beside a
+// build's set (a set's directory holds that set and nothing else), so
+// that its report does not replace the build's.
+const OffsetsSuffix = "-offsets"
+
+// OffsetsOut returns the default output directory of joinery offsets
+// for the build output directory out: out with OffsetsSuffix appended.
+func OffsetsOut(out string) string { return filepath.Clean(out) + OffsetsSuffix }
+
+// OffsetsFiles are the names of the files joinery offsets writes, in
+// order.
+func OffsetsFiles() []string {
+	return []string{"surfaces.yaml", "surfaces.json", "report.json", "report.txt"}
+}
+
+// OffsetsOutcome is what a command reports of a surface inference.
+type OffsetsOutcome struct {
+	Out      string   // output directory
+	Files    []string // names of the files written there
+	RunID    string   // the run id every file carries
+	Report   *document.ReportDoc
+	Surfaces *document.SurfacesDoc
+	Result   *offset.Result
+	// Reached is set when findings reached the settings' failure level.
+	Reached bool
+}
+
+// Offsets runs a surface inference: load the job's inputs (joint lists
+// are optional: their sites add evidence), index every element, infer
+// each part's reference surface (offset.Infer, with the job's build
+// settings: reach, gap allowance), and write surfaces.yaml,
+// surfaces.json, report.json and report.txt as one set into s.Out.
+func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsOutcome, error) {
+	out, err := OpenOutput(s.Out)
+	if err != nil {
+		return nil, err
+	}
+	defer out.Close()
+	in, err := LoadForSet(ctx, job, env)
+	if err != nil {
+		return nil, err
+	}
+	m := in.Model.Mesh
+	if missing := in.Model.MissingThickness(); len(missing) > 0 {
+		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
+	}
+	prog := env.progress()
+	prog.Start("indexing elements", 0)
+	x := geom.NewElemIndex(m)
+	prog.Done()
+	res, err := offset.Infer(ctx, x, in.Joints, s.Options, prog)
+	if err != nil {
+		return nil, err
+	}
+	// The run id covers the options as the inference resolved them.
+	info, err := in.RunInfo(env.Generator, &joints.Result{Options: res.Options})
+	if err != nil {
+		return nil, err
+	}
+	doc := document.NewSurfaces(res, info)
+	rep := document.NewSurfacesReport(res, info)
+	rendered, err := writers.Render([]writers.File{
+		{Name: "surfaces.yaml", Render: func(w io.Writer) error { return writers.WriteSurfacesYAML(w, doc) }},
+		{Name: "surfaces.json", Render: func(w io.Writer) error { return document.EncodeSurfaces(w, doc) }},
+		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, rep) }},
+		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteSurfacesText(w, rep, doc) }},
+	})
+	if err != nil {
+		return nil, err
+	}
+	if err := out.Write(writers.Set{Job: "offsets", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
+		return nil, err
+	}
+	return &OffsetsOutcome{Out: s.Out, Files: OffsetsFiles(), RunID: info.RunID, Report: rep, Surfaces: doc, Result: res,
+		Reached: s.Fail && reached(res, s)}, nil
+}
+
+func reached(res *offset.Result, s BuildSettings) bool {
+	for _, f := range res.Findings {
+		if f.Severity >= s.FailOn {
+			return true
+		}
+	}
+	return false
+}
+
+// Summary is the few lines joinery offsets prints on stdout.
+func (o *OffsetsOutcome) Summary(w io.Writer) error {
+	return writers.WriteSurfacesSummary(w, o.Report, o.Surfaces, o.Out, o.Files)
+}
+
+// SurfacesFile is the path of the surfaces table a run wrote.
+func (o *OffsetsOutcome) SurfacesFile() string { return filepath.Join(o.Out, "surfaces.yaml") }
