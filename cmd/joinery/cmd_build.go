@@ -23,6 +23,7 @@ type buildOptions struct {
 	idStart      int64
 	nuggetRule   string
 	failOn       string
+	noHTML       bool
 	flags        *pflag.FlagSet
 }
 
@@ -39,6 +40,8 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.Int64Var(&o.idStart, "id-start", 0, "first id for new nodes and elements (0: the round number above every mesh id)")
 	fs.StringVar(&o.nuggetRule, "nugget-rule", joints.DefaultNuggetRule.String(), "default nugget diameter from the governing thickness t: 4sqrt or 5sqrt (d = K*sqrt(t))")
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
+	fs.BoolVar(&o.noHTML, "no-html", false, "developer switch: leave report.html out, to measure what it costs")
+	_ = fs.MarkHidden("no-html")
 }
 
 // apply layers the flags the user set over the job's settings.
@@ -85,6 +88,7 @@ directory:
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
   report.json       summary and findings (schema joinery/report, version 2)
   report.txt        the same for a person
+  report.html       the same with pictures, plots and a findings table, for a browser
 Inputs and settings come from a job file, from flags, or both (flags win).
 Bolts are reported as not yet supported.
 
@@ -113,6 +117,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
+	s.NoPage = o.noHTML
 	out, err := pipeline.Build(c.Context(), job, s, g.env())
 	if err != nil {
 		return err

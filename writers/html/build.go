@@ -14,6 +14,7 @@ func ForBuild(rep *document.ReportDoc, conn *document.ConnectorsDoc, outline *Ou
 	p := &Page{
 		Title:     "Joinery build report",
 		Generator: rep.Generator,
+		RunID:     rep.RunID,
 		Caution:   rep.Caution,
 		Inputs:    rep.Inputs,
 		Settings:  BuildSettings(conn),

@@ -16,10 +16,13 @@ import (
 type Page struct {
 	Title     string // "Joinery build report"
 	Generator string // "joinery <version>"
-	Caution   string // document.Caution
-	Inputs    document.Inputs
-	Settings  []Setting // the run's options, in the order shown
-	Counts    []Count   // joints by kind and state
+	// RunID is the run id every file of the output set carries; the page
+	// writes it near its start as "run <id>" (document.FindRunID).
+	RunID    string
+	Caution  string // document.Caution
+	Inputs   document.Inputs
+	Settings []Setting // the run's options, in the order shown
+	Counts   []Count   // joints by kind and state
 	// Marks are the joints the pictures draw, sorted by joint id (see
 	// SortMarks).
 	Marks []Mark
@@ -147,9 +150,13 @@ func Render(out io.Writer, p *Page) error {
 	w := &Writer{b: make([]byte, 0, 1<<16)}
 	w.Raw("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n")
 	w.Raw(`<meta name="viewport" content="width=device-width, initial-scale=1"/>` + "\n")
-	if p.Generator != "" {
+	if p.Generator != "" || p.RunID != "" {
+		gen := p.Generator
+		if p.RunID != "" {
+			gen += "; run " + p.RunID
+		}
 		w.Raw("<meta name=\"generator\"")
-		w.Attr("content", p.Generator)
+		w.Attr("content", gen)
 		w.Raw("/>\n")
 	}
 	w.Raw("<title>")
@@ -218,6 +225,9 @@ func writeRun(w *Writer, p *Page) {
 	}
 	for _, t := range in.TagColumns {
 		kv("tag columns", t.File+": "+strings.Join(t.Columns, ", "))
+	}
+	if p.RunID != "" {
+		kv("run id", p.RunID)
 	}
 	w.Raw("</tbody></table>\n")
 	if len(p.Settings) > 0 {

@@ -37,7 +37,7 @@ func build(t *testing.T, elements, welds int) *html.Page {
 	if err != nil {
 		t.Fatal(err)
 	}
-	info := in.RunInfo("joinery test")
+	info := document.RunInfo{Generator: "joinery test"}
 	conn := document.NewConnectors(md.Mesh, res, info)
 	rep := document.NewReport(res, info)
 	at := document.Vec{1, 2, 3}
