@@ -5,6 +5,7 @@ import (
 	_ "embed"
 	"io"
 	"slices"
+	"strconv"
 	"strings"
 
 	"github.com/joinery-cae/joinery/joints"
@@ -325,10 +326,6 @@ func writeSeverities(w *Writer, fs []document.FindingDoc) {
 	w.Raw(".</p>\n")
 }
 
-func itoa(v int) string { return itoa64(int64(v)) }
+func itoa(v int) string { return strconv.Itoa(v) }
 
-func itoa64(v int64) string {
-	var w Writer
-	w.Int(v)
-	return string(w.b)
-}
+func itoa64(v int64) string { return strconv.FormatInt(v, 10) }

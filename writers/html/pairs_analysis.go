@@ -276,12 +276,12 @@ func (pa *pairAnalysis) consecutive(conn *document.ConnectorsDoc, gov []float64)
 	}
 	var tree []spacing
 	for _, e := range edges {
-		ri, rj := find(e.i), find(e.j)
+		ri, rj := find(int(e.i)), find(int(e.j))
 		if ri == rj {
 			continue
 		}
 		parent[max(ri, rj)] = min(ri, rj)
-		tree = append(tree, e)
+		tree = append(tree, spacing{i: int(e.i), j: int(e.j), length: e.length})
 	}
 	if len(tree) == 0 {
 		return
@@ -340,57 +340,60 @@ func (pa *pairAnalysis) orderRuns(conn *document.ConnectorsDoc) {
 	}
 }
 
+// edge joins points i < j, length apart.
+type edge struct {
+	i, j   int32
+	length float64
+}
+
 // nearestEdges returns, for every point, the edges to its k nearest
-// other points (ties by index), each edge once with i < j, sorted by
-// compareEdges. Points are
-// swept in order of their coordinate along dir, and a search stops where
-// that coordinate alone is farther than the k-th nearest found: exact,
-// and about n log n for points spread along dir.
-func nearestEdges(pts []r3.Vec, dir r3.Vec, k int) []spacing {
+// other points (ties by index), each edge once, sorted by compareEdges.
+// Points are swept in order of their coordinate along dir, and a search
+// stops where that coordinate alone is farther than the k-th nearest
+// found: exact, and about n log n for points spread along dir.
+func nearestEdges(pts []r3.Vec, dir r3.Vec, k int) []edge {
 	n := len(pts)
-	order := make([]int, n)
+	order := make([]int32, n)
 	for i := range order {
-		order[i] = i
+		order[i] = int32(i)
 	}
 	u := make([]float64, n)
 	for i, p := range pts {
 		u[i] = r3.Dot(p, dir)
 	}
-	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(u[a], u[b]) })
-	type cand struct {
-		d float64
-		j int
-	}
-	var out []spacing
-	best := make([]cand, 0, k+1)
-	insert := func(c cand) {
-		pos, _ := slices.BinarySearchFunc(best, c, func(x, y cand) int { return cmp.Or(cmp.Compare(x.d, y.d), cmp.Compare(x.j, y.j)) })
-		best = slices.Insert(best, pos, c)
-		if len(best) > k {
-			best = best[:k]
-		}
-	}
+	slices.SortStableFunc(order, func(a, b int32) int { return cmp.Compare(u[a], u[b]) })
+	out := make([]edge, 0, k*n)
+	best := make([]edge, 0, k+1) // i: the other point
 	for r, i := range order {
 		best = best[:0]
 		for dirn := -1; dirn <= 1; dirn += 2 {
 			for s := r + dirn; s >= 0 && s < n; s += dirn {
 				j := order[s]
-				if len(best) == k && math.Abs(u[j]-u[i]) > best[k-1].d {
+				if len(best) == k && math.Abs(u[j]-u[i]) > best[k-1].length {
 					break
 				}
-				insert(cand{r3.Norm(r3.Sub(pts[j], pts[i])), j})
+				c := edge{i: j, length: r3.Norm(r3.Sub(pts[j], pts[i]))}
+				// Insertion into the k best, by length then index.
+				pos := len(best)
+				for pos > 0 && (best[pos-1].length > c.length || best[pos-1].length == c.length && best[pos-1].i > c.i) {
+					pos--
+				}
+				if pos < k {
+					best = slices.Insert(best, pos, c)
+					best = best[:min(len(best), k)]
+				}
 			}
 		}
 		for _, c := range best {
-			out = append(out, spacing{i: min(i, c.j), j: max(i, c.j), length: c.d})
+			out = append(out, edge{i: min(i, c.i), j: max(i, c.i), length: c.length})
 		}
 	}
 	// Each edge once: sorted as Kruskal takes them, duplicates adjacent.
 	slices.SortFunc(out, compareEdges)
-	return slices.CompactFunc(out, func(x, y spacing) bool { return x.i == y.i && x.j == y.j })
+	return slices.Compact(out)
 }
 
-// compareEdges orders edges shortest first, ties by their welds.
-func compareEdges(x, y spacing) int {
+// compareEdges orders edges shortest first, ties by their points.
+func compareEdges(x, y edge) int {
 	return cmp.Or(cmp.Compare(x.length, y.length), cmp.Compare(x.i, y.i), cmp.Compare(x.j, y.j))
 }

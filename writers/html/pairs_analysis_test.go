@@ -129,7 +129,7 @@ func TestNearestEdges(t *testing.T) {
 		}
 		k := 1 + rng.IntN(8)
 		got := nearestEdges(pts, r3.Vec{X: 1}, k)
-		var want []spacing
+		var want []edge
 		for i := range pts {
 			type c struct {
 				d float64
@@ -143,11 +143,11 @@ func TestNearestEdges(t *testing.T) {
 			}
 			slices.SortFunc(cs, func(x, y c) int { return cmp.Or(cmp.Compare(x.d, y.d), cmp.Compare(x.j, y.j)) })
 			for _, x := range cs[:min(k, len(cs))] {
-				want = append(want, spacing{i: min(i, x.j), j: max(i, x.j), length: x.d})
+				want = append(want, edge{i: int32(min(i, x.j)), j: int32(max(i, x.j)), length: x.d})
 			}
 		}
 		slices.SortFunc(want, compareEdges)
-		want = slices.CompactFunc(want, func(x, y spacing) bool { return x.i == y.i && x.j == y.j })
+		want = slices.Compact(want)
 		if !slices.Equal(got, want) {
 			t.Fatalf("trial %d (%d points, k %d): %d edges, brute force %d", trial, n, k, len(got), len(want))
 		}
