@@ -96,18 +96,31 @@ func partChains(m *geom.Mesh) [][][]int32 {
 	var t partTables
 	for pi := range m.Parts {
 		es := elems[first[pi]:first[pi+1]]
+		// Number the part's nodes locally, keep each element's local
+		// corners, and count the edges filed under each lower node (for
+		// freeEdges), in one pass over the part's elements.
 		t.global = t.global[:0]
+		t.start = append(t.start[:0], 0)
 		t.corners = grow(t.corners, 4*len(es))
 		for i, e := range es {
 			nodes := m.Conn[m.ElemStart[e]:m.ElemStart[e+1]]
 			nc := m.Type(int(e)).Corners()
-			t.corners[4*i+3] = -1
+			c := t.corners[4*i : 4*i+4]
+			c[3] = -1
 			for k, n := range nodes[:nc] {
 				if local[n] == 0 {
 					t.global = append(t.global, n)
+					t.start = append(t.start, 0)
 					local[n] = int32(len(t.global))
 				}
-				t.corners[4*i+k] = local[n] - 1
+				c[k] = local[n] - 1
+			}
+			prev := c[nc-1]
+			for _, n := range c[:nc] {
+				if n != prev { // collapsed edges bound nothing
+					t.start[min(n, prev)+1]++
+				}
+				prev = n
 			}
 		}
 		for _, n := range t.global {
@@ -134,28 +147,14 @@ type partTables struct {
 
 func grow(s []int32, n int) []int32 { return slices.Grow(s[:0], n)[:n] }
 
-// freeEdges sets t.free to the part's free edges: every element edge is
-// filed under its lower node, and an edge is free when its higher node
+// freeEdges sets t.free to the part's free edges, from the bucket sizes
+// partChains counted: every element edge is filed under its lower node, and an edge is free when its higher node
 // appears once in its lower node's bucket. Free edges come by lower
 // node, then in element order.
 func (t *partTables) freeEdges() {
 	nn := len(t.global)
-	t.start = grow(t.start, nn+1)
-	clear(t.start)
-	// Count the edges of each bucket, then file them. The two loops run
-	// over every edge of the model: they are written out rather than
-	// sharing a callback.
-	for i := 0; i < len(t.corners); i += 4 {
-		c := t.corners[i : i+4]
-		nc := 4 - int(c[3]>>31&1) // 3 when c[3] is -1
-		prev := c[nc-1]
-		for _, n := range c[:nc] {
-			if n != prev { // collapsed edges bound nothing
-				t.start[min(n, prev)+1]++
-			}
-			prev = n
-		}
-	}
+	// t.start[lo+1] counts the edges of lo's bucket (see partChains); file
+	// them.
 	for i := 1; i <= nn; i++ {
 		t.start[i] += t.start[i-1]
 	}

@@ -68,9 +68,8 @@ func (o *Overview) Write(w *Writer, p *Page) error {
 	writeLegend(w)
 	w.Raw("<div class=\"views\">\n")
 	locs := p.locationMarks()
-	for _, v := range overviewViews() {
-		o.writeView(w, p, v, locs)
-	}
+	views := overviewViews()
+	writeAll(w, len(views), func(w *Writer, i int) { o.writeView(w, p, views[i], locs) })
 	w.Raw("</div>\n<p class=\"note\">Click a view to enlarge it. Marks of joints with findings are drawn on top; a finding's joint link rings its marks in every picture.</p>\n</section>\n")
 	return nil
 }

@@ -67,7 +67,8 @@ type Mark struct {
 // Section is one part of the page after its header: it writes the
 // section's content (its <section> element with the Anchor as id, its
 // heading and body). Sections read the page (marks, findings) for their
-// links; they must write the same bytes for the same page.
+// links; they must write the same bytes for the same page, and must not
+// change the page: Render writes them concurrently.
 type Section interface {
 	// Anchor is the section's id in the page: unique, lower-case
 	// letters, digits and '-'.
@@ -180,8 +181,13 @@ func Render(out io.Writer, p *Page) error {
 	}
 	w.Raw("</ol></nav>\n</header>\n<main>\n")
 	writeRun(w, p)
-	for _, s := range p.Sections {
-		if err := s.Write(w, p); err != nil {
+	// Sections are written concurrently, each into its own writer; they
+	// only read the page, whose marks are indexed first.
+	p.MarkOf("")
+	errs := make([]error, len(p.Sections))
+	writeAll(w, len(p.Sections), func(sw *Writer, i int) { errs[i] = p.Sections[i].Write(sw, p) })
+	for _, err := range errs {
+		if err != nil {
 			return err
 		}
 	}

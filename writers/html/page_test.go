@@ -223,3 +223,33 @@ func TestPageDeterministic(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkRender measures ForBuild and Render alone on the page of the
+// 2,000,000-element synthetic body with 6,000 spot welds (the outline
+// found once).
+func BenchmarkRender(b *testing.B) {
+	if testing.Short() {
+		b.Skip("2,000,000 elements")
+	}
+	md, err := synth.Generate(synth.Config{Elements: 2_000_000, Welds: 6000, Bolts: 20, Seed: 1})
+	if err != nil {
+		b.Fatal(err)
+	}
+	in := &pipeline.Inputs{Job: &pipeline.Job{}, Model: &meshio.Model{Mesh: md.Mesh}, Joints: md.Joints}
+	res, err := pipeline.BuildConnectors(context.Background(), in, joints.BuildOptions{}, pipeline.Env{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	info := in.RunInfo("bench")
+	conn := document.NewConnectors(md.Mesh, res, info)
+	rep := document.NewReport(res, info)
+	o := html.NewOutline(md.Mesh)
+	var buf bytes.Buffer
+	for b.Loop() {
+		buf.Reset()
+		if err := html.Render(&buf, html.ForBuild(rep, conn, o)); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(buf.Len())/1e6, "MB")
+}

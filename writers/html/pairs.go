@@ -61,7 +61,8 @@ func (s *PartPairs) Write(w *Writer, p *Page) error {
 			outlines[s.outline.Parts[i].ID] = &s.outline.Parts[i]
 		}
 	}
-	for _, pa := range an.pairs {
+	writeAll(w, len(an.pairs), func(w *Writer, i int) {
+		pa := an.pairs[i]
 		w.Raw("<section class=\"pair\"")
 		w.Attr("id", PairAnchor(pa.a, pa.b))
 		w.Raw("><h3>")
@@ -70,7 +71,7 @@ func (s *PartPairs) Write(w *Writer, p *Page) error {
 		s.writePlan(w, pa, outlines[pa.a], outlines[pa.b])
 		s.writeConnectors(w, p, pa.conns, pa)
 		w.Raw("</section>\n")
-	}
+	})
 	if len(an.unpaired) > 0 {
 		w.Raw("<section class=\"pair\" id=\"unpaired\"><h3>Joints in no part pair</h3>\n")
 		s.writeConnectors(w, p, an.unpaired, nil)

@@ -20,9 +20,10 @@ import (
 const RunCut = 2.5
 
 // neighbours is how many nearest welds of its pair each weld is linked
-// to before the minimum spanning forest is taken (our choice: enough for
-// welds in lines and in small grids).
-const neighbours = 8
+// to before the minimum spanning forest is taken (our choice: a weld's
+// consecutive welds are among its two nearest in a line, its four in a
+// grid).
+const neighbours = 4
 
 // pairAnalysis is what the page shows of the connectors joining one
 // pair of parts directly (as consecutive sheets of a stack).
@@ -105,7 +106,8 @@ func analyse(conn *document.ConnectorsDoc, findings []document.FindingDoc) *buil
 			an.unpaired = append(an.unpaired, i)
 		}
 	}
-	for _, pa := range an.pairs {
+	parallel(len(an.pairs), func(k int) {
+		pa := an.pairs[k]
 		for _, i := range pa.conns {
 			c := &conn.Connectors[i]
 			pa.findings += len(an.findingsOf[c.ID])
@@ -132,7 +134,7 @@ func analyse(conn *document.ConnectorsDoc, findings []document.FindingDoc) *buil
 			pa.chart(conn, dirs)
 		}
 		pa.orderRuns(conn)
-	}
+	})
 	// Pairs with the most findings first, then by part ids.
 	slices.SortFunc(an.pairs, func(x, y *pairAnalysis) int {
 		return cmp.Or(cmp.Compare(y.findings, x.findings), cmp.Compare(y.notBuilt+y.flagged, x.notBuilt+x.flagged),
@@ -395,5 +397,11 @@ func nearestEdges(pts []r3.Vec, dir r3.Vec, k int) []edge {
 
 // compareEdges orders edges shortest first, ties by their points.
 func compareEdges(x, y edge) int {
-	return cmp.Or(cmp.Compare(x.length, y.length), cmp.Compare(x.i, y.i), cmp.Compare(x.j, y.j))
+	switch {
+	case x.length != y.length:
+		return cmp.Compare(x.length, y.length)
+	case x.i != y.i:
+		return int(x.i - y.i)
+	}
+	return int(x.j - y.j)
 }
