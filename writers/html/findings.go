@@ -55,7 +55,7 @@ func (FindingsTable) Write(w *Writer, p *Page) error {
 		w.Text(partLabel(id, p.PartNames[id]) + " (" + itoa(parts[id]) + ")")
 		w.Raw("</option>")
 	}
-	w.Raw("</select></label> <output id=\"f-shown\"></output></form>\n")
+	w.Raw("</select></label> <output id=\"f-shown\"></output> <button type=\"button\" id=\"f-more\" hidden=\"hidden\">show all</button></form>\n")
 	// Rows are kept lean, as a run may have tens of thousands: the
 	// script filters on the code and parts cells, and finds a link's
 	// joint from its target's id.

@@ -20,21 +20,34 @@
   Object.keys(counts).forEach(function (s) { body.setAttribute("data-marks-" + s, counts[s]); });
 
   // The findings table: filter by code (second cell) and part (fourth).
-  var rows = all("#findings-table tbody tr");
-  var code = d.getElementById("f-code"), part = d.getElementById("f-part"), shown = d.getElementById("f-shown");
+  // Of the matching rows the first 500 are shown until "show all" is
+  // pressed, so that a run with tens of thousands of findings opens fast.
+  var rows = all("#findings-table tbody tr"), limit = 500, every = /^#f-/.test(location.hash);
+  var code = d.getElementById("f-code"), part = d.getElementById("f-part");
+  var shown = d.getElementById("f-shown"), more = d.getElementById("f-more");
   function filter() {
-    var c = code.value, p = part.value, n = 0;
+    var c = code.value, p = part.value, n = 0, vis = 0;
     rows.forEach(function (r) {
       var ok = (!c || r.cells[1].textContent === c) &&
         (!p || (" " + r.cells[3].textContent + " ").indexOf(" " + p + " ") >= 0);
-      r.hidden = !ok;
       if (ok) n++;
+      var show = ok && (every || vis < limit);
+      if (show) vis++;
+      if (r.hidden === show) r.hidden = !show;
     });
-    shown.textContent = n + " of " + rows.length + " shown";
+    shown.textContent = n + " of " + rows.length + " match" + (vis < n ? ", the first " + vis + " shown" : "");
+    more.hidden = vis >= n;
   }
-  if (code && part && shown) {
+  if (code && part && shown && more) {
     code.addEventListener("change", filter);
     part.addEventListener("change", filter);
+    more.addEventListener("click", function () { every = true; filter(); });
+    // A link to a finding shows it, whatever the filters.
+    d.addEventListener("click", function (ev) {
+      var a = ev.target.closest && ev.target.closest("a[href^='#f-']");
+      var r = a && d.getElementById(a.getAttribute("href").slice(1));
+      if (r && r.hidden) { code.value = ""; part.value = ""; every = true; filter(); }
+    });
     filter();
   }
   body.setAttribute("data-rows", rows.length);
