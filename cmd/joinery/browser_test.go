@@ -121,13 +121,56 @@ func TestPageInBrowser(t *testing.T) {
 	if n := strings.Count(dom, `<tr id="f-`); n != len(rep.Findings) {
 		t.Errorf("%d finding rows in the dumped DOM, want %d", n, len(rep.Findings))
 	}
+	// The script's answers to a reader: filter the findings by the first
+	// code, then follow the first joint link; a test script added to a
+	// copy of the page records what the page shows then.
+	probe := `<script>
+(function () {
+  var d = document, b = d.body, code = d.getElementById("f-code");
+  code.value = code.options[1].value;
+  code.dispatchEvent(new Event("change"));
+  b.setAttribute("data-t-code", code.value);
+  b.setAttribute("data-t-shown", d.querySelectorAll("#findings-table tbody tr:not([hidden])").length);
+  code.value = "";
+  code.dispatchEvent(new Event("change"));
+  d.querySelector("#findings-table a[href^='#axo-']").click();
+  b.setAttribute("data-t-rings", d.querySelectorAll("circle.ring").length);
+  b.setAttribute("data-t-lit", d.querySelectorAll("tr.hl").length);
+})();
+</script>
+</body>`
+	html, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	probed := filepath.Join(dir, "probe.html")
+	if err := os.WriteFile(probed, bytes.Replace(html, []byte("</body>"), []byte(probe), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dom, log = runChromium(t, bin, "--dump-dom", "file://"+probed)
+	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
+		t.Errorf("console messages with the probe:\n%s", strings.Join(msgs, "\n"))
+	}
+	after := map[string]string{}
+	for _, m := range bodyAttr.FindAllStringSubmatch(bodyTag.FindString(dom), -1) {
+		after[m[1]] = m[2]
+	}
+	if want := strconv.Itoa(rep.Summary.ByCode[after["t-code"]]); after["t-shown"] != want {
+		t.Errorf("filtered by %q: %s rows shown, report.json has %s", after["t-code"], after["t-shown"], want)
+	}
+	// The joint's marks in the four overview views and its pair's plan
+	// view are ringed, its row in the pair's table lit.
+	if n, _ := strconv.Atoi(after["t-rings"]); n < 5 || after["t-lit"] == "0" {
+		t.Errorf("following a joint link: %s rings, %s rows lit", after["t-rings"], after["t-lit"])
+	}
+
 	shot := filepath.Join(dir, "report.png")
 	runChromium(t, bin, "--window-size=1200,2600", "--force-device-scale-factor=0.75", "--screenshot="+shot, page)
 	b, err := os.ReadFile(shot)
 	if err != nil || !bytes.HasPrefix(b, []byte("\x89PNG")) {
 		t.Fatalf("no screenshot: %v", err)
 	}
-	t.Logf("screenshot: %s (%d bytes); load took %s ms", shot, len(b), attrs["load-ms"])
+	t.Logf("screenshot: %s (%d bytes); load took %s ms; probe %v", shot, len(b), attrs["load-ms"], after)
 	if *update {
 		small, err := paletted(b)
 		if err != nil {
