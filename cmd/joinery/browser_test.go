@@ -72,8 +72,11 @@ var (
 // at all (it writes none, so any is an error), and the counts it reads
 // back from the rendered DOM and writes on the body (marks per state in
 // the axonometric view, rows of the findings table) must match
-// report.json. A screenshot is kept in the test's temp dir; with
-// -update it also becomes the README's docs/report-html.png.
+// report.json. A copy of the page with a probe script then filters the
+// findings by a code and follows a joint link, and the rows shown, the
+// rings drawn and the rows lit must follow. A screenshot is kept in the
+// test's temp dir; with -update it also becomes the README's
+// docs/report-html.png.
 func TestPageInBrowser(t *testing.T) {
 	skipWithoutExample(t)
 	if testing.Short() {

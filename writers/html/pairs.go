@@ -279,7 +279,7 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 	w.Raw("</svg><figcaption>")
 	w.Text("Plan view in the pair's chart: u along " + dir(pa.e1) + ", v along " + dir(pa.e2) + ", seen from " + dir(pa.n) +
 		" (the normal: the mean stack axis), origin " + point(pa.origin) + " mm. Part " + itoa64(pa.a) + " solid, part " + itoa64(pa.b) +
-		" dashed (their free edges within reach of the chart's plane); circles: nugget diameters to scale; blue: consecutive welds; vermillion: spacing below the minimum.")
+		" dashed (their free edges within reach of the chart's plane); circles: nugget diameters to scale; blue dashes: the weld line (centreline) through consecutive welds; vermillion: spacing below the minimum.")
 	w.Raw("</figcaption></figure>\n")
 }
 
@@ -287,6 +287,7 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 // the chart's plane and inside the picture.
 func planOutline(pw *pathWriter, f *frame, po *PartOutline, slab float64) {
 	w, h := float64(f.w), float64(f.h)
+	normal := r3.Cross(f.right, f.up)
 	var ls orb.LineString
 	flush := func() {
 		if len(ls) >= 2 {
@@ -297,7 +298,7 @@ func planOutline(pw *pathWriter, f *frame, po *PartOutline, slab float64) {
 	for _, c := range po.Chains {
 		for _, q := range c {
 			d := r3.Sub(q, f.origin)
-			if math.Abs(r3.Dot(d, r3.Cross(f.right, f.up))) > slab {
+			if math.Abs(r3.Dot(d, normal)) > slab {
 				flush()
 				continue
 			}

@@ -14,7 +14,6 @@ const (
 	colLine     = "#0072B2" // blue: weld lines, rule curves
 	colSky      = "#56B4E9" // sky blue: data of two-sheet stacks
 	colPurple   = "#CC79A7" // reddish purple: three-sheet stacks, locations of findings
-	colOutline  = "#8C8C8C" // grey, not of the set: part outlines
 )
 
 // rgb returns a hex colour for gonum/plot.
@@ -59,12 +58,9 @@ func glyph(state string) string {
 	return "g-other"
 }
 
-// Pictures are drawn in units of a tenth of a pixel of their nominal
-// size; marks have the same size in every picture.
-const (
-	unitsPerPx = 10
-	markRadius = 32 // built disc, units
-)
+// unitsPerPx: pictures are drawn in units of a tenth of a pixel of their
+// nominal size (the marks' symbols too, a disc of 32 units for built).
+const unitsPerPx = 10
 
 // writeGlyphDefs writes the symbols of the states, used by every
 // picture: a disc for built, a triangle for flagged, a cross for
