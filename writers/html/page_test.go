@@ -240,7 +240,7 @@ func BenchmarkRender(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	info := in.RunInfo("bench")
+	info := document.RunInfo{Generator: "bench"}
 	conn := document.NewConnectors(md.Mesh, res, info)
 	rep := document.NewReport(res, info)
 	o := html.NewOutline(md.Mesh)
