@@ -24,6 +24,7 @@ type buildOptions struct {
 	nuggetRule   string
 	links        string
 	failOn       string
+	noHTML       bool
 	flags        *pflag.FlagSet
 }
 
@@ -41,6 +42,8 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.nuggetRule, "nugget-rule", joints.DefaultNuggetRule.String(), "default nugget diameter from the governing thickness t: 4sqrt or 5sqrt (d = K*sqrt(t))")
 	fs.StringVar(&o.links, "links", joints.DefaultLinks.String(), fmt.Sprintf("how links bridge a stack: %s (one link between the ends of consecutive sheets, across the gap) or %s (per sheet an offset link to its faying face, joined by zero-length faying joints)", joints.GapLinks, joints.OffsetLinks))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
+	fs.BoolVar(&o.noHTML, "no-html", false, "developer switch: leave report.html out, to measure what it costs")
+	_ = fs.MarkHidden("no-html")
 }
 
 // apply layers the flags the user set over the job's settings.
@@ -90,6 +93,7 @@ directory:
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
   report.json       summary and findings (schema joinery/report, version 2)
   report.txt        the same for a person
+  report.html       the same with pictures, plots and a findings table, for a browser
 Links bridge each pair of consecutive sheets between their ends (--links gap),
 or (--links offset) by an offset link from each sheet's end along its normal to
 its faying face (t/2 from a mid-surface mesh, 0 or t from an outer-face one, as
@@ -125,6 +129,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
+	s.NoPage = o.noHTML
 	out, err := pipeline.Build(c.Context(), job, s, g.env())
 	if err != nil {
 		return err

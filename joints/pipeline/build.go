@@ -13,6 +13,7 @@ import (
 	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
 )
 
 // DefaultOut is the output directory when neither the job nor a flag
@@ -25,6 +26,9 @@ type BuildSettings struct {
 	FailOn  joints.Severity
 	Fail    bool // false for --fail-on never
 	Out     string
+	// NoPage leaves report.html out of the set: a developer switch (the
+	// hidden flag --no-html) to measure what the page costs.
+	NoPage bool
 }
 
 // BuildSettings reads and checks the job's build settings. Errors are
@@ -62,7 +66,7 @@ type Outcome struct {
 
 // BuildFiles are the names of the files a build writes, in order.
 func BuildFiles() []string {
-	return []string{"connectors.json", "connectors.csv", "connectors.vtk", "report.json", "report.txt"}
+	return []string{"connectors.json", "connectors.csv", "connectors.vtk", "report.json", "report.txt", "report.html"}
 }
 
 // Build runs a whole build: load the job's inputs, build the connectors,
@@ -80,6 +84,12 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	if err != nil {
 		return nil, err
 	}
+	// The page's outline of the model needs only the mesh: find it while
+	// the connectors are built.
+	outline := make(chan *html.Outline, 1)
+	if !s.NoPage {
+		go func() { outline <- html.NewOutline(in.Model.Mesh) }()
+	}
 	res, err := BuildConnectors(ctx, in, s.Options, env)
 	if err != nil {
 		return nil, err
@@ -93,14 +103,26 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	}
 	conn := document.NewConnectors(in.Model.Mesh, res, info)
 	rep := document.NewReport(res, info)
-	rendered, err := writers.Render(buildFiles(conn, rep))
+	files := buildFiles(conn, rep)
+	if !s.NoPage {
+		// Rendered beside the other files, the page waits there for the
+		// outline.
+		files = append(files, writers.File{Name: "report.html", Render: func(w io.Writer) error {
+			return html.Render(w, html.ForBuild(rep, conn, <-outline))
+		}})
+	}
+	rendered, err := writers.Render(files)
 	if err != nil {
 		return nil, err
 	}
 	if err := out.Write(writers.Set{Job: "build", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
 		return nil, err
 	}
-	return &Outcome{Out: s.Out, Files: BuildFiles(), RunID: info.RunID, Report: rep, Connectors: conn, Result: res,
+	names := BuildFiles()
+	if s.NoPage {
+		names = names[:len(names)-1] // report.html comes last
+	}
+	return &Outcome{Out: s.Out, Files: names, RunID: info.RunID, Report: rep, Connectors: conn, Result: res,
 		Reached: s.Fail && res.Reached(s.FailOn)}, nil
 }
 
@@ -118,7 +140,8 @@ func OpenOutput(dir string) (*writers.OutputDir, error) {
 	return out, err
 }
 
-// buildFiles lists the files of a build's output set, in BuildFiles order.
+// buildFiles lists the files of a build's output set but the page, in
+// BuildFiles order.
 func buildFiles(conn *document.ConnectorsDoc, rep *document.ReportDoc) []writers.File {
 	return []writers.File{
 		{Name: "connectors.json", Render: func(w io.Writer) error { return document.EncodeConnectors(w, conn) }},

@@ -1,0 +1,212 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"image"
+	"image/color"
+	"image/color/palette"
+	"image/draw"
+	"image/png"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// chromiumFlags run Chromium headless as this machine and CI need it:
+// without a sandbox (CI runs as root), without a GPU, and without the
+// background connections (updates, sync, field trials) that a closed
+// network refuses.
+func chromiumFlags() []string {
+	return []string{
+		"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync",
+		"--hide-scrollbars", "--enable-logging=stderr", "--v=0",
+	}
+}
+
+// chromium returns the path of a Chromium browser, or skips the test
+// where none is installed (.ci/run installs the Debian package).
+func chromium(t *testing.T) string {
+	t.Helper()
+	for _, name := range []string{"chromium", "chromium-browser"} {
+		if p, err := exec.LookPath(name); err == nil {
+			return p
+		}
+	}
+	t.Skip("no Chromium installed (Debian package chromium; .ci/run installs it)")
+	return ""
+}
+
+// runChromium runs the browser on a page with a fresh profile and
+// returns its standard output and its log.
+func runChromium(t *testing.T, bin string, args ...string) (stdout, log string) {
+	t.Helper()
+	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
+	defer cancel()
+	all := append(chromiumFlags(), "--user-data-dir="+t.TempDir())
+	cmd := exec.CommandContext(ctx, bin, append(all, args...)...)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	if err := cmd.Run(); err != nil {
+		t.Fatalf("chromium %v: %v\n%s", args, err, errb.String())
+	}
+	return out.String(), errb.String()
+}
+
+var (
+	bodyTag  = regexp.MustCompile(`<body[^>]*>`)
+	bodyAttr = regexp.MustCompile(`data-([a-z-]+)="([^"]*)"`)
+	console  = regexp.MustCompile(`(?m)^.*CONSOLE.*$`)
+)
+
+// TestPageInBrowser opens the example's report.html from disk in
+// headless Chromium. The page's script must run with no console message
+// at all (it writes none, so any is an error), and the counts it reads
+// back from the rendered DOM and writes on the body (marks per state in
+// the axonometric view, rows of the findings table) must match
+// report.json. A copy of the page with a probe script then filters the
+// findings by a code and follows a joint link, and the rows shown, the
+// rings drawn and the rows lit must follow. A screenshot is kept in the
+// test's temp dir; with -update it also becomes the README's
+// docs/report-html.png.
+func TestPageInBrowser(t *testing.T) {
+	skipWithoutExample(t)
+	if testing.Short() {
+		t.Skip("starts a browser")
+	}
+	bin := chromium(t)
+	dir := t.TempDir()
+	if code, _, errs := runCLI(t, "build", exampleJob, "--out", dir, "--quiet"); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := document.DecodeReport(f, "report.json")
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := "file://" + filepath.Join(dir, "report.html")
+	dom, log := runChromium(t, bin, "--dump-dom", page)
+	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
+		t.Errorf("console messages:\n%s", strings.Join(msgs, "\n"))
+	}
+	body := bodyTag.FindString(dom)
+	attrs := map[string]string{}
+	for _, m := range bodyAttr.FindAllStringSubmatch(body, -1) {
+		attrs[m[1]] = m[2]
+	}
+	if attrs["ready"] != "1" || attrs["errors"] != "" {
+		t.Fatalf("the script did not run to its end without errors: %s", body)
+	}
+	for state, want := range rep.Summary.ByState {
+		got := 0
+		if v, ok := attrs["marks-"+state]; ok {
+			got, _ = strconv.Atoi(v)
+		}
+		if got != want {
+			t.Errorf("%d %s marks in the rendered page, report.json says %d", got, state, want)
+		}
+	}
+	if got := attrs["rows"]; got != strconv.Itoa(len(rep.Findings)) {
+		t.Errorf("%s finding rows in the rendered page, report.json has %d findings", got, len(rep.Findings))
+	}
+	if n := strings.Count(dom, `<tr id="f-`); n != len(rep.Findings) {
+		t.Errorf("%d finding rows in the dumped DOM, want %d", n, len(rep.Findings))
+	}
+	// The script's answers to a reader: filter the findings by the first
+	// code, then follow the first joint link; a test script added to a
+	// copy of the page records what the page shows then.
+	probe := `<script>
+(function () {
+  var d = document, b = d.body, code = d.getElementById("f-code");
+  code.value = code.options[1].value;
+  code.dispatchEvent(new Event("change"));
+  b.setAttribute("data-t-code", code.value);
+  b.setAttribute("data-t-shown", d.querySelectorAll("#findings-table tbody tr:not([hidden])").length);
+  code.value = "";
+  code.dispatchEvent(new Event("change"));
+  d.querySelector("#findings-table a[href^='#axo-']").click();
+  b.setAttribute("data-t-rings", d.querySelectorAll("circle.ring").length);
+  b.setAttribute("data-t-lit", d.querySelectorAll("tr.hl").length);
+})();
+</script>
+</body>`
+	html, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	probed := filepath.Join(dir, "probe.html")
+	if err := os.WriteFile(probed, bytes.Replace(html, []byte("</body>"), []byte(probe), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dom, log = runChromium(t, bin, "--dump-dom", "file://"+probed)
+	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
+		t.Errorf("console messages with the probe:\n%s", strings.Join(msgs, "\n"))
+	}
+	after := map[string]string{}
+	for _, m := range bodyAttr.FindAllStringSubmatch(bodyTag.FindString(dom), -1) {
+		after[m[1]] = m[2]
+	}
+	if want := strconv.Itoa(rep.Summary.ByCode[after["t-code"]]); after["t-shown"] != want {
+		t.Errorf("filtered by %q: %s rows shown, report.json has %s", after["t-code"], after["t-shown"], want)
+	}
+	// The joint's marks in the four overview views and its pair's plan
+	// view are ringed, its row in the pair's table lit.
+	if n, _ := strconv.Atoi(after["t-rings"]); n < 5 || after["t-lit"] == "0" {
+		t.Errorf("following a joint link: %s rings, %s rows lit", after["t-rings"], after["t-lit"])
+	}
+
+	shot := filepath.Join(dir, "report.png")
+	runChromium(t, bin, "--window-size=1200,2600", "--force-device-scale-factor=0.75", "--screenshot="+shot, page)
+	b, err := os.ReadFile(shot)
+	if err != nil || !bytes.HasPrefix(b, []byte("\x89PNG")) {
+		t.Fatalf("no screenshot: %v", err)
+	}
+	t.Logf("screenshot: %s (%d bytes); load took %s ms; probe %v", shot, len(b), attrs["load-ms"], after)
+	if *update {
+		small, err := paletted(b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join("..", "..", "docs", "report-html.png"), small, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+// paletted re-encodes a screenshot with a palette of 256 colours (the
+// web-safe colours, greys and the page's own), which a page of flat
+// colours keeps without visible loss at a fraction of the size.
+func paletted(b []byte) ([]byte, error) {
+	img, err := png.Decode(bytes.NewReader(b))
+	if err != nil {
+		return nil, err
+	}
+	pal := color.Palette{}
+	pal = append(pal, palette.WebSafe...)
+	for _, hex := range []uint32{0x009E73, 0xE69F00, 0xD55E00, 0x0072B2, 0x56B4E9, 0xCC79A7, 0xfbf1ea, 0xfff3c4} {
+		pal = append(pal, color.RGBA{uint8(hex >> 16), uint8(hex >> 8), uint8(hex), 255})
+	}
+	for g := 0; len(pal) < 256; g += 8 {
+		pal = append(pal, color.Gray{Y: uint8(g)})
+	}
+	p := image.NewPaletted(img.Bounds(), pal)
+	draw.Draw(p, p.Bounds(), img, img.Bounds().Min, draw.Src)
+	var out bytes.Buffer
+	enc := png.Encoder{CompressionLevel: png.BestCompression}
+	if err := enc.Encode(&out, p); err != nil {
+		return nil, err
+	}
+	return out.Bytes(), nil
+}
