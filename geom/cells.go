@@ -48,11 +48,19 @@ func (o ReadOptions) PartArrayName() string {
 // points, cells with VTK type numbers, and the optional data arrays.
 // Conn holds point indices; cell c uses Conn[Offsets[c]:Offsets[c+1]].
 type CellSet struct {
-	File      string
-	Points    []r3.Vec
-	Types     []uint8
-	Offsets   []int64 // len(Types)+1
-	Conn      []int64
+	File    string
+	Points  []r3.Vec
+	Types   []uint8
+	Offsets []int64 // len(Types)+1
+	Conn    []int64
+	// Conn32 and Offsets32, when Conn32 is not nil, hold the
+	// connectivity and the offsets instead of Conn and Offsets, in 32
+	// bits, for a reader that checked that its values fit (Offsets32
+	// starts at 0). When every cell is read, MeshFromCells makes them the
+	// mesh's Conn and ElemStart without a copy, as it takes ElemIDs and
+	// Thickness; the cell set must not be changed afterwards.
+	Conn32    []int32
+	Offsets32 []int32
 	NodeIDs   []int64   // per point; nil means index+1
 	ElemIDs   []int64   // per cell (all cells, kept or not); nil means index+1
 	Part      []int64   // per cell; nil when the file has no part array
@@ -126,8 +134,8 @@ func (cs *CellSet) where(a CellArray, index int) string {
 func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	nc := len(cs.Types)
 	partArray := opt.PartArrayName()
-	if len(cs.Offsets) != nc+1 {
-		return nil, FileError(cs.File, "%d cell offsets for %d cells", len(cs.Offsets), nc)
+	if n := cs.numOffsets(); n != nc+1 {
+		return nil, FileError(cs.File, "%d cell offsets for %d cells", n, nc)
 	}
 	if n := len(cs.NodeIDs); n != 0 && n != len(cs.Points) {
 		return nil, FileError(cs.File, "point array node_id has %d values for %d points", n, len(cs.Points))
@@ -181,20 +189,80 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			skipped = skipped.Add(SkippedCells{t: 1})
 		}
 	}
-	m.ElemIDs = make([]int64, 0, kept)
-	m.ElemPart = make([]int32, 0, kept)
-	m.ElemStart = make([]int32, 1, kept+1)
-	m.Conn = make([]int32, 0, nconn)
-	if cs.Thickness != nil {
-		m.ElemThickness = make([]float64, 0, kept)
+	// take: every cell is read, so the mesh takes the cell set's arrays
+	// over instead of copying them.
+	take := skipped == nil
+	// 64-bit offsets and connectivity are always narrowed into new
+	// arrays.
+	takeConn := take && cs.Conn32 != nil
+	if takeConn {
+		m.Conn, m.ElemStart = cs.Conn32, cs.Offsets32
+	} else {
+		m.Conn = make([]int32, 0, nconn)
+		m.ElemStart = make([]int32, 1, kept+1)
 	}
+	if take && cs.ElemIDs != nil {
+		m.ElemIDs = cs.ElemIDs
+	} else {
+		m.ElemIDs = make([]int64, 0, kept)
+	}
+	m.ElemPart = make([]int32, 0, kept)
+	if cs.Thickness != nil {
+		if take {
+			m.ElemThickness = cs.Thickness
+		} else {
+			m.ElemThickness = make([]float64, 0, kept)
+		}
+	}
+	var (
+		partIdx map[int64]int32
+		err     error
+	)
+	if cs.Conn32 != nil {
+		partIdx, err = fillCells(m, cs, cs.Offsets32, cs.Conn32, opt, takeConn, take)
+	} else {
+		partIdx, err = fillCells(m, cs, cs.Offsets, cs.Conn, opt, false, take)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if skipped != nil {
+		if err := cs.checkDroppedShells(partIdx, opt); err != nil {
+			return nil, err
+		}
+	}
+	m.Sources = []Source{{File: cs.File, Skipped: skipped, ImplicitNodeIDs: cs.NodeIDs == nil, ImplicitElemIDs: cs.ElemIDs == nil}}
+	if err := m.Index(); err != nil {
+		return nil, cs.duplicateError(m, err)
+	}
+	return m, nil
+}
+
+// numOffsets returns the number of cell offsets of cs, in 64 or 32 bits.
+func (cs *CellSet) numOffsets() int {
+	if cs.Conn32 != nil || cs.Offsets32 != nil {
+		return len(cs.Offsets32)
+	}
+	return len(cs.Offsets)
+}
+
+// fillCells checks the cells of cs (offsets offs into conn) and fills
+// m's elements: their connectivity (unless takeConn: m.Conn and
+// m.ElemStart are offs and conn themselves), ids, parts and thicknesses
+// (unless takeArrays: m holds cs's arrays already, which are only
+// checked). It returns the index in m.Parts of each part id.
+func fillCells[T int32 | int64](m *Mesh, cs *CellSet, offs, conn []T, opt ReadOptions, takeConn, takeArrays bool) (map[int64]int32, error) {
+	scale := opt.scale()
 	partIdx := map[int64]int32{}
 	lastPID, lastPI := int64(0), int32(-1) // elements of a part come in runs
 	np := int64(len(cs.Points))
+	if takeConn && len(offs) > 0 && offs[0] != 0 {
+		return nil, cs.errAt(ArrayOffsets, 0, 0, "cell 0: offsets start at %d, not 0", offs[0])
+	}
 	for c, t := range cs.Types {
-		lo, hi := cs.Offsets[c], cs.Offsets[c+1]
-		if lo < 0 || hi < lo || hi > int64(len(cs.Conn)) {
-			return nil, cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(cs.Conn))
+		lo, hi := int64(offs[c]), int64(offs[c+1])
+		if lo < 0 || hi < lo || hi > int64(len(conn)) {
+			return nil, cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(conn))
 		}
 		et, ok := VTKElemType(t)
 		if !ok {
@@ -203,13 +271,17 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 		if want := int64(et); hi-lo != want {
 			return nil, cs.errAt(ArrayTypes, c, c, "cell %d: type %d (%s) needs %d points, has %d", c, t, VTKCellName(t), want, hi-lo)
 		}
-		for k, p := range cs.Conn[lo:hi] {
-			if p < 0 || p >= np {
+		for k, p := range conn[lo:hi] {
+			if int64(p) < 0 || int64(p) >= np {
 				return nil, cs.errAt(ArrayConn, int(lo)+k, c, "cell %d references point %d; the file has %d points", c, p, np)
 			}
-			m.Conn = append(m.Conn, int32(p))
+			if !takeConn {
+				m.Conn = append(m.Conn, int32(p))
+			}
 		}
-		m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
+		if !takeConn {
+			m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
+		}
 		id := int64(c) + 1
 		if cs.ElemIDs != nil {
 			id = cs.ElemIDs[c]
@@ -217,7 +289,9 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 				return nil, cs.errAt(ArrayElemIDs, c, c, "cell %d: element id %d is not positive", c, id)
 			}
 		}
-		m.ElemIDs = append(m.ElemIDs, id)
+		if !takeArrays || cs.ElemIDs == nil {
+			m.ElemIDs = append(m.ElemIDs, id)
+		}
 		pid := opt.DefaultPart
 		if cs.Part != nil {
 			pid = cs.Part[c]
@@ -240,19 +314,12 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			if err := CheckThickness(th, scale); err != nil {
 				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: %v", c, err)
 			}
-			m.ElemThickness = append(m.ElemThickness, th)
+			if !takeArrays {
+				m.ElemThickness = append(m.ElemThickness, th)
+			}
 		}
 	}
-	if skipped != nil {
-		if err := cs.checkDroppedShells(partIdx, opt); err != nil {
-			return nil, err
-		}
-	}
-	m.Sources = []Source{{File: cs.File, Skipped: skipped, ImplicitNodeIDs: cs.NodeIDs == nil, ImplicitElemIDs: cs.ElemIDs == nil}}
-	if err := m.Index(); err != nil {
-		return nil, cs.duplicateError(m, err)
-	}
-	return m, nil
+	return partIdx, nil
 }
 
 // checkDroppedShells fails when surface cells were skipped that belong

@@ -8,6 +8,7 @@ import (
 	"io"
 	"io/fs"
 	"math"
+	"runtime/debug"
 	"sort"
 	"strconv"
 	"strings"
@@ -45,24 +46,47 @@ func Read(r io.Reader, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
 	return Parse(buf.Bytes(), name, opt)
 }
 
-// ReadFile reads the mesh in the named VTK legacy file.
-func ReadFile(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	data, err := geom.ReadFile(path, opt.Digest)
+// ReadFile reads the mesh in the named VTK legacy file. It goes
+// through the file once (geom.OpenData): the file's bytes are not held
+// whole beside the arrays decoded from them.
+func ReadFile(path string, opt geom.ReadOptions) (m *geom.Mesh, err error) {
+	d, err := geom.OpenData(path, opt.Digest)
 	if err != nil {
 		return nil, fmt.Errorf("vtk: %w", err)
 	}
-	return Parse(data, path, opt)
+	defer d.Close()
+	old := debug.SetPanicOnFault(true)
+	defer func() {
+		debug.SetPanicOnFault(old)
+		if r := recover(); r != nil {
+			m, err = nil, fmt.Errorf("vtk: %w", d.Fault(r))
+		}
+	}()
+	if m, err = parse(d.Data, path, opt, d.Done); err != nil {
+		return nil, err
+	}
+	if err := d.Finish(); err != nil {
+		return nil, fmt.Errorf("vtk: %w", err)
+	}
+	return m, nil
 }
 
 // Parse reads a mesh from the whole content of a VTK legacy file; name is
 // used in error messages. The mesh does not keep data.
 func Parse(data []byte, name string, opt geom.ReadOptions) (*geom.Mesh, error) {
-	p := parser{name: name, data: data, npoints: -1, ncells: -1, partArray: opt.PartArrayName()}
+	return parse(data, name, opt, nil)
+}
+
+// parse parses data; done, when not nil, is told how far the parser has
+// gone (geom.InputData.Done).
+func parse(data []byte, name string, opt geom.ReadOptions, done func(int)) (*geom.Mesh, error) {
+	p := parser{name: name, data: data, npoints: -1, ncells: -1, partArray: opt.PartArrayName(), done: done}
 	p.cs.File = name
 	p.cs.Locate = p.locate
 	if err := p.parse(); err != nil {
 		return nil, fmt.Errorf("vtk: %w", err)
 	}
+	p.advance(len(data))
 	m, err := geom.MeshFromCells(&p.cs, opt)
 	if err != nil {
 		return nil, fmt.Errorf("vtk: %w", err)
@@ -98,6 +122,20 @@ type parser struct {
 	// span ArrayConn covers both the counts and the point indices.
 	spans   [geom.ArrayThickness + 1]span
 	classic bool
+	// done, when not nil, is told that the parser is done with
+	// data[:n] (advance).
+	done func(n int)
+}
+
+// chunk is how many values of a binary array are decoded between two
+// calls of advance.
+const chunk = 1 << 18
+
+// advance tells p.done that the parser is done with data[:n].
+func (p *parser) advance(n int) {
+	if p.done != nil {
+		p.done(n)
+	}
 }
 
 // span is where the values of an array start in the data, and their type.
@@ -126,7 +164,7 @@ func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
 			break
 		}
 		// Classic CELLS: per cell its point count, then its points.
-		offs := p.cs.Offsets
+		offs := p.cs.Offsets32
 		if len(offs) < 2 {
 			return 0, -1
 		}
@@ -139,7 +177,7 @@ func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
 			break
 		}
 		// The cell holding entry index: the first c with offs[c+1] > index.
-		c := sort.Search(len(offs)-1, func(c int) bool { return offs[c+1] > int64(index) })
+		c := sort.Search(len(offs)-1, func(c int) bool { return int(offs[c+1]) > index })
 		k = index + c + 1
 	}
 	sp := p.spans[a]
@@ -290,6 +328,7 @@ func (p *parser) parse() error {
 		if err != nil {
 			return err
 		}
+		p.advance(p.pos)
 	}
 	return p.finish()
 }
@@ -387,8 +426,13 @@ func (p *parser) readInts(off int, n int, t dtype, what string) ([]int64, error)
 	dst := make([]int64, n)
 	start := p.pos
 	if p.binary {
-		if bad := decodeInts(dst, p.data[start:], t); bad >= 0 {
-			return nil, p.errAt(start+bad*t.size, "%s: value %d is not an integer in range", what, bad+1)
+		for lo := 0; lo < n; lo += chunk {
+			hi := min(lo+chunk, n)
+			if bad := decodeInts(dst[lo:hi], p.data[start+t.binBytes(lo):], t); bad >= 0 {
+				bad += lo
+				return nil, p.errAt(start+bad*t.size, "%s: value %d is not an integer in range", what, bad+1)
+			}
+			p.advance(start + t.binBytes(hi))
 		}
 		p.pos += t.binBytes(n)
 		return dst, nil
@@ -416,7 +460,11 @@ func (p *parser) readFloats(off int, n int, t dtype, what string) ([]float64, er
 	}
 	dst := make([]float64, n)
 	if p.binary {
-		decodeFloats(dst, p.data[p.pos:], t)
+		for lo := 0; lo < n; lo += chunk {
+			hi := min(lo+chunk, n)
+			decodeFloats(dst[lo:hi], p.data[p.pos+t.binBytes(lo):], t)
+			p.advance(p.pos + t.binBytes(hi))
+		}
 		p.pos += t.binBytes(n)
 		return dst, nil
 	}
@@ -465,8 +513,13 @@ func (p *parser) points(off int) error {
 	start := p.pos
 	p.spans[geom.ArrayPoints] = span{start, t, true}
 	if p.binary {
-		if bad := decodePoints(pts, p.data[start:], t); bad >= 0 {
-			return p.errAt(start+t.binBytes(3*bad), "POINTS: point %d has a non-finite coordinate %v", bad, pts[bad])
+		for lo := 0; lo < n; lo += chunk {
+			hi := min(lo+chunk, n)
+			if bad := decodePoints(pts[lo:hi], p.data[start+t.binBytes(3*lo):], t); bad >= 0 {
+				bad += lo
+				return p.errAt(start+t.binBytes(3*bad), "POINTS: point %d has a non-finite coordinate %v", bad, pts[bad])
+			}
+			p.advance(start + t.binBytes(3*hi))
 		}
 		p.pos += t.binBytes(3 * n)
 	} else {
@@ -525,8 +578,11 @@ func (p *parser) readCells(off int) error {
 	if err := p.need(off, "CELLS", int64(size), dtypes[6]); err != nil {
 		return err
 	}
-	p.cs.Offsets = make([]int64, n+1)
-	p.cs.Conn = make([]int64, size-n)
+	if size-n > math.MaxInt32 {
+		return p.errAt(off, "CELLS: %d connectivity entries are more than a mesh can hold (%d)", size-n, math.MaxInt32)
+	}
+	p.cs.Offsets32 = make([]int32, n+1)
+	p.cs.Conn32 = make([]int32, size-n)
 	p.spans[geom.ArrayConn] = span{p.pos, dtypes[6], true}
 	p.classic = true
 	if p.binary {
@@ -539,10 +595,13 @@ func (p *parser) readCells(off int) error {
 // 4-byte point indices.
 func (p *parser) cellsBinary(n, size int) error {
 	src := p.data[p.pos : p.pos+4*size]
-	offs, conn := p.cs.Offsets, p.cs.Conn
+	offs, conn := p.cs.Offsets32, p.cs.Conn32
 	np := int64(p.npoints)
 	r, w := 0, 0 // read index in src (values), write index in conn
 	for c := 0; c < n; c++ {
+		if c%chunk == 0 {
+			p.advance(p.pos + 4*r)
+		}
 		k := int(int32(binary.BigEndian.Uint32(src[4*r:])))
 		if k < 0 || k > len(conn)-w {
 			return p.errAt(p.pos+4*r, "CELLS: cell %d has %d points, more than the size %d leaves", c, k, size)
@@ -551,7 +610,7 @@ func (p *parser) cellsBinary(n, size int) error {
 		idx := src[4*r : 4*(r+k)]
 		dst := conn[w : w+k]
 		for e := range dst {
-			v := int64(int32(binary.BigEndian.Uint32(idx[4*e:])))
+			v := int32(binary.BigEndian.Uint32(idx[4*e:]))
 			if np >= 0 && uint64(v) >= uint64(np) {
 				return p.errAt(p.pos+4*(r+e), "CELLS: cell %d references point %d; the file has %d points", c, v, np)
 			}
@@ -559,7 +618,7 @@ func (p *parser) cellsBinary(n, size int) error {
 		}
 		r += k
 		w += k
-		offs[c+1] = int64(w)
+		offs[c+1] = int32(w)
 	}
 	if w != len(conn) {
 		return p.errAt(p.pos+4*r, "CELLS: the cells hold %d values, the size says %d", r, size)
@@ -571,7 +630,7 @@ func (p *parser) cellsBinary(n, size int) error {
 // cellsASCII parses classic CELLS data.
 func (p *parser) cellsASCII(n, size int) error {
 	b := p.data
-	offs, conn := p.cs.Offsets, p.cs.Conn
+	offs, conn := p.cs.Offsets32, p.cs.Conn32
 	np := int64(p.npoints)
 	i, w, read := p.pos, 0, 0
 	for c := 0; c < n; c++ {
@@ -594,11 +653,11 @@ func (p *parser) cellsASCII(n, size int) error {
 			if np >= 0 && uint64(v) >= uint64(np) {
 				return p.errAt(i, "CELLS: cell %d references point %d; the file has %d points", c, v, np)
 			}
-			conn[w] = v
+			conn[w] = int32(v)
 			i = j
 			read++
 		}
-		offs[c+1] = int64(w)
+		offs[c+1] = int32(w)
 	}
 	if w != len(conn) {
 		return p.errAt(i, "CELLS: the cells hold %d values, the size says %d", read, size)
@@ -641,7 +700,7 @@ func (p *parser) cells5(off int) error {
 	if err != nil {
 		return err
 	}
-	nConn, err := p.count(off, 2, "connectivity size", math.MaxInt64/8)
+	nConn, err := p.count(off, 2, "connectivity size", maxCount)
 	if err != nil {
 		return err
 	}
@@ -700,7 +759,7 @@ func (p *parser) cells5(off int) error {
 			}
 		}
 	}
-	p.cs.Offsets, p.cs.Conn = offs, conn
+	p.cs.Offsets32, p.cs.Conn32 = narrow(offs), narrow(conn)
 	return nil
 }
 
@@ -726,6 +785,9 @@ func (p *parser) cellTypes(off int) error {
 	b, i := p.data, p.pos
 	p.spans[geom.ArrayTypes] = span{i, t, true}
 	for c := range types {
+		if p.binary && c%chunk == 0 {
+			p.advance(i)
+		}
 		var (
 			v  int64
 			at = i
@@ -945,10 +1007,21 @@ func (p *parser) finish() error {
 	case p.types && !p.cells:
 		return p.errAt(end, "CELL_TYPES without CELLS")
 	case !p.cells:
-		p.cs.Offsets = []int64{0}
+		p.cs.Offsets32, p.cs.Conn32 = []int32{0}, []int32{}
 	}
 	if p.npoints < 0 && p.ncells > 0 {
 		return p.errAt(end, "cells without POINTS")
 	}
 	return nil
+}
+
+// narrow copies values checked to fit in 32 bits (offsets rise to a
+// connectivity size, and point indices stay below a point count, both
+// at most math.MaxInt32) into int32.
+func narrow(v []int64) []int32 {
+	out := make([]int32, len(v))
+	for i, x := range v {
+		out[i] = int32(x)
+	}
+	return out
 }
