@@ -2,6 +2,7 @@ package geom
 
 import (
 	"math"
+	"math/bits"
 	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -112,12 +113,13 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 			}
 		}
 	}
-	// Blocks of elements are scanned concurrently and joined in block
-	// order, so the selection comes out in increasing element order.
+	// Blocks of elements are scanned concurrently, each marking its
+	// elements in a bit set (a block covers whole words), which is then
+	// read in element order: the selection comes out in increasing
+	// element order, in an array of its exact size.
 	ne := m.NumElems()
-	parts := make([][]int32, (ne+parallelBlock-1)/parallelBlock)
+	chosen := make([]uint64, (ne+63)/64)
 	parallelBlocks(ne, func(from, to int) {
-		var sel []int32
 		for e := from; e < to; e++ {
 			blo, bhi := elemBox(m, e)
 			if bhi.X < lo.X || blo.X > hi.X || bhi.Y < lo.Y || blo.Y > hi.Y || bhi.Z < lo.Z || blo.Z > hi.Z {
@@ -132,18 +134,24 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 					for k := k0; k <= k1; k++ {
 						c := (i*ny+j)*nz + k
 						if marked[c/64]&(1<<(c%64)) != 0 {
-							sel = append(sel, int32(e))
+							chosen[e/64] |= 1 << (e % 64)
 							break scan
 						}
 					}
 				}
 			}
 		}
-		parts[from/parallelBlock] = sel
 	})
-	var sel []int32
-	for _, p := range parts {
-		sel = append(sel, p...)
+	count := 0
+	for _, w := range chosen {
+		count += bits.OnesCount64(w)
+	}
+	sel := make([]int32, 0, count)
+	for wi, w := range chosen {
+		for w != 0 {
+			sel = append(sel, int32(wi*64+bits.TrailingZeros64(w)))
+			w &= w - 1
+		}
 	}
 	return sel
 }

@@ -129,18 +129,30 @@ func parallelBlocks(n int, fn func(from, to int)) {
 }
 
 // newPackedTree builds a packedTree over the items in O(n) time (one
-// radix sort), holding 28 bytes per item and needing about 40 more while
-// it builds.
+// radix sort), holding 28 bytes per item and needing about 24 more while
+// it builds; it computes each item's box twice.
 func newPackedTree(items treeItems) packedTree {
 	n := items.Len()
 	if n == 0 {
 		return packedTree{level: []int{0, 0}}
 	}
+	// The levels' sizes, so that the item boxes are computed straight into
+	// the tree's array.
+	t := packedTree{level: []int{0}}
+	total := 0
+	for c := n; ; c = (c + treeFan - 1) / treeFan {
+		total += c
+		t.level = append(t.level, total)
+		if c == 1 {
+			break
+		}
+	}
+	t.boxes = make([]box32, total)
 	// Item boxes in input order, and the bounds of their centres.
 	// Blocks of items run concurrently; each item's box depends on the
 	// item alone and min/max merge in any order, so the result does not
 	// depend on the number of goroutines.
-	boxes := make([]box32, n)
+	boxes := t.boxes[:n]
 	clo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
 	chi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
 	var mu sync.Mutex
@@ -186,21 +198,17 @@ func newPackedTree(items treeItems) packedTree {
 		}
 	})
 	radixSort(codes, ids, 3*bits)
+	t.ids = ids
 
-	// Levels: count the nodes, then fill the item boxes and the unions.
-	t := packedTree{ids: ids, level: []int{0}}
-	total := 0
-	for c := n; ; c = (c + treeFan - 1) / treeFan {
-		total += c
-		t.level = append(t.level, total)
-		if c == 1 {
-			break
+	// Level 0: the item boxes in curve order, made again from the items
+	// over the boxes in input order, which only served for the codes
+	// (following the permutation's cycles to sort them in place would
+	// chase one cache miss after another); then the unions.
+	parallelBlocks(n, func(from, to int) {
+		for i := from; i < to; i++ {
+			boxes[i] = box32Of(items.Box(int(ids[i])))
 		}
-	}
-	t.boxes = make([]box32, total)
-	for i, id := range ids {
-		t.boxes[i] = boxes[id]
-	}
+	})
 	for l := 1; l+1 < len(t.level); l++ {
 		child := t.boxes[t.level[l-1]:t.level[l]]
 		for i := range t.level[l+1] - t.level[l] {

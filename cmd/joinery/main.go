@@ -12,6 +12,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime/debug"
 
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
@@ -44,7 +45,20 @@ const exitStatusHelp = `EXIT STATUS
 // version is set at build time with -ldflags "-X main.version=...".
 var version = "dev"
 
+// gcPercent is the garbage collector's target (the GOGC setting) when
+// the environment sets none: the heap may grow by this percentage of
+// the live data before a collection. Joinery's heap is mostly a few
+// large arrays without pointers (the mesh), which the collector does not
+// scan, so collecting four times as often as Go's default (100) costs
+// little time and keeps the peak memory of a build close to its live
+// data (measured on the 2,000,000-element synthetic body:
+// examples/synthbody/compare.sh).
+const gcPercent = 25
+
 func main() {
+	if os.Getenv("GOGC") == "" {
+		debug.SetGCPercent(gcPercent)
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	tty := term.IsTerminal(int(os.Stderr.Fd()))
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr, tty)

@@ -93,6 +93,12 @@ func partChains(m *geom.Mesh) [][][]int32 {
 	}
 	out := make([][][]int32, len(m.Parts))
 	local := make([]int32, m.NumNodes()) // node -> 1 + its local number in the current part, else 0
+	// Written before it is read: fresh memory first read maps a shared
+	// page of zeros, which every first write then replaces, and on a
+	// machine with other threads running each replacement stops them all
+	// (a flush of their address translations): 0.5 s on the
+	// 2,000,000-element body.
+	clear(local)
 	var t partTables
 	for pi := range m.Parts {
 		es := elems[first[pi]:first[pi+1]]
