@@ -80,7 +80,12 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 		return nil
 	}
 	// The grid spans the points' box grown by margin; its cells are at
-	// least margin wide, coarser if the grid would be too large.
+	// least half the margin wide, coarser if the grid would be too large.
+	// Around each point it marks the cells that come within margin of it
+	// (with a little slack against rounding), a ball of cells rather than
+	// a cube: the fewer elements the index holds, the faster it builds.
+	// An element within margin of a point has a spot of its box within
+	// margin, in a cell that is marked.
 	lo, hi := finitePts[0], finitePts[0]
 	for _, p := range finitePts {
 		lo = r3.Vec{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
@@ -89,7 +94,7 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 	lo = r3.Sub(lo, r3.Vec{X: margin, Y: margin, Z: margin})
 	hi = r3.Add(hi, r3.Vec{X: margin, Y: margin, Z: margin})
 	ext := r3.Sub(hi, lo)
-	size := math.Max(margin, 1e-9*math.Max(ext.X, math.Max(ext.Y, ext.Z)))
+	size := math.Max(margin/2, 1e-9*math.Max(ext.X, math.Max(ext.Y, ext.Z)))
 	const maxCells = 1 << 27
 	var nx, ny, nz int
 	for {
@@ -100,13 +105,25 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 		size *= 2
 	}
 	cell := func(v, o float64, n int) int { return min(n-1, max(0, int((v-o)/size))) }
+	// gap is the distance along an axis from v to cell i of the axis
+	// starting at o.
+	gap := func(v, o float64, i int) float64 {
+		a := o + float64(i)*size
+		return math.Max(0, math.Max(a-v, v-(a+size)))
+	}
 	marked := make([]uint64, (nx*ny*nz+63)/64)
-	reach := int(math.Ceil(margin / size))
+	reach := int(math.Ceil(margin/size)) + 1
+	limit := margin + 1e-6*size
 	for _, p := range finitePts {
 		cx, cy, cz := cell(p.X, lo.X, nx), cell(p.Y, lo.Y, ny), cell(p.Z, lo.Z, nz)
 		for i := max(0, cx-reach); i <= min(nx-1, cx+reach); i++ {
+			dx := gap(p.X, lo.X, i)
 			for j := max(0, cy-reach); j <= min(ny-1, cy+reach); j++ {
+				dy := gap(p.Y, lo.Y, j)
 				for k := max(0, cz-reach); k <= min(nz-1, cz+reach); k++ {
+					if dz := gap(p.Z, lo.Z, k); dx*dx+dy*dy+dz*dz > limit*limit {
+						continue
+					}
 					c := (i*ny+j)*nz + k
 					marked[c/64] |= 1 << (c % 64)
 				}
