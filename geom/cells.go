@@ -250,54 +250,50 @@ func (cs *CellSet) numOffsets() int {
 // m's elements: their connectivity (unless takeConn: m.Conn and
 // m.ElemStart are offs and conn themselves), ids, parts and thicknesses
 // (unless takeArrays: m holds cs's arrays already, which are only
-// checked). It returns the index in m.Parts of each part id.
+// checked). It returns the index in m.Parts of each part id. The checks
+// run on blocks of cells at once; the error is the first cell's, as if
+// they ran in order.
 func fillCells[T int32 | int64](m *Mesh, cs *CellSet, offs, conn []T, opt ReadOptions, takeConn, takeArrays bool) (map[int64]int32, error) {
-	scale := opt.scale()
-	partIdx := map[int64]int32{}
-	lastPID, lastPI := int64(0), int32(-1) // elements of a part come in runs
-	np := int64(len(cs.Points))
 	if takeConn && len(offs) > 0 && offs[0] != 0 {
 		return nil, cs.errAt(ArrayOffsets, 0, 0, "cell 0: offsets start at %d, not 0", offs[0])
 	}
-	for c, t := range cs.Types {
-		lo, hi := int64(offs[c]), int64(offs[c+1])
-		if lo < 0 || hi < lo || hi > int64(len(conn)) {
-			return nil, cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(conn))
+	// The blocks only tell whether they hold a bad cell (Locate, which
+	// may walk the file, is not for concurrent use); the first bad block
+	// is checked again for the error.
+	nc := len(cs.Types)
+	quiet := *cs
+	quiet.Locate = nil
+	bad := make([]bool, (nc+parallelBlock-1)/parallelBlock)
+	parallelBlocks(nc, func(from, to int) {
+		bad[from/parallelBlock] = checkCells(&quiet, offs, conn, opt, from, to) != nil
+	})
+	for b, isBad := range bad {
+		if isBad {
+			return nil, checkCells(cs, offs, conn, opt, b*parallelBlock, min((b+1)*parallelBlock, nc))
 		}
-		et, ok := VTKElemType(t)
-		if !ok {
+	}
+	partIdx := map[int64]int32{}
+	lastPID, lastPI := int64(0), int32(-1) // elements of a part come in runs
+	for c, t := range cs.Types {
+		if _, ok := VTKElemType(t); !ok {
 			continue
 		}
-		if want := int64(et); hi-lo != want {
-			return nil, cs.errAt(ArrayTypes, c, c, "cell %d: type %d (%s) needs %d points, has %d", c, t, VTKCellName(t), want, hi-lo)
-		}
-		for k, p := range conn[lo:hi] {
-			if int64(p) < 0 || int64(p) >= np {
-				return nil, cs.errAt(ArrayConn, int(lo)+k, c, "cell %d references point %d; the file has %d points", c, p, np)
-			}
-			if !takeConn {
+		if !takeConn {
+			for _, p := range conn[offs[c]:offs[c+1]] {
 				m.Conn = append(m.Conn, int32(p))
 			}
-		}
-		if !takeConn {
 			m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
 		}
-		id := int64(c) + 1
-		if cs.ElemIDs != nil {
-			id = cs.ElemIDs[c]
-			if id <= 0 {
-				return nil, cs.errAt(ArrayElemIDs, c, c, "cell %d: element id %d is not positive", c, id)
-			}
-		}
 		if !takeArrays || cs.ElemIDs == nil {
+			id := int64(c) + 1
+			if cs.ElemIDs != nil {
+				id = cs.ElemIDs[c]
+			}
 			m.ElemIDs = append(m.ElemIDs, id)
 		}
 		pid := opt.DefaultPart
 		if cs.Part != nil {
 			pid = cs.Part[c]
-			if pid <= 0 {
-				return nil, cs.errAt(ArrayPart, c, c, "cell %d: part id %d is not positive", c, pid)
-			}
 		}
 		if pid != lastPID || lastPI < 0 {
 			pi, ok := partIdx[pid]
@@ -309,17 +305,53 @@ func fillCells[T int32 | int64](m *Mesh, cs *CellSet, offs, conn []T, opt ReadOp
 			lastPID, lastPI = pid, pi
 		}
 		m.ElemPart = append(m.ElemPart, lastPI)
-		if cs.Thickness != nil {
-			th := cs.Thickness[c]
-			if err := CheckThickness(th, scale); err != nil {
-				return nil, cs.errAt(ArrayThickness, c, c, "cell %d: %v", c, err)
-			}
-			if !takeArrays {
-				m.ElemThickness = append(m.ElemThickness, th)
-			}
+		if cs.Thickness != nil && !takeArrays {
+			m.ElemThickness = append(m.ElemThickness, cs.Thickness[c])
 		}
 	}
 	return partIdx, nil
+}
+
+// checkCells checks cells from..to-1 of cs and returns the error of the
+// first bad one.
+func checkCells[T int32 | int64](cs *CellSet, offs, conn []T, opt ReadOptions, from, to int) error {
+	scale := opt.scale()
+	np := int64(len(cs.Points))
+	for c := from; c < to; c++ {
+		t := cs.Types[c]
+		lo, hi := int64(offs[c]), int64(offs[c+1])
+		if lo < 0 || hi < lo || hi > int64(len(conn)) {
+			return cs.errAt(ArrayOffsets, c, c, "cell %d: offsets %d..%d outside the %d connectivity entries", c, lo, hi, len(conn))
+		}
+		et, ok := VTKElemType(t)
+		if !ok {
+			continue
+		}
+		if want := int64(et); hi-lo != want {
+			return cs.errAt(ArrayTypes, c, c, "cell %d: type %d (%s) needs %d points, has %d", c, t, VTKCellName(t), want, hi-lo)
+		}
+		for k, p := range conn[lo:hi] {
+			if int64(p) < 0 || int64(p) >= np {
+				return cs.errAt(ArrayConn, int(lo)+k, c, "cell %d references point %d; the file has %d points", c, p, np)
+			}
+		}
+		if cs.ElemIDs != nil {
+			if id := cs.ElemIDs[c]; id <= 0 {
+				return cs.errAt(ArrayElemIDs, c, c, "cell %d: element id %d is not positive", c, id)
+			}
+		}
+		if cs.Part != nil {
+			if pid := cs.Part[c]; pid <= 0 {
+				return cs.errAt(ArrayPart, c, c, "cell %d: part id %d is not positive", c, pid)
+			}
+		}
+		if cs.Thickness != nil {
+			if err := CheckThickness(cs.Thickness[c], scale); err != nil {
+				return cs.errAt(ArrayThickness, c, c, "cell %d: %v", c, err)
+			}
+		}
+	}
+	return nil
 }
 
 // checkDroppedShells fails when surface cells were skipped that belong

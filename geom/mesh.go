@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -139,15 +140,20 @@ func (m *Mesh) Thickness(e int) float64 {
 // no ids of its own, saying so.
 func (m *Mesh) Index() error {
 	var (
-		dup Duplicate
-		ok  bool
+		dup, edup Duplicate
+		ok, eok   bool
+		wg        sync.WaitGroup
 	)
-	if m.nodes, dup, ok = NewIDIndex(m.NodeIDs); !ok {
+	// The two lookups are built at once; the nodes' error comes first.
+	wg.Go(func() { m.elems, edup, eok = NewIDIndex(m.ElemIDs) })
+	m.nodes, dup, ok = NewIDIndex(m.NodeIDs)
+	wg.Wait()
+	if !ok {
 		a, b := m.source(dup.First, nodeStart), m.source(dup.Second, nodeStart)
 		return fmt.Errorf("node id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
 			m.implicitHint(a, b, "node", "a node_id", func(s Source) bool { return s.ImplicitNodeIDs }))
 	}
-	if m.elems, dup, ok = NewIDIndex(m.ElemIDs); !ok {
+	if dup = edup; !eok {
 		a, b := m.source(dup.First, elemStart), m.source(dup.Second, elemStart)
 		return fmt.Errorf("element id %d appears twice (%s and %s)%s", dup.ID, m.sourceName(a), m.sourceName(b),
 			m.implicitHint(a, b, "element", "an element_id", func(s Source) bool { return s.ImplicitElemIDs }))

@@ -12,6 +12,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -136,6 +137,44 @@ func (p *parser) advance(n int) {
 	if p.done != nil {
 		p.done(n)
 	}
+}
+
+// decodeChunks decodes n values of a binary array chunk by chunk, two
+// chunks at a time on two goroutines, and advances past each pair;
+// decode(lo, hi) decodes values lo..hi-1 and returns the index of the
+// first bad one, or -1, and end(hi) is the offset in the data just past
+// value hi-1. It returns the first bad index of the array, or -1: the
+// same whatever the number of goroutines. A fault of the second
+// goroutine (a mapped file that shrank) is raised again on the caller's.
+func (p *parser) decodeChunks(n int, decode func(lo, hi int) int, end func(hi int) int) int {
+	for lo := 0; lo < n; lo += 2 * chunk {
+		mid, hi := min(lo+chunk, n), min(lo+2*chunk, n)
+		var (
+			wg    sync.WaitGroup
+			bad2  = -1
+			fault any
+		)
+		if mid < hi {
+			wg.Go(func() {
+				debug.SetPanicOnFault(true)
+				defer func() { fault = recover() }()
+				bad2 = decode(mid, hi)
+			})
+		}
+		bad := decode(lo, mid)
+		wg.Wait()
+		if fault != nil {
+			panic(fault)
+		}
+		if bad < 0 {
+			bad = bad2
+		}
+		if bad >= 0 {
+			return bad
+		}
+		p.advance(end(hi))
+	}
+	return -1
 }
 
 // span is where the values of an array start in the data, and their type.
@@ -426,13 +465,14 @@ func (p *parser) readInts(off int, n int, t dtype, what string) ([]int64, error)
 	dst := make([]int64, n)
 	start := p.pos
 	if p.binary {
-		for lo := 0; lo < n; lo += chunk {
-			hi := min(lo+chunk, n)
+		bad := p.decodeChunks(n, func(lo, hi int) int {
 			if bad := decodeInts(dst[lo:hi], p.data[start+t.binBytes(lo):], t); bad >= 0 {
-				bad += lo
-				return nil, p.errAt(start+bad*t.size, "%s: value %d is not an integer in range", what, bad+1)
+				return lo + bad
 			}
-			p.advance(start + t.binBytes(hi))
+			return -1
+		}, func(hi int) int { return start + t.binBytes(hi) })
+		if bad >= 0 {
+			return nil, p.errAt(start+bad*t.size, "%s: value %d is not an integer in range", what, bad+1)
 		}
 		p.pos += t.binBytes(n)
 		return dst, nil
@@ -460,11 +500,11 @@ func (p *parser) readFloats(off int, n int, t dtype, what string) ([]float64, er
 	}
 	dst := make([]float64, n)
 	if p.binary {
-		for lo := 0; lo < n; lo += chunk {
-			hi := min(lo+chunk, n)
-			decodeFloats(dst[lo:hi], p.data[p.pos+t.binBytes(lo):], t)
-			p.advance(p.pos + t.binBytes(hi))
-		}
+		start := p.pos
+		p.decodeChunks(n, func(lo, hi int) int {
+			decodeFloats(dst[lo:hi], p.data[start+t.binBytes(lo):], t)
+			return -1
+		}, func(hi int) int { return start + t.binBytes(hi) })
 		p.pos += t.binBytes(n)
 		return dst, nil
 	}
@@ -513,13 +553,14 @@ func (p *parser) points(off int) error {
 	start := p.pos
 	p.spans[geom.ArrayPoints] = span{start, t, true}
 	if p.binary {
-		for lo := 0; lo < n; lo += chunk {
-			hi := min(lo+chunk, n)
+		bad := p.decodeChunks(n, func(lo, hi int) int {
 			if bad := decodePoints(pts[lo:hi], p.data[start+t.binBytes(3*lo):], t); bad >= 0 {
-				bad += lo
-				return p.errAt(start+t.binBytes(3*bad), "POINTS: point %d has a non-finite coordinate %v", bad, pts[bad])
+				return lo + bad
 			}
-			p.advance(start + t.binBytes(3*hi))
+			return -1
+		}, func(hi int) int { return start + t.binBytes(3*hi) })
+		if bad >= 0 {
+			return p.errAt(start+t.binBytes(3*bad), "POINTS: point %d has a non-finite coordinate %v", bad, pts[bad])
 		}
 		p.pos += t.binBytes(3 * n)
 	} else {
