@@ -201,12 +201,17 @@ func newPackedTree(items treeItems) packedTree {
 	t.ids = ids
 
 	// Level 0: the item boxes in curve order, made again from the items
-	// over the boxes in input order, which only served for the codes
-	// (following the permutation's cycles to sort them in place would
-	// chase one cache miss after another); then the unions.
+	// in input order over the boxes in input order, which only served
+	// for the codes, each written to its rank on the curve (reading the
+	// items in curve order instead would chase one cache miss after
+	// another through the mesh); then the unions.
+	rank := make([]int32, n)
+	for i, id := range ids {
+		rank[id] = int32(i)
+	}
 	parallelBlocks(n, func(from, to int) {
 		for i := from; i < to; i++ {
-			boxes[i] = box32Of(items.Box(int(ids[i])))
+			boxes[rank[i]] = box32Of(items.Box(i))
 		}
 	})
 	for l := 1; l+1 < len(t.level); l++ {
