@@ -638,6 +638,38 @@ func (p *parser) cellsBinary(n, size int) error {
 	src := p.data[p.pos : p.pos+4*size]
 	offs, conn := p.cs.Offsets32, p.cs.Conn32
 	np := int64(p.npoints)
+	// When every cell has as many points as the first (a mesh of quads
+	// only), the cells sit at fixed places and decode two chunks at a
+	// time. A cell that breaks the pattern, or a bad point, sends the
+	// section to the decoding in order below, which gives the same
+	// arrays or the same error.
+	if n > 0 {
+		k0 := int(int32(binary.BigEndian.Uint32(src)))
+		if rec := 1 + k0; k0 > 0 && n*rec == size {
+			bad := p.decodeChunks(n, func(lo, hi int) int {
+				for c := lo; c < hi; c++ {
+					r := src[4*rec*c : 4*rec*(c+1)]
+					if int(int32(binary.BigEndian.Uint32(r))) != k0 {
+						return c
+					}
+					dst := conn[k0*c : k0*(c+1)]
+					for e := range dst {
+						v := int32(binary.BigEndian.Uint32(r[4*(e+1):]))
+						if np >= 0 && uint64(v) >= uint64(np) {
+							return c
+						}
+						dst[e] = v
+					}
+					offs[c+1] = int32(k0 * (c + 1))
+				}
+				return -1
+			}, func(hi int) int { return p.pos + 4*rec*hi })
+			if bad < 0 {
+				p.pos += 4 * size
+				return nil
+			}
+		}
+	}
 	r, w := 0, 0 // read index in src (values), write index in conn
 	for c := 0; c < n; c++ {
 		if c%chunk == 0 {
