@@ -364,3 +364,30 @@ func TestRound32(t *testing.T) {
 		}
 	}
 }
+
+// TestRound32Nextafter wants down32 and up32 to give what rounding and
+// one step of math.Nextafter32 (the standard library) give.
+func TestRound32Nextafter(t *testing.T) {
+	ref := func(x float64, dir float32) float32 {
+		f := float32(x)
+		if dir < 0 && float64(f) > x || dir > 0 && float64(f) < x {
+			f = math.Nextafter32(f, dir)
+		}
+		return f
+	}
+	vals := []float64{0, math.Copysign(0, -1), 1e-50, -1e-50, 1e-40, -1e-40, 0.1, -0.1, 1 / 3.0, -1 / 3.0,
+		3.5e38, -3.5e38, math.MaxFloat32, math.Inf(1), math.Inf(-1), math.NaN()}
+	for i := range 10000 {
+		v := math.Sin(float64(i)) * math.Pow(10, float64(i%80-40))
+		vals = append(vals, v, -v)
+	}
+	inf := float32(math.Inf(1))
+	for _, v := range vals {
+		if got, want := down32(v), ref(v, -inf); math.Float32bits(got) != math.Float32bits(want) && !(got != got && want != want) {
+			t.Errorf("down32(%g) = %g, want %g", v, got, want)
+		}
+		if got, want := up32(v), ref(v, inf); math.Float32bits(got) != math.Float32bits(want) && !(got != got && want != want) {
+			t.Errorf("up32(%g) = %g, want %g", v, got, want)
+		}
+	}
+}

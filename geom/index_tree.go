@@ -26,11 +26,21 @@ func emptyBox32() box32 {
 	return box32{lo: [3]float32{inf, inf, inf}, hi: [3]float32{-inf, -inf, -inf}}
 }
 
-// down32 and up32 round x to a float32 not above (below) it.
+// down32 and up32 round x to a float32 not above (below) it. When the
+// nearest float32 is on the wrong side, the next one is one step of its
+// bits away (math.Nextafter32, inlined: it runs for every box of the
+// index).
 func down32(x float64) float32 {
 	f := float32(x)
 	if float64(f) > x {
-		f = math.Nextafter32(f, float32(math.Inf(-1)))
+		switch b := math.Float32bits(f); {
+		case f == 0:
+			f = -math.SmallestNonzeroFloat32
+		case f > 0:
+			f = math.Float32frombits(b - 1)
+		default:
+			f = math.Float32frombits(b + 1)
+		}
 	}
 	return f
 }
@@ -38,7 +48,14 @@ func down32(x float64) float32 {
 func up32(x float64) float32 {
 	f := float32(x)
 	if float64(f) < x {
-		f = math.Nextafter32(f, float32(math.Inf(1)))
+		switch b := math.Float32bits(f); {
+		case f == 0:
+			f = math.SmallestNonzeroFloat32
+		case f > 0:
+			f = math.Float32frombits(b + 1)
+		default:
+			f = math.Float32frombits(b - 1)
+		}
 	}
 	return f
 }
