@@ -241,8 +241,7 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 		idx[i] = i
 	}
 	slices.SortStableFunc(idx, func(x, y int) int {
-		p, q := list[x].f.Centreline[0], list[y].f.Centreline[0]
-		return cmp.Or(cmp.Compare(p.X, q.X), cmp.Compare(p.Y, q.Y), cmp.Compare(p.Z, q.Z))
+		return cmpVec(list[x].f.Centreline[0], list[y].f.Centreline[0])
 	})
 	outlines := make([]*outline, len(idx))
 	for k, i := range idx {

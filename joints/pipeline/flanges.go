@@ -147,7 +147,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 			return [3]float64{}, false
 		}
 		p := m.Coords[i]
-		return [3]float64{p.X, p.Y, p.Z}, true
+		return document.VecInUnit([3]float64{p.X, p.Y, p.Z}, info.Unit), true
 	}
 	files := []writers.File{
 		{Name: "flanges.json", Render: func(w io.Writer) error { return document.EncodeFlanges(w, fl) }},
