@@ -40,6 +40,7 @@ type nearJoin struct {
 	t     *packedTree
 	group []int32 // per element
 	r2    float64 // squared reach, with slack
+	r32   float32 // reach, with slack, rounded up: a quick per-axis test
 	// label holds, per tree node (indexed like boxes), the one group all
 	// its elements belong to, or -1 when they belong to several.
 	label []int32
@@ -53,7 +54,7 @@ type nearJoin struct {
 // seventh digit of the coordinates may come too.
 func newNearJoin(x *Index, r float64, group []int32) *nearJoin {
 	t := &x.elems
-	j := &nearJoin{t: t, group: group, r2: r * r * pruneSlack, label: make([]int32, len(t.boxes))}
+	j := &nearJoin{t: t, group: group, r2: r * r * pruneSlack, r32: up32(r * pruneSlack * (1 + 1e-6)), label: make([]int32, len(t.boxes))}
 	for i, id := range t.ids {
 		j.label[i] = group[id]
 	}
@@ -85,7 +86,8 @@ func (j *nearJoin) nearAt(ia, ib int) bool {
 	if la := j.label[ia]; la >= 0 && la == j.label[ib] {
 		return false
 	}
-	return boxesWithin(&j.t.boxes[ia], &j.t.boxes[ib], j.r2)
+	a, b := &j.t.boxes[ia], &j.t.boxes[ib]
+	return !apart32(a, b, j.r32) && boxesWithin(a, b, j.r2)
 }
 
 // leafPairs returns the pairs of leaves (level-1 nodes, by index) a <= b
@@ -352,7 +354,7 @@ func (j *nearJoin) leafItems(lg *leafGroups, a, b int, keep pairTest, out [][2]i
 			}
 			as = as[:0]
 			for _, pa := range lg.perm[g.lo:g.hi] {
-				if boxesWithin(&t.boxes[pa], &h.box, j.r2) {
+				if !apart32(&t.boxes[pa], &h.box, j.r32) && boxesWithin(&t.boxes[pa], &h.box, j.r2) {
 					as = append(as, pa)
 				}
 			}
@@ -361,13 +363,18 @@ func (j *nearJoin) leafItems(lg *leafGroups, a, b int, keep pairTest, out [][2]i
 			}
 			bs = bs[:0]
 			for _, pb := range lg.perm[h.lo:h.hi] {
-				if boxesWithin(&t.boxes[pb], &g.box, j.r2) {
+				if !apart32(&t.boxes[pb], &g.box, j.r32) && boxesWithin(&t.boxes[pb], &g.box, j.r2) {
 					bs = append(bs, pb)
 				}
 			}
 			for _, pa := range as {
+				ba := &t.boxes[pa]
 				for _, pb := range bs {
-					d2 := t.boxes[pa].dist2Box(&t.boxes[pb])
+					bb := &t.boxes[pb]
+					if apart32(ba, bb, j.r32) {
+						continue
+					}
+					d2 := ba.dist2Box(bb)
 					if !(d2 <= j.r2) {
 						continue
 					}
@@ -463,6 +470,15 @@ func boxesWithin(a, b *box32, r2 float64) bool {
 		}
 	}
 	return true
+}
+
+// apart32 reports whether boxes a and b lie farther than r apart along
+// one axis: a quick test in single precision before the exact one. The
+// differences it takes are exact where they are near r (Sterbenz), so it
+// never rejects boxes within r.
+func apart32(a, b *box32, r float32) bool {
+	return b.lo[0]-a.hi[0] > r || a.lo[0]-b.hi[0] > r || b.lo[1]-a.hi[1] > r || a.lo[1]-b.hi[1] > r ||
+		b.lo[2]-a.hi[2] > r || a.lo[2]-b.hi[2] > r
 }
 
 // dot32 returns the dot product of two float32 vectors in float64.
