@@ -177,11 +177,11 @@ func FindContacts(ctx context.Context, x *Index, r ContactRule) (*Contacts, erro
 		if r.Pair != nil && !r.Pair(min(pa, pb), max(pa, pb)) {
 			return false
 		}
-		ra := c.pairReach(a, b)
-		if d2 > ra*ra*pruneSlack || math.Abs(dot32(na, nb)) < c.cosLimit {
+		if math.Abs(dot32(na, nb)) < c.cosLimit {
 			return false
 		}
-		return true
+		ra := c.pairReach(a, b)
+		return !(d2 > ra*ra*pruneSlack)
 	})
 	if err := ctx.Err(); err != nil {
 		return nil, err

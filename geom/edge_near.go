@@ -9,7 +9,8 @@ import (
 
 // FreeEdgeDistance returns the distance from q to the nearest free edge
 // of part pi (an element edge that no other element of the part shares)
-// within radius r, or +Inf when there is none. near must hold every
+// within radius r, or +Inf when there is none. The edges of second-order
+// elements are the curves through their midside nodes (Mesh.EdgeDistance). near must hold every
 // element within r of q (it may hold more), for example the answer of
 // Index.ElemsNear(q, r).
 //
@@ -41,7 +42,7 @@ func FreeEdgeDistance(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) floa
 			if i+1 < len(keys) && keys[i+1] == key {
 				continue // shared by another element of the part
 			}
-			if d := SegmentDistance(q, m.Coords[ed.A], m.Coords[ed.B]); d <= r && d < best {
+			if d := m.EdgeDistance(ed, q); d <= r && d < best {
 				best = d
 			}
 		}

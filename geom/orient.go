@@ -1,7 +1,9 @@
 package geom
 
 import (
+	"cmp"
 	"runtime"
+	"slices"
 	"sync"
 	"sync/atomic"
 )
@@ -80,16 +82,25 @@ func OrientNormals(m *Mesh, adj Adjacency) Orientation {
 	// from is the edge of each element through which the walk reached
 	// it (-1 for a piece's first element): already known to agree.
 	from := make([]int8, ne)
+	// Parts are handed out largest first, so that no large part is left
+	// running alone at the end; each writes only its own elements and
+	// counts.
+	order := make([]int, len(m.Parts))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(start[b+1]-start[b], start[a+1]-start[a]) })
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), max(1, len(m.Parts))) {
 		wg.Go(func() {
 			var queue, piece []int32
 			for {
-				p := int(next.Add(1) - 1)
-				if p >= len(m.Parts) {
+				k := int(next.Add(1) - 1)
+				if k >= len(m.Parts) {
 					return
 				}
+				p := order[k]
 				for _, root := range byPart[start[p]:start[p+1]] {
 					if parity[root] != 0 {
 						continue

@@ -54,8 +54,7 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 	if len(t.ids) < 2 || !(r >= 0) {
 		return nil
 	}
-	j := &groupJoin{t: t, group: group, r2: r * r * pruneSlack, label: make([]int32, len(t.boxes)), leaves: true}
-	pairs := j.run()
+	pairs := newNearJoin(x, r, group).leafPairs()
 	nl := t.count(1)
 	start := make([]int32, nl+1)
 	for _, p := range pairs {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"slices"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -20,7 +21,7 @@ func WriteSurfacesYAML(w io.Writer, doc *document.SurfacesDoc) error {
 	ew := &errWriter{w: w}
 	ew.printf("# joinery offsets (%s; run %s): the surface each part was meshed on, found from\n", doc.Generator, doc.RunID)
 	ew.printf("# where the parts face each other; surface and offset are relative to the\n")
-	ew.printf("# element normals (offset: meshed surface to mid-surface along them, mm).\n")
+	ew.printf("# element normals (offset: meshed surface to mid-surface along them, %s).\n", doc.Units.Length)
 	ew.printf("# Lay it over the parts table: joinery build --parts PARTS --parts surfaces.yaml\n")
 	ew.printf("# CAUTION: %s\n", document.Caution)
 	ew.printf("parts:\n")
@@ -82,10 +83,11 @@ func WriteSurfacesText(w io.Writer, rep *document.ReportDoc, doc *document.Surfa
 	}
 	ew.printf("\nparts\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "id\tt mm\ttable\tfound\toffset mm\tconfidence\tcontacts\tdisagree\tevidence mm²\tflip\t\n")
+	u := doc.Units.Length
+	fmt.Fprintf(tw, "id\tt %s\ttable\tfound\toffset %s\tconfidence\tcontacts\tdisagree\tevidence %s²\tflip\t\n", u, u, u)
 	for _, p := range doc.Parts {
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%d\t%d\t%s\t%d\t\n", p.ID, thick(p.Thickness), p.Declared, p.Surface,
-			f64(p.Offset), num(p.Confidence, 2), p.Contacts, p.Disagreeing, num(p.Evidence, 0), p.FlipCount)
+			f64(p.Offset), num(p.Confidence, 2), p.Contacts, p.Disagreeing, evidence(p.Evidence, u), p.FlipCount)
 	}
 	tw.Flush()
 	ew.printf("\nCAUTION: %s\n", doc.Caution)
@@ -134,4 +136,13 @@ func surfacesSummary(ew *errWriter, rep *document.ReportDoc, doc *document.Surfa
 	if len(s.ByCode) > 0 {
 		ew.printf("by code     %s\n", countList(s.ByCode))
 	}
+}
+
+// evidence formats an evidence weight, an area in the square of unit u:
+// whole mm², or four significant digits in a larger unit.
+func evidence(v float64, u string) string {
+	if u == "mm" {
+		return num(v, 0)
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
 }

@@ -95,8 +95,9 @@ node (congruent) or not (projected) and whether it is a strip (open) or a ring
 (closed). With --pitch it places spot welds along every centreline, on the
 faying surface, each joining the whole stack of sheets there, so that no two
 welds' attachment nodes share an element (the welds stay apart instead of
-acting as a seam); it checks the welds with build's own rules. It writes, in
-the output directory:
+acting as a seam); it checks the welds with build's own rules and audits
+them as build does (seams, duplicates, pitch, free parts, mechanisms). It
+writes, in the output directory:
   flanges.json  the flanges, their facing pairs and welds (schema joinery/flanges, version 1)
   joints.csv    the welds placed, as a joint list for build (empty without --pitch)
   flanges.vtk   centrelines, facing pairs and welds, for viewing beside the mesh

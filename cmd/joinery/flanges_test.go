@@ -201,3 +201,43 @@ func TestFlangesPairs(t *testing.T) {
 		t.Errorf("summary:\n%s", out)
 	}
 }
+
+// flanges audits the welds it places as build does (issue 9): parts left
+// without welds are free parts, and welds closer than the spacing table
+// allows are named pair by pair (pitch-short, beside the flange's own
+// finding on the pitch asked for); without --pitch nothing is audited.
+func TestFlangesAuditTheirWelds(t *testing.T) {
+	skipWithoutExample(t)
+	for _, tc := range []struct {
+		args []string
+		want map[string]int // code -> findings naming joints (-1: any number above 0)
+	}{
+		// Only the floor and the beam welded: the closing plates and the
+		// bracket hang free.
+		{[]string{"--pair", "100,200", "--pitch", "30"}, map[string]int{joints.CodeFreePart: 2}},
+		// 15 mm, below the table's 19-28 mm for these sheets: the audit
+		// names the neighbouring welds of every flange.
+		{[]string{"--pitch", "15"}, map[string]int{joints.CodePitchShort: -1}},
+		{nil, map[string]int{joints.CodeFreePart: 0, joints.CodePitchShort: 0}},
+	} {
+		t.Run(strings.Join(tc.args, " "), func(t *testing.T) {
+			dir := t.TempDir()
+			code, _, errs := runCLI(t, append([]string{"flanges", exampleJob, "--out", dir, "--fail-on", "never", "--quiet"}, tc.args...)...)
+			if code != exitOK {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			fs := findingCodes(t, filepath.Join(dir, "report.json"))
+			for c, n := range tc.want {
+				got := 0
+				for _, f := range fs[c] {
+					if c == joints.CodeFreePart || len(f.Joints) > 0 {
+						got++
+					}
+				}
+				if n < 0 && got == 0 || n >= 0 && got != n {
+					t.Errorf("%s: %d audit findings, want %d (-1: some)", c, got, n)
+				}
+			}
+		})
+	}
+}

@@ -973,10 +973,24 @@ func (o *outline) chartLength() float64 {
 	return planar.Length(ls)
 }
 
-// lessVec orders points lexicographically.
-func lessVec(a, b r3.Vec) bool {
-	return cmp.Or(cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y), cmp.Compare(a.Z, b.Z)) < 0
+// orderGrain, mm, is the grain below which two coordinates count as
+// equal when cmpVec orders points (the ends of a centreline, the starts
+// of a pair's flanges): well below the element sizes and flange widths
+// that such points differ by when they differ at all, and well above
+// the wobble of the outline's fits (about 0.01 mm) when the same model
+// is read in another unit and scaled to mm, so that it starts its
+// centrelines at the same ends and numbers its flanges alike.
+const orderGrain = 0.1
+
+// cmpVec orders points lexicographically, coordinates in units of
+// orderGrain, rounded.
+func cmpVec(a, b r3.Vec) int {
+	g := func(v float64) float64 { return math.Round(v / orderGrain) }
+	return cmp.Or(cmp.Compare(g(a.X), g(b.X)), cmp.Compare(g(a.Y), g(b.Y)), cmp.Compare(g(a.Z), g(b.Z)))
 }
+
+// lessVec reports whether a comes before b (cmpVec).
+func lessVec(a, b r3.Vec) bool { return cmpVec(a, b) < 0 }
 
 // canonical returns the outline of spine sp traced so that ids do not
 // depend on how the spine was found: an open centreline starts at its

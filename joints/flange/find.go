@@ -92,22 +92,37 @@ func Find(ctx context.Context, c *geom.Contacts, fo joints.FlangeOptions) (*Set,
 		jobs = append(jobs, job{h, o, min(a, b), max(a, b)})
 	}
 	slices.SortFunc(jobs, func(x, y job) int { return cmp.Or(cmp.Compare(x.a, y.a), cmp.Compare(x.b, y.b)) })
+	// Hand the pairs out largest first (by nodes in contact), so that no
+	// large pair is left running alone at the end; results go by index.
+	order := make([]int, len(jobs))
+	for i := range order {
+		order[i] = i
+	}
+	size := func(i int) int { return len(groups[[2]int32{jobs[i].host, jobs[i].other}]) }
+	slices.SortStableFunc(order, func(x, y int) int { return cmp.Compare(size(y), size(x)) })
 	out := make([][]joints.Flange, len(jobs))
 	charts := make([][]*outline, len(jobs))
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), len(jobs)) {
 		wg.Go(func() {
+			var recOf []int32
 			for {
-				i := int(next.Add(1) - 1)
-				if i >= len(jobs) || ctx.Err() != nil {
+				k := int(next.Add(1) - 1)
+				if k >= len(jobs) || ctx.Err() != nil {
 					return
 				}
+				i := order[k]
 				j := jobs[i]
 				key := [2]int32{min(j.host, j.other), max(j.host, j.other)}
 				w := &pairWork{c: c, m: m, host: j.host, other: j.other, recs: groups[[2]int32{j.host, j.other}],
 					cross: map[vkey]r3.Vec{}, bisect: crossingSteps, facing: facing[key]}
+				if recOf == nil {
+					recOf = make([]int32, m.NumNodes())
+				}
+				w.indexRecs(recOf)
 				out[i] = w.flanges(j.a, j.b)
+				w.clearRecs()
 				charts[i] = w.outlines
 			}
 		})
@@ -241,8 +256,7 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 		idx[i] = i
 	}
 	slices.SortStableFunc(idx, func(x, y int) int {
-		p, q := list[x].f.Centreline[0], list[y].f.Centreline[0]
-		return cmp.Or(cmp.Compare(p.X, q.X), cmp.Compare(p.Y, q.Y), cmp.Compare(p.Z, q.Z))
+		return cmpVec(list[x].f.Centreline[0], list[y].f.Centreline[0])
 	})
 	outlines := make([]*outline, len(idx))
 	for k, i := range idx {

@@ -21,7 +21,26 @@ type pairWork struct {
 	bisect      int                 // bisection steps for crossings
 	facing      []geom.FacingPair   // the pair's facing node pairs
 	outlines    []*outline          // aligned with the flanges returned
-	nodes       []int32             // the nodes of recs, for lookups
+	// recOf[n] is 1 + the index in recs of node n's record, 0 for a node
+	// not in contact: a worker's table over all nodes, filled for the
+	// pair at hand and cleared after it (clearRecs).
+	recOf []int32
+}
+
+// indexRecs fills recOf (of the mesh's node count, all zero) for the
+// pair's records.
+func (w *pairWork) indexRecs(recOf []int32) {
+	w.recOf = recOf
+	for i, r := range w.recs {
+		recOf[r.Node] = int32(i + 1)
+	}
+}
+
+// clearRecs sets recOf back to zero, for the worker's next pair.
+func (w *pairWork) clearRecs() {
+	for _, r := range w.recs {
+		w.recOf[r.Node] = 0
+	}
 }
 
 // vkey names a vertex of the overlap's outline: a node (b = -1) or the
@@ -30,14 +49,8 @@ type vkey struct{ a, b int32 }
 
 // rec returns the host's record of node n, nil when n is not in contact.
 func (w *pairWork) rec(n int32) *geom.NodeContact {
-	if w.nodes == nil {
-		w.nodes = make([]int32, len(w.recs))
-		for i, r := range w.recs {
-			w.nodes[i] = r.Node
-		}
-	}
-	if i, ok := slices.BinarySearch(w.nodes, n); ok {
-		return w.recs[i]
+	if i := w.recOf[n]; i > 0 {
+		return w.recs[i-1]
 	}
 	return nil
 }

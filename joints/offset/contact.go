@@ -61,6 +61,16 @@ type Contact struct {
 	a, b int32 // part indices
 }
 
+// tieGrain, mm, is the grain below which two separations or positions
+// count as equal when the samples are ordered: far below any length the
+// inference tells apart, and far above the rounding of a model read in
+// another unit and scaled to mm (a few units in the sixteenth digit), so
+// that the same model in mm, m or in orders its samples alike.
+const tieGrain = 1e-6
+
+// tie returns v in units of tieGrain, rounded.
+func tie(v float64) float64 { return math.Round(v / tieGrain) }
+
 // contacts clusters the samples into contacts, sorted by A, B, Opposed,
 // Separation. allowance gives the agreement allowance of two thicknesses.
 func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) float64) []Contact {
@@ -78,12 +88,13 @@ func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) flo
 			return cmp.Compare(x.idb, y.idb)
 		case x.opposed != y.opposed:
 			return cmpBool(x.opposed, y.opposed)
-		case x.s != y.s:
+		case tie(x.s) != tie(y.s):
 			return cmp.Compare(x.s, y.s)
 		case x.site != y.site:
 			return cmpBool(x.site, y.site)
 		}
-		return cmp.Or(cmp.Compare(x.at.X, y.at.X), cmp.Compare(x.at.Y, y.at.Y), cmp.Compare(x.at.Z, y.at.Z))
+		return cmp.Or(cmp.Compare(tie(x.at.X), tie(y.at.X)), cmp.Compare(tie(x.at.Y), tie(y.at.Y)), cmp.Compare(tie(x.at.Z), tie(y.at.Z)),
+			cmp.Compare(x.s, y.s))
 	})
 	sorted := make([]sample, len(samples))
 	for i, k := range order {

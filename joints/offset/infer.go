@@ -98,14 +98,24 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
 	allowance := func(t1, t2 float64) float64 { return Tolerance(&o, t1, t2) }
 
+	reach := 2*tmax + allowance(tmax, tmax)
 	prog.Start("orienting normals", 0)
 	adj := geom.NodeElements(m)
+	// The facing elements need the mesh as it is, not the orientation:
+	// find them while the normals are oriented (each stage alone leaves
+	// a core idle part of the time). Both answers are deterministic.
+	var fs []geom.Facing
+	facing := make(chan struct{})
+	go func() {
+		defer close(facing)
+		fs = x.FacingElements(adj, m.ElemPart, reach, cosTol, true)
+	}()
 	or := geom.OrientNormals(m, adj)
 	prog.Done()
 	if err := ctx.Err(); err != nil {
+		<-facing
 		return nil, fmt.Errorf("offset: interrupted: %w", err)
 	}
-	reach := 2*tmax + allowance(tmax, tmax)
 	// Around joint sites the sheets that matter lie within the window
 	// of each other, and the joint point among them: unless the caller
 	// gives a reach, the window is reach enough.
@@ -113,7 +123,8 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 		o.Reach = reach
 	}
 	prog.Start("measuring overlaps", 0)
-	samples := overlapSamples(x, adj, &or, reach, cosTol, allowance)
+	<-facing
+	samples := overlapSamples(m, fs, &or, reach, cosTol, allowance)
 	samples = append(samples, siteSamples(x, &or, js, &o, cosTol)...)
 	prog.Done()
 	if err := ctx.Err(); err != nil {

@@ -42,12 +42,12 @@ type sample struct {
 // measured from the elements of the part of lower index (in the mesh's
 // part order), each sample weighing its element's area, so that a
 // contact weighs its overlap area. The order depends only on the index.
-func overlapSamples(x *geom.Index, adj geom.Adjacency, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
-	m := x.Mesh()
-	// Each pair of parts is sampled from its part of lower index; the
-	// parts of higher index are looked at only to tell whether they lie
-	// in between (upward).
-	fs := x.FacingElements(adj, m.ElemPart, reach, cosTol, true)
+//
+// fs are the facing elements: x.FacingElements(adj, m.ElemPart, reach,
+// cosTol, true). Each pair of parts is sampled from its part of lower
+// index; the parts of higher index are looked at only to tell whether
+// they lie in between (upward).
+func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
 	// Facings come grouped by element.
 	var out []sample
 	type found struct {

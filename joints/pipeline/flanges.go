@@ -55,7 +55,8 @@ type FlangesOutcome struct {
 // every flange of the part pairs asked for (all pairs in contact by
 // default) with its facing node pairs, place welds at the pitch asked
 // for, check them with the spot-weld builder's own rules (so that the
-// report says how build will take them), and write the set into s.Out.
+// report says how build will take them) and audit them as build does
+// (CheckConnectors), and write the set into s.Out.
 func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*FlangesOutcome, error) {
 	job.Joints = nil // flanges reads no joint list
 	dir, err := OpenOutput(s.Out)
@@ -135,6 +136,13 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	if err != nil {
 		return nil, UsageError(err)
 	}
+	if fo.Pitch.Set() {
+		// Audit the welds placed as build does what it makes: seams,
+		// duplicates, short pitch, free parts, mechanisms.
+		if err := CheckConnectors(ctx, in, res, env); err != nil {
+			return nil, err
+		}
+	}
 	info, err := in.RunInfo(env.Generator, res)
 	if err != nil {
 		return nil, err
@@ -147,7 +155,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 			return [3]float64{}, false
 		}
 		p := m.Coords[i]
-		return [3]float64{p.X, p.Y, p.Z}, true
+		return document.VecInUnit([3]float64{p.X, p.Y, p.Z}, info.Unit), true
 	}
 	files := []writers.File{
 		{Name: "flanges.json", Render: func(w io.Writer) error { return document.EncodeFlanges(w, fl) }},

@@ -98,7 +98,7 @@ func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 	var fs []joints.Finding
 	for i := range st.Sheets {
 		s := &st.Sheets[i]
-		s.EdgeDistance = EdgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
+		s.EdgeDistance = geom.FreeEdgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
 		if s.EdgeDistance < edgeLimit {
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part},
 				fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",

@@ -93,7 +93,8 @@ type FlangeWeldDoc struct {
 }
 
 // NewFlanges converts found flanges into the flanges document; o and fo
-// are the options used, defaults resolved.
+// are the options used, defaults resolved. Lengths are converted from
+// the mm the flanges were found in to info.Unit.
 func NewFlanges(m *geom.Mesh, fl []joints.Flange, o joints.BuildOptions, fo joints.FlangeOptions, info RunInfo) *FlangesDoc {
 	doc := &FlangesDoc{
 		Schema: FlangesSchema, Version: FlangesVersion, Generator: info.Generator, RunID: info.RunID, Caution: Caution,
@@ -125,6 +126,7 @@ func NewFlanges(m *geom.Mesh, fl []joints.Flange, o joints.BuildOptions, fo join
 	for i := range fl {
 		doc.Flanges = append(doc.Flanges, flangeDoc(m, &fl[i]))
 	}
+	doc.toUnit(info.Unit)
 	return doc
 }
 

@@ -81,7 +81,8 @@ type SurfaceContact struct {
 	Agrees     bool    `json:"agrees"`
 }
 
-// NewSurfaces converts an inference into the surfaces document.
+// NewSurfaces converts an inference into the surfaces document, with
+// lengths (and areas) in info.Unit.
 func NewSurfaces(r *offset.Result, info RunInfo) *SurfacesDoc {
 	o := r.Options
 	doc := &SurfacesDoc{
@@ -111,6 +112,7 @@ func NewSurfaces(r *offset.Result, info RunInfo) *SurfacesDoc {
 			Samples: c.Samples, Weight: c.Weight, Point: vecOf(c.Point), Expected: clean(c.Expected), Side: c.Side,
 			Allowance: c.Allowance, Agrees: c.Agrees})
 	}
+	doc.toUnit(info.Unit)
 	return doc
 }
 

@@ -112,3 +112,92 @@ func (d *ReportDoc) toUnit(u joints.Unit) {
 		}
 	}
 }
+
+// VecInUnit converts a point from mm to unit u, as the documents give
+// their points (for files rendered from a document and the mesh, such
+// as flanges.vtk's facing pairs).
+func VecInUnit(v [3]float64, u joints.Unit) Vec { return vecIn(Vec(v), u.MM()) }
+
+// areaIn converts an area from mm² to the square of the unit whose size
+// is mm.
+func areaIn(v, mm float64) float64 {
+	if mm == 1 {
+		return v
+	}
+	return clean(v / (mm * mm))
+}
+
+// toUnit converts every length (and area) of the flanges document from
+// mm to u and records u.
+func (d *FlangesDoc) toUnit(u joints.Unit) {
+	d.Units.Length = u.String()
+	mm := u.MM()
+	if mm == 1 {
+		return
+	}
+	o := &d.Options
+	ptrIn(o.Pitch, mm)
+	ptrIn(o.EndMargin, mm)
+	ptrIn(o.GapAllowance, mm)
+	span := func(s *SpanDoc) {
+		s.Min, s.Mean, s.Max = lengthIn(s.Min, mm), lengthIn(s.Mean, mm), lengthIn(s.Max, mm)
+	}
+	for i := range d.Flanges {
+		f := &d.Flanges[i]
+		f.Thickness = [2]float64{lengthIn(f.Thickness[0], mm), lengthIn(f.Thickness[1], mm)}
+		f.Contact = lengthIn(f.Contact, mm)
+		f.Area = areaIn(f.Area, mm)
+		f.Length = lengthIn(f.Length, mm)
+		span(&f.Width)
+		for k := range f.Centreline {
+			f.Centreline[k] = vecIn(f.Centreline[k], mm)
+		}
+		if f.FacingTolerance != nil {
+			span(f.FacingTolerance)
+		}
+		for k := range f.Facing {
+			f.Facing[k][2] = lengthIn(f.Facing[k][2], mm)
+			f.Facing[k][3] = lengthIn(f.Facing[k][3], mm)
+		}
+		ptrIn(f.Pitch, mm)
+		for k := range f.Welds {
+			w := &f.Welds[k]
+			w.S = lengthIn(w.S, mm)
+			w.Point = vecIn(w.Point, mm)
+			w.Diameter = lengthIn(w.Diameter, mm)
+		}
+	}
+}
+
+// toUnit converts every length (and area) of the surfaces document from
+// mm to u and records u.
+func (d *SurfacesDoc) toUnit(u joints.Unit) {
+	d.Units.Length = u.String()
+	mm := u.MM()
+	if mm == 1 {
+		return
+	}
+	o := &d.Options
+	o.Window = lengthIn(o.Window, mm)
+	ptrIn(o.GapAllowance, mm)
+	o.Reach = lengthIn(o.Reach, mm)
+	o.JointSiteWeight = areaIn(o.JointSiteWeight, mm)
+	for i := range d.Parts {
+		p := &d.Parts[i]
+		p.Thickness = lengthIn(p.Thickness, mm)
+		p.Offset = lengthIn(p.Offset, mm)
+		p.Evidence = areaIn(p.Evidence, mm)
+		p.Agreeing = areaIn(p.Agreeing, mm)
+	}
+	for i := range d.Contacts {
+		c := &d.Contacts[i]
+		c.Separation = lengthIn(c.Separation, mm)
+		c.Min, c.Max = lengthIn(c.Min, mm), lengthIn(c.Max, mm)
+		c.ThicknessA, c.ThicknessB = lengthIn(c.ThicknessA, mm), lengthIn(c.ThicknessB, mm)
+		c.Area = areaIn(c.Area, mm)
+		c.Weight = areaIn(c.Weight, mm)
+		c.Point = vecIn(c.Point, mm)
+		c.Expected = lengthIn(c.Expected, mm)
+		c.Allowance = lengthIn(c.Allowance, mm)
+	}
+}

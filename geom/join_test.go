@@ -2,6 +2,7 @@ package geom
 
 import (
 	"cmp"
+	"math"
 	"math/rand/v2"
 	"runtime"
 	"slices"
@@ -10,7 +11,9 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 )
 
-// pairsBrute is ElemPairsNear by testing every pair of elements.
+// pairsBrute is ElemPairsNear by testing every pair of elements (the
+// tests of the one self-join of the element tree, join.go; contactPairs
+// has its own in contact_test.go).
 func pairsBrute(m *Mesh, r float64, group []int32) [][2]int32 {
 	var out [][2]int32
 	lo, hi := make([]r3.Vec, m.NumElems()), make([]r3.Vec, m.NumElems())
@@ -79,6 +82,41 @@ func TestElemPairsNear(t *testing.T) {
 					t.Errorf("%s, %d groups, r %g: %d pairs, want %d", tm.name, ngroups, r, len(got), len(want))
 				}
 			}
+		}
+	}
+}
+
+// The leaf pairs of the join cover every near pair of elements of
+// different groups (the brute force's), and contactPairs gives the same
+// answer whatever GOMAXPROCS.
+func TestJoinLeafPairsCover(t *testing.T) {
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	rng := rand.New(rand.NewPCG(7, 8))
+	for _, n := range []int{2, 17, 3000} {
+		m := randomSoup(rng, n, 5)
+		x := NewElemIndex(m)
+		const r = 1.5
+		j := newNearJoin(x, r, m.ElemPart)
+		leaf := make([]int32, n) // element -> its leaf
+		for pos, e := range x.elems.ids {
+			leaf[e] = int32(pos / treeFan)
+		}
+		have := map[[2]int32]bool{}
+		for _, p := range j.leafPairs() {
+			have[p] = true
+		}
+		for _, p := range pairsBrute(m, r, m.ElemPart) {
+			a, b := leaf[p[0]], leaf[p[1]]
+			if !have[[2]int32{min(a, b), max(a, b)}] {
+				t.Fatalf("%d elements: elements %v (leaves %d, %d) near, their leaves not paired", n, p, a, b)
+			}
+		}
+		keep := func(a, b int32, na, nb *[3]float32, d2 float64) bool { return math.Abs(dot32(na, nb)) > 0.5 }
+		runtime.GOMAXPROCS(1)
+		one := x.contactPairs(r, keep)
+		runtime.GOMAXPROCS(3)
+		if got := x.contactPairs(r, keep); !slices.Equal(one, got) {
+			t.Errorf("%d elements: contactPairs depends on GOMAXPROCS", n)
 		}
 	}
 }
