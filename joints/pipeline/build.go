@@ -10,6 +10,7 @@ import (
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/bolt"
 	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
@@ -154,8 +155,7 @@ func buildFiles(conn *document.ConnectorsDoc, rep *document.ReportDoc) []writers
 
 // BuildConnectors indexes the model near the joints and builds every
 // joint's connector with options o (defaults resolved against the
-// model): spot welds by package spot, joints of other kinds reported as
-// not supported. It returns the assembled result with new ids.
+// model): spot welds by package spot, bolts by package bolt. It returns the assembled result with new ids.
 func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env Env) (*joints.Result, error) {
 	m := in.Model.Mesh
 	if err := in.missingThickness(); err != nil {
@@ -173,10 +173,12 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	if err != nil {
 		return nil, err
 	}
-	for i := range in.Joints {
-		if in.Joints[i].Kind != joints.Spot {
-			conns = append(conns, joints.NotSupported(&in.Joints[i], &o))
+	if bx := bolt.IndexFor(m, in.Joints, o); bx != nil {
+		bolts, err := bolt.Build(ctx, bx, in.Joints, o, prog)
+		if err != nil {
+			return nil, err
 		}
+		conns = append(conns, bolts...)
 	}
 	res, err := joints.NewResult(m, conns, in.ModelFindings(), o)
 	if err != nil {
