@@ -170,8 +170,8 @@ type MetricBolt struct {
 // (fine, medium and coarse series), as given in REFERENCES.md.
 func MetricBolts() []MetricBolt {
 	return []MetricBolt{
-		{Nominal: 6, WasherOuter: 12, Fine: 6.4, Medium: 6.6, Coarse: 7.0},    // ISO 7089; ISO 273
-		{Nominal: 8, WasherOuter: 16, Fine: 8.4, Medium: 9.0, Coarse: 10.0},   // ISO 7089; ISO 273
+		{Nominal: 6, WasherOuter: 12, Fine: 6.4, Medium: 6.6, Coarse: 7.0},     // ISO 7089; ISO 273
+		{Nominal: 8, WasherOuter: 16, Fine: 8.4, Medium: 9.0, Coarse: 10.0},    // ISO 7089; ISO 273
 		{Nominal: 10, WasherOuter: 20, Fine: 10.5, Medium: 11.0, Coarse: 12.0}, // ISO 7089; ISO 273
 		{Nominal: 12, WasherOuter: 24, Fine: 13.0, Medium: 13.5, Coarse: 14.5}, // ISO 7089; ISO 273
 	}

@@ -39,7 +39,7 @@ type Joint struct {
 	// Ground marks a bolt that fastens its stack to something outside
 	// the model (a stiff fixture): its outermost centre is supported.
 	Ground bool
-	Group    string  // free tag
+	Group  string // free tag
 	// Tags keeps the values of columns Joinery does not know, by column name.
 	Tags map[string]string
 	// File and Line locate the joint in its list, for messages.
