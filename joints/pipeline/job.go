@@ -98,23 +98,23 @@ type Job struct {
 // JobBuild holds the build settings of a job, as written in the file
 // (validated by LoadJob).
 type JobBuild struct {
-	Reach        *float64            `yaml:"reach,omitempty"`         // mm, 0 = automatic
-	GapAllowance *float64            `yaml:"gap_allowance,omitempty"` // mm, 0 = automatic
-	Attach       string              `yaml:"attach,omitempty"`
-	SpotDOFs     []string            `yaml:"spot_dofs,omitempty"`
-	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
-	IDStartLine  int                 `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
-	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
-	Links        string              `yaml:"links,omitempty" json:",omitempty"`
+	Reach        *float64 `yaml:"reach,omitempty"`         // mm, 0 = automatic
+	GapAllowance *float64 `yaml:"gap_allowance,omitempty"` // mm, 0 = automatic
+	Attach       string   `yaml:"attach,omitempty"`
+	SpotDOFs     []string `yaml:"spot_dofs,omitempty"`
+	IDStart      *int64   `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
+	IDStartLine  int      `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
+	NuggetRule   string   `yaml:"nugget_rule,omitempty"`
+	Links        string   `yaml:"links,omitempty" json:",omitempty"`
 	// Bolt settings; left out of the run id's settings when not given.
-	BoltDOFs      []string `yaml:"bolt_dofs,omitempty" json:",omitempty"`
-	BoltCoupling  string   `yaml:"bolt_coupling,omitempty" json:",omitempty"`
-	Shank         string   `yaml:"shank,omitempty" json:",omitempty"`
-	BoltRing      string   `yaml:"bolt_ring,omitempty" json:",omitempty"`
-	ShankModulus  *float64 `yaml:"shank_modulus,omitempty" json:",omitempty"`  // N/mm^2, 0 = steel
-	HoleTolerance *float64 `yaml:"hole_tolerance,omitempty" json:",omitempty"` // mm, 0 = default
-	FailOn       string              `yaml:"fail_on,omitempty"`
-	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
+	BoltDOFs      []string            `yaml:"bolt_dofs,omitempty" json:",omitempty"`
+	BoltCoupling  string              `yaml:"bolt_coupling,omitempty" json:",omitempty"`
+	Shank         string              `yaml:"shank,omitempty" json:",omitempty"`
+	BoltRing      string              `yaml:"bolt_ring,omitempty" json:",omitempty"`
+	ShankModulus  *float64            `yaml:"shank_modulus,omitempty" json:",omitempty"`  // N/mm^2, 0 = steel
+	HoleTolerance *float64            `yaml:"hole_tolerance,omitempty" json:",omitempty"` // mm, 0 = default
+	FailOn        string              `yaml:"fail_on,omitempty"`
+	Groups        map[string]JobGroup `yaml:"groups,omitempty"`
 }
 
 // JobGroup holds the settings that differ for the joints of one group.
