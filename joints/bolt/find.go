@@ -151,7 +151,8 @@ func crossings(m *geom.Mesh, f *frame, near []int32, reach, l, cosTol float64, k
 // holeCrossing finds the hole of part pi round the axis among its
 // elements elems: the closed free-edge loop, within l of the axis and
 // reach along it, that winds round the axis, nearest the bolt point
-// along it.
+// along it; of two such loops in one sheet (a small part whose outer
+// edge also lies within l), the inner one.
 func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cosTol float64) (crossing, bool) {
 	type edge struct {
 		a, b int32
@@ -240,8 +241,18 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			continue
 		}
 		c := crossing{part: pi, elem: int(host), t: t, point: f.at(t), normal: n, loop: loop, hole: 2 * r}
-		if !found || math.Abs(t) < math.Abs(best.t) {
+		// Of two loops in one sheet (within its thickness along the
+		// axis), the inner is the hole, the outer the sheet's edge; of
+		// loops apart along the axis, the one nearer the bolt point.
+		switch {
+		case !found:
 			best, found = c, true
+		case math.Abs(t-best.t) <= m.Thickness(int(host)):
+			if c.hole < best.hole {
+				best = c
+			}
+		case math.Abs(t) < math.Abs(best.t):
+			best = c
 		}
 	}
 	return best, found
