@@ -114,10 +114,10 @@ func newBuildCommand(g *globalOptions) *cobra.Command {
 	o := &buildOptions{}
 	c := &cobra.Command{
 		Use:   "build [JOB.yaml]",
-		Short: "Build spot-weld connectors and write them with a connectivity report",
-		Long: `build finds the sheets each spot weld joins, checks gaps, nugget sizes and edge
-distances, attaches a connector to every sheet and writes, in the output
-directory:
+		Short: "Build spot-weld and bolt connectors and write them with a connectivity report",
+		Long: `build finds the sheets each spot weld and bolt joins, checks gaps, nugget sizes,
+edge distances and bolt sizes, attaches a connector to every sheet and writes,
+in the output directory:
   connectors.json   connector definitions (schema joinery/connectors, version 2)
   connectors.csv    one row per connector end, for spreadsheets
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
@@ -130,13 +130,21 @@ its faying face (t/2 from a mid-surface mesh, 0 or t from an outer-face one, as
 the parts table's surface says) and a zero-length faying joint between the two
 faying points. --parts given again lays a table of surfaces over the parts
 table (the surfaces.yaml of joinery offsets).
+A bolt gets a centre node per sheet on its axis, coupled to the ring of nodes
+round its hole (the hole's edge nodes; without a meshed hole, the nodes within
+the washer's radius) on --bolt-dofs (default translations only: coupling a
+shell's rotations at a hole over-stiffens the joint), rigidly or by averaging
+(--bolt-coupling), and a shank between consecutive centres (--shank); a bolt
+listed with ground yes is supported at its last centre. Sizes are checked
+against ISO 7089 washers and ISO 273 clearance holes, and meshed holes against
+the declared diameter (hole-size).
 Inputs and settings come from a job file, from flags, or both (flags win).
-Bolts are reported as not yet supported.
 
 ` + document.Caution + `
 
 ` + exitStatusHelp,
 		Example: `  joinery build examples/van-rear-crossmember/job.yaml
+  joinery build job.yaml --bolt-coupling averaging --bolt-dofs tx,ty,tz,rx,ry,rz --shank beam
   joinery build --mesh body.vtk --parts parts.yaml --joints welds.csv --out build/
   joinery build job.yaml --attach node-pair --spot-dofs tx,ty,tz --fail-on warning
   joinery build job.yaml --links offset --parts parts.yaml --parts offsets/surfaces.yaml`,
