@@ -27,6 +27,17 @@ const searchFactor = 1.0
 // reach covers every query a bolt makes (the reach along the axis, the
 // search radius across it). Nil when js holds no bolt.
 func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Index {
+	pts, margin := Near(m, js, o)
+	if len(pts) == 0 {
+		return nil
+	}
+	return geom.NewIndexNear(m, pts, margin, false)
+}
+
+// Near returns what IndexFor indexes around: the points of the bolts
+// among js and the margin round them, mm (0 without bolts), so that a
+// caller building one index for several jobs covers this one's queries.
+func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, float64) {
 	o = o.Defaults(joints.MaxThickness(m))
 	var pts []r3.Vec
 	wmax := 0.0
@@ -37,10 +48,10 @@ func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Inde
 		}
 	}
 	if len(pts) == 0 {
-		return nil
+		return nil, 0
 	}
 	// 1% slack against rounding at the margin.
-	return geom.NewIndexNear(m, pts, 1.01*math.Hypot(o.Reach, searchFactor*wmax), false)
+	return pts, 1.01 * math.Hypot(o.Reach, searchFactor*wmax)
 }
 
 // Build makes the connectors of the bolts among js (other kinds are left

@@ -43,6 +43,46 @@ func (f *frame) plane(q r3.Vec) (float64, float64) {
 // at returns the point of the axis at coordinate t.
 func (f *frame) at(t float64) r3.Vec { return r3.Add(f.P, r3.Scale(t, f.A)) }
 
+// crossesBox reports whether the axis, within reach of P, passes
+// through box b grown by boxSlack and boxGrowth of its size (the slab
+// test): only then can it cross the element the box holds.
+func (f *frame) crossesBox(b r3.Box, reach float64) bool {
+	lo, hi := -reach, reach
+	p := [3]float64{f.P.X, f.P.Y, f.P.Z}
+	a := [3]float64{f.A.X, f.A.Y, f.A.Z}
+	d := r3.Sub(b.Max, b.Min)
+	g := boxSlack + boxGrowth*max(d.X, d.Y, d.Z)
+	bl := [3]float64{b.Min.X - g, b.Min.Y - g, b.Min.Z - g}
+	bh := [3]float64{b.Max.X + g, b.Max.Y + g, b.Max.Z + g}
+	for i := range 3 {
+		if a[i] == 0 {
+			if p[i] < bl[i] || p[i] > bh[i] {
+				return false
+			}
+			continue
+		}
+		t0, t1 := (bl[i]-p[i])/a[i], (bh[i]-p[i])/a[i]
+		if t0 > t1 {
+			t0, t1 = t1, t0
+		}
+		lo, hi = max(lo, t0), min(hi, t1)
+		if lo > hi {
+			return false
+		}
+	}
+	return true
+}
+
+// boxSlack, mm, grows element boxes for the slab test: far above the
+// hit tolerance, so that no crossing within it is missed (our choice).
+const boxSlack = 1e-3
+
+// boxGrowth of an element box's largest side grows it further for the
+// slab test: a second-order element's curved surface may bulge a little
+// outside the box of its nodes (our choice: a tenth of the element, far
+// more than any usable element bulges).
+const boxGrowth = 0.1
+
 // crossing is where the axis meets one part.
 type crossing struct {
 	part  int32 // part index
@@ -126,6 +166,9 @@ func crossings(m *geom.Mesh, f *frame, near []int32, reach, l, cosTol float64, k
 		elems := byPart[pi]
 		best, found := crossing{}, false
 		for _, e := range elems {
+			if !f.crossesBox(m.ElemBox(int(e)), reach) {
+				continue
+			}
 			n := m.Normal(int(e))
 			if math.Abs(r3.Dot(n, f.A)) < cosTol {
 				continue

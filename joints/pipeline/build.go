@@ -167,19 +167,21 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	o = o.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
-	index := spot.IndexFor(m, in.Joints, o)
+	// One index of the elements near the joints serves both builders:
+	// every joint's point with the larger of their margins.
+	pts, margin := spot.Near(m, in.Joints, o)
+	bpts, bmargin := bolt.Near(m, in.Joints, o)
+	index := geom.NewIndexNear(m, append(pts, bpts...), max(margin, bmargin), false)
 	prog.Done()
 	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
 	if err != nil {
 		return nil, err
 	}
-	if bx := bolt.IndexFor(m, in.Joints, o); bx != nil {
-		bolts, err := bolt.Build(ctx, bx, in.Joints, o, prog)
-		if err != nil {
-			return nil, err
-		}
-		conns = append(conns, bolts...)
+	bolts, err := bolt.Build(ctx, index, in.Joints, o, prog)
+	if err != nil {
+		return nil, err
 	}
+	conns = append(conns, bolts...)
 	res, err := joints.NewResult(m, conns, in.ModelFindings(), o)
 	if err != nil {
 		return nil, UsageError(err)
