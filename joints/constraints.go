@@ -70,7 +70,7 @@ type Body struct {
 // bodies rigidly; ball joints on one line leave a turn about it free).
 //
 // The connectors Joinery builds are described by ties as follows (see
-// AddSpotWeld; a bolt builder emits its own ties the same way):
+// AddSpotWeld and AddBolt):
 //
 //   - an end that is a mesh node (node-pair attachment) moves with its
 //     part: the link ties the part itself;
