@@ -151,6 +151,8 @@ type Connector struct {
 	EndIDs         []int64 // new node id per end; 0 where the end is a mesh node
 	Links          []Link
 	Findings       []Finding
+	// Bolt holds a bolt's own data; nil for spot welds.
+	Bolt *BoltData
 }
 
 // SetStatus sets the connector's state from its findings: not-built when

@@ -70,7 +70,7 @@ type Body struct {
 // bodies rigidly; ball joints on one line leave a turn about it free).
 //
 // The connectors Joinery builds are described by ties as follows (see
-// AddSpotWeld; a bolt builder emits its own ties the same way):
+// AddSpotWeld and AddBolt):
 //
 //   - an end that is a mesh node (node-pair attachment) moves with its
 //     part: the link ties the part itself;
@@ -164,14 +164,62 @@ func (k *Constraints) Tie(a, b int, p r3.Vec, d DOFs, joint string) {
 }
 
 // AddConnector adds the ties of a connector. Connectors not built add
-// nothing; spot welds add the ties of AddSpotWeld. Bolts add nothing
-// yet: their builder will emit ties of its own (see Tie for the forms).
+// nothing; spot welds add the ties of AddSpotWeld, bolts those of
+// AddBolt.
 func (k *Constraints) AddConnector(m *geom.Mesh, c *Connector) {
 	if c.Status == NotBuilt {
 		return
 	}
-	if c.Joint.Kind == Spot {
+	switch c.Joint.Kind {
+	case Spot:
 		k.AddSpotWeld(m, c)
+	case Bolt:
+		k.AddBolt(m, c)
+	}
+}
+
+// AddBolt adds the ties of a bolt connector, as Tie describes: a
+// NodeBody per centre (one per sheet); in the rigid coupling one tie per
+// ring node between the sheet's part and the centre, at the node, on
+// the bolt's DOFs (one tie on all six at the centre when those hold
+// every translation and the ring spans a plane: the same constraint); in the averaging form one tie at the centre on the
+// same DOFs; the shank between consecutive centres on all six (a rigid
+// link, or a beam, which resists every relative motion; with offset
+// links the chain centre, offset link, shank, offset link, centre is
+// rigid the same way); a support of the grounded centre on the
+// supported DOFs.
+func (k *Constraints) AddBolt(m *geom.Mesh, c *Connector) {
+	if c.Bolt == nil || len(c.Ends) != len(c.Stack.Sheets) {
+		return
+	}
+	centre := make([]int, len(c.Ends))
+	for i, e := range c.Ends {
+		part := k.Part(c.Stack.Sheets[i].Part)
+		var id int64
+		if i < len(c.EndIDs) {
+			id = c.EndIDs[i]
+		}
+		centre[i] = k.AddNode(id, e.Point, c.Joint.ID)
+		if c.Bolt.Coupling == AveragingCoupling {
+			k.Tie(part, centre[i], e.Point, c.DOFs, c.Joint.ID)
+			continue
+		}
+		if c.DOFs&Translations == Translations && SpanPlane(m, e.Nodes) {
+			// Translations tied at three points not on a line hold the
+			// centre rigidly to the part: the same as one tie on all six.
+			k.Tie(part, centre[i], e.Point, AllDOFs, c.Joint.ID)
+			continue
+		}
+		for _, n := range e.Nodes {
+			k.Tie(part, centre[i], m.Coords[n], c.DOFs, c.Joint.ID)
+		}
+	}
+	for i := 0; i+1 < len(centre); i++ {
+		mid := r3.Scale(0.5, r3.Add(c.Ends[i].Point, c.Ends[i+1].Point))
+		k.Tie(centre[i], centre[i+1], mid, AllDOFs, c.Joint.ID)
+	}
+	if s := c.Bolt.Support; s >= 0 && s < len(centre) {
+		k.Tie(k.Ground(), centre[s], c.Ends[s].Point, c.Bolt.SupportDOFs, c.Joint.ID)
 	}
 }
 

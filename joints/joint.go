@@ -33,7 +33,13 @@ type Joint struct {
 	Diameter float64
 	Washer   float64 // bolt: washer or head outer diameter, mm; 0 = not given
 	Hole     float64 // bolt: hole diameter, mm; 0 = not given
-	Group    string  // free tag
+	// Axis is a bolt's axis direction, unit (columns nx, ny, nz); the
+	// zero vector when not given (the normal of the nearest sheet).
+	Axis r3.Vec
+	// Ground marks a bolt that fastens its stack to something outside
+	// the model (a stiff fixture): its outermost centre is supported.
+	Ground bool
+	Group  string // free tag
 	// Tags keeps the values of columns Joinery does not know, by column name.
 	Tags map[string]string
 	// File and Line locate the joint in its list, for messages.

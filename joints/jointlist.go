@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"maps"
+	"math"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -12,6 +13,7 @@ import (
 	"unicode"
 	"unicode/utf8"
 
+	"gonum.org/v1/gonum/spatial/r3"
 	"gopkg.in/yaml.v3"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -46,7 +48,7 @@ func ParseKind(s string) (Kind, error) {
 
 // jointKeys returns the known CSV columns, which are also the YAML keys.
 func jointKeys() []string {
-	return []string{"id", "x", "y", "z", "kind", "parts", "diameter", "washer", "hole", "group"}
+	return []string{"id", "x", "y", "z", "kind", "parts", "diameter", "washer", "hole", "group", "nx", "ny", "nz", "ground"}
 }
 
 // Indices into jointKeys.
@@ -61,7 +63,23 @@ const (
 	jlWasher
 	jlHole
 	jlGroup
+	jlNX
+	jlNY
+	jlNZ
+	jlGround
 )
+
+// ParseGround reads a ground cell: "yes" or "no" (also "true" and
+// "false"), in any case; "" is no.
+func ParseGround(s string) (bool, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "", "no", "false":
+		return false, nil
+	case "yes", "true":
+		return true, nil
+	}
+	return false, fmt.Errorf("%q: want yes or no", geom.Excerpt(s))
+}
 
 // ReadJoints reads the joint list in the named file: CSV for .csv, YAML
 // for .yaml and .yml. It returns the joints in file order and warnings
@@ -82,6 +100,11 @@ const (
 //	washer    bolt: washer or head outer diameter, mm
 //	hole      bolt: hole diameter, mm
 //	group     free tag, e.g. to select build settings in a job file
+//	nx, ny, nz bolt: the axis direction (any length but zero; all three
+//	          or none); default: the normal of the nearest sheet
+//	ground    bolt: yes when the bolt fastens the stack to something
+//	          outside the model (a stiff fixture), else no (default);
+//	          the support sits at the last sheet along the axis
 //
 // An empty cell of an optional column means not given. Columns with
 // other names are kept in Joint.Tags, except that a name resembling a
@@ -111,9 +134,9 @@ const (
 // Other keys are errors. (The bolt is an M10 with an ISO 7089 washer in
 // an ISO 273 medium clearance hole.)
 //
-// In both forms a bolt's hole must not be smaller than its diameter and
-// its washer must be larger than both; washer or hole on a spot weld gives
-// a warning.
+// In both forms a bolt must give its diameter, washer and hole; its hole
+// must not be smaller than its diameter and its washer must be larger
+// than both. Washer, hole, axis or ground on a spot weld gives a warning.
 func ReadJoints(path string) ([]Joint, []InputWarning, error) {
 	l, err := readJointList(path, nil)
 	if err != nil {
@@ -254,6 +277,50 @@ func csvJoint(c *tabular.CSV, rec, keys []string, at []int, j *Joint) error {
 	if col := at[jlGroup]; col >= 0 {
 		j.Group = strings.Clone(rec[col])
 	}
+	var (
+		axis  [3]float64
+		given [3]bool
+	)
+	for i, k := range []int{jlNX, jlNY, jlNZ} {
+		if col := at[k]; col >= 0 && rec[col] != "" {
+			if axis[i], err = c.Float(rec, col); err != nil {
+				return err
+			}
+			given[i] = true
+		}
+	}
+	if err := setAxis(j, axis, given); err != nil {
+		col := at[jlNX]
+		for _, k := range []int{jlNX, jlNY, jlNZ} {
+			if col < 0 {
+				col = at[k]
+			}
+		}
+		return c.Errorf(col, "%w", err)
+	}
+	if col := at[jlGround]; col >= 0 {
+		if j.Ground, err = ParseGround(rec[col]); err != nil {
+			return c.Errorf(col, "ground: %w", err)
+		}
+	}
+	return nil
+}
+
+// setAxis sets j.Axis from the components given (all three or none),
+// made unit.
+func setAxis(j *Joint, v [3]float64, given [3]bool) error {
+	switch {
+	case !given[0] && !given[1] && !given[2]:
+		return nil
+	case !given[0] || !given[1] || !given[2]:
+		return fmt.Errorf("axis: give nx, ny and nz together, or none of them")
+	}
+	a := r3.Vec{X: v[0], Y: v[1], Z: v[2]}
+	n := r3.Norm(a)
+	if !(n > 0) || math.IsInf(n, 0) {
+		return fmt.Errorf("axis (%g, %g, %g): want a direction of non-zero finite length", v[0], v[1], v[2])
+	}
+	j.Axis = r3.Scale(1/n, a)
 	return nil
 }
 
@@ -341,6 +408,9 @@ func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, err
 		idLine int
 		coords [3]bool // x, y, z given
 		point  bool
+		axis   [3]float64
+		given  [3]bool // nx, ny, nz given
+		axisAt *yaml.Node
 	)
 	err := y.Map(it, "joint", keys, func(key string, k, v *yaml.Node) (err error) {
 		switch key {
@@ -395,6 +465,27 @@ func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, err
 			}
 		case "group":
 			j.Group, err = y.String(v, "group")
+		case "nx", "ny", "nz":
+			if tabular.IsNull(v) {
+				return nil
+			}
+			axisAt = v
+			given[key[1]-'x'] = true
+			axis[key[1]-'x'], err = y.Float(v, key)
+		case "ground":
+			if tabular.IsNull(v) {
+				return nil
+			}
+			if b, berr := y.Bool(v, key); berr == nil {
+				j.Ground = b
+				return nil
+			}
+			var s string
+			if s, err = y.String(v, key); err == nil {
+				if j.Ground, err = ParseGround(s); err != nil {
+					err = y.Errorf(v, "ground: %w", err)
+				}
+			}
 		case "tags":
 			err = y.Map(v, "tags", nil, func(tag string, _, tv *yaml.Node) error {
 				s, err := y.String(tv, "tags: "+tag)
@@ -412,6 +503,9 @@ func yamlJoint(y tabular.YAML, it *yaml.Node, keys []string, j *Joint) (int, err
 	})
 	if err != nil {
 		return 0, err
+	}
+	if err := setAxis(j, axis, given); err != nil {
+		return 0, y.Errorf(axisAt, "joint %q: %w", geom.Excerpt(j.ID), err)
 	}
 	switch {
 	case idLine == 0:
@@ -486,14 +580,30 @@ func (l *jointList) add(j Joint, idLine int) error {
 	}
 	l.idLine[j.ID] = idLine
 	if j.Kind == Bolt {
+		var missing []string
+		for _, f := range []struct {
+			name string
+			v    float64
+		}{{"diameter", j.Diameter}, {"washer", j.Washer}, {"hole", j.Hole}} {
+			if !(f.v > 0) {
+				missing = append(missing, f.name)
+			}
+		}
 		switch {
+		case len(missing) > 0:
+			return geom.LineError(l.file, j.Line, "bolt %q: no %s given: a bolt needs its diameter, washer and hole (mm)", j.ID, strings.Join(missing, ", "))
 		case j.Hole > 0 && j.Diameter > 0 && j.Hole < j.Diameter:
 			return geom.LineError(l.file, j.Line, "bolt %q: hole diameter %g mm is smaller than the bolt diameter %g mm", j.ID, j.Hole, j.Diameter)
 		case j.Washer > 0 && j.Washer <= max(j.Hole, j.Diameter):
 			return geom.LineError(l.file, j.Line, "bolt %q: washer diameter %g mm is not larger than the hole or bolt diameter %g mm", j.ID, j.Washer, max(j.Hole, j.Diameter))
 		}
-	} else if j.Washer > 0 || j.Hole > 0 {
-		l.warns = append(l.warns, InputWarning{l.file, j.Line, fmt.Sprintf("spot weld %q: washer and hole apply to bolts and are ignored", j.ID)})
+	} else {
+		if j.Washer > 0 || j.Hole > 0 {
+			l.warns = append(l.warns, InputWarning{l.file, j.Line, fmt.Sprintf("spot weld %q: washer and hole apply to bolts and are ignored", j.ID)})
+		}
+		if r3.Norm2(j.Axis) > 0 || j.Ground {
+			l.warns = append(l.warns, InputWarning{l.file, j.Line, fmt.Sprintf("spot weld %q: axis and ground apply to bolts and are ignored", j.ID)})
+		}
 	}
 	l.joints = append(l.joints, j)
 	return nil

@@ -12,7 +12,7 @@ import (
 // LinkKind is what one link of a connector stands for.
 type LinkKind int8
 
-// Link kinds. Bolts will add a shank kind.
+// Link kinds.
 const (
 	// GapLink joins the ends of a connector on two consecutive sheets
 	// across the gap between their meshes (--links gap), coupling the
@@ -26,26 +26,33 @@ const (
 	// zero-length joint where the sheets touch, coupling the connector's
 	// degrees of freedom (--links offset).
 	FayingJoint
+	// ShankLink is a bolt's shank between its centres on two consecutive
+	// sheets (--links gap), or between their faying points (--links
+	// offset): a rigid link or a beam (--shank), all six degrees of
+	// freedom.
+	ShankLink
 )
 
-// String returns "gap", "offset" or "faying".
+// String returns "gap", "offset", "faying" or "shank".
 func (k LinkKind) String() string {
 	switch k {
 	case OffsetLink:
 		return "offset"
 	case FayingJoint:
 		return "faying"
+	case ShankLink:
+		return "shank"
 	}
 	return "gap"
 }
 
 // Code returns the number that stands for the kind in connectors.vtk's
-// cell data "link_kind": 1 gap, 2 offset, 3 faying (Joinery's own
-// numbering; documented in the README).
+// cell data "link_kind": 1 gap, 2 offset, 3 faying, 4 shank (Joinery's
+// own numbering; documented in the README).
 func (k LinkKind) Code() int { return int(k) + 1 }
 
 // LinkKinds lists every link kind, in order.
-func LinkKinds() []LinkKind { return []LinkKind{GapLink, OffsetLink, FayingJoint} }
+func LinkKinds() []LinkKind { return []LinkKind{GapLink, OffsetLink, FayingJoint, ShankLink} }
 
 // NodeRef names a node of a connector: the connector's end on sheet
 // Index (New false), or the new node that link Index of the same

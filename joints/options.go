@@ -188,6 +188,48 @@ type BuildOptions struct {
 	// the zero value; left out of the run id's options when it is, so
 	// that gap-form runs keep the ids they had before link forms).
 	Links LinkForm `json:",omitempty"`
+	// BoltDOFs are the degrees of freedom a bolt's rings couple, and its
+	// support to ground holds (0: DefaultBoltDOFs; see BoltDOFsOrDefault).
+	// The bolt fields are left out of the run id's options when zero, so
+	// that runs without bolt settings keep the ids they had before bolts.
+	BoltDOFs DOFs `json:",omitempty"`
+	// BoltCoupling is the coupling of a bolt's centres to their rings
+	// (DefaultBoltCoupling, the zero value).
+	BoltCoupling BoltCoupling `json:",omitempty"`
+	// Shank is what stands for a bolt's shank (DefaultShank, the zero
+	// value).
+	Shank ShankForm `json:",omitempty"`
+	// BoltRing says which nodes of a holed sheet a bolt couples
+	// (DefaultBoltRing, the zero value).
+	BoltRing BoltRing `json:",omitempty"`
+	// ShankModulus, N/mm^2, of a beam shank (0: DefaultShankModulus).
+	ShankModulus float64 `json:",omitempty"`
+	// HoleTolerance, mm (0: DefaultHoleTolerance).
+	HoleTolerance float64 `json:",omitempty"`
+}
+
+// BoltDOFsOrDefault returns the degrees of freedom a bolt couples.
+func (o *BuildOptions) BoltDOFsOrDefault() DOFs {
+	if o.BoltDOFs == 0 {
+		return DefaultBoltDOFs
+	}
+	return o.BoltDOFs
+}
+
+// ShankModulusOrDefault returns the modulus of a beam shank, N/mm^2.
+func (o *BuildOptions) ShankModulusOrDefault() float64 {
+	if o.ShankModulus > 0 {
+		return o.ShankModulus
+	}
+	return DefaultShankModulus
+}
+
+// HoleToleranceOrDefault returns the hole-size tolerance, mm.
+func (o *BuildOptions) HoleToleranceOrDefault() float64 {
+	if o.HoleTolerance > 0 {
+		return o.HoleTolerance
+	}
+	return DefaultHoleTolerance
 }
 
 // Defaults returns o with zero fields set to their defaults; maxThickness
@@ -258,6 +300,12 @@ func (o *BuildOptions) Validate() error {
 		if f.v > f.max {
 			return fmt.Errorf("%s %g%s: more than the %g%s that can make sense for a spot weld", f.name, f.v, f.unit, f.max, f.unit)
 		}
+	}
+	if v := o.ShankModulus; math.IsNaN(v) || math.IsInf(v, 0) || v < 0 || v > MaxShankModulus {
+		return fmt.Errorf("shank modulus %g: want a finite number from 0 (the default, steel) to %g N/mm^2", v, float64(MaxShankModulus))
+	}
+	if v := o.HoleTolerance; math.IsNaN(v) || math.IsInf(v, 0) || v < 0 || v > MaxGapAllowance {
+		return fmt.Errorf("hole tolerance %g: want a finite number from 0 (the default) to %g mm", v, float64(MaxGapAllowance))
 	}
 	if o.IDStart < 0 {
 		return fmt.Errorf("id start %d: want a positive id, or 0 for the default", o.IDStart)

@@ -58,6 +58,12 @@ func ConnectorsVTKTitle(generator, runID string) string {
 	return t
 }
 
+// RingLineKind is the "link_kind" of the lines connectors.vtk draws from
+// a bolt's centre to each node of its ring: not links of
+// connectors.json, drawn to show the rings (Joinery's own numbering,
+// after joints.LinkKind's codes).
+const RingLineKind = 5
+
 // WriteConnectorsVTK writes the connectors for viewing beside the mesh in
 // any VTK viewer: a VTK legacy ASCII unstructured grid with one line cell
 // per link and one vertex cell at the joint point of every connector that
@@ -65,8 +71,10 @@ func ConnectorsVTKTitle(generator, runID string) string {
 // "sheets" (stack size), "connector" (index into connectors.json's
 // connectors array) and "gap_offset" (the link's mid_gap minus its
 // contact_gap, mm; 0 on vertices), and, when some link is not a gap link
-// (--links offset), "link_kind" (1 gap, 2 offset, 3 faying; 0 on
-// vertices). Output is deterministic.
+// (--links offset, bolts), "link_kind" (1 gap, 2 offset, 3 faying, 4
+// shank, 5 a line from a bolt's centre to a node of its ring, which
+// connectors.json gives as the sheet's nodes; 0 on vertices). Output is
+// deterministic.
 func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 	type cell struct {
 		typ       int
@@ -90,6 +98,17 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 			kinds = kinds || k != joints.GapLink.Code()
 			cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{l.Start, l.End}, state: st, sheets: len(c.Sheets),
 				connector: i, gap: clean(l.MidGap - l.ContactGap), kind: k})
+		}
+		// A bolt's rings: a line from each centre to each ring node.
+		for _, sh := range c.Sheets {
+			if sh.EndPoint == nil {
+				continue
+			}
+			for _, q := range sh.NodePoints {
+				kinds = true
+				cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{*sh.EndPoint, q}, state: st, sheets: len(c.Sheets),
+					connector: i, kind: RingLineKind})
+			}
 		}
 	}
 	ew := &errWriter{w: w}

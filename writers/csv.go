@@ -25,11 +25,18 @@ var connectorsCSVHeader = []string{
 // previous sheet first.
 var offsetCSVHeader = []string{"faying_nodes", "offsets"}
 
+// boltCSVHeader are the columns connectors.csv adds when some connector
+// is a bolt, empty on spot welds' rows: per end, the hole measured in
+// the mesh (empty: none), the ring kind (hole, washer, patch), the
+// bolt's coupling and shank forms, and the degrees of freedom the
+// support to ground holds at this end (empty: no support here).
+var boltCSVHeader = []string{"hole_diameter", "ring", "coupling", "shank", "support_dofs"}
+
 // WriteConnectorsCSV writes a comment line with the generator, the run
 // id and the caution, the header, then one row per connector end
 // (sheet); connectors not built get one row with the sheet columns
 // empty. With offset links (--links offset) two columns follow (see
-// offsetCSVHeader).
+// offsetCSVHeader), and with bolts five more (boltCSVHeader).
 func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 	// A comment line first: Joinery's own CSV readers skip lines that
 	// start with '#', and the caution travels with the file.
@@ -42,9 +49,29 @@ func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 			offsets = offsets || l.Kind == joints.OffsetLink.String()
 		}
 	}
+	bolts := slices.ContainsFunc(doc.Connectors, func(c document.ConnectorDoc) bool { return c.Bolt != nil })
 	header := connectorsCSVHeader
 	if offsets {
 		header = append(slices.Clone(header), offsetCSVHeader...)
+	}
+	if bolts {
+		header = append(slices.Clone(header), boltCSVHeader...)
+	}
+	boltCells := func(c *document.ConnectorDoc, i int) []string {
+		if c.Bolt == nil {
+			return make([]string, len(boltCSVHeader))
+		}
+		hole, ring, support := "", "", ""
+		if i >= 0 && i < len(c.Sheets) {
+			if h := c.Sheets[i].HoleDiameter; h != nil {
+				hole = f64(*h)
+			}
+			ring = c.Sheets[i].Ring
+		}
+		if sp := c.Bolt.Support; sp != nil && sp.Sheet == i {
+			support = strings.Join(sp.DOFs, ";")
+		}
+		return []string{hole, ring, c.Bolt.Coupling, c.Bolt.Shank, support}
 	}
 	cw := csv.NewWriter(w)
 	if err := cw.Write(header); err != nil {
@@ -62,6 +89,9 @@ func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 			row = append(row, "", "")
 			if offsets {
 				row = append(row, "", "")
+			}
+			if bolts {
+				row = append(row, boltCells(&c, -1)...)
 			}
 			if err := cw.Write(row); err != nil {
 				return err
@@ -103,6 +133,9 @@ func WriteConnectorsCSV(w io.Writer, doc *document.ConnectorsDoc) error {
 					}
 				}
 				row = append(row, strings.Join(fn, ";"), strings.Join(off, ";"))
+			}
+			if bolts {
+				row = append(row, boltCells(&c, i)...)
 			}
 			if err := cw.Write(row); err != nil {
 				return err

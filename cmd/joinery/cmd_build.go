@@ -23,6 +23,12 @@ type buildOptions struct {
 	idStart      int64
 	nuggetRule   string
 	links        string
+	boltDOFs     string
+	boltCoupling string
+	shank        string
+	boltRing     string
+	shankModulus float64
+	holeTol      float64
 	failOn       string
 	noHTML       bool
 	flags        *pflag.FlagSet
@@ -41,6 +47,12 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.Int64Var(&o.idStart, "id-start", 0, "first id for new nodes and elements (0: the round number above every mesh id)")
 	fs.StringVar(&o.nuggetRule, "nugget-rule", joints.DefaultNuggetRule.String(), "default nugget diameter from the governing thickness t: 4sqrt or 5sqrt (d = K*sqrt(t))")
 	fs.StringVar(&o.links, "links", joints.DefaultLinks.String(), fmt.Sprintf("how links bridge a stack: %s (one link between the ends of consecutive sheets, across the gap) or %s (per sheet an offset link to its faying face, joined by zero-length faying joints)", joints.GapLinks, joints.OffsetLinks))
+	fs.StringVar(&o.boltDOFs, "bolt-dofs", joints.DefaultBoltDOFs.String(), "degrees of freedom a bolt's rings couple, and its support to ground holds (from tx,ty,tz,rx,ry,rz)")
+	fs.StringVar(&o.boltCoupling, "bolt-coupling", joints.DefaultBoltCoupling.String(), fmt.Sprintf("how a bolt's centre couples its ring: %s (the ring follows the centre's rigid motion) or %s (the centre follows the ring's weighted mean)", joints.RigidCoupling, joints.AveragingCoupling))
+	fs.StringVar(&o.shank, "shank", joints.DefaultShank.String(), fmt.Sprintf("a bolt's shank between its centres: %s (a rigid link) or %s (a beam of the bolt's diameter, steel unless --shank-modulus)", joints.RigidShank, joints.BeamShank))
+	fs.StringVar(&o.boltRing, "bolt-ring", joints.DefaultBoltRing.String(), fmt.Sprintf("the ring of a meshed hole: %s (its edge nodes) or %s (every node within the washer's radius)", joints.HoleRing, joints.WasherRing))
+	fs.Float64Var(&o.shankModulus, "shank-modulus", 0, fmt.Sprintf("N/mm^2; Young's modulus of a beam shank (0: %g, steel)", joints.DefaultShankModulus))
+	fs.Float64Var(&o.holeTol, "hole-tolerance", 0, fmt.Sprintf("mm; measured hole against declared before hole-size (0: %g)", joints.DefaultHoleTolerance))
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
 	fs.BoolVar(&o.noHTML, "no-html", false, "developer switch: leave report.html out, to measure what it costs")
 	_ = fs.MarkHidden("no-html")
@@ -75,6 +87,24 @@ func (o *buildOptions) apply(job *pipeline.Job) {
 	if set("links") {
 		b.Links = o.links
 	}
+	if set("bolt-dofs") {
+		b.BoltDOFs = []string{o.boltDOFs}
+	}
+	if set("bolt-coupling") {
+		b.BoltCoupling = o.boltCoupling
+	}
+	if set("shank") {
+		b.Shank = o.shank
+	}
+	if set("bolt-ring") {
+		b.BoltRing = o.boltRing
+	}
+	if set("shank-modulus") {
+		b.ShankModulus = &o.shankModulus
+	}
+	if set("hole-tolerance") {
+		b.HoleTolerance = &o.holeTol
+	}
 	if set("fail-on") {
 		b.FailOn = o.failOn
 	}
@@ -84,10 +114,10 @@ func newBuildCommand(g *globalOptions) *cobra.Command {
 	o := &buildOptions{}
 	c := &cobra.Command{
 		Use:   "build [JOB.yaml]",
-		Short: "Build spot-weld connectors and write them with a connectivity report",
-		Long: `build finds the sheets each spot weld joins, checks gaps, nugget sizes and edge
-distances, attaches a connector to every sheet and writes, in the output
-directory:
+		Short: "Build spot-weld and bolt connectors and write them with a connectivity report",
+		Long: `build finds the sheets each spot weld and bolt joins, checks gaps, nugget sizes,
+edge distances and bolt sizes, attaches a connector to every sheet and writes,
+in the output directory:
   connectors.json   connector definitions (schema joinery/connectors, version 2)
   connectors.csv    one row per connector end, for spreadsheets
   connectors.vtk    links and joints not built, as VTK lines and points, for viewing
@@ -100,13 +130,21 @@ its faying face (t/2 from a mid-surface mesh, 0 or t from an outer-face one, as
 the parts table's surface says) and a zero-length faying joint between the two
 faying points. --parts given again lays a table of surfaces over the parts
 table (the surfaces.yaml of joinery offsets).
+A bolt gets a centre node per sheet on its axis, coupled to the ring of nodes
+round its hole (the hole's edge nodes; without a meshed hole, the nodes within
+the washer's radius) on --bolt-dofs (default translations only: coupling a
+shell's rotations at a hole over-stiffens the joint), rigidly or by averaging
+(--bolt-coupling), and a shank between consecutive centres (--shank); a bolt
+listed with ground yes is supported at its last centre. Sizes are checked
+against ISO 7089 washers and ISO 273 clearance holes, and meshed holes against
+the declared diameter (hole-size).
 Inputs and settings come from a job file, from flags, or both (flags win).
-Bolts are reported as not yet supported.
 
 ` + document.Caution + `
 
 ` + exitStatusHelp,
 		Example: `  joinery build examples/van-rear-crossmember/job.yaml
+  joinery build job.yaml --bolt-coupling averaging --bolt-dofs tx,ty,tz,rx,ry,rz --shank beam
   joinery build --mesh body.vtk --parts parts.yaml --joints welds.csv --out build/
   joinery build job.yaml --attach node-pair --spot-dofs tx,ty,tz --fail-on warning
   joinery build job.yaml --links offset --parts parts.yaml --parts offsets/surfaces.yaml`,

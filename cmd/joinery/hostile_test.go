@@ -321,7 +321,7 @@ func TestImplausibleValuesRefused(t *testing.T) {
 			"w.csv:2: spot weld \"W1\": nugget diameter 1000 mm is more than 50 mm"},
 		{"joint coordinate", map[string]string{"w.csv": "id,x,y,z\nW1,3,3e12,1.25\n"}, nil,
 			"w.csv:2: joint \"W1\": coordinate 3e+12 mm lies more than 10 km from the origin"},
-		{"bolt washer", map[string]string{"w.csv": "id,x,y,z,kind,diameter,washer\nB1,3,3,1.25,bolt,10,1e6\n"}, nil,
+		{"bolt washer", map[string]string{"w.csv": "id,x,y,z,kind,diameter,washer,hole\nB1,3,3,1.25,bolt,10,1e6,11\n"}, nil,
 			"w.csv:2: bolt \"B1\": washer 1000000 mm is more than 200 mm"},
 		{"reach flag", nil, []string{"--reach", "1e300"}, "reach 1e+300 mm: more than the 1000 mm"},
 		{"gap allowance flag", nil, []string{"--gap-allowance", "1e300"}, "gap allowance 1e+300 mm: more than the 100 mm"},

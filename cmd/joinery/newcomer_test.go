@@ -353,7 +353,7 @@ func TestBuildWarnsOfIDRange(t *testing.T) {
 			found = append(found, f.Severity+": "+f.Message)
 		}
 	}
-	want := "warning: new ids 2147483600 to 2147483681 exceed 2147483647"
+	want := "warning: new ids 2147483600 to 2147483687 exceed 2147483647"
 	if len(found) != 1 || !strings.HasPrefix(found[0], want) {
 		t.Errorf("id-range findings %q, want one starting %q", found, want)
 	}

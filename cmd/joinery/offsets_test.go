@@ -256,7 +256,7 @@ func TestBuildOffsetLinksExample(t *testing.T) {
 	}
 	csv, _ := os.ReadFile(filepath.Join(dir, "connectors.csv"))
 	vtk, _ := os.ReadFile(filepath.Join(dir, "connectors.vtk"))
-	if !strings.Contains(string(csv), ",faying_nodes,offsets\n") || !strings.Contains(string(vtk), "SCALARS link_kind int 1") {
+	if !strings.Contains(string(csv), ",faying_nodes,offsets,") || !strings.Contains(string(vtk), "SCALARS link_kind int 1") {
 		t.Errorf("connectors.csv or .vtk lacks the offset form")
 	}
 	code, _, errs = runCLI(t, "build", exampleJob, "--out", dir, "--links", "rigid")

@@ -10,6 +10,7 @@ import (
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/bolt"
 	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
@@ -154,8 +155,7 @@ func buildFiles(conn *document.ConnectorsDoc, rep *document.ReportDoc) []writers
 
 // BuildConnectors indexes the model near the joints and builds every
 // joint's connector with options o (defaults resolved against the
-// model): spot welds by package spot, joints of other kinds reported as
-// not supported. It returns the assembled result with new ids.
+// model): spot welds by package spot, bolts by package bolt. It returns the assembled result with new ids.
 func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env Env) (*joints.Result, error) {
 	m := in.Model.Mesh
 	if err := in.missingThickness(); err != nil {
@@ -167,17 +167,21 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	o = o.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
-	index := spot.IndexFor(m, in.Joints, o)
+	// One index of the elements near the joints serves both builders:
+	// every joint's point with the larger of their margins.
+	pts, margin := spot.Near(m, in.Joints, o)
+	bpts, bmargin := bolt.Near(m, in.Joints, o)
+	index := geom.NewIndexNear(m, append(pts, bpts...), max(margin, bmargin), false)
 	prog.Done()
 	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
 	if err != nil {
 		return nil, err
 	}
-	for i := range in.Joints {
-		if in.Joints[i].Kind != joints.Spot {
-			conns = append(conns, joints.NotSupported(&in.Joints[i], &o))
-		}
+	bolts, err := bolt.Build(ctx, index, in.Joints, o, prog)
+	if err != nil {
+		return nil, err
 	}
+	conns = append(conns, bolts...)
 	res, err := joints.NewResult(m, conns, in.ModelFindings(), o)
 	if err != nil {
 		return nil, UsageError(err)

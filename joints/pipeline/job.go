@@ -39,6 +39,12 @@ const JobVersion = 1
 //	  id_start: 0                    # 0 = above every id in the mesh
 //	  nugget_rule: 5sqrt             # 4sqrt | 5sqrt
 //	  links: gap                     # gap | offset
+//	  bolt_dofs: [tx, ty, tz]        # what a bolt's rings couple
+//	  bolt_coupling: rigid           # rigid | averaging
+//	  shank: rigid                   # rigid | beam
+//	  bolt_ring: hole                # hole | washer (rings of meshed holes)
+//	  shank_modulus: 0               # N/mm^2 of a beam shank, 0 = steel
+//	  hole_tolerance: 0              # mm, 0 = 0.25
 //	  fail_on: error                 # error | warning | info | never
 //	  groups:                        # per joint group overrides
 //	    rear-rail: {attach: node-pair}
@@ -92,16 +98,23 @@ type Job struct {
 // JobBuild holds the build settings of a job, as written in the file
 // (validated by LoadJob).
 type JobBuild struct {
-	Reach        *float64            `yaml:"reach,omitempty"`         // mm, 0 = automatic
-	GapAllowance *float64            `yaml:"gap_allowance,omitempty"` // mm, 0 = automatic
-	Attach       string              `yaml:"attach,omitempty"`
-	SpotDOFs     []string            `yaml:"spot_dofs,omitempty"`
-	IDStart      *int64              `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
-	IDStartLine  int                 `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
-	NuggetRule   string              `yaml:"nugget_rule,omitempty"`
-	Links        string              `yaml:"links,omitempty" json:",omitempty"`
-	FailOn       string              `yaml:"fail_on,omitempty"`
-	Groups       map[string]JobGroup `yaml:"groups,omitempty"`
+	Reach        *float64 `yaml:"reach,omitempty"`         // mm, 0 = automatic
+	GapAllowance *float64 `yaml:"gap_allowance,omitempty"` // mm, 0 = automatic
+	Attach       string   `yaml:"attach,omitempty"`
+	SpotDOFs     []string `yaml:"spot_dofs,omitempty"`
+	IDStart      *int64   `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
+	IDStartLine  int      `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
+	NuggetRule   string   `yaml:"nugget_rule,omitempty"`
+	Links        string   `yaml:"links,omitempty" json:",omitempty"`
+	// Bolt settings; left out of the run id's settings when not given.
+	BoltDOFs      []string            `yaml:"bolt_dofs,omitempty" json:",omitempty"`
+	BoltCoupling  string              `yaml:"bolt_coupling,omitempty" json:",omitempty"`
+	Shank         string              `yaml:"shank,omitempty" json:",omitempty"`
+	BoltRing      string              `yaml:"bolt_ring,omitempty" json:",omitempty"`
+	ShankModulus  *float64            `yaml:"shank_modulus,omitempty" json:",omitempty"`  // N/mm^2, 0 = steel
+	HoleTolerance *float64            `yaml:"hole_tolerance,omitempty" json:",omitempty"` // mm, 0 = default
+	FailOn        string              `yaml:"fail_on,omitempty"`
+	Groups        map[string]JobGroup `yaml:"groups,omitempty"`
 }
 
 // JobGroup holds the settings that differ for the joints of one group.
@@ -137,6 +150,32 @@ func (b *JobBuild) Apply(o *joints.BuildOptions) error {
 		if o.Rule, err = joints.ParseNuggetRule(b.NuggetRule); err != nil {
 			return err
 		}
+	}
+	if b.BoltDOFs != nil {
+		if o.BoltDOFs, err = joints.ParseDOFs(b.BoltDOFs...); err != nil {
+			return err
+		}
+	}
+	if b.BoltCoupling != "" {
+		if o.BoltCoupling, err = joints.ParseBoltCoupling(b.BoltCoupling); err != nil {
+			return err
+		}
+	}
+	if b.Shank != "" {
+		if o.Shank, err = joints.ParseShankForm(b.Shank); err != nil {
+			return err
+		}
+	}
+	if b.BoltRing != "" {
+		if o.BoltRing, err = joints.ParseBoltRing(b.BoltRing); err != nil {
+			return err
+		}
+	}
+	if b.ShankModulus != nil {
+		o.ShankModulus = *b.ShankModulus
+	}
+	if b.HoleTolerance != nil {
+		o.HoleTolerance = *b.HoleTolerance
 	}
 	if b.Links != "" {
 		if o.Links, err = joints.ParseLinkForm(b.Links); err != nil {
@@ -355,7 +394,8 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 		return s, nil
 	}
 	attach := func(s string) error { _, err := joints.ParseAttach(s); return err }
-	keys := []string{"reach", "gap_allowance", "attach", "spot_dofs", "id_start", "nugget_rule", "fail_on", "groups", "links"}
+	keys := []string{"reach", "gap_allowance", "attach", "spot_dofs", "id_start", "nugget_rule", "fail_on", "groups", "links",
+		"bolt_dofs", "bolt_coupling", "shank", "bolt_ring", "shank_modulus", "hole_tolerance"}
 	return y.Map(n, "build", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "reach":
@@ -383,6 +423,27 @@ func readJobBuild(y tabular.YAML, n *yaml.Node, b *JobBuild) error {
 			b.FailOn, err = choice(v, key, func(s string) error { _, _, err := joints.ParseFailOn(s); return err })
 		case "links":
 			b.Links, err = choice(v, key, func(s string) error { _, err := joints.ParseLinkForm(s); return err })
+		case "bolt_dofs":
+			if b.BoltDOFs, err = y.Strings(v, key); err != nil {
+				return err
+			}
+			if _, err := joints.ParseDOFs(b.BoltDOFs...); err != nil {
+				return y.Errorf(v, "bolt_dofs: %w", err)
+			}
+		case "bolt_coupling":
+			b.BoltCoupling, err = choice(v, key, func(s string) error { _, err := joints.ParseBoltCoupling(s); return err })
+		case "shank":
+			b.Shank, err = choice(v, key, func(s string) error { _, err := joints.ParseShankForm(s); return err })
+		case "bolt_ring":
+			b.BoltRing, err = choice(v, key, func(s string) error { _, err := joints.ParseBoltRing(s); return err })
+		case "shank_modulus":
+			var e float64
+			if e, err = y.Float(v, key); err == nil && (e < 0 || e > joints.MaxShankModulus) {
+				err = y.Errorf(v, "shank_modulus: %g N/mm^2: want 0 (steel) to %g", e, float64(joints.MaxShankModulus))
+			}
+			b.ShankModulus = &e
+		case "hole_tolerance":
+			b.HoleTolerance, err = distance(v, key, joints.MaxGapAllowance)
 		case "groups":
 			b.Groups = map[string]JobGroup{}
 			err = y.Map(v, "groups", nil, func(name string, k, gv *yaml.Node) error {

@@ -17,6 +17,14 @@ import (
 // answers are those of a full index; the cost is a fraction of it on a
 // large body. Node queries are not needed by a build and find nothing.
 func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Index {
+	pts, margin := Near(m, js, o)
+	return geom.NewIndexNear(m, pts, margin, false)
+}
+
+// Near returns what IndexFor indexes around: the points of the spot
+// welds among js and the margin round them, mm, so that a caller
+// building one index for several jobs covers this one's queries.
+func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, float64) {
 	tmax := joints.MaxThickness(m)
 	o = o.Defaults(tmax)
 	dmax := o.Rule.Diameter(tmax)
@@ -35,7 +43,7 @@ func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Inde
 		reach = math.Max(reach, maxElemSize(m))
 	}
 	// 1% slack against rounding at the margin.
-	return geom.NewIndexNear(m, pts, 1.01*(o.Reach+reach), false)
+	return pts, 1.01 * (o.Reach + reach)
 }
 
 // maxElemSize returns the largest bounding-box diagonal of an element.

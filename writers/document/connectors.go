@@ -60,6 +60,19 @@ type OptionsDoc struct {
 	SpotDOFs      []string          `json:"spot_dofs"`
 	NuggetRule    string            `json:"nugget_rule"`
 	Links         string            `json:"links"` // gap or offset
+	// Bolts holds the bolt options, defaults resolved, when the build has
+	// bolts; absent otherwise.
+	Bolts *BoltOptionsDoc `json:"bolts,omitempty"`
+}
+
+// BoltOptionsDoc records the bolt options of a build.
+type BoltOptionsDoc struct {
+	DOFs          []string `json:"dofs"`
+	Coupling      string   `json:"coupling"`
+	Shank         string   `json:"shank"`
+	Ring          string   `json:"ring"`
+	ShankModulus  float64  `json:"shank_modulus"`  // N/mm^2 whatever units.length
+	HoleTolerance float64  `json:"hole_tolerance"` // in units.length
 }
 
 // IDRange gives the new node and element ids a build used: First up to,
@@ -86,6 +99,43 @@ type ConnectorDoc struct {
 	Findings       []string          `json:"findings"`
 	Listed         []int64           `json:"listed_parts,omitempty"`
 	Tags           map[string]string `json:"tags,omitempty"`
+	// Bolt holds a bolt's own fields; absent for spot welds.
+	Bolt *BoltDoc `json:"bolt,omitempty"`
+}
+
+// BoltDoc holds the fields of a bolt connector beside the shared ones:
+// its sizes as listed, its coupling choices and its support to ground.
+type BoltDoc struct {
+	Washer   float64 `json:"washer"` // washer or head outer diameter as listed, in units.length
+	Hole     float64 `json:"hole"`   // declared hole diameter, in units.length
+	Ground   bool    `json:"ground"`
+	Coupling string  `json:"coupling"` // rigid or averaging
+	Shank    string  `json:"shank"`    // rigid or beam
+	Ring     string  `json:"ring"`     // the --bolt-ring choice: hole or washer
+	// Beam holds a beam shank's section and material; absent for a rigid
+	// shank.
+	Beam *BeamDoc `json:"beam,omitempty"`
+	// Support is the support to ground of a grounded bolt; absent
+	// otherwise.
+	Support *SupportDoc `json:"support,omitempty"`
+}
+
+// BeamDoc is a beam shank: a circular section of the bolt's nominal
+// diameter, A = pi d^2/4, I = pi d^4/64, J = pi d^4/32.
+type BeamDoc struct {
+	Diameter float64 `json:"diameter"` // in units.length
+	Area     float64 `json:"area"`     // in units.length^2
+	Inertia  float64 `json:"inertia"`  // second moment of area about a diameter, in units.length^4
+	Torsion  float64 `json:"torsion"`  // polar moment, in units.length^4
+	Modulus  float64 `json:"modulus"`  // Young's modulus, N/mm^2 whatever units.length
+	Poisson  float64 `json:"poisson"`
+}
+
+// SupportDoc is a bolt's support to ground.
+type SupportDoc struct {
+	Sheet int      `json:"sheet"` // index of the supported centre's sheet
+	Node  int64    `json:"node"`  // the centre's node id
+	DOFs  []string `json:"dofs"`  // degrees of freedom held
 }
 
 // SheetDoc is one sheet of a connector's stack and the connector's end on it.
@@ -102,6 +152,12 @@ type SheetDoc struct {
 	EndPoint     *Vec      `json:"end_point"`
 	Nodes        []int64   `json:"nodes"`
 	Weights      []float64 `json:"weights"`
+	// Bolts only: the hole measured in the mesh (null: none meshed), the
+	// kind of ring the centre couples (hole, washer or patch), and the
+	// ring nodes' coordinates, in the order of nodes, for viewing.
+	HoleDiameter *float64 `json:"hole_diameter,omitempty"`
+	Ring         string   `json:"ring,omitempty"`
+	NodePoints   []Vec    `json:"node_points,omitempty"`
 }
 
 // LinkDoc is one link of a connector: across the gap between
@@ -164,6 +220,10 @@ func NewConnectors(m *geom.Mesh, r *joints.Result, info RunInfo) *ConnectorsDoc 
 	}
 	for i := range r.Connectors {
 		doc.Connectors = append(doc.Connectors, connectorDoc(m, &r.Connectors[i]))
+		if r.Connectors[i].Joint.Kind == joints.Bolt && doc.Options.Bolts == nil {
+			doc.Options.Bolts = &BoltOptionsDoc{DOFs: o.BoltDOFsOrDefault().Names(), Coupling: o.BoltCoupling.String(),
+				Shank: o.Shank.String(), Ring: o.BoltRing.String(), ShankModulus: o.ShankModulusOrDefault(), HoleTolerance: o.HoleToleranceOrDefault()}
+		}
 	}
 	doc.toUnit(info.Unit)
 	return doc
@@ -206,7 +266,22 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 				sd.Weights = append(sd.Weights, clean(e.Weights[k]))
 			}
 		}
+		if c.Bolt != nil && i < len(c.Bolt.Holes) {
+			h := c.Bolt.Holes[i]
+			if h.Diameter > 0 {
+				hd := h.Diameter
+				sd.HoleDiameter = &hd
+			}
+			sd.Ring = h.Ring
+			for _, n := range c.Ends[i].Nodes {
+				sd.NodePoints = append(sd.NodePoints, vecOf(m.Coords[n]))
+			}
+		}
 		d.Sheets = append(d.Sheets, sd)
+	}
+	if c.Bolt != nil {
+		d.Attach = BoltAttach
+		d.Bolt = boltDoc(c)
 	}
 	for _, l := range c.Links {
 		dofs := l.DOFs
@@ -216,7 +291,7 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 		ld := LinkDoc{ID: l.ID, Kind: l.Kind.String(), From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
 			StartNode: l.StartNode, EndNode: l.EndNode, NewNode: l.NewEnd,
 			Length: l.Length, Direction: vecOf(l.Direction), DOFs: dofs.Names(), ContactGap: l.Contact, MidGap: clean(l.MidGap)}
-		if l.Kind == joints.FayingJoint {
+		if l.Kind == joints.FayingJoint || l.Kind == joints.ShankLink && c.Bolt != nil && c.Links[0].Kind == joints.OffsetLink {
 			mm := clean(l.Mismatch)
 			ld.Mismatch = &mm
 		}
@@ -230,6 +305,26 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 		}
 	}
 	sort.Strings(d.Findings)
+	return d
+}
+
+// BoltAttach is the attach of a bolt connector: its centres are coupled
+// to rings (see the bolt's coupling).
+const BoltAttach = "ring"
+
+// boltDoc returns the bolt fields of bolt connector c.
+func boltDoc(c *joints.Connector) *BoltDoc {
+	b := c.Bolt
+	d := &BoltDoc{Washer: c.Joint.Washer, Hole: c.Joint.Hole, Ground: c.Joint.Ground,
+		Coupling: b.Coupling.String(), Shank: b.Shank.String(), Ring: b.Ring.String()}
+	if b.Shank == joints.BeamShank {
+		dia := c.Joint.Diameter
+		d.Beam = &BeamDoc{Diameter: dia, Area: math.Pi * dia * dia / 4, Inertia: math.Pi * math.Pow(dia, 4) / 64,
+			Torsion: math.Pi * math.Pow(dia, 4) / 32, Modulus: b.ShankModulus, Poisson: b.ShankPoisson}
+	}
+	if b.Support >= 0 && b.Support < len(c.EndIDs) {
+		d.Support = &SupportDoc{Sheet: b.Support, Node: c.EndIDs[b.Support], DOFs: b.SupportDOFs.Names()}
+	}
 	return d
 }
 

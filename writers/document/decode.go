@@ -81,7 +81,11 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 		Joint:  joints.Joint{ID: d.ID, Kind: kind, Point: d.Point.r3(), Group: d.Group, Parts: d.Listed, Tags: d.Tags},
 		Status: st, DiameterSource: d.DiameterSource,
 	}
-	if c.Attach, err = joints.ParseAttach(d.Attach); err != nil {
+	if kind == joints.Bolt {
+		if c.Bolt, err = d.boltData(); err != nil {
+			return c, err
+		}
+	} else if c.Attach, err = joints.ParseAttach(d.Attach); err != nil {
 		return c, err
 	}
 	if len(d.DOFs) > 0 {
@@ -156,6 +160,33 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 			Length: l.Length, Direction: l.Direction.r3(), Contact: l.ContactGap, MidGap: l.MidGap})
 	}
 	return c, nil
+}
+
+// boltData returns the bolt fields of a bolt's document, those the
+// checks need: the coupling and the support (its sheet and DOFs; its
+// node is the centre's).
+func (d *ConnectorDoc) boltData() (*joints.BoltData, error) {
+	b := &joints.BoltData{Support: -1}
+	if d.Bolt == nil {
+		return b, nil
+	}
+	var err error
+	if b.Coupling, err = joints.ParseBoltCoupling(d.Bolt.Coupling); err != nil {
+		return nil, err
+	}
+	if b.Shank, err = joints.ParseShankForm(d.Bolt.Shank); err != nil {
+		return nil, err
+	}
+	if s := d.Bolt.Support; s != nil {
+		if s.Sheet < 0 || s.Sheet >= len(d.Sheets) {
+			return nil, fmt.Errorf("bolt support at sheet %d of %d", s.Sheet, len(d.Sheets))
+		}
+		b.Support = s.Sheet
+		if b.SupportDOFs, err = joints.ParseDOFs(s.DOFs...); err != nil {
+			return nil, fmt.Errorf("bolt support: %w", err)
+		}
+	}
+	return b, nil
 }
 
 // checkNumbers refuses coordinates, lengths and weights out of range.

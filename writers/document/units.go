@@ -65,6 +65,9 @@ func (d *ConnectorsDoc) scaleLengths(f func(float64) float64) {
 	o := &d.Options
 	o.Reach = f(o.Reach)
 	ptr(o.GapAllowance)
+	if o.Bolts != nil {
+		o.Bolts.HoleTolerance = f(o.Bolts.HoleTolerance)
+	}
 	for i := range d.Connectors {
 		c := &d.Connectors[i]
 		c.Point = vec(c.Point)
@@ -80,6 +83,18 @@ func (d *ConnectorsDoc) scaleLengths(f func(float64) float64) {
 			if s.EndPoint != nil {
 				p := vec(*s.EndPoint)
 				s.EndPoint = &p
+			}
+			ptr(s.HoleDiameter)
+			for n := range s.NodePoints {
+				s.NodePoints[n] = vec(s.NodePoints[n])
+			}
+		}
+		if b := c.Bolt; b != nil {
+			b.Washer, b.Hole = f(b.Washer), f(b.Hole)
+			if bm := b.Beam; bm != nil {
+				// Powers of the length scale: f(1) is the factor.
+				k := f(1)
+				bm.Diameter, bm.Area, bm.Inertia, bm.Torsion = f(bm.Diameter), bm.Area*k*k, bm.Inertia*k*k*k*k, bm.Torsion*k*k*k*k
 			}
 		}
 		for k := range c.Links {

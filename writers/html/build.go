@@ -59,6 +59,17 @@ func BuildSettings(conn *document.ConnectorsDoc) []Setting {
 	s = append(s,
 		Setting{"spot-weld degrees of freedom", strings.Join(o.SpotDOFs, " "), ""},
 		Setting{"nugget rule", o.NuggetRule, "where the list gives no diameter"},
+	)
+	if b := o.Bolts; b != nil {
+		s = append(s,
+			Setting{"bolt degrees of freedom", strings.Join(b.DOFs, " "), "coupled at each ring and held by a support"},
+			Setting{"bolt coupling", b.Coupling, "rigid: the ring follows the centre; averaging: the centre follows the ring"},
+			Setting{"shank", b.Shank, ""},
+			Setting{"bolt ring", b.Ring, "nodes of a meshed hole the centre couples"},
+			Setting{"hole tolerance", joints.MM(b.HoleTolerance) + " mm", "measured hole against declared"},
+		)
+	}
+	s = append(s,
 		Setting{"new ids", itoa64(conn.IDs.First) + " to " + itoa64(conn.IDs.Next-1), "nodes and elements"},
 	)
 	return s

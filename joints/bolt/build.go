@@ -1,0 +1,260 @@
+package bolt
+
+import (
+	"cmp"
+	"context"
+	"fmt"
+	"math"
+	"runtime"
+	"slices"
+	"sync"
+	"sync/atomic"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// searchFactor times the washer diameter is the distance from the axis
+// within which a bolt looks at a sheet's elements and free edges, mm:
+// the washer's radius twice over (our choice: a hole the washer does
+// not cover is still found and reported, washer-hole).
+const searchFactor = 1.0
+
+// IndexFor builds the spatial index a build of the bolts among js with
+// options o needs: the elements within reach of some bolt, where the
+// reach covers every query a bolt makes (the reach along the axis, the
+// search radius across it). Nil when js holds no bolt.
+func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Index {
+	pts, margin := Near(m, js, o)
+	if len(pts) == 0 {
+		return nil
+	}
+	return geom.NewIndexNear(m, pts, margin, false)
+}
+
+// Near returns what IndexFor indexes around: the points of the bolts
+// among js and the margin round them, mm (0 without bolts), so that a
+// caller building one index for several jobs covers this one's queries.
+func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, float64) {
+	o = o.Defaults(joints.MaxThickness(m))
+	var pts []r3.Vec
+	wmax := 0.0
+	for _, j := range js {
+		if j.Kind == joints.Bolt {
+			pts = append(pts, j.Point)
+			wmax = math.Max(wmax, j.Washer)
+		}
+	}
+	if len(pts) == 0 {
+		return nil, 0
+	}
+	// 1% slack against rounding at the margin.
+	return pts, 1.01 * math.Hypot(o.Reach, searchFactor*wmax)
+}
+
+// Build makes the connectors of the bolts among js (other kinds are left
+// out) with options o, defaults resolved against the mesh of x (an index
+// that covers the bolts: IndexFor, or a full one). Bolts are built in
+// parallel, each from its own joint alone, so the result is the same
+// whatever GOMAXPROCS; the connectors come in the order of js, and
+// joints.NewResult sorts them and hands out ids.
+func Build(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) ([]joints.Connector, error) {
+	if err := o.Validate(); err != nil {
+		return nil, fmt.Errorf("bolt: %w", err)
+	}
+	var bolts []*joints.Joint
+	for i := range js {
+		if js[i].Kind == joints.Bolt {
+			bolts = append(bolts, &js[i])
+		}
+	}
+	if len(bolts) == 0 {
+		return nil, nil
+	}
+	o = o.Defaults(joints.MaxThickness(x.Mesh()))
+	if prog == nil {
+		prog = geom.NoProgress{}
+	}
+	prog.Start("building bolts", int64(len(bolts)))
+	defer prog.Done()
+	out := make([]joints.Connector, len(bolts))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), max(1, len(bolts)/16)) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(bolts) || ctx.Err() != nil {
+					return
+				}
+				out[i] = buildOne(x, bolts[i], &o)
+			}
+		})
+	}
+	wg.Wait()
+	prog.Add(int64(len(bolts)))
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("bolt: build interrupted: %w", err)
+	}
+	return out, nil
+}
+
+// buildOne makes the connector of one bolt: the axis, the sheets it
+// crosses, the checks, a centre and ring per sheet, the shank and the
+// support.
+func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Connector {
+	m := x.Mesh()
+	c := joints.Connector{Joint: *j, DOFs: o.BoltDOFsOrDefault(), Diameter: j.Diameter, DiameterSource: "list"}
+	c.Bolt = &joints.BoltData{Coupling: o.BoltCoupling, Shank: o.Shank, Ring: o.BoltRing, Support: -1}
+	if o.Shank == joints.BeamShank {
+		c.Bolt.ShankModulus, c.Bolt.ShankPoisson = o.ShankModulusOrDefault(), joints.DefaultShankPoisson
+	}
+	listed := map[int32]bool{}
+	for _, id := range j.Parts {
+		if pi, ok := m.PartIndex(id); ok {
+			listed[pi] = true
+		}
+	}
+	keep := func(pi int32) bool { return len(j.Parts) == 0 || listed[pi] }
+	axis, ok := boltAxis(x, j, o, keep)
+	if !ok {
+		c.Findings = append(c.Findings, j.Finding(joints.Error, joints.CodeNoSheet, j.Parts,
+			fmt.Sprintf("no sheet within %s mm of the bolt gives its axis: give the axis (nx, ny, nz) or move the point onto the stack", joints.MM(o.Reach))))
+		c.Status = joints.NotBuilt
+		return c
+	}
+	f := newFrame(j.Point, axis)
+	l := searchFactor * j.Washer
+	var nbuf [512]int32
+	near := x.ElemsNear(j.Point, math.Hypot(o.Reach, l), nbuf[:0])
+	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
+	xs := crossings(m, &f, near, o.Reach, l, cosTol, keep)
+	c.Stack.Axis = axis
+	for _, cr := range xs {
+		s := joints.Sheet{Part: m.Parts[cr.part].ID, Thickness: m.Thickness(cr.elem), EdgeDistance: math.Inf(1)}
+		s.Proj = geom.Projection{Elem: cr.elem, Point: cr.point, Dist: math.Abs(cr.t), Normal: cr.normal}
+		s.Position = cr.t + m.Parts[cr.part].Surface.MidOffset(s.Thickness)*r3.Dot(cr.normal, axis)
+		c.Stack.Sheets = append(c.Stack.Sheets, s)
+	}
+	order := make([]int, len(xs))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int {
+		sa, sb := c.Stack.Sheets[a], c.Stack.Sheets[b]
+		return cmp.Or(cmp.Compare(sa.Position, sb.Position), cmp.Compare(sa.Part, sb.Part))
+	})
+	sheets := make([]joints.Sheet, len(order))
+	sorted := make([]crossing, len(order))
+	for k, i := range order {
+		sheets[k], sorted[k] = c.Stack.Sheets[i], xs[i]
+	}
+	c.Stack.Sheets, xs = sheets, sorted
+	c.Findings = append(c.Findings, checkSheets(j, &c.Stack, o)...)
+	if joints.HasError(c.Findings) {
+		c.Status = joints.NotBuilt
+		return c
+	}
+	for i := range xs {
+		ring, weights, kind := ringOf(m, &f, near, &xs[i], j.Washer, o.BoltRing)
+		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
+		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Ring: kind})
+	}
+	c.Findings = append(c.Findings, checkSizes(j, &c.Stack, c.Bolt.Holes, o)...)
+	if joints.HasError(c.Findings) {
+		c.Status = joints.NotBuilt
+		return c
+	}
+	var lfs []joints.Finding
+	c.Links, lfs = shank(m, j, &c.Stack, c.Ends, o)
+	c.Findings = append(c.Findings, lfs...)
+	if j.Ground {
+		c.Bolt.Support, c.Bolt.SupportDOFs = len(c.Ends)-1, c.DOFs
+	}
+	c.SetStatus()
+	return c
+}
+
+// boltAxis returns the bolt's axis: the one listed, else the normal of
+// the nearest sound element of a part keep accepts within reach.
+func boltAxis(x *geom.Index, j *joints.Joint, o *joints.BuildOptions, keep func(pi int32) bool) (r3.Vec, bool) {
+	if r3.Norm2(j.Axis) > 0 {
+		return r3.Unit(j.Axis), true
+	}
+	m := x.Mesh()
+	for _, pr := range x.ClosestPerPart(j.Point, o.Reach) {
+		if keep(m.ElemPart[pr.Elem]) && r3.Norm2(pr.Normal) > 0 && !m.ElemQuality(pr.Elem).Degenerate {
+			return pr.Normal, true
+		}
+	}
+	return r3.Vec{}, false
+}
+
+// ringOf returns the nodes a sheet's centre couples, their weights and
+// the kind of ring: with a hole, its edge nodes weighted by the arc
+// length each stands for (half of each edge beside it), or, with
+// WasherRing, those and every node of the part within the washer's
+// radius, weighted alike; without a hole, the nodes of the part within
+// the washer's radius and the host element's nodes, weighted alike.
+// Nodes of the part count when within the washer's radius of the axis
+// and of the centre along it. Nodes come in increasing index order.
+func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, ring joints.BoltRing) ([]int32, []float64, string) {
+	if cr.loop != nil && ring == joints.HoleRing {
+		n := len(cr.loop)
+		lens := make([]float64, n)
+		total := 0.0
+		for i := range n {
+			lens[i] = r3.Norm(r3.Sub(m.Coords[cr.loop[(i+1)%n]], m.Coords[cr.loop[i]]))
+			total += lens[i]
+		}
+		idx := make([]int, n)
+		for i := range idx {
+			idx[i] = i
+		}
+		slices.SortFunc(idx, func(a, b int) int { return cmp.Compare(cr.loop[a], cr.loop[b]) })
+		nodes := make([]int32, n)
+		ws := make([]float64, n)
+		for k, i := range idx {
+			nodes[k] = cr.loop[i]
+			ws[k] = (lens[i] + lens[(i+n-1)%n]) / (2 * total)
+		}
+		return nodes, ws, "hole"
+	}
+	set := map[int32]bool{}
+	for _, n := range cr.loop {
+		set[n] = true
+	}
+	if cr.loop == nil {
+		for _, n := range m.ElemNodes(cr.elem) {
+			set[n] = true
+		}
+	}
+	r := washer / 2
+	for _, e := range near {
+		if m.ElemPart[e] != cr.part {
+			continue
+		}
+		for _, n := range m.ElemNodes(int(e)) {
+			q := m.Coords[n]
+			if f.lateral(q) <= r && math.Abs(f.along(q)-cr.t) <= r {
+				set[n] = true
+			}
+		}
+	}
+	nodes := make([]int32, 0, len(set))
+	for n := range set {
+		nodes = append(nodes, n)
+	}
+	slices.Sort(nodes)
+	ws := make([]float64, len(nodes))
+	for i := range ws {
+		ws[i] = 1 / float64(len(nodes))
+	}
+	kind := "patch"
+	if cr.loop != nil {
+		kind = "washer"
+	}
+	return nodes, ws, kind
+}

@@ -1,0 +1,192 @@
+package bolt
+
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// TestHoleRing builds a bolt through two sheets with meshed circular
+// holes, straight and with the whole model turned so that the axis is
+// oblique: the ring on each sheet is exactly the hole's edge nodes, the
+// measured diameter the generated one, the centres lie on the axis at
+// the mid-surfaces, and only translations are coupled by default.
+func TestHoleRing(t *testing.T) {
+	for _, c := range []struct {
+		name  string
+		rot   rotation
+		given bool // the list gives the axis
+	}{
+		{"straight", rotation{}, false},
+		{"oblique", rotation{u: r3.Unit(r3.Vec{X: 1, Y: 2, Z: 0.5}), a: 0.7}, false},
+		{"oblique-listed-axis", rotation{u: r3.Unit(r3.Vec{X: -1, Y: 0.3, Z: 2}), a: 1.1}, true},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m := mesh(t, c.rot, holed(11)...)
+			j := m10("B1", c.rot.apply(r3.Vec{Z: 1.125}))
+			axis := c.rot.apply(r3.Vec{Z: 1})
+			if c.given {
+				j.Axis = axis
+			}
+			cs := build(t, m, joints.BuildOptions{}, j)
+			if len(cs) != 1 {
+				t.Fatalf("%d connectors", len(cs))
+			}
+			b := cs[0]
+			if b.Status != joints.Built || len(b.Findings) > 0 {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			if b.DOFs != joints.Translations {
+				t.Errorf("dofs %s, want tx,ty,tz", b.DOFs)
+			}
+			if got := b.Stack.Parts(); !slices.Equal(got, []int64{1, 2}) && !slices.Equal(got, []int64{2, 1}) {
+				t.Fatalf("sheets %v", got)
+			}
+			for i, s := range b.Stack.Sheets {
+				pi, _ := m.PartIndex(s.Part)
+				z := []float64{0, 2.25}[pi]
+				// The hole's edge: the first ring of the annulus, 24 nodes.
+				var want []int32
+				for k := range 24 {
+					n, _ := m.NodeIndex(s.Part*10000 + int64(k) + 1)
+					want = append(want, n)
+				}
+				if !slices.Equal(b.Ends[i].Nodes, want) {
+					t.Errorf("part %d: ring %v, want the hole's edge nodes %v", s.Part, b.Ends[i].Nodes, want)
+				}
+				// A regular 24-gon: equal arc lengths, weights 1/24.
+				for _, w := range b.Ends[i].Weights {
+					if !near(w, 1.0/24, 1e-12) {
+						t.Errorf("part %d: weight %g, want 1/24", s.Part, w)
+					}
+				}
+				if h := b.Bolt.Holes[i]; !near(h.Diameter, 11, 1e-9) || h.Ring != "hole" {
+					t.Errorf("part %d: hole %g (%s), want 11 (hole)", s.Part, h.Diameter, h.Ring)
+				}
+				if p := c.rot.apply(r3.Vec{Z: z}); r3.Norm(r3.Sub(b.Ends[i].Point, p)) > 1e-9 {
+					t.Errorf("part %d: centre %v, want %v", s.Part, b.Ends[i].Point, p)
+				}
+			}
+			if len(b.Links) != 1 || b.Links[0].Kind != joints.ShankLink || !near(b.Links[0].Length, 2.25, 1e-9) || b.Links[0].DOFs != joints.AllDOFs {
+				t.Errorf("links %+v, want one shank of 2.25 mm on all six", b.Links)
+			}
+			if d := math.Abs(r3.Dot(b.Stack.Axis, axis)); !near(d, 1, 1e-12) {
+				t.Errorf("axis %v, want +-%v", b.Stack.Axis, axis)
+			}
+		})
+	}
+}
+
+// TestNoHole: a coarse model without holes; the ring is the nodes within
+// the washer's radius, at least the host element's.
+func TestNoHole(t *testing.T) {
+	plates := func(h float64, n int) []sheet {
+		return []sheet{
+			{Part: 1, T: 1.5, Z: 0, X0: -float64(n) * h / 2, H: h, N: n},
+			{Part: 2, T: 3, Z: 2.25, X0: -float64(n) * h / 2, H: h, N: n},
+		}
+	}
+	for _, c := range []struct {
+		name string
+		h    float64
+		n    int
+		p    r3.Vec
+		want int // ring nodes per sheet
+	}{
+		// 10 mm quads, bolt at an element centre: the host's 4 corners lie
+		// 7.07 mm away, the next nodes 15.8 mm: 4 within the 10 mm radius.
+		{"element-centre", 10, 8, r3.Vec{X: 5, Y: 5, Z: 1.125}, 4},
+		// At a node: it, its four neighbours 10 mm away (on the circle,
+		// counted), and the host element's far corner: 6.
+		{"node", 10, 8, r3.Vec{Z: 1.125}, 6},
+		// 30 mm quads: no node within 10 mm; the host element's 4.
+		{"coarse", 30, 4, r3.Vec{X: 15, Y: 15, Z: 1.125}, 4},
+		// 2 mm quads, at a node: the nodes of a 10 mm disc on a 2 mm grid,
+		// (x, y) = 2 (i, j) with i^2 + j^2 <= 25: 81 (Gauss circle
+		// problem, N(5) = 81).
+		{"fine", 2, 20, r3.Vec{Z: 1.125}, 81},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m := mesh(t, rotation{}, plates(c.h, c.n)...)
+			cs := build(t, m, joints.BuildOptions{}, m10("B1", c.p))
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			for i := range b.Ends {
+				if len(b.Ends[i].Nodes) != c.want || b.Bolt.Holes[i].Ring != "patch" || b.Bolt.Holes[i].Diameter != 0 {
+					t.Errorf("sheet %d: %d ring nodes (%s, hole %g), want %d (patch, none)", i, len(b.Ends[i].Nodes), b.Bolt.Holes[i].Ring, b.Bolt.Holes[i].Diameter, c.want)
+				}
+				host := m.ElemNodes(b.Stack.Sheets[i].Proj.Elem)
+				for _, n := range host {
+					if !slices.Contains(b.Ends[i].Nodes, n) {
+						t.Errorf("sheet %d: host node %d not in the ring", i, m.NodeIDs[n])
+					}
+				}
+			}
+		})
+	}
+}
+
+// TestWasherRing: --bolt-ring washer widens a holed sheet's ring to the
+// nodes within the washer's radius: the hole's edge (r = 5.5) and the
+// annulus rings out to 10 mm. Rings of 40 mm outer radius in 6 steps lie
+// at 5.5 + 5.75 k mm: k = 0 only (11.25 > 10), so the ring is the edge;
+// with 12 steps, at 5.5 + 2.875 k: k = 0 and 1 (8.375), 48 nodes.
+func TestWasherRing(t *testing.T) {
+	ss := holed(11)
+	for i := range ss {
+		ss[i].Rings = 12
+	}
+	m := mesh(t, rotation{}, ss...)
+	cs := build(t, m, joints.BuildOptions{BoltRing: joints.WasherRing}, m10("B1", r3.Vec{Z: 1.125}))
+	for i, e := range cs[0].Ends {
+		if len(e.Nodes) != 48 || cs[0].Bolt.Holes[i].Ring != "washer" {
+			t.Errorf("sheet %d: %d nodes (%s), want 48 (washer)", i, len(e.Nodes), cs[0].Bolt.Holes[i].Ring)
+		}
+	}
+}
+
+// TestReferenceSurfaces: centres lie where the axis meets each sheet's
+// meshed surface; positions along the axis are the mid-surfaces' (sheet
+// 1 from z = -0.75 to 0.75, sheet 2 from 0.75 to 3.75), whichever
+// surface was meshed.
+func TestReferenceSurfaces(t *testing.T) {
+	for _, c := range []struct {
+		name     string
+		s1, s2   geom.Surface
+		z1, z2   float64 // meshed surfaces
+		wantEnds [2]float64
+	}{
+		{"mid", geom.SurfaceMid, geom.SurfaceMid, 0, 2.25, [2]float64{0, 2.25}},
+		{"top", geom.SurfaceTop, geom.SurfaceTop, 0.75, 3.75, [2]float64{0.75, 3.75}},
+		{"bottom", geom.SurfaceBottom, geom.SurfaceBottom, -0.75, 0.75, [2]float64{-0.75, 0.75}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			ss := holed(11)
+			ss[0].Surface, ss[0].Z = c.s1, c.z1
+			ss[1].Surface, ss[1].Z = c.s2, c.z2
+			m := mesh(t, rotation{}, ss...)
+			cs := build(t, m, joints.BuildOptions{}, joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{Z: 0.75},
+				Diameter: 10, Washer: 20, Hole: 11, Axis: r3.Vec{Z: 1}})
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			for i, want := range c.wantEnds {
+				if !near(b.Ends[i].Point.Z, want, 1e-9) {
+					t.Errorf("sheet %d: centre at z = %g, want %g", i, b.Ends[i].Point.Z, want)
+				}
+			}
+			// Mid-surfaces at 0 and 2.25, from the point at 0.75.
+			if p := b.Stack.Sheets; !near(p[0].Position, -0.75, 1e-9) || !near(p[1].Position, 1.5, 1e-9) {
+				t.Errorf("positions %g, %g, want -0.75, 1.5", p[0].Position, p[1].Position)
+			}
+		})
+	}
+}

@@ -1,0 +1,102 @@
+package bolt
+
+import (
+	"fmt"
+	"slices"
+
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// checkSheets returns the findings about the sheets a bolt found: listed
+// parts not crossed (part-not-found), no sheet (no-sheet), one sheet on
+// a bolt not grounded (single-sheet), a sheet without thickness, and the
+// gaps between consecutive sheets against contact (gap-open,
+// gap-closed), as for spot welds.
+func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	for _, id := range j.Parts {
+		if !slices.ContainsFunc(st.Sheets, func(s joints.Sheet) bool { return s.Part == id }) {
+			fs = append(fs, j.Finding(joints.Error, joints.CodePartNotFound, []int64{id},
+				fmt.Sprintf("listed part %d is not crossed by the bolt's axis within %s mm (no element on the axis, no hole round it)", id, joints.MM(o.Reach))))
+		}
+	}
+	switch n := len(st.Sheets); {
+	case n == 0 && len(fs) == 0:
+		fs = append(fs, j.Finding(joints.Error, joints.CodeNoSheet, nil,
+			fmt.Sprintf("the bolt's axis crosses no sheet within %s mm (no element on it, no hole round it)", joints.MM(o.Reach))))
+	case n == 1 && !j.Ground && len(fs) == 0:
+		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
+			fmt.Sprintf("the bolt's axis crosses only part %d within %s mm: nothing to fasten it to (a bolt to a fixture outside the model says ground yes)", st.Sheets[0].Part, joints.MM(o.Reach))))
+	}
+	for _, s := range st.Sheets {
+		if !(s.Thickness > 0) {
+			fs = append(fs, j.Finding(joints.Error, joints.CodeNoThickness, []int64{s.Part},
+				fmt.Sprintf("part %d has no thickness: give it one in the parts table", s.Part)))
+		}
+	}
+	for i := 0; i+1 < len(st.Sheets); i++ {
+		a, b := st.Sheets[i], st.Sheets[i+1]
+		gap := b.Position - a.Position
+		want := (a.Thickness + b.Thickness) / 2
+		tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
+		switch dev := gap - want; {
+		case dev > tol:
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
+				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
+					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))))
+		case dev < -tol:
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
+				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
+					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))))
+		}
+	}
+	return fs
+}
+
+// sizeTolerance, mm, is the rounding allowed when sizes are compared
+// with the tables (our choice: far below any step of the tables, far
+// above the rounding of a unit conversion).
+const sizeTolerance = 1e-6
+
+// checkSizes checks a bolt's sizes against the published tables and its
+// holes as meshed: a declared hole larger than ISO 273's coarse series
+// for the size (hole-class) and a washer smaller than ISO 7089's
+// (washer-small) are warnings; per sheet with a hole in the mesh, a
+// measured diameter off the declared one by more than the tolerance is a
+// warning (hole-size), an error when the shank does not pass through it,
+// and a washer that does not cover it is an error (washer-hole).
+func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	if b, ok := joints.MetricBoltFor(j.Diameter); ok {
+		// sizeTolerance absorbs the rounding of lengths given in other
+		// units (20 mm written in inches and read back).
+		if j.Hole > b.Coarse+sizeTolerance {
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeHoleClass, st.Parts(),
+				fmt.Sprintf("hole %s mm is larger than the coarse clearance hole for M%g, %s mm (ISO 273): the washer may not bear", joints.MM(j.Hole), b.Nominal, joints.MM(b.Coarse))))
+		}
+		if j.Washer < b.WasherOuter-sizeTolerance {
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeWasherSmall, st.Parts(),
+				fmt.Sprintf("washer %s mm is smaller than the plain washer for M%g, %s mm (ISO 7089)", joints.MM(j.Washer), b.Nominal, joints.MM(b.WasherOuter))))
+		}
+	}
+	tol := o.HoleToleranceOrDefault()
+	for i, h := range holes {
+		if h.Diameter == 0 {
+			continue
+		}
+		part := st.Sheets[i].Part
+		switch d := h.Diameter; {
+		case d < j.Diameter:
+			fs = append(fs, j.Finding(joints.Error, joints.CodeHoleSize, []int64{part},
+				fmt.Sprintf("the hole in part %d measures %s mm, less than the bolt's %s mm: the shank does not pass", part, joints.MM(d), joints.MM(j.Diameter))))
+		case d > j.Hole+tol || d < j.Hole-tol:
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeHoleSize, []int64{part},
+				fmt.Sprintf("the hole in part %d measures %s mm, the list declares %s mm (tolerance %s mm)", part, joints.MM(d), joints.MM(j.Hole), joints.MM(tol))))
+		}
+		if h.Diameter >= j.Washer {
+			fs = append(fs, j.Finding(joints.Error, joints.CodeWasherHole, []int64{part},
+				fmt.Sprintf("the washer (%s mm) does not cover the hole in part %d, which measures %s mm", joints.MM(j.Washer), part, joints.MM(h.Diameter))))
+		}
+	}
+	return fs
+}

@@ -1,0 +1,142 @@
+package bolt
+
+import (
+	"slices"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// TestSizes checks bolts against the published sizes and their holes as
+// meshed. Table values: plain washers ISO 7089 (outer diameter M6 12,
+// M8 16, M10 20, M12 24 mm) and clearance holes ISO 273 (fine / medium /
+// coarse, M6 6.4/6.6/7.0, M8 8.4/9.0/10.0, M10 10.5/11.0/12.0, M12
+// 13.0/13.5/14.5 mm), as in REFERENCES.md.
+func TestSizes(t *testing.T) {
+	for _, c := range []struct {
+		name                  string
+		d, washer, hole, mesh float64 // mesh: hole meshed, 0 none
+		want                  []string
+		state                 joints.Status
+	}{
+		{"M8 medium", 8, 16, 9.0, 9.0, nil, joints.Built},                                          // ISO 7089 16, ISO 273 medium 9.0
+		{"M8 coarse", 8, 16, 10.0, 10.0, nil, joints.Built},                                        // ISO 273 coarse 10.0: allowed
+		{"M8 beyond coarse", 8, 16, 10.5, 10.5, []string{joints.CodeHoleClass}, joints.Flagged},    // > 10.0
+		{"M8 small washer", 8, 15, 9.0, 9.0, []string{joints.CodeWasherSmall}, joints.Flagged},     // < 16
+		{"M6 fine", 6, 12, 6.4, 6.4, nil, joints.Built},                                            // ISO 7089 12, ISO 273 fine 6.4
+		{"M6 beyond coarse", 6, 12, 7.1, 7.1, []string{joints.CodeHoleClass}, joints.Flagged},      // > 7.0
+		{"M12 coarse", 12, 24, 14.5, 14.5, nil, joints.Built},                                      // ISO 7089 24, ISO 273 coarse 14.5
+		{"M12 small washer", 12, 23, 13.5, 13.5, []string{joints.CodeWasherSmall}, joints.Flagged}, // < 24
+		{"M10 no hole meshed", 10, 20, 11, 0, nil, joints.Built},
+		{"M10 measured off", 10, 20, 11, 12, []string{joints.CodeHoleSize}, joints.Flagged},     // 1 mm > 0.25 mm
+		{"M10 within tolerance", 10, 20, 11, 11.2, nil, joints.Built},                           // 0.2 mm <= 0.25 mm
+		{"M10 hole too small", 10, 20, 11, 9.5, []string{joints.CodeHoleSize}, joints.NotBuilt}, // the shank does not pass
+		{"M10 washer not covering", 10, 20, 11, 21, []string{joints.CodeHoleSize, joints.CodeWasherHole}, joints.NotBuilt},
+		{"M14 not tabled", 14, 20, 30, 15, []string{joints.CodeHoleSize}, joints.Flagged}, // no table row: only the mesh is checked
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			var ss []sheet
+			if c.mesh > 0 {
+				ss = holed(c.mesh)
+			} else {
+				ss = []sheet{{Part: 1, T: 1.5, Z: 0, X0: -40, H: 5, N: 16}, {Part: 2, T: 3, Z: 2.25, X0: -40, H: 5, N: 16}}
+			}
+			m := mesh(t, rotation{}, ss...)
+			j := joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{Z: 1.125}, Diameter: c.d, Washer: c.washer, Hole: c.hole}
+			b := build(t, m, joints.BuildOptions{}, j)[0]
+			got := codes(b.Findings)
+			var uniq []string
+			for _, g := range got {
+				if !slices.Contains(uniq, g) {
+					uniq = append(uniq, g)
+				}
+			}
+			if !slices.Equal(uniq, c.want) || b.Status != c.state {
+				t.Errorf("findings %v, state %s; want %v, %s", got, b.Status, c.want, c.state)
+			}
+			for _, f := range b.Findings {
+				if f.Code == joints.CodeHoleClass && !strings.Contains(f.Message, "ISO 273") ||
+					f.Code == joints.CodeWasherSmall && !strings.Contains(f.Message, "ISO 7089") {
+					t.Errorf("%s does not name its standard: %s", f.Code, f.Message)
+				}
+			}
+		})
+	}
+}
+
+// TestSheetsFound covers the stacks a bolt finds: gaps checked as for
+// spot welds, listed parts not crossed, a single sheet without ground,
+// and the offset link form.
+func TestSheetsFound(t *testing.T) {
+	t.Run("gap-open", func(t *testing.T) {
+		ss := holed(11)
+		ss[1].Z = 3.25 // 1 mm off contact (2.25), allowance 0.5625
+		m := mesh(t, rotation{}, ss...)
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 1.6}))[0]
+		if got := codes(b.Findings); !slices.Equal(got, []string{joints.CodeGapOpen}) {
+			t.Errorf("findings %v, want gap-open", got)
+		}
+	})
+	t.Run("listed-missing", func(t *testing.T) {
+		m := mesh(t, rotation{}, holed(11)...)
+		j := m10("B1", r3.Vec{Z: 1.125})
+		j.Parts = []int64{1, 7}
+		b := build(t, m, joints.BuildOptions{}, j)[0]
+		if got := codes(b.Findings); !slices.Contains(got, joints.CodePartNotFound) || b.Status != joints.NotBuilt {
+			t.Errorf("findings %v, state %s; want part-not-found, not-built", got, b.Status)
+		}
+	})
+	t.Run("single-sheet", func(t *testing.T) {
+		m := mesh(t, rotation{}, holed(11)[:1]...)
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 0.5}))[0]
+		if got := codes(b.Findings); !slices.Equal(got, []string{joints.CodeSingleSheet}) {
+			t.Errorf("findings %v, want single-sheet", got)
+		}
+		j := m10("B1", r3.Vec{Z: 0.5})
+		j.Ground = true
+		b = build(t, m, joints.BuildOptions{}, j)[0]
+		if b.Status != joints.Built || b.Bolt.Support != 0 || b.Bolt.SupportDOFs != joints.Translations {
+			t.Errorf("grounded single sheet: %s %v, support %d %s", b.Status, codes(b.Findings), b.Bolt.Support, b.Bolt.SupportDOFs)
+		}
+	})
+	t.Run("offset-links", func(t *testing.T) {
+		m := mesh(t, rotation{}, holed(11)...)
+		b := build(t, m, joints.BuildOptions{Links: joints.OffsetLinks}, m10("B1", r3.Vec{Z: 1.125}))[0]
+		if len(b.Links) != 3 || b.Links[0].Kind != joints.OffsetLink || b.Links[1].Kind != joints.OffsetLink || b.Links[2].Kind != joints.ShankLink {
+			t.Fatalf("links %+v", b.Links)
+		}
+		// Mid-surface sheets in contact: offsets t/2 (0.75, 1.5) meet at
+		// the faying face z = 0.75; the shank between them has no length.
+		if !near(b.Links[0].Length, 0.75, 1e-9) || !near(b.Links[1].Length, 1.5, 1e-9) || !near(b.Links[2].Length, 0, 1e-9) {
+			t.Errorf("lengths %g %g %g, want 0.75 1.5 0", b.Links[0].Length, b.Links[1].Length, b.Links[2].Length)
+		}
+	})
+	t.Run("beam", func(t *testing.T) {
+		m := mesh(t, rotation{}, holed(11)...)
+		b := build(t, m, joints.BuildOptions{Shank: joints.BeamShank}, m10("B1", r3.Vec{Z: 1.125}))[0]
+		// Steel, E = 210,000 N/mm^2, nu = 0.3 (EN 1993-1-1, 3.2.6; from memory).
+		if b.Bolt.ShankModulus != 210000 || b.Bolt.ShankPoisson != 0.3 {
+			t.Errorf("beam shank %g, %g", b.Bolt.ShankModulus, b.Bolt.ShankPoisson)
+		}
+	})
+}
+
+// TestDeterministic: the same bolts give the same connectors whatever
+// the order of the list and the number of workers.
+func TestDeterministic(t *testing.T) {
+	m := mesh(t, rotation{}, holed(11)...)
+	var js []joints.Joint
+	for i := range 40 {
+		js = append(js, m10(string(rune('A'+i%26))+string(rune('a'+i/26)), r3.Vec{X: float64(i%5) * 0.1, Z: 1.125}))
+	}
+	a := build(t, m, joints.BuildOptions{}, js...)
+	for i := range a {
+		b := build(t, m, joints.BuildOptions{}, js[i])[0]
+		if !slices.Equal(a[i].Ends[0].Nodes, b.Ends[0].Nodes) || a[i].Ends[1].Point != b.Ends[1].Point {
+			t.Fatalf("bolt %s differs built alone", js[i].ID)
+		}
+	}
+}
