@@ -110,7 +110,7 @@ func (s *Surfaces) Write(w *Writer, p *Page) error {
 	w.Raw(" parts, ")
 	w.Int(int64(differ))
 	w.Raw(" of them on another surface than the parts table says; parts that differ, with contacts that disagree or with elements to flip come first, then the least sure. The confidence bar runs from 0 to 1; the evidence is the contact area behind the verdict, agreeing the share of it the verdict explains.</p>\n")
-	w.Raw("<table id=\"surfaces-table\" class=\"conns\"><thead><tr><th>part</th><th>name</th><th class=\"n\">t (" + u + ")</th><th class=\"n\">elements</th><th>table</th><th>found</th><th class=\"n\">offset (" + u + ")</th><th>confidence</th><th class=\"n\">evidence (" + u + "²)</th><th class=\"n\">agreeing</th><th class=\"n\">contacts</th><th class=\"n\">disagree</th><th class=\"n\">pieces</th><th class=\"n\">flip</th><th class=\"n\">unorientable edges</th></tr></thead>\n<tbody>\n")
+	w.Raw("<table id=\"surfaces-table\"><thead><tr><th>part</th><th>name</th><th class=\"n\">t (" + u + ")</th><th class=\"n\">elements</th><th>table</th><th>found</th><th class=\"n\">offset (" + u + ")</th><th>confidence</th><th class=\"n\">evidence (" + u + "²)</th><th class=\"n\">agreeing</th><th class=\"n\">contacts</th><th class=\"n\">disagree</th><th class=\"n\">pieces</th><th class=\"n\">flip</th><th class=\"n\">unorientable edges</th></tr></thead>\n<tbody>\n")
 	for _, i := range order {
 		q := &ps[i]
 		w.Raw("<tr")
@@ -206,7 +206,7 @@ func (s *Contacts) Write(w *Writer, p *Page) error {
 		return cmp.Or(cmp.Compare(agrees(cs[a].Agrees), agrees(cs[b].Agrees)), cmp.Compare(cs[a].A, cs[b].A), cmp.Compare(cs[a].B, cs[b].B))
 	})
 	w.Raw("<p>Pairs of parts whose elements face each other: the separation of their mid-surfaces (least, weighted mean, largest), what it would be in contact with the surfaces found (expected), and whether the two agree within the allowance.</p>\n")
-	w.Raw("<table id=\"contacts-table\" class=\"conns\"><thead><tr><th>parts</th><th>normals</th><th class=\"n\">separation (" + u + ")</th><th class=\"n\">least / largest (" + u + ")</th><th class=\"n\">expected (" + u + ")</th><th class=\"n\">allowance (" + u + ")</th><th>agrees</th><th class=\"n\">area (" + u + "²)</th><th class=\"n\">joint sites</th><th class=\"n\">samples</th><th>point (" + u + ")</th></tr></thead>\n<tbody>\n")
+	w.Raw("<table id=\"contacts-table\"><thead><tr><th>parts</th><th>normals</th><th class=\"n\">separation (" + u + ")</th><th class=\"n\">least / largest (" + u + ")</th><th class=\"n\">expected (" + u + ")</th><th class=\"n\">allowance (" + u + ")</th><th>agrees</th><th class=\"n\">area (" + u + "²)</th><th class=\"n\">joint sites</th><th class=\"n\">samples</th><th>point (" + u + ")</th></tr></thead>\n<tbody>\n")
 	for _, i := range order {
 		c := &cs[i]
 		w.Raw("<tr")

@@ -35,7 +35,7 @@
       }
       var j = r[2], to = r[7] === "=" ? "axo-" + j : r[7], label = j === null ? "location" : j;
       var cell = to ? '<a href="#' + esc(to) + '">' + esc(label) + "</a>" : (j === null ? "-" : esc(j));
-      out.push('<tr id="f-' + (i + 1) + '"' + (fd.sev[r[0]] === "error" ? ' class="e"' : "") + "><td>" +
+      out.push('<tr id="' + "f-" + (i + 1) + '"' + (fd.sev[r[0]] === "error" ? ' class="e"' : "") + "><td>" +
         esc(fd.sev[r[0]]) + "</td><td>" + esc(fd.code[r[1]]) + "</td><td>" + cell + "</td><td>" + r[3] +
         "</td><td>" + esc(msg) + "</td><td>" + (r[6] || "-") + "</td></tr>");
     });
