@@ -17,7 +17,12 @@ import (
 	"testing"
 	"time"
 
+	"github.com/joinery-cae/joinery/geom/meshio"
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/pipeline"
+	"github.com/joinery-cae/joinery/joints/synth"
 	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
 )
 
 // chromiumFlags run Chromium headless as this machine and CI need it:
@@ -97,33 +102,7 @@ func TestPageInBrowser(t *testing.T) {
 		t.Fatal(err)
 	}
 	page := "file://" + filepath.Join(dir, "report.html")
-	dom, log := runChromium(t, bin, "--dump-dom", page)
-	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
-		t.Errorf("console messages:\n%s", strings.Join(msgs, "\n"))
-	}
-	body := bodyTag.FindString(dom)
-	attrs := map[string]string{}
-	for _, m := range bodyAttr.FindAllStringSubmatch(body, -1) {
-		attrs[m[1]] = m[2]
-	}
-	if attrs["ready"] != "1" || attrs["errors"] != "" {
-		t.Fatalf("the script did not run to its end without errors: %s", body)
-	}
-	for state, want := range rep.Summary.ByState {
-		got := 0
-		if v, ok := attrs["marks-"+state]; ok {
-			got, _ = strconv.Atoi(v)
-		}
-		if got != want {
-			t.Errorf("%d %s marks in the rendered page, report.json says %d", got, state, want)
-		}
-	}
-	if got := attrs["rows"]; got != strconv.Itoa(len(rep.Findings)) {
-		t.Errorf("%s finding rows in the rendered page, report.json has %d findings", got, len(rep.Findings))
-	}
-	if n := strings.Count(dom, `<tr id="f-`); n != len(rep.Findings) {
-		t.Errorf("%d finding rows in the dumped DOM, want %d", n, len(rep.Findings))
-	}
+	attrs, _ := checkRendered(t, bin, filepath.Join(dir, "report.html"), rep)
 	// The script's answers to a reader: filter the findings by the first
 	// code, then follow the first joint link; a test script added to a
 	// copy of the page records what the page shows then.
@@ -142,15 +121,15 @@ func TestPageInBrowser(t *testing.T) {
 })();
 </script>
 </body>`
-	html, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	raw, err := os.ReadFile(filepath.Join(dir, "report.html"))
 	if err != nil {
 		t.Fatal(err)
 	}
 	probed := filepath.Join(dir, "probe.html")
-	if err := os.WriteFile(probed, bytes.Replace(html, []byte("</body>"), []byte(probe), 1), 0o644); err != nil {
+	if err := os.WriteFile(probed, bytes.Replace(raw, []byte("</body>"), []byte(probe), 1), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	dom, log = runChromium(t, bin, "--dump-dom", "file://"+probed)
+	dom, log := runChromium(t, bin, "--dump-dom", "file://"+probed)
 	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
 		t.Errorf("console messages with the probe:\n%s", strings.Join(msgs, "\n"))
 	}
@@ -185,6 +164,85 @@ func TestPageInBrowser(t *testing.T) {
 	}
 }
 
+// checkRendered opens a page in the browser and wants its script to run
+// to its end with no console message, the marks per state of the
+// axonometric view to be report.json's connectors by state, and the
+// rows of the findings table (in the dumped DOM too) to be its
+// findings. It returns the attributes the script wrote on the body.
+func checkRendered(t *testing.T, bin, path string, rep *document.ReportDoc) (map[string]string, string) {
+	t.Helper()
+	dom, log := runChromium(t, bin, "--dump-dom", "file://"+path)
+	if msgs := console.FindAllString(log, -1); len(msgs) > 0 {
+		t.Errorf("console messages:\n%s", strings.Join(msgs, "\n"))
+	}
+	body := bodyTag.FindString(dom)
+	attrs := map[string]string{}
+	for _, m := range bodyAttr.FindAllStringSubmatch(body, -1) {
+		attrs[m[1]] = m[2]
+	}
+	if attrs["ready"] != "1" || attrs["errors"] != "" {
+		t.Fatalf("the script did not run to its end without errors: %s", body)
+	}
+	states := map[string]bool{}
+	for state, want := range rep.Summary.ByState {
+		states[state] = true
+		got := 0
+		if v, ok := attrs["marks-"+state]; ok {
+			got, _ = strconv.Atoi(v)
+		}
+		if got != want {
+			t.Errorf("%d %s marks in the rendered page, report.json says %d", got, state, want)
+		}
+	}
+	for k := range attrs {
+		if s, ok := strings.CutPrefix(k, "marks-"); ok && !states[s] {
+			t.Errorf("%s %s marks in the rendered page, report.json has none", attrs[k], s)
+		}
+	}
+	if got := attrs["rows"]; got != strconv.Itoa(len(rep.Findings)) {
+		t.Errorf("%s finding rows in the rendered page, report.json has %d findings", got, len(rep.Findings))
+	}
+	if n := strings.Count(dom, `<tr id="f-`); n != len(rep.Findings) {
+		t.Errorf("%d finding rows in the dumped DOM, want %d", n, len(rep.Findings))
+	}
+	// Every finding's row in report.json's order, with its code.
+	rows := findingRow.FindAllStringSubmatch(dom, -1)
+	for i, f := range rep.Findings {
+		if i >= len(rows) {
+			break
+		}
+		if rows[i][1] != strconv.Itoa(i+1) || rows[i][2] != f.Code {
+			t.Errorf("row %d: f-%s %s, report.json's finding %d is %s", i, rows[i][1], rows[i][2], i+1, f.Code)
+			break
+		}
+	}
+	return attrs, dom
+}
+
+var findingRow = regexp.MustCompile(`<tr id="f-(\d+)"[^>]*><td>[^<]*</td><td>([^<]*)</td>`)
+
+// TestPagesInBrowser opens the report.html of check, flanges and
+// offsets on the example in headless Chromium, with the checks of
+// checkRendered, and keeps a screenshot of each in the test's temp dir.
+func TestPagesInBrowser(t *testing.T) {
+	skipWithoutExample(t)
+	if testing.Short() {
+		t.Skip("starts a browser")
+	}
+	bin := chromium(t)
+	for _, r := range pageRuns {
+		t.Run(r.cmd, func(t *testing.T) {
+			dir := t.TempDir()
+			runPage(t, dir, r.cmd, r.args...)
+			path := filepath.Join(dir, "report.html")
+			attrs, _ := checkRendered(t, bin, path, readReport(t, dir))
+			shot := filepath.Join(dir, "report.png")
+			runChromium(t, bin, "--window-size=1200,2600", "--force-device-scale-factor=0.75", "--screenshot="+shot, "file://"+path)
+			t.Logf("screenshot: %s; load took %s ms", shot, attrs["load-ms"])
+		})
+	}
+}
+
 // paletted re-encodes a screenshot with a palette of 256 colours (the
 // web-safe colours, greys and the page's own), which a page of flat
 // colours keeps without visible loss at a fraction of the size.
@@ -209,4 +267,55 @@ func paletted(b []byte) ([]byte, error) {
 		return nil, err
 	}
 	return out.Bytes(), nil
+}
+
+// TestCompactPageInBrowser renders the page of a small synthetic body
+// (node-pair attachment: many welds flagged, many findings) with the
+// compact forms forced on (html.Page's CompactMarks and
+// CompactFindings: one path per state for the plain marks, the findings
+// table as data the script turns into rows) and checks it in Chromium
+// as checkRendered does: the same marks and rows as report.json.
+func TestCompactPageInBrowser(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts a browser")
+	}
+	bin := chromium(t)
+	md, err := synth.Generate(synth.Config{Elements: 40_000, Welds: 240, Bolts: 2, Seed: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := &pipeline.Inputs{Job: &pipeline.Job{}, Model: &meshio.Model{Mesh: md.Mesh}, Joints: md.Joints}
+	res, err := pipeline.BuildConnectors(context.Background(), in, joints.BuildOptions{Attach: joints.NodePair}, pipeline.Env{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	info := document.RunInfo{Generator: "joinery test"}
+	conn := document.NewConnectors(md.Mesh, res, info)
+	rep := document.NewReport(res, info)
+	if len(rep.Findings) < 40 {
+		t.Fatalf("%d findings, want more to draw compactly", len(rep.Findings))
+	}
+	p := html.ForBuild(rep, conn, html.NewOutline(md.Mesh))
+	p.CompactMarks, p.CompactFindings = 50, 20
+	var b bytes.Buffer
+	if err := html.Render(&b, p); err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(b.Bytes(), []byte(`id="findings-data"`)) || !bytes.Contains(b.Bytes(), []byte(`data-n="`)) {
+		t.Fatal("the page is not in its compact forms")
+	}
+	path := filepath.Join(t.TempDir(), "report.html")
+	if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	attrs, dom := checkRendered(t, bin, path, rep)
+	// The rows drawn from the data say what report.json says.
+	esc := strings.NewReplacer("&", "&amp;", "<", "&lt;", ">", "&gt;")
+	for i, f := range rep.Findings {
+		if !strings.Contains(dom, "<td>"+esc.Replace(f.Message)+"</td>") {
+			t.Errorf("finding %d: no row with its message %q", i+1, f.Message)
+			break
+		}
+	}
+	t.Logf("%d findings, %d connectors; load took %s ms", len(rep.Findings), len(conn.Connectors), attrs["load-ms"])
 }

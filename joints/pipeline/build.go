@@ -87,9 +87,9 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	}
 	// The page's outline of the model needs only the mesh: find it while
 	// the connectors are built.
-	outline := make(chan *html.Outline, 1)
+	var page *pageJob
 	if !s.NoPage {
-		go func() { outline <- html.NewOutline(in.Model.Mesh) }()
+		page = startPage(in.Model.Mesh)
 	}
 	res, err := BuildConnectors(ctx, in, s.Options, env)
 	if err != nil {
@@ -108,9 +108,7 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 	if !s.NoPage {
 		// Rendered beside the other files, the page waits there for the
 		// outline.
-		files = append(files, writers.File{Name: "report.html", Render: func(w io.Writer) error {
-			return html.Render(w, html.ForBuild(rep, conn, <-outline))
-		}})
+		files = append(files, page.file(func(o *html.Outline) *html.Page { return html.ForBuild(rep, conn, o) }))
 	}
 	rendered, err := writers.Render(files)
 	if err != nil {

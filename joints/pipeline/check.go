@@ -15,6 +15,7 @@ import (
 	"github.com/joinery-cae/joinery/joints/audit"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
 )
 
 // CheckSettings are a check's settings, read from a job and the command
@@ -43,7 +44,7 @@ func (job *Job) CheckSettings(connectors []string) (CheckSettings, error) {
 }
 
 // CheckFiles are the names of the files a check writes, in order.
-func CheckFiles() []string { return []string{"report.json", "report.txt"} }
+func CheckFiles() []string { return []string{"report.json", "report.txt", PageFile} }
 
 // Check runs a whole check: load the job's model and joint lists (their
 // spot welds are extra points to check against, not built), read the
@@ -86,6 +87,7 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	if missing := in.Model.MissingThickness(); len(missing) > 0 {
 		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
 	}
+	page := startPage(m)
 	o := s.Options.Defaults(joints.MaxThickness(m))
 	conns, err := resolveConnectors(m, got.files, o, env)
 	if err != nil {
@@ -113,6 +115,9 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	rendered, err := writers.Render([]writers.File{
 		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, doc) }},
 		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteReportText(w, doc) }},
+		page.file(func(o *html.Outline) *html.Page {
+			return html.ForCheck(doc, document.NewConnectors(m, res, info), o)
+		}),
 	})
 	if err != nil {
 		return nil, err

@@ -12,6 +12,7 @@ import (
 	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
 )
 
 // FlangeSettings are a flanges run's settings, read from a job and
@@ -42,7 +43,7 @@ func (job *Job) FlangeSettings() (FlangeSettings, error) {
 // order. joints.csv is written on every run, empty when no pitch was
 // asked for, so that the set never holds welds of an earlier run.
 func FlangesFiles() []string {
-	return []string{"flanges.json", "joints.csv", "flanges.vtk", "report.json", "report.txt"}
+	return []string{"flanges.json", "joints.csv", "flanges.vtk", "report.json", "report.txt", PageFile}
 }
 
 // FlangesOutcome is what a flanges run reports.
@@ -83,6 +84,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	if len(unknown) > 0 {
 		return nil, UsageError(fmt.Errorf("pair: part(s) %s not in the model", strings.Join(unknown, ", ")))
 	}
+	page := startPage(m)
 	o := s.Options.Defaults(joints.MaxThickness(m))
 	fo := s.Flanges.Defaults()
 	prog := env.progress()
@@ -163,6 +165,9 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 		{Name: "flanges.vtk", Render: func(w io.Writer) error { return writers.WriteFlangesVTK(w, fl, node) }},
 		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, rep) }},
 		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteReportText(w, rep) }},
+		page.file(func(o *html.Outline) *html.Page {
+			return html.ForFlanges(rep, fl, document.NewConnectors(m, res, info), o, node)
+		}),
 	}
 	rendered, err := writers.Render(files)
 	if err != nil {

@@ -10,6 +10,7 @@ import (
 	"github.com/joinery-cae/joinery/joints/offset"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
 )
 
 // OffsetsSuffix is appended to the job's output directory to name the
@@ -25,7 +26,7 @@ func OffsetsOut(out string) string { return filepath.Clean(out) + OffsetsSuffix 
 // OffsetsFiles are the names of the files joinery offsets writes, in
 // order.
 func OffsetsFiles() []string {
-	return []string{"surfaces.yaml", "surfaces.json", "report.json", "report.txt"}
+	return []string{"surfaces.yaml", "surfaces.json", "report.json", "report.txt", PageFile}
 }
 
 // OffsetsOutcome is what a command reports of a surface inference.
@@ -59,6 +60,7 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 	if missing := in.Model.MissingThickness(); len(missing) > 0 {
 		return nil, geom.FileError(in.Job.Parts, "parts without a thickness: %v (give them one in the parts table)", missing)
 	}
+	page := startPage(m)
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
 	x := geom.NewElemIndex(m)
@@ -79,6 +81,7 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 		{Name: "surfaces.json", Render: func(w io.Writer) error { return document.EncodeSurfaces(w, doc) }},
 		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, rep) }},
 		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteSurfacesText(w, rep, doc) }},
+		page.file(func(o *html.Outline) *html.Page { return html.ForOffsets(rep, doc, o) }),
 	})
 	if err != nil {
 		return nil, err

@@ -11,6 +11,22 @@ import (
 // documents, then the overview (with the model's outline, which may be
 // nil), the findings table, the plots and the part pairs.
 func ForBuild(rep *document.ReportDoc, conn *document.ConnectorsDoc, outline *Outline) *Page {
+	p, an, outline := connectorsPage(rep, conn, outline)
+	p.Sections = []Section{
+		&Overview{Outline: outline},
+		FindingsTable{},
+		&BuildPlots{an: an},
+		&PartPairs{an: an, outline: outline},
+	}
+	return p
+}
+
+// connectorsPage returns the header of a page about connectors (a
+// build's or a check's), without sections, the analysis of its part
+// pairs, and the outline (in mm, or nil) in the documents' unit.
+func connectorsPage(rep *document.ReportDoc, conn *document.ConnectorsDoc, outline *Outline) (*Page, *buildAnalysis, *Outline) {
+	_, mm := unitOf(conn.Units.Length)
+	outline = outline.In(mm)
 	p := &Page{
 		Title:     "Joinery build report",
 		Generator: rep.Generator,
@@ -22,26 +38,21 @@ func ForBuild(rep *document.ReportDoc, conn *document.ConnectorsDoc, outline *Ou
 		Marks:     MarksOf(conn, rep.Findings),
 		PartNames: PartNames(outline),
 		Findings:  rep.Findings,
+		Unit:      rep.Units.Length,
 	}
-	an := analyse(conn, rep.Findings)
-	p.Sections = []Section{
-		&Overview{Outline: outline},
-		FindingsTable{},
-		&BuildPlots{an: an},
-		&PartPairs{an: an, outline: outline},
-	}
-	return p
+	return p, analyse(conn, rep.Findings), outline
 }
 
 // BuildSettings lists the options recorded in a connectors document.
 func BuildSettings(conn *document.ConnectorsDoc) []Setting {
 	o := conn.Options
+	u, _ := unitOf(conn.Units.Length)
 	gap := joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2 of each pair"
 	if o.GapAllowance != nil {
-		gap = joints.MM(*o.GapAllowance) + " mm"
+		gap = joints.MM(*o.GapAllowance) + " " + u
 	}
 	s := []Setting{
-		{"reach", joints.MM(o.Reach) + " mm", "sheets farther from a joint are not considered"},
+		{"reach", joints.MM(o.Reach) + " " + u, "sheets farther from a joint are not considered"},
 		{"gap allowance", gap, "deviation of a gap from contact before it is reported"},
 		{"angle limit", joints.MM(o.AngleLimit) + "°", "sheet normals farther from the stack axis are left out"},
 		{"lateral factor", joints.MM(o.LateralFactor), "times the nugget radius: a sheet's distance from the weld axis"},

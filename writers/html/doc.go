@@ -16,9 +16,14 @@
 // ordered list of Sections. A section is anything that writes a part of
 // the body: this package provides the overview pictures (Overview), the
 // findings table (FindingsTable), the plots of a build (BuildPlots) and
-// the part-pair plan views and tables (PartPairs); ForBuild assembles
-// them for the build command from its documents. Another command builds
-// its Page the same way and appends its own sections (see DEVELOPERS.md).
+// the part-pair plan views and tables (PartPairs). Each command has its
+// assembly in a file of its own: ForBuild (build.go), ForCheck
+// (check.go, with the Audit section), ForFlanges (flanges.go, with
+// Flanges), ForOffsets (offsets.go, with Surfaces and Contacts); a new
+// command adds its own the same way (see DEVELOPERS.md).
+//
+// Lengths are shown in the unit of the documents (Page.Unit) and
+// labelled with it; the outline, found in mm, is converted (Outline.In).
 //
 // Marks and findings meet through stable ids: the mark of joint J in the
 // pictures has the id "axo-"+Anchor(J) (and "xy-", "xz-", "yz-" in the

@@ -112,6 +112,19 @@ func (p *pathWriter) move(x, y int) {
 	p.x, p.y, p.inLine = x, y, false
 }
 
+// moveRel moves to (x, y) by a relative move from the current point,
+// or an absolute one at the start of the path.
+func (p *pathWriter) moveRel(x, y int) {
+	if len(p.b) == 0 {
+		p.move(x, y)
+		return
+	}
+	p.b = append(p.b, 'm')
+	p.num(x - p.x)
+	p.num(y - p.y)
+	p.x, p.y, p.inLine = x, y, false
+}
+
 func (p *pathWriter) line(x, y int) {
 	if x == p.x && y == p.y {
 		return

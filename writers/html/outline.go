@@ -71,6 +71,28 @@ func NewOutline(m *geom.Mesh) *Outline {
 	return o
 }
 
+// In returns the outline, whose points are in mm, in a unit of mm
+// millimetres (joints.Unit.MM): the unit of the documents a page draws
+// it with. It returns o itself for mm 1 (or nil), else a copy.
+func (o *Outline) In(mm float64) *Outline {
+	if o == nil || mm == 1 || !(mm > 0) {
+		return o
+	}
+	out := &Outline{Parts: make([]PartOutline, len(o.Parts))}
+	for i, p := range o.Parts {
+		q := PartOutline{ID: p.ID, Name: p.Name, Chains: make([]Chain, len(p.Chains))}
+		for k, c := range p.Chains {
+			cc := make(Chain, len(c))
+			for j, v := range c {
+				cc[j] = r3.Scale(1/mm, v)
+			}
+			q.Chains[k] = cc
+		}
+		out.Parts[i] = q
+	}
+	return out
+}
+
 // partChains returns the free edges of every part of m (see NewOutline)
 // chained into polylines of node indices, indexed by part index. Each
 // part is done on its own with its nodes numbered locally, so that the

@@ -21,6 +21,9 @@ const CompactAbove = 2000
 // findings that concern no joint.
 type Overview struct {
 	Outline *Outline // nil: marks only
+	// Lines are polylines drawn over the outline in blue (a flanges
+	// run's centrelines), in the page's unit.
+	Lines [][]r3.Vec
 }
 
 // Anchor returns "overview".
@@ -114,6 +117,11 @@ func (o *Overview) writeView(w *Writer, p *Page, v view, locs []locationMark) {
 	for _, m := range p.Marks {
 		b.add(f0.chart(vec(m.Point)))
 	}
+	for _, l := range o.Lines {
+		for _, q := range l {
+			b.add(f0.chart(q))
+		}
+	}
 	for _, l := range locs {
 		b.add(f0.chart(l.point))
 	}
@@ -163,9 +171,23 @@ func (o *Overview) writeView(w *Writer, p *Page, v view, locs []locationMark) {
 		}
 		w.Raw("</g>\n")
 	}
+	if len(o.Lines) > 0 {
+		pw.reset()
+		for _, l := range o.Lines {
+			pw.ls = pw.ls[:0]
+			for _, q := range l {
+				x, y := f.at(f.chart(q))
+				pw.ls = append(pw.ls, orb.Point{x, y})
+			}
+			pw.polyline(pw.ls, outlineTol, 0)
+		}
+		w.Raw("<path class=\"cl\" d=\"")
+		w.Raw(pw.String())
+		w.Raw("\"/>\n")
+	}
 	writeMarks(w, p, f, v, locs)
 	writeTriad(w, f, v)
-	writeScaleBar(w, f)
+	writeScaleBar(w, f, p.unit())
 	w.Raw("</svg><figcaption>")
 	w.Text(v.title)
 	w.Raw("</figcaption></figure>\n")
@@ -188,7 +210,7 @@ func partLabel(id int64, name string) string {
 // marks of joints with findings in the axonometric view: those stay
 // elements with their ids, the targets of the findings table's links.
 func writeMarks(w *Writer, p *Page, f *frame, v view, locs []locationMark) {
-	compact := len(p.Marks) > CompactAbove
+	compact := len(p.Marks) > p.compactMarks()
 	// Marks are drawn smaller in the small views and where they are
 	// many: the group is scaled, positions divided by the scale.
 	k := v.markScale
@@ -212,7 +234,7 @@ func writeMarks(w *Writer, p *Page, f *frame, v view, locs []locationMark) {
 		}
 		var pw pathWriter
 		for _, st := range orderStates(states) {
-			d, style := compactMark(st)
+			d, style, end := compactMark(st)
 			pw.reset()
 			n := 0
 			for _, m := range p.Marks {
@@ -220,8 +242,9 @@ func writeMarks(w *Writer, p *Page, f *frame, v view, locs []locationMark) {
 					continue
 				}
 				x, y := pt(vec(m.Point))
-				pw.move(x, y)
+				pw.moveRel(x, y)
 				pw.raw(d)
+				pw.x, pw.y = x+end[0], y+end[1]
 				n++
 			}
 			if n == 0 {
@@ -316,8 +339,8 @@ func writeTriad(w *Writer, f *frame, v view) {
 
 // writeScaleBar draws a bar of a round length, about a sixth of the
 // picture's width, at the lower right.
-func writeScaleBar(w *Writer, f *frame) {
-	target := float64(f.w) / 6 / f.scale // mm
+func writeScaleBar(w *Writer, f *frame, unit string) {
+	target := float64(f.w) / 6 / f.scale // in the page's unit
 	if !(target > 0) || math.IsInf(target, 0) {
 		return
 	}
@@ -332,7 +355,9 @@ func writeScaleBar(w *Writer, f *frame) {
 	w.Attr("y", itoa(y))
 	w.Raw(">")
 	w.MM(l)
-	w.Raw(" mm</text></g>\n")
+	w.Raw(" ")
+	w.Text(unit)
+	w.Raw("</text></g>\n")
 }
 
 // roundLength returns the largest of 1, 2 and 5 times a power of ten

@@ -34,6 +34,13 @@ type Page struct {
 	Findings []document.FindingDoc
 	// Sections follow the header, in this order.
 	Sections []Section
+	// Unit is the unit of the lengths the documents give ("mm", "m",
+	// "in"; "" is mm): the page shows them in it and labels them with
+	// it. Finding messages keep the millimetres they were written in.
+	Unit string
+	// CompactMarks and CompactFindings, when above 0, replace
+	// CompactAbove and CompactFindingsAbove (for tests).
+	CompactMarks, CompactFindings int
 
 	markIndex map[string]int // joint id -> index in Marks
 }
@@ -77,6 +84,38 @@ type Section interface {
 	Heading() string
 	// Write writes the section.
 	Write(w *Writer, p *Page) error
+}
+
+// unit returns the name of the page's length unit.
+func (p *Page) unit() string {
+	if p.Unit == "" {
+		return "mm"
+	}
+	return p.Unit
+}
+
+// unitOf returns the name of a documents' length unit ("" is mm) and
+// its size in mm.
+func unitOf(name string) (string, float64) {
+	u, err := joints.ParseUnit(name)
+	if err != nil || name == "" {
+		return "mm", 1
+	}
+	return u.String(), u.MM()
+}
+
+func (p *Page) compactMarks() int {
+	if p.CompactMarks > 0 {
+		return p.CompactMarks
+	}
+	return CompactAbove
+}
+
+func (p *Page) compactFindings() int {
+	if p.CompactFindings > 0 {
+		return p.CompactFindings
+	}
+	return CompactFindingsAbove
 }
 
 // SortMarks sorts marks by joint id, in the natural order of
@@ -224,8 +263,14 @@ func writeRun(w *Writer, p *Page) {
 	if in.Parts != "" {
 		kv("parts", in.Parts)
 	}
+	if len(in.PartsOverlays) > 0 {
+		kv("parts overlays", in.PartsOverlays...)
+	}
 	if len(in.Joints) > 0 {
 		kv("joints", in.Joints...)
+	}
+	if len(in.Connectors) > 0 {
+		kv("connectors", in.Connectors...)
 	}
 	for _, r := range in.Renumbered {
 		kv("renumbered", r.File+": node ids +"+itoa64(r.NodeOffset)+", element ids +"+itoa64(r.ElemOffset))
@@ -233,6 +278,7 @@ func writeRun(w *Writer, p *Page) {
 	for _, t := range in.TagColumns {
 		kv("tag columns", t.File+": "+strings.Join(t.Columns, ", "))
 	}
+	kv("length unit", p.unit())
 	if p.RunID != "" {
 		kv("run id", p.RunID)
 	}

@@ -19,6 +19,29 @@
   });
   Object.keys(counts).forEach(function (s) { body.setAttribute("data-marks-" + s, counts[s]); });
 
+  // A large findings table comes as data (see writeFindingsData): its
+  // rows are drawn here, as the page would have held them.
+  var data = d.getElementById("findings-data");
+  if (data) {
+    var fd = JSON.parse(data.textContent), out = [];
+    var esc = function (s) {
+      return s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
+    };
+    fd.rows.forEach(function (r, i) {
+      var msg = r[5];
+      if (r[4] >= 0) {
+        var n = r[5].split(" "), k = 0;
+        msg = fd.text[r[4]].replace(/~/g, function () { return n[k++]; });
+      }
+      var j = r[2], to = r[7] === "=" ? "axo-" + j : r[7], label = j === null ? "location" : j;
+      var cell = to ? '<a href="#' + esc(to) + '">' + esc(label) + "</a>" : (j === null ? "-" : esc(j));
+      out.push('<tr id="' + "f-" + (i + 1) + '"' + (fd.sev[r[0]] === "error" ? ' class="e"' : "") + "><td>" +
+        esc(fd.sev[r[0]]) + "</td><td>" + esc(fd.code[r[1]]) + "</td><td>" + cell + "</td><td>" + r[3] +
+        "</td><td>" + esc(msg) + "</td><td>" + (r[6] || "-") + "</td></tr>");
+    });
+    d.querySelector("#findings-table tbody").innerHTML = out.join("");
+  }
+
   // The findings table: filter by code (second cell) and part (fourth).
   // Of the matching rows the first 500 are shown until "show all" is
   // pressed, so that a run with tens of thousands of findings opens fast.
@@ -49,6 +72,8 @@
       if (r && r.hidden) { code.value = ""; part.value = ""; every = true; filter(); }
     });
     filter();
+    var at = /^#f-/.test(location.hash) && d.getElementById(location.hash.slice(1));
+    if (data && at) at.scrollIntoView();
   }
   body.setAttribute("data-rows", rows.length);
 

@@ -53,7 +53,7 @@ func (s *PartPairs) Write(w *Writer, p *Page) error {
 	}
 	w.Raw("<p>")
 	w.Int(int64(len(an.pairs)))
-	w.Raw(" part pairs joined directly (as consecutive sheets of a stack; a joint not built counts for the parts it lists), the pairs with most findings first. In the tables, t is the governing thickness, d the nugget diameter (bold where the joint list gives it, else from the nugget rule), the gap offset the links' mid-surface gap less contact, the edge distance the least to a free edge of the pair's sheets (- where none lies within twice the edge limit), the spacing the distance to the closest consecutive weld.</p>\n")
+	w.Raw(" part pairs joined directly (as consecutive sheets of a stack; a joint not built counts for the parts it lists), the pairs with most findings first. In the tables, t is the governing thickness, d the nugget diameter (bold where the joint list gives it, else from the nugget rule), the gap offset the links' mid-surface gap less contact, the edge distance the least to a free edge of the pair's sheets (- where none lies within twice the edge limit), the spacing the distance to the closest consecutive weld. Each plan view is drawn in the pair's own chart: u along the welds, v across, seen along the normal (the mean stack axis); the first part's free edges within reach of the chart's plane are solid, the second's dashed; pale blue dots are the nuggets to scale, blue dashes the weld line (centreline) through consecutive welds, vermillion a spacing below the minimum.</p>\n")
 	s.writeIndex(w, p)
 	outlines := map[int64]*PartOutline{}
 	if s.outline != nil {
@@ -68,7 +68,7 @@ func (s *PartPairs) Write(w *Writer, p *Page) error {
 		w.Raw("><h3>")
 		w.Text(partLabel(pa.a, p.PartNames[pa.a]) + " and " + partLabel(pa.b, p.PartNames[pa.b]))
 		w.Raw("</h3>\n")
-		s.writePlan(w, pa, outlines[pa.a], outlines[pa.b])
+		s.writePlan(w, p, pa, outlines[pa.a], outlines[pa.b])
 		s.writeConnectors(w, p, pa.conns, pa)
 		w.Raw("</section>\n")
 	})
@@ -101,7 +101,7 @@ func (pa *pairAnalysis) pitch(run int) float64 {
 }
 
 func (s *PartPairs) writeIndex(w *Writer, p *Page) {
-	w.Raw("<table id=\"pairs-index\"><thead><tr><th>pair</th><th>parts</th><th class=\"n\">connectors</th><th class=\"n\">flagged</th><th class=\"n\">not built</th><th class=\"n\">findings</th><th class=\"n\">runs</th><th class=\"n\">pitch (mm)</th><th class=\"n\">closest (mm)</th><th class=\"n\">below minimum</th></tr></thead>\n<tbody>\n")
+	w.Raw("<table id=\"pairs-index\"><thead><tr><th>pair</th><th>parts</th><th class=\"n\">connectors</th><th class=\"n\">flagged</th><th class=\"n\">not built</th><th class=\"n\">findings</th><th class=\"n\">runs</th><th class=\"n\">pitch (" + s.an.unit + ")</th><th class=\"n\">closest (" + s.an.unit + ")</th><th class=\"n\">below minimum</th></tr></thead>\n<tbody>\n")
 	for _, pa := range s.an.pairs {
 		w.Raw("<tr><td><a")
 		w.Attr("href", "#"+PairAnchor(pa.a, pa.b))
@@ -148,8 +148,9 @@ func (s *PartPairs) writeIndex(w *Writer, p *Page) {
 }
 
 // writePlan draws the pair's plan view.
-func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) {
+func (s *PartPairs) writePlan(w *Writer, p *Page, pa *pairAnalysis, oa, ob *PartOutline) {
 	conn := s.an.conn
+	unit, mm := s.an.unit, s.an.mm
 	f0 := &frame{origin: pa.origin, right: pa.e1, up: pa.e2}
 	b := emptyBox()
 	dmax := 0.0
@@ -160,9 +161,9 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 			dmax = math.Max(dmax, *c.Diameter)
 		}
 	}
-	pd := math.Max(pad, 1.5*dmax)
+	pd := math.Max(pad/mm, 1.5*dmax)
 	b = box{b.u0 - pd, b.v0 - pd, b.u1 + pd, b.v1 + pd}
-	f := fit(pa.origin, pa.e1, pa.e2, b, planWidth, planHeight, planMargin, minChart)
+	f := fit(pa.origin, pa.e1, pa.e2, b, planWidth, planHeight, planMargin, minChart/mm)
 	w.Raw("<figure class=\"plan\"><svg class=\"pic\"")
 	w.Attr("viewBox", "0 0 "+itoa(f.w)+" "+itoa(f.h))
 	w.Attr("width", itoa(f.w/unitsPerPx))
@@ -172,7 +173,7 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 	w.Raw(">\n")
 	slab := conn.Options.Reach
 	if !(slab > 0) {
-		slab = 10
+		slab = 10 / mm
 	}
 	var pw pathWriter
 	for k, po := range []*PartOutline{oa, ob} {
@@ -191,21 +192,35 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 		w.Raw(pw.String())
 		w.Raw("\"/>\n")
 	}
-	// Nuggets to scale, under the marks.
-	w.Raw("<g class=\"ng\">")
+	// Nuggets to scale, under the marks: a dot of the nugget's diameter
+	// (a round-capped stroke of no length), one path per diameter.
+	byR := map[int]*pathWriter{}
+	var radii []int
 	for _, i := range pa.welds {
 		c := &conn.Connectors[i]
 		if c.Diameter == nil {
 			continue
 		}
+		r := max(1, round(*c.Diameter/2*f.scale))
+		pr := byR[r]
+		if pr == nil {
+			pr = &pathWriter{}
+			byR[r] = pr
+			radii = append(radii, r)
+		}
 		x, y := f.pt(vec(c.Point))
-		w.Raw("<circle")
-		w.Attr("cx", itoa(x))
-		w.Attr("cy", itoa(y))
-		w.Attr("r", itoa(max(1, round(*c.Diameter/2*f.scale))))
-		w.Raw("/>")
+		pr.moveRel(x, y)
+		pr.raw("h0")
 	}
-	w.Raw("</g>\n")
+	slices.Sort(radii)
+	for _, r := range radii {
+		w.Raw("<path class=\"ng\"")
+		w.Attr("stroke-width", itoa(2*r))
+		w.Raw(" d=\"")
+		w.Raw(byR[r].String())
+		w.Raw("\"/>")
+	}
+	w.Raw("\n")
 	// Consecutive welds: one path for those far enough apart, one for
 	// those closer than the minimum.
 	var ok, short pathWriter
@@ -257,7 +272,7 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 		w.Attr("y", itoa(y-110))
 		w.Raw(">pitch ")
 		w.MM(v)
-		w.Raw(" mm</text>")
+		w.Raw(" " + unit + "</text>")
 	}
 	for _, l := range pa.links {
 		if l.length >= l.min {
@@ -275,11 +290,10 @@ func (s *PartPairs) writePlan(w *Writer, pa *pairAnalysis, oa, ob *PartOutline) 
 		w.Raw("</text>")
 	}
 	w.Raw("</g>\n")
-	writeScaleBar(w, f)
+	writeScaleBar(w, f, unit)
 	w.Raw("</svg><figcaption>")
-	w.Text("Plan view in the pair's chart: u along " + dir(pa.e1) + ", v along " + dir(pa.e2) + ", seen from " + dir(pa.n) +
-		" (the normal: the mean stack axis), origin " + point(pa.origin) + " mm. Part " + itoa64(pa.a) + " solid, part " + itoa64(pa.b) +
-		" dashed (their free edges within reach of the chart's plane); circles: nugget diameters to scale; blue dashes: the weld line (centreline) through consecutive welds; vermillion: spacing below the minimum.")
+	w.Text("u along " + dir(pa.e1) + ", v along " + dir(pa.e2) + ", seen from " + dir(pa.n) +
+		", origin " + point(pa.origin) + " " + unit + "; part " + itoa64(pa.a) + " solid, part " + itoa64(pa.b) + " dashed.")
 	w.Raw("</figcaption></figure>\n")
 }
 
@@ -330,6 +344,7 @@ func fixed(v float64, dec int) string {
 // connectors document) for pair pa (nil: joints in no pair).
 func (s *PartPairs) writeConnectors(w *Writer, p *Page, conns []int, pa *pairAnalysis) {
 	conn := s.an.conn
+	u := s.an.unit
 	type near struct {
 		length, min float64
 	}
@@ -346,7 +361,7 @@ func (s *PartPairs) writeConnectors(w *Writer, p *Page, conns []int, pa *pairAna
 	}
 	// Rows are lean (a body has thousands): numbers are right-aligned by
 	// the style sheet, the state's mark comes from its class.
-	w.Raw("<table class=\"conns\"><thead><tr><th>joint</th><th>kind</th><th>state</th><th>stack</th><th>t (mm)</th><th>d (mm)</th><th>gap offset (mm)</th><th>edge (mm)</th><th>spacing (mm)</th><th>findings</th></tr></thead>\n<tbody>\n")
+	w.Raw("<table class=\"conns\"><thead><tr><th>joint</th><th>kind</th><th>state</th><th>stack</th><th>t (" + u + ")</th><th>d (" + u + ")</th><th>gap offset (" + u + ")</th><th>edge (" + u + ")</th><th>spacing (" + u + ")</th><th>findings</th></tr></thead>\n<tbody>\n")
 	for _, i := range conns {
 		c := &conn.Connectors[i]
 		w.Raw("<tr><td>")

@@ -60,12 +60,17 @@ type buildAnalysis struct {
 	// findingsOf lists each joint's findings (indices into the page's
 	// findings).
 	findingsOf map[string][]int
+	// unit names the documents' length unit, mm is its size in mm: the
+	// trade rules (nugget sizes, spacings) are written in mm.
+	unit string
+	mm   float64
 }
 
 // analyse groups the connectors by part pair and finds each pair's
 // chart and consecutive welds.
 func analyse(conn *document.ConnectorsDoc, findings []document.FindingDoc) *buildAnalysis {
 	an := &buildAnalysis{conn: conn, gov: make([]float64, len(conn.Connectors)), findingsOf: map[string][]int{}}
+	an.unit, an.mm = unitOf(conn.Units.Length)
 	for i, f := range findings {
 		if f.Joint != nil {
 			an.findingsOf[*f.Joint] = append(an.findingsOf[*f.Joint], i)
@@ -122,7 +127,7 @@ func analyse(conn *document.ConnectorsDoc, findings []document.FindingDoc) *buil
 			}
 		}
 		pa.chart(conn, nil)
-		pa.consecutive(conn, an.gov)
+		pa.consecutive(conn, an.gov, an.mm)
 		if len(pa.links) > 0 {
 			// Turn u along the weld runs, which two short parallel runs
 			// (a hat section's flanges) need: they may spread as much
@@ -252,7 +257,7 @@ func perpendicular(e r3.Vec) r3.Vec {
 // minimum spanning forest of the graph that links each weld to its
 // nearest neighbours (distances between weld points), less the edges
 // longer than RunCut times the median edge, which separate weld runs.
-func (pa *pairAnalysis) consecutive(conn *document.ConnectorsDoc, gov []float64) {
+func (pa *pairAnalysis) consecutive(conn *document.ConnectorsDoc, gov []float64, mm float64) {
 	n := len(pa.welds)
 	if n < 2 {
 		if n == 1 {
@@ -327,7 +332,7 @@ func (pa *pairAnalysis) consecutive(conn *document.ConnectorsDoc, gov []float64)
 		ci, cj := &conn.Connectors[pa.welds[e.i]], &conn.Connectors[pa.welds[e.j]]
 		e.thickness = math.Max(gov[pa.welds[e.i]], gov[pa.welds[e.j]])
 		e.sheets = max(len(ci.Sheets), len(cj.Sheets))
-		e.min = joints.MinSpacing(e.thickness, e.sheets)
+		e.min = joints.MinSpacing(e.thickness*mm, e.sheets) / mm
 		e.run = runOf[e.i]
 		pa.links = append(pa.links, e)
 	}

@@ -79,18 +79,19 @@ func writeGlyphDefs(w *Writer) {
 }
 
 // compactMark returns, for a state, the path data of one mark at the
-// origin drawn as part of one path per state ("M x y" goes before it)
-// and the path's style.
-func compactMark(state string) (d, style string) {
+// origin drawn as part of one path per state (a move to the mark goes
+// before it), the path's style, and the current point after it,
+// relative to the mark (where the next relative move starts).
+func compactMark(state string) (d, style string, end [2]int) {
 	switch state {
 	case "built":
-		return "h0", `fill="none" stroke="` + colBuilt + `" stroke-width="64" stroke-linecap="round"`
+		return "h0", `fill="none" stroke="` + colBuilt + `" stroke-width="64" stroke-linecap="round"`, [2]int{0, 0}
 	case "flagged":
-		return "m0-50l44 77h-88z", `fill="` + colFlagged + `" stroke="#000" stroke-width="5" stroke-linejoin="round"`
+		return "m0-50l44 77h-88z", `fill="` + colFlagged + `" stroke="#000" stroke-width="5" stroke-linejoin="round"`, [2]int{0, -50}
 	case "not-built":
-		return "m-30-30l60 60m0-60l-60 60", `fill="none" stroke="` + colNotBuilt + `" stroke-width="16" stroke-linecap="round"`
+		return "m-30-30l60 60m0-60l-60 60", `fill="none" stroke="` + colNotBuilt + `" stroke-width="16" stroke-linecap="round"`, [2]int{-30, 30}
 	}
-	return "m-28-28h56v56h-56z", `fill="#777"`
+	return "m-28-28h56v56h-56z", `fill="#777"`, [2]int{-28, -28}
 }
 
 // writeStateLabel writes a state's name with its mark (drawn by the

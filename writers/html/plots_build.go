@@ -144,12 +144,12 @@ func (s *BuildPlots) gapPlot() (figure, error) {
 		counts[k]++
 	}
 	top := float64(slices.Max(counts)) * 1.05
-	p := newPlot("Gap offset from contact", "mid-surface gap − contact gap (t1+t2)/2 (mm)", "links (count)")
+	p := newPlot("Gap offset from contact", "mid-surface gap − contact gap (t1+t2)/2 ("+s.an.unit+")", "links (count)")
 	b := &bars{lo: lo, width: width, counts: counts, fill: rgb(colSky)}
 	p.Add(b)
 	p.Legend.Add("links", b)
 	marks := []float64{aMin}
-	label := "allowance ±" + joints.MM(aMin) + " mm"
+	label := "allowance ±" + joints.MM(aMin) + " " + s.an.unit
 	if fixed == nil {
 		label = "allowance ±" + joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2"
 		if aMax > aMin {
@@ -170,18 +170,18 @@ func (s *BuildPlots) gapPlot() (figure, error) {
 	}
 	p.Y.Min, p.Y.Max = 0, top*1.35 // room for the legend above the lines
 	f.caption = itoa(len(offs)) + " links of built connectors; " + itoa(beyond) + " beyond the allowance " +
-		allowanceText(fixed != nil, aMin, aMax) + " (gap-open to the right, gap-closed to the left). Bins " + joints.MM(width) + " mm wide."
+		allowanceText(fixed != nil, aMin, aMax, s.an.unit) + " (gap-open to the right, gap-closed to the left). Bins " + joints.MM(width) + " " + s.an.unit + " wide."
 	return f, s.render(&f, p, "histogram of gap offsets from contact")
 }
 
-func allowanceText(fixed bool, aMin, aMax float64) string {
+func allowanceText(fixed bool, aMin, aMax float64, unit string) string {
 	if fixed {
-		return "(±" + joints.MM(aMin) + " mm)"
+		return "(±" + joints.MM(aMin) + " " + unit + ")"
 	}
 	if aMax > aMin {
-		return "(±" + joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2: ±" + joints.MM(aMin) + " to ±" + joints.MM(aMax) + " mm, dashed lines)"
+		return "(±" + joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2: ±" + joints.MM(aMin) + " to ±" + joints.MM(aMax) + " " + unit + ", dashed lines)"
 	}
-	return "(±" + joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2 = ±" + joints.MM(aMin) + " mm, dashed lines)"
+	return "(±" + joints.MM(joints.DefaultGapAllowanceFactor) + " (t1+t2)/2 = ±" + joints.MM(aMin) + " " + unit + ", dashed lines)"
 }
 
 // nuggetPlot plots nugget diameters against governing thickness with
@@ -205,17 +205,18 @@ func (s *BuildPlots) nuggetPlot() (figure, error) {
 		}
 	}
 	f.caption = "Nugget diameter against the governing thickness: the thinner of two sheets, the second thickest of three or more (AWS D8.1M). " +
-		"The rules d = 4√t and d = 5√t are common practice."
+		"The rules d = 4√t and d = 5√t (t and d in mm) are common practice."
 	if len(listed)+len(ruled) == 0 {
 		return f, nil
 	}
-	p := newPlot("Nugget diameter", "governing thickness t (mm)", "nugget diameter d (mm)")
-	x1 := math.Max(1.15*tmax, 1)
+	p := newPlot("Nugget diameter", "governing thickness t ("+s.an.unit+")", "nugget diameter d ("+s.an.unit+")")
+	mm := s.an.mm
+	x1 := math.Max(1.15*tmax, 1/mm)
 	for _, r := range []struct {
 		k      float64
 		dashed bool
 	}{{5, false}, {4, true}} {
-		l, err := line(curve(func(t float64) float64 { return r.k * math.Sqrt(t) }, 0, x1, 60), "#000000", r.dashed, 1)
+		l, err := line(curve(func(t float64) float64 { return r.k * math.Sqrt(t*mm) / mm }, 0, x1, 60), "#000000", r.dashed, 1)
 		if err != nil {
 			return f, err
 		}
@@ -267,8 +268,9 @@ func (s *BuildPlots) spacingPlot() (figure, error) {
 	if n == 0 {
 		return f, nil
 	}
-	x1 := math.Max(1.15*tmax, 1)
-	top := joints.MinSpacing(x1, 3)
+	mm := s.an.mm
+	x1 := math.Max(1.15*tmax, 1/mm)
+	top := joints.MinSpacing(x1*mm, 3) / mm
 	ymax := math.Min(lmax, 3*top) * 1.05
 	ymax = math.Max(ymax, 1.2*top)
 	above := 0
@@ -277,13 +279,13 @@ func (s *BuildPlots) spacingPlot() (figure, error) {
 			above++
 		}
 	}
-	p := newPlot("Weld spacing", "governing thickness t (mm)", "spacing to the consecutive weld (mm)")
+	p := newPlot("Weld spacing", "governing thickness t ("+s.an.unit+")", "spacing to the consecutive weld ("+s.an.unit+")")
 	for _, r := range []struct {
 		sheets int
 		dashed bool
 		label  string
 	}{{2, false, "minimum, 2 sheets"}, {3, true, "minimum, 3 sheets"}} {
-		l, err := line(curve(func(t float64) float64 { return joints.MinSpacing(t, r.sheets) }, 0, x1, 120), "#000000", r.dashed, 1)
+		l, err := line(curve(func(t float64) float64 { return joints.MinSpacing(t*mm, r.sheets) / mm }, 0, x1, 120), "#000000", r.dashed, 1)
 		if err != nil {
 			return f, err
 		}
@@ -302,15 +304,15 @@ func (s *BuildPlots) spacingPlot() (figure, error) {
 	}
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, x1, 0, ymax
 	p.Legend.Left = true
-	f.caption = itoa(n) + " spacings, " + itoa(below) + " below the minimum" + aboveText(above, ymax) + ". " + f.caption
+	f.caption = itoa(n) + " spacings, " + itoa(below) + " below the minimum" + aboveText(above, ymax, s.an.unit) + ". " + f.caption
 	return f, s.render(&f, p, "weld spacing against governing thickness")
 }
 
-func aboveText(n int, y float64) string {
+func aboveText(n int, y float64, unit string) string {
 	if n == 0 {
 		return ""
 	}
-	return "; " + itoa(n) + " above " + joints.MM(y) + " mm not drawn"
+	return "; " + itoa(n) + " above " + joints.MM(y) + " " + unit + " not drawn"
 }
 
 // edgePlot plots the distance from each weld centre to its sheets' free
@@ -351,8 +353,8 @@ func (s *BuildPlots) edgePlot() (figure, error) {
 		}
 		return f, nil
 	}
-	p := newPlot("Edge distance", "nugget diameter d (mm)", "weld centre to free edge (mm)")
-	x1 := math.Max(1.15*dmax, 1)
+	p := newPlot("Edge distance", "nugget diameter d ("+s.an.unit+")", "weld centre to free edge ("+s.an.unit+")")
+	x1 := math.Max(1.15*dmax, 1/s.an.mm)
 	for _, r := range []struct {
 		k      float64
 		dashed bool
