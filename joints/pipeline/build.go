@@ -166,9 +166,12 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	}
 	o = o.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
-	prog.Start("indexing elements", 0)
-	index := spot.IndexFor(m, in.Joints, o)
-	prog.Done()
+	index := in.index // a sweep's, shared by its variants
+	if index == nil {
+		prog.Start("indexing elements", 0)
+		index = spot.IndexFor(m, in.Joints, o)
+		prog.Done()
+	}
 	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
 	if err != nil {
 		return nil, err

@@ -75,6 +75,10 @@ type Inputs struct {
 	// sums holds the SHA-256 of every input file, taken as it was read
 	// (LoadForSet); nil after Load.
 	sums *inputSums
+	// index, when set, is the spatial index BuildConnectors uses instead
+	// of building its own: a sweep's, built once for all its variants
+	// (spot.IndexForAll).
+	index *geom.Index
 }
 
 // Load reads the model and the joint lists a job names, holds their
