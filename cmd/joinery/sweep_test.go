@@ -284,3 +284,43 @@ func TestSweepBoltRotationRelease(t *testing.T) {
 		t.Error("released bolt rotations: no shank-spin mechanism flagged")
 	}
 }
+
+func TestSweepFlagsMovingVariants(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	// Welds coupling tx alone leave the parts free to slide and turn
+	// against each other: mechanisms (error findings: exit 1, outputs
+	// written).
+	code, out, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--vary", "spot-dofs=tx+ty+tz,tx")
+	if code != exitFindings {
+		t.Fatalf("exit %d, want 1: %s", code, errs)
+	}
+	if !strings.Contains(out, "02-spot-dofs=tx: ") || !strings.Contains(out, "MOVES") || strings.Contains(strings.SplitN(out, "\n", 3)[1], "MOVES") {
+		t.Errorf("summary does not flag variant 2 alone:\n%s", out)
+	}
+	f, err := os.Open(filepath.Join(dir, "manifest.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	man, err := document.DecodeManifest(f, "manifest.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if man.Moving != 1 || man.Variants[0].Moves || !man.Variants[1].Moves || man.Variants[1].Mechanisms == 0 {
+		t.Errorf("manifest: moving %d, variants %+v", man.Moving, man.Variants)
+	}
+	txt, err := os.ReadFile(filepath.Join(dir, "compare.txt"))
+	if err != nil || !strings.Contains(string(txt), "v2  02-spot-dofs=tx   MOVES") {
+		t.Errorf("compare.txt does not flag v2: %v", err)
+	}
+	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{`href="01-spot-dofs=tx+ty+tz/report.html"`, `<tr class="moves">`, `id="plot-stiffness-rotational"`, "run " + man.RunID} {
+		if !strings.Contains(string(page), want) {
+			t.Errorf("report.html lacks %s", want)
+		}
+	}
+}
