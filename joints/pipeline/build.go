@@ -172,7 +172,7 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 		index = spot.IndexFor(m, in.Joints, o)
 		prog.Done()
 	}
-	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
+	conns, err := spot.BuildShared(ctx, index, in.Joints, o, prog, in.stacks)
 	if err != nil {
 		return nil, err
 	}

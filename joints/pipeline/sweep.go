@@ -198,6 +198,7 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 		opts[i] = v.Build.Options
 	}
 	in.index = spot.IndexForAll(in.Model.Mesh, in.Joints, opts)
+	in.stacks = &spot.Stacks{}
 	prog.Done()
 
 	material := partMaterials(in)
