@@ -95,7 +95,7 @@ func trace(v [3]float64) float64 { return v[0] + v[1] + v[2] }
 func (s *SweepStiffness) Write(w *Writer, _ *Page) error {
 	w.Raw("<section id=\"stiffness\">\n<h2>Connection stiffness</h2>\n<p>")
 	w.Text(s.c.Stiffness)
-	w.Raw("</p>\n")
+	w.Raw("</p>\n<div class=\"plots\">\n")
 	for _, kind := range []string{"rotational", "translational"} {
 		pl := newPlot(kind+" stiffness against v1, pairs that change most", "variant", "ratio to v1 (sum of principal values)")
 		var pairs []document.ComparePair
@@ -111,12 +111,14 @@ func (s *SweepStiffness) Write(w *Writer, _ *Page) error {
 			continue
 		}
 		colours := []string{colLine, colFlagged, colBuilt, colPurple}
+		top := 1.0
 		width := vg.Points(40 / float64(len(pairs)))
 		for k, cp := range pairs {
 			vals := make(plotter.Values, len(cp.Variants))
 			first := pick(cp.Variants[0], kind)
 			for i, v := range cp.Variants {
 				vals[i] = pick(v, kind) / first
+				top = max(top, vals[i])
 			}
 			bc, err := plotter.NewBarChart(vals, width)
 			if err != nil {
@@ -133,15 +135,16 @@ func (s *SweepStiffness) Write(w *Writer, _ *Page) error {
 			names[i] = "v" + strconv.Itoa(i+1)
 		}
 		pl.NominalX(names...)
+		pl.Y.Min, pl.Y.Max = 0, 1.35*top // room for the legend above the bars
 		b, err := renderPlot(pl, "plot-stiffness-"+kind, kind+" stiffness ratios to the first variant")
 		if err != nil {
 			return err
 		}
-		w.Raw("<figure>")
+		w.Raw("<figure class=\"plot\">")
 		w.Raw(string(b))
 		w.Raw("</figure>\n")
 	}
-	w.Raw("<p>The table of every pair is in compare.txt, compare.json and compare.csv.</p>\n</section>\n")
+	w.Raw("</div>\n<p>The table of every pair is in compare.txt, compare.json and compare.csv.</p>\n</section>\n")
 	return nil
 }
 
