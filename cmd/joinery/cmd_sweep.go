@@ -22,6 +22,7 @@ type sweepOptions struct {
 // AddFlags registers the sweep flags.
 func (o *sweepOptions) AddFlags(fs *pflag.FlagSet) {
 	o.build.AddFlags(fs)
+	fs.Lookup("out").Usage = "output directory (default: the job's out for a job with a sweep: section, else the job's out with " + pipeline.SweepSuffix + " appended, else ./" + pipeline.DefaultOut + pipeline.SweepSuffix + ")"
 	fs.StringArrayVar(&o.vary, "vary", nil, "KEY=V1,V2,...: build a variant per value (repeat for more keys; the last varies fastest; a DOF set is written tx+ty+tz)")
 	fs.IntVar(&o.maxVariants, "max-variants", 0, fmt.Sprintf("refuse a sweep of more variants than this (0: the job's max_variants, else %d)", pipeline.DefaultMaxVariants))
 }
@@ -97,6 +98,9 @@ func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string
 		return err
 	}
 	o.build.apply(job)
+	if !o.build.flags.Changed("out") {
+		job.Out = pipeline.SweepOut(job)
+	}
 	s, err := job.SweepSettings(vary, o.maxVariants)
 	if err != nil {
 		return err

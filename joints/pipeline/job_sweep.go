@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"fmt"
+	"path/filepath"
 	"slices"
 	"strings"
 
@@ -208,6 +209,25 @@ func readJobSweep(y tabular.YAML, n *yaml.Node, s *JobSweep) error {
 		}
 		return nil
 	})
+}
+
+// SweepSuffix is appended to a build job's output directory to name the
+// directory joinery sweep writes to when neither a flag nor a job with a
+// sweep section names one: beside the build's set, not over it.
+const SweepSuffix = "-sweep"
+
+// SweepOut returns the default output directory of a sweep of job: the
+// job's out when the job has a sweep section (a sweep job), else its out
+// (or DefaultOut) with SweepSuffix appended.
+func SweepOut(job *Job) string {
+	out := job.Out
+	if out == "" {
+		out = DefaultOut
+	}
+	if len(job.Sweep.Vary) > 0 || job.Sweep.MaxVariants != nil {
+		return out
+	}
+	return filepath.Clean(out) + SweepSuffix
 }
 
 // MaxMaxVariants is the most variants --max-variants may allow (our
