@@ -74,6 +74,18 @@ type Set struct {
 	Generator string // "joinery <version>"
 	RunID     string
 	Files     []Rendered
+	// Sets are whole sets nested in folders of this one (the variants of
+	// a sweep): each is written into its own folder, with its own marker
+	// and run id, in the same temporary directory and the same swap as
+	// the outer set, and the outer marker lists them with their run ids.
+	// Nested sets hold files only.
+	Sets []NestedSet
+}
+
+// NestedSet is a set written in the folder Dir of an outer set.
+type NestedSet struct {
+	Dir string // a plain folder name
+	Set Set
 }
 
 // WriteSet writes set into dir as one set through the operating
@@ -321,9 +333,12 @@ func inspectDir(dir, name string) (dirState, error) {
 			"%s is left as it is: remove it, or choose another output directory", name, err, name))
 	}
 	st.runID = doc.RunID
-	listed := map[string]bool{}
+	listed, nested := map[string]bool{}, map[string]bool{}
 	for _, f := range doc.Files {
 		listed[f.Name] = true
+	}
+	for _, n := range doc.Sets {
+		nested[n.Name] = true
 	}
 	var foreign []string
 	for _, e := range entries {
@@ -331,6 +346,7 @@ func inspectDir(dir, name string) (dirState, error) {
 		switch {
 		case n == document.SetMarker && e.Type().IsRegular():
 		case listed[n] && e.Type().IsRegular():
+		case nested[n] && e.IsDir():
 		case listed[n]:
 			foreign = append(foreign, n+" (not the file Joinery wrote there)")
 		case harmless.MatchString(n) && e.Type().IsRegular():
@@ -399,12 +415,41 @@ func (d *OutputDir) leftAs() string {
 // checkSet refuses a set its caller got wrong: no run id, a file that
 // does not carry it, a name that is not a plain file name.
 func checkSet(set Set) error {
+	if err := checkFiles(set); err != nil {
+		return err
+	}
+	seen := map[string]bool{}
+	for _, f := range set.Files {
+		seen[f.Name] = true
+	}
+	for _, n := range set.Sets {
+		if !plainName(n.Dir) || seen[n.Dir] {
+			return fmt.Errorf("writers: bad or repeated folder name %q of a nested set", n.Dir)
+		}
+		seen[n.Dir] = true
+		if len(n.Set.Sets) > 0 {
+			return fmt.Errorf("writers: nested set %s holds sets of its own", n.Dir)
+		}
+		if err := checkFiles(n.Set); err != nil {
+			return fmt.Errorf("%w (in nested set %s)", err, n.Dir)
+		}
+	}
+	return nil
+}
+
+// plainName reports whether name is a plain file or folder name.
+func plainName(name string) bool {
+	return name != "" && name != document.SetMarker && name == filepath.Base(name) && !strings.ContainsAny(name, `/\`) && name != "." && name != ".."
+}
+
+// checkFiles checks the run id and the file names of a set's files.
+func checkFiles(set Set) error {
 	if !document.ValidRunID(set.RunID) {
 		return fmt.Errorf("writers: set has no valid run id (%q)", set.RunID)
 	}
 	seen := map[string]bool{}
 	for _, f := range set.Files {
-		if f.Name == "" || f.Name == document.SetMarker || f.Name != filepath.Base(f.Name) || strings.ContainsAny(f.Name, `/\`) || f.Name == "." || f.Name == ".." || seen[f.Name] {
+		if !plainName(f.Name) || seen[f.Name] {
 			return fmt.Errorf("writers: bad or repeated file name %q in an output set", f.Name)
 		}
 		seen[f.Name] = true
@@ -423,31 +468,23 @@ func (d *OutputDir) writeTemp(set Set) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	marker := &document.SetDoc{Schema: document.SetSchema, Version: document.SetVersion, Generator: set.Generator,
-		RunID: set.RunID, Job: set.Job, Files: []document.SetFile{}}
+	marker := newMarker(set)
 	// A marker first, so that a run killed while writing leaves a
 	// directory the next run recognises as its own to remove.
 	if err := d.writeMarker(tmp, marker); err != nil {
 		return tmp, err
 	}
-	errs := make([]error, len(set.Files))
-	var wg sync.WaitGroup
-	for i := range set.Files {
-		wg.Go(func() { errs[i] = writeFile(d.fsys, filepath.Join(tmp, set.Files[i].Name), set.Files[i].Data) })
+	for _, n := range set.Sets {
+		sub := filepath.Join(tmp, n.Dir)
+		if err := d.fsys.Mkdir(sub, 0o755); err != nil {
+			return tmp, err
+		}
+		if err := d.writeFiles(sub, n.Set, newMarker(n.Set)); err != nil {
+			return tmp, fmt.Errorf("%s: %w", n.Dir, err)
+		}
+		marker.Sets = append(marker.Sets, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
 	}
-	wg.Wait()
-	if err := errors.Join(errs...); err != nil {
-		return tmp, err
-	}
-	for _, f := range set.Files {
-		sum := sha256.Sum256(f.Data)
-		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
-	}
-	marker.Complete = true
-	if err := d.writeMarker(tmp, marker); err != nil {
-		return tmp, err
-	}
-	if err := d.fsys.SyncDir(tmp); err != nil {
+	if err := d.writeFiles(tmp, set, marker); err != nil {
 		return tmp, err
 	}
 	if d.state.exists {
@@ -456,6 +493,36 @@ func (d *OutputDir) writeTemp(set Set) (string, error) {
 		}
 	}
 	return tmp, nil
+}
+
+// newMarker returns the marker of set, not yet complete, listing no
+// file.
+func newMarker(set Set) *document.SetDoc {
+	return &document.SetDoc{Schema: document.SetSchema, Version: document.SetVersion, Generator: set.Generator,
+		RunID: set.RunID, Job: set.Job, Files: []document.SetFile{}}
+}
+
+// writeFiles writes the files of set (not its nested sets) into dir,
+// then marker with them listed, complete, and syncs dir.
+func (d *OutputDir) writeFiles(dir string, set Set, marker *document.SetDoc) error {
+	errs := make([]error, len(set.Files))
+	var wg sync.WaitGroup
+	for i := range set.Files {
+		wg.Go(func() { errs[i] = writeFile(d.fsys, filepath.Join(dir, set.Files[i].Name), set.Files[i].Data) })
+	}
+	wg.Wait()
+	if err := errors.Join(errs...); err != nil {
+		return err
+	}
+	for _, f := range set.Files {
+		sum := sha256.Sum256(f.Data)
+		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+	}
+	marker.Complete = true
+	if err := d.writeMarker(dir, marker); err != nil {
+		return err
+	}
+	return d.fsys.SyncDir(dir)
 }
 
 func (d *OutputDir) writeMarker(tmp string, doc *document.SetDoc) error {

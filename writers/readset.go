@@ -20,6 +20,10 @@ import (
 type SetContents struct {
 	Marker *document.SetDoc
 	Files  map[string][]byte
+	// Sets holds the markers of the nested sets (Marker.Sets) by folder
+	// name, each checked to be complete and of the run the outer marker
+	// lists; read a nested set's files with ReadSet on its folder.
+	Sets map[string]*document.SetDoc
 }
 
 // ReadSet reads the output set in dir back and checks that it is whole
@@ -127,6 +131,33 @@ func readSetOnce(dir string) (*SetContents, error) {
 			return nil, geom.FileError(name, "not the file the set's marker lists (size or SHA-256 differ): changed since run %s wrote it", marker.RunID)
 		}
 		set.Files[sf.Name] = data
+	}
+	for _, n := range marker.Sets {
+		if n.Name != filepath.Base(n.Name) || n.Name == document.SetMarker || n.Name == "." || n.Name == ".." || n.Name == "" {
+			return nil, geom.FileError(markerName, "folder name %q is not a folder of the set", geom.Excerpt(n.Name))
+		}
+		name := filepath.Join(dir, n.Name, document.SetMarker)
+		raw, err := open(filepath.Join(n.Name, document.SetMarker))
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			if gone() {
+				return nil, errSetGone
+			}
+			return nil, geom.FileError(name, "missing from the output set of run %s: the set is not whole", marker.RunID)
+		case err != nil:
+			return nil, fmt.Errorf("writers: reading %s: %w", name, err)
+		}
+		sub, err := document.DecodeSet(bytes.NewReader(raw), name)
+		if err != nil {
+			return nil, err
+		}
+		if !sub.Complete || sub.RunID != n.RunID || sub.Job != n.Job {
+			return nil, geom.FileError(name, "is not the nested set of run %s that the set of run %s lists: the set is mixed", n.RunID, marker.RunID)
+		}
+		if set.Sets == nil {
+			set.Sets = map[string]*document.SetDoc{}
+		}
+		set.Sets[n.Name] = sub
 	}
 	return set, nil
 }

@@ -74,6 +74,6 @@ and a connectivity report in joinery's own documented formats.
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return pipeline.UsageError(fmt.Errorf("%w (see '%s --help')", err, c.CommandPath()))
 	})
-	root.AddCommand(newInspectCommand(g), newBuildCommand(g), newCheckCommand(g), newFlangesCommand(g), newOffsetsCommand(g))
+	root.AddCommand(newInspectCommand(g), newBuildCommand(g), newCheckCommand(g), newFlangesCommand(g), newOffsetsCommand(g), newSweepCommand(g))
 	return root
 }

@@ -164,14 +164,13 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 	}
 	o = o.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
-	prog.Start("indexing elements", 0)
-	// One index of the elements near the joints serves both builders:
-	// every joint's point with the larger of their margins.
-	pts, margin := spot.Near(m, in.Joints, o)
-	bpts, bmargin := bolt.Near(m, in.Joints, o)
-	index := geom.NewIndexNear(m, append(pts, bpts...), max(margin, bmargin), false)
-	prog.Done()
-	conns, err := spot.Build(ctx, index, in.Joints, o, prog)
+	index := in.index // a sweep's, shared by its variants
+	if index == nil {
+		prog.Start("indexing elements", 0)
+		index = IndexFor(m, in.Joints, []joints.BuildOptions{o})
+		prog.Done()
+	}
+	conns, err := spot.BuildShared(ctx, index, in.Joints, o, prog, in.stacks)
 	if err != nil {
 		return nil, err
 	}
@@ -270,4 +269,20 @@ func (o *Outcome) Summary(w io.Writer) error {
 // FailMessage says why a run that reached its failure level exits 1.
 func (o *Outcome) FailMessage(failOn joints.Severity) string {
 	return fmt.Sprintf("findings at or above %q: see %s", failOn, filepath.Join(o.Out, "report.txt"))
+}
+
+// IndexFor builds one index of the elements near the joints that serves
+// both builders (spot welds and bolts) with each of the options opts
+// (one for a build, the variants' for a sweep): every joint's point with
+// the largest of their margins.
+func IndexFor(m *geom.Mesh, js []joints.Joint, opts []joints.BuildOptions) *geom.Index {
+	pts, margin := spot.NearAll(m, js, opts)
+	for i, o := range opts {
+		bpts, bmargin := bolt.Near(m, js, o)
+		if i == 0 { // the same points for every variant
+			pts = append(pts, bpts...)
+		}
+		margin = max(margin, bmargin)
+	}
+	return geom.NewIndexNear(m, pts, margin, false)
 }

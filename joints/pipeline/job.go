@@ -84,6 +84,9 @@ type Job struct {
 	Build JobBuild `yaml:"build,omitempty"`
 	// Flanges holds the settings of joinery flanges (see JobFlanges).
 	Flanges JobFlanges `yaml:"flanges,omitempty" json:",omitzero"`
+	// Sweep holds the settings of joinery sweep (see JobSweep); not part
+	// of a run's settings: each variant is the build its settings make.
+	Sweep JobSweep `yaml:"sweep,omitempty" json:"-"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
 	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
@@ -298,7 +301,7 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 		return out, nil
 	}
 	var hasVersion, hasMeshes bool
-	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "units", "build", "flanges"}
+	keys := []string{"version", "meshes", "parts", "joints", "out", "renumber", "part_array", "units", "build", "flanges", "sweep"}
 	err = y.Map(root, "job", keys, func(key string, _, v *yaml.Node) (err error) {
 		switch key {
 		case "version":
@@ -349,6 +352,8 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 			err = readJobBuild(y, v, &job.Build)
 		case "flanges":
 			err = readJobFlanges(y, v, &job.Flanges)
+		case "sweep":
+			err = readJobSweep(y, v, &job.Sweep)
 		}
 		return err
 	})

@@ -131,7 +131,7 @@ func TestReadJobErrors(t *testing.T) {
 		{"mesh not list", "version: 1\nmeshes: a.vtk\n", `j.yaml:2: meshes: want a list, got "a.vtk"`},
 		{"empty path", "version: 1\nmeshes: ['']\n", "j.yaml:2: meshes: empty path"},
 		{"unknown key", head + "mesh: [b.vtk]\n", `j.yaml:3: job: unknown key "mesh" (did you mean "meshes"?)`},
-		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, units, build, flanges)`},
+		{"unknown key far", head + "colour: red\n", `j.yaml:3: job: unknown key "colour" (known: version, meshes, parts, joints, out, renumber, part_array, units, build, flanges, sweep)`},
 		{"duplicate key", head + "out: a\nout: b\n", `j.yaml:4: job: key "out" given twice (lines 3 and 4)`},
 		{"renumber", head + "renumber: yes please\n", `j.yaml:3: renumber: want true or false, got "yes please"`},
 		{"build key", head + "build:\n  atach: patch\n", `j.yaml:4: build: unknown key "atach" (did you mean "attach"?)`},

@@ -12,6 +12,7 @@ import (
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/meshio"
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/spot"
 )
 
 // ErrUsage marks a run that cannot start because of how it was asked
@@ -75,6 +76,13 @@ type Inputs struct {
 	// sums holds the SHA-256 of every input file, taken as it was read
 	// (LoadForSet); nil after Load.
 	sums *inputSums
+	// index, when set, is the spatial index BuildConnectors uses instead
+	// of building its own: a sweep's, built once for all its variants
+	// (spot.IndexForAll).
+	index *geom.Index
+	// stacks, when set, keeps the welds' stacks for the builds that share
+	// them (a sweep's variants).
+	stacks *spot.Stacks
 }
 
 // Load reads the model and the joint lists a job names, holds their

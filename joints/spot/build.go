@@ -18,6 +18,15 @@ import (
 // alone, so the result is the same whatever GOMAXPROCS. The connectors
 // come in the order of js; joints.NewResult sorts them and hands out ids.
 func Build(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) ([]joints.Connector, error) {
+	return BuildShared(ctx, x, js, o, prog, nil)
+}
+
+// BuildShared builds like Build, taking each weld's first stage (stack,
+// nugget, their checks) from st when an earlier build with the same
+// stack options made it, and keeping it there for later builds; st nil
+// keeps nothing. Every build given st must be of the same js on the
+// same index.
+func BuildShared(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress, st *Stacks) ([]joints.Connector, error) {
 	if err := o.Validate(); err != nil {
 		return nil, fmt.Errorf("spot: %w", err)
 	}
@@ -32,6 +41,18 @@ func Build(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 		}
 	}
 	out := make([]joints.Connector, len(welds))
+	var stages []stage
+	if st != nil {
+		set := st.set(&o)
+		set.once.Do(func() {
+			set.stages = make([]stage, len(welds))
+			parallelWelds(ctx, len(welds), func(i int) { set.stages[i] = firstStage(x, welds[i], &o) })
+		})
+		if err := ctx.Err(); err != nil {
+			return nil, fmt.Errorf("spot: build interrupted: %w", err)
+		}
+		stages = set.stages
+	}
 	var next, done atomic.Int64
 	workers := min(runtime.GOMAXPROCS(0), max(1, len(welds)/64))
 	var wg sync.WaitGroup
@@ -42,7 +63,12 @@ func Build(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 				if i >= len(welds) || ctx.Err() != nil {
 					return
 				}
-				out[i] = buildOne(x, welds[i], &o)
+				if stages != nil {
+					out[i] = finishOne(x, welds[i], &o, &stages[i])
+				} else {
+					s := firstStage(x, welds[i], &o)
+					out[i] = finishOne(x, welds[i], &o, &s)
+				}
 				done.Add(1)
 			}
 		})
@@ -70,22 +96,15 @@ func Build(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 	return out, nil
 }
 
-// buildOne makes the connector of one spot weld: stack, checks, ends,
-// links.
-func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Connector {
+// finishOne makes the connector of one spot weld from its first stage
+// s (stack, nugget, checks): ends, links, state.
+func finishOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions, s *stage) joints.Connector {
 	c := joints.Connector{Joint: *j, Attach: o.AttachFor(j.Group), DOFs: o.SpotDOFs}
-	c.Stack, c.Findings = chooseStack(x, j, o)
-	if len(c.Stack.Sheets) < 2 {
+	s.apply(&c)
+	if s.stop {
 		c.Status = joints.NotBuilt
 		return c
 	}
-	c.Diameter, c.DiameterSource = nugget(j, &c.Stack, o)
-	c.Findings = append(c.Findings, checkSheets(x.Mesh(), j, &c.Stack, c.Diameter, o)...)
-	if joints.HasError(c.Findings) {
-		c.Status = joints.NotBuilt
-		return c
-	}
-	c.Findings = append(c.Findings, checkStack(x, j, &c.Stack, c.Diameter, o)...)
 	var capped []joints.Finding
 	c.Ends, capped = attach(x, &c.Stack, c.Attach, c.Diameter, j)
 	c.Findings = append(c.Findings, capped...)
@@ -97,6 +116,25 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	c.Findings = append(c.Findings, lfs...)
 	c.SetStatus()
 	return c
+}
+
+// parallelWelds calls f for every weld index, on as many goroutines as
+// there are processors.
+func parallelWelds(ctx context.Context, n int, f func(i int)) {
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), max(1, n/64)) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= n || ctx.Err() != nil {
+					return
+				}
+				f(i)
+			}
+		})
+	}
+	wg.Wait()
 }
 
 // nugget returns the weld's nugget diameter, mm, and where it comes from:

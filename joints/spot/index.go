@@ -17,7 +17,15 @@ import (
 // answers are those of a full index; the cost is a fraction of it on a
 // large body. Node queries are not needed by a build and find nothing.
 func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Index {
-	pts, margin := Near(m, js, o)
+	return IndexForAll(m, js, []joints.BuildOptions{o})
+}
+
+// IndexForAll builds one index that serves a build of js with each of
+// the options opts (the variants of a sweep): the index IndexFor builds
+// for the options that reach farthest. Its answers are those of a full
+// index, so a build on it is the build on its own index.
+func IndexForAll(m *geom.Mesh, js []joints.Joint, opts []joints.BuildOptions) *geom.Index {
+	pts, margin := NearAll(m, js, opts)
 	return geom.NewIndexNear(m, pts, margin, false)
 }
 
@@ -25,25 +33,42 @@ func IndexFor(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) *geom.Inde
 // welds among js and the margin round them, mm, so that a caller
 // building one index for several jobs covers this one's queries.
 func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, float64) {
+	return NearAll(m, js, []joints.BuildOptions{o})
+}
+
+// NearAll is Near for a build with each of the options opts: the margin
+// of the one that reaches farthest.
+func NearAll(m *geom.Mesh, js []joints.Joint, opts []joints.BuildOptions) ([]r3.Vec, float64) {
 	tmax := joints.MaxThickness(m)
-	o = o.Defaults(tmax)
-	dmax := o.Rule.Diameter(tmax)
-	nodePair := o.Attach == joints.NodePair
 	var pts []r3.Vec
 	for _, j := range js {
-		if j.Kind != joints.Spot {
-			continue
+		if j.Kind == joints.Spot {
+			pts = append(pts, j.Point)
 		}
-		pts = append(pts, j.Point)
-		dmax = math.Max(dmax, j.Diameter)
-		nodePair = nodePair || o.AttachFor(j.Group) == joints.NodePair
 	}
-	reach := math.Max(2*o.EdgeFactor*dmax, dmax/2)
-	if nodePair {
-		reach = math.Max(reach, maxElemSize(m))
+	far, elemSize := 0.0, -1.0
+	for _, o := range opts {
+		o = o.Defaults(tmax)
+		dmax := o.Rule.Diameter(tmax)
+		nodePair := o.Attach == joints.NodePair
+		for _, j := range js {
+			if j.Kind != joints.Spot {
+				continue
+			}
+			dmax = math.Max(dmax, j.Diameter)
+			nodePair = nodePair || o.AttachFor(j.Group) == joints.NodePair
+		}
+		reach := math.Max(2*o.EdgeFactor*dmax, dmax/2)
+		if nodePair {
+			if elemSize < 0 {
+				elemSize = maxElemSize(m)
+			}
+			reach = math.Max(reach, elemSize)
+		}
+		far = math.Max(far, o.Reach+reach)
 	}
 	// 1% slack against rounding at the margin.
-	return pts, 1.01 * (o.Reach + reach)
+	return pts, 1.01 * far
 }
 
 // maxElemSize returns the largest bounding-box diagonal of an element.

@@ -67,6 +67,17 @@ type SetDoc struct {
 	// which never stands in an output directory.
 	Complete bool      `json:"complete"`
 	Files    []SetFile `json:"files"`
+	// Sets are the sets nested in folders of this one (a sweep's
+	// variants), each with its own marker; absent when none.
+	Sets []NestedSet `json:"sets,omitempty"`
+}
+
+// NestedSet is a set nested in a folder of an outer set: the folder's
+// name, and the job and run id its own marker records.
+type NestedSet struct {
+	Name  string `json:"name"`
+	Job   string `json:"job"`
+	RunID string `json:"run_id"`
 }
 
 // SetFile is one file of a set.

@@ -163,6 +163,7 @@ func write(s *scenario, dir string) error {
 				"Written by go run ./examples/van-rear-crossmember/gen")
 		}},
 		{"job.yaml", func(w io.Writer) error { _, err := io.WriteString(w, jobYAML); return err }},
+		{"sweep.yaml", func(w io.Writer) error { _, err := io.WriteString(w, sweepYAML); return err }},
 	}
 	for _, f := range files {
 		if err := writers.WriteFileAtomic(filepath.Join(dir, filepath.FromSlash(f.name)), f.write); err != nil {
@@ -181,6 +182,23 @@ joints: [welds.csv]
 out: out
 build:
   attach: interpolated
+`
+
+// sweepYAML is the example's sensitivity sweep (joinery sweep): the
+// job with a sweep section. Bolt rotational release (bolt_dofs) joins it
+// once bolts are built.
+const sweepYAML = `# joinery job, version 1: a sensitivity sweep of the van-rear-crossmember
+# example (invented): spot-weld rotations coupled or released, by attachment form.
+# Written by go run ./examples/van-rear-crossmember/gen
+version: 1
+meshes: [mesh/floor.vtk, mesh/beam.vtk, mesh/closing-plate.jmesh, mesh/bracket.jmesh]
+parts: parts.yaml
+joints: [welds.csv]
+out: out-sweep
+sweep:
+  vary:
+    spot_dofs: [tx+ty+tz+rx+ry+rz, tx+ty+tz]
+    attach: [interpolated, patch]
 `
 
 // grid is a structured patch of quads: node (i, j) sits at at(i, j) for

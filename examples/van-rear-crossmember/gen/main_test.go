@@ -19,7 +19,7 @@ var update = flag.Bool("update", false, "rewrite the example's files in the pare
 
 var outputs = []string{
 	"mesh/floor.vtk", "mesh/beam.vtk", "mesh/closing-plate.jmesh", "mesh/bracket.jmesh",
-	"parts.yaml", "welds.csv", "job.yaml",
+	"parts.yaml", "welds.csv", "job.yaml", "sweep.yaml",
 }
 
 // TestGolden checks that the example's files are what the generator

@@ -1,0 +1,313 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"testing"
+
+	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
+)
+
+// exampleSweep is the example's sweep of spot-weld rotations against
+// attachment form.
+var exampleSweep = []string{"--vary", "spot-dofs=tx+ty+tz,tx+ty+tz+rx+ry+rz", "--vary", "attach=interpolated,patch"}
+
+// readTree reads every file under dir by its path relative to dir.
+func readTree(t *testing.T, dir string) map[string][]byte {
+	t.Helper()
+	out := map[string][]byte{}
+	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		b, err := os.ReadFile(p)
+		rel, _ := filepath.Rel(dir, p)
+		out[filepath.ToSlash(rel)] = b
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func TestSweepExampleGolden(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	code, out, errs := runCLI(t, append([]string{"sweep", exampleJob, "--out", dir}, exampleSweep...)...)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	for _, name := range []string{"manifest.json", "manifest.yaml", "compare.txt", "compare.csv"} {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		golden(t, "sweep-"+name, b)
+	}
+	validate(t, "sweep-manifest.schema.json", filepath.Join(dir, "manifest.json"))
+	validate(t, "sweep-compare.schema.json", filepath.Join(dir, "compare.json"))
+	validate(t, "set.schema.json", filepath.Join(dir, document.SetMarker))
+
+	// The set reads back whole, its nested sets are the manifest's
+	// variants with their run ids, and each variant's folder reads back
+	// as a whole build set whose files are those the manifest lists.
+	set, err := writers.ReadSet(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := os.Open(filepath.Join(dir, "manifest.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	man, err := document.DecodeManifest(f, "manifest.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if man.RunID != set.Marker.RunID || len(man.Variants) != 4 || len(set.Sets) != 4 {
+		t.Fatalf("manifest run %s, %d variants; set run %s, %d nested", man.RunID, len(man.Variants), set.Marker.RunID, len(set.Sets))
+	}
+	for _, v := range man.Variants {
+		sub, ok := set.Sets[v.Folder]
+		if !ok || sub.RunID != v.RunID || sub.Job != "build" {
+			t.Errorf("%s: nested set %+v, manifest run %s", v.Name, sub, v.RunID)
+			continue
+		}
+		vs, err := writers.ReadSet(filepath.Join(dir, v.Folder))
+		if err != nil {
+			t.Errorf("%s: %v", v.Name, err)
+			continue
+		}
+		if len(vs.Files) != len(v.Files) {
+			t.Errorf("%s: %d files, manifest lists %d", v.Name, len(vs.Files), len(v.Files))
+		}
+		for _, mf := range v.Files {
+			if got := vs.Marker.Files; !containsFile(got, mf) {
+				t.Errorf("%s: %s not in the variant's set as the manifest lists it", v.Name, mf.Name)
+			}
+		}
+	}
+	// A variant's own set tampered with: the outer set no longer reads
+	// back, naming the variant.
+	v1 := filepath.Join(dir, man.Variants[0].Folder, document.SetMarker)
+	raw, _ := os.ReadFile(v1)
+	if err := os.WriteFile(v1, bytes.Replace(raw, []byte(man.Variants[0].RunID), []byte(strings.Repeat("0", 32)), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := writers.ReadSet(dir); err == nil || !strings.Contains(err.Error(), man.Variants[0].Folder) {
+		t.Errorf("tampered variant: %v", err)
+	}
+}
+
+func containsFile(fs []document.SetFile, f document.SetFile) bool {
+	for _, g := range fs {
+		if g == f {
+			return true
+		}
+	}
+	return false
+}
+
+func TestSweepVariantsAreBuilds(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	args := []string{"sweep", exampleJob, "--out", dir, "--quiet", "--vary", "spot-dofs=tx+ty+tz,tx+ty+tz+rx+ry+rz",
+		"--vary", "attach=node-pair,patch", "--vary", "links=gap,offset"}
+	if code, _, errs := runCLI(t, args...); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	// Each variant's outputs are those of a plain build with the same
+	// settings, byte for byte (the degrees of freedom as the flag writes
+	// them: tx,ty,tz).
+	i := 0
+	for _, dofs := range []string{"tx,ty,tz", "tx,ty,tz,rx,ry,rz"} {
+		for _, attach := range []string{"node-pair", "patch"} {
+			for _, links := range []string{"gap", "offset"} {
+				i++
+				b := filepath.Join(t.TempDir(), "build")
+				if code, _, errs := runCLI(t, "build", exampleJob, "--out", b, "--quiet", "--spot-dofs", dofs, "--attach", attach, "--links", links); code != exitOK {
+					t.Fatalf("build: exit %d: %s", code, errs)
+				}
+				name := strings.Join([]string{"0" + string(rune('0'+i)), "spot-dofs=" + strings.ReplaceAll(dofs, ",", "+"), "attach=" + attach, "links=" + links}, "-")
+				got, want := readTree(t, filepath.Join(dir, name)), readTree(t, b)
+				if len(got) != len(want) || len(got) == 0 {
+					t.Errorf("%s: %d files, the build %d", name, len(got), len(want))
+				}
+				for f := range want {
+					if !bytes.Equal(got[f], want[f]) {
+						t.Errorf("%s: %s differs from the plain build's", name, f)
+					}
+				}
+			}
+		}
+	}
+}
+
+func TestSweepDeterministicAcrossGOMAXPROCS(t *testing.T) {
+	skipWithoutExample(t)
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	var first map[string][]byte
+	for _, procs := range []int{1, 2, 4} {
+		runtime.GOMAXPROCS(procs)
+		dir := filepath.Join(t.TempDir(), "sweep")
+		if code, _, errs := runCLI(t, append([]string{"sweep", exampleJob, "--out", dir, "--quiet"}, exampleSweep...)...); code != exitOK {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		got := readTree(t, dir)
+		if first == nil {
+			first = got
+			continue
+		}
+		if len(got) != len(first) {
+			t.Errorf("GOMAXPROCS=%d: %d files, first run %d", procs, len(got), len(first))
+		}
+		for name := range first {
+			if !bytes.Equal(got[name], first[name]) {
+				t.Errorf("GOMAXPROCS=%d: %s differs", procs, name)
+			}
+		}
+	}
+}
+
+func TestSweepBadUsageWritesNothing(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--vary", "atach=patch"}, `unknown key "atach"`},
+		{[]string{"--vary", "attach=patch,glue"}, `attach: unknown attachment "glue"`},
+		{[]string{"--vary", "spot-dofs=tx+ty+tz,tx+zz"}, `spot-dofs: unknown degree of freedom "zz"`},
+		{[]string{"--vary", "bolt-coupling=rigid,glued"}, "bolt-coupling"},
+		{[]string{}, "nothing to vary"},
+		{[]string{"--vary", "attach=interpolated,patch,node-pair", "--vary", "links=gap,offset", "--max-variants", "5"}, "6 variants, more than --max-variants 5"},
+		{[]string{"--vary", "attach=patch", "--vary", "attach=node-pair"}, "attach given twice"},
+	} {
+		args := append([]string{"sweep", exampleJob, "--out", out}, c.args...)
+		code, _, errs := runCLI(t, args...)
+		if code != exitBadInput || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("output directory written on bad usage")
+	}
+}
+
+func TestSweepFromJobSection(t *testing.T) {
+	skipWithoutExample(t)
+	ex, err := filepath.Abs(filepath.Dir(exampleJob))
+	if err != nil {
+		t.Fatal(err)
+	}
+	tmp := t.TempDir()
+	job := filepath.Join(tmp, "sweep.yaml")
+	src := "version: 1\nmeshes: [" + strings.Join([]string{"mesh/floor.vtk", "mesh/beam.vtk", "mesh/closing-plate.jmesh", "mesh/bracket.jmesh"}, ", ") +
+		"]\nparts: parts.yaml\njoints: [welds.csv]\nsweep:\n  vary:\n    spot_dofs: [tx+ty+tz, [tx, ty, tz, rx, ry, rz]]\n    attach: [interpolated, patch]\n"
+	src = strings.ReplaceAll(src, "mesh/", ex+"/mesh/")
+	src = strings.ReplaceAll(src, "parts.yaml", ex+"/parts.yaml")
+	src = strings.ReplaceAll(src, "welds.csv", ex+"/welds.csv")
+	if err := os.WriteFile(job, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(tmp, "out")
+	code, stdout, errs := runCLI(t, "sweep", job, "--out", out, "--json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var got sweepJSON
+	if err := json.Unmarshal([]byte(stdout), &got); err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, v := range got.Variants {
+		names = append(names, v.Name)
+	}
+	want := "01-spot-dofs=tx+ty+tz-attach=interpolated 02-spot-dofs=tx+ty+tz-attach=patch " +
+		"03-spot-dofs=tx+ty+tz+rx+ry+rz-attach=interpolated 04-spot-dofs=tx+ty+tz+rx+ry+rz-attach=patch"
+	if strings.Join(names, " ") != want {
+		t.Errorf("variants %v, want %s", names, want)
+	}
+	// --vary replaces the job's list.
+	code, stdout, errs = runCLI(t, "sweep", job, "--out", out, "--json", "--vary", "links=gap,offset")
+	if code != exitOK || !strings.Contains(stdout, "02-links=offset") || strings.Contains(stdout, "attach=") {
+		t.Errorf("exit %d: %s %s", code, errs, stdout)
+	}
+}
+
+// TestSweepBoltCoupling varies the bolts' ring coupling on the example:
+// rigid rings on translations hold the bracket to the beam (no free
+// motion), averaging rings on translations make each centre a ball
+// joint, so the shank between two centres spins about its own axis
+// (classical rigid-body kinematics: a bar between two ball joints keeps
+// one free rotation about the line through them; from memory). The
+// variant with the spin is flagged as moving.
+func TestSweepBoltCoupling(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	code, _, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--quiet", "--fail-on", "never", "--vary", "bolt-coupling=rigid,averaging")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(dir, "manifest.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	man, err := document.DecodeManifest(f, "manifest.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(man.Variants) != 2 || man.Variants[0].Moves || !man.Variants[1].Moves {
+		t.Errorf("variants %+v: want rigid held, averaging moving", man.Variants)
+	}
+}
+
+func TestSweepFlagsMovingVariants(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	// Welds coupling tx alone leave the parts free to slide and turn
+	// against each other: mechanisms (error findings: exit 1, outputs
+	// written).
+	code, out, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--vary", "spot-dofs=tx+ty+tz,tx")
+	if code != exitFindings {
+		t.Fatalf("exit %d, want 1: %s", code, errs)
+	}
+	if !strings.Contains(out, "02-spot-dofs=tx: ") || !strings.Contains(out, "MOVES") || strings.Contains(strings.SplitN(out, "\n", 3)[1], "MOVES") {
+		t.Errorf("summary does not flag variant 2 alone:\n%s", out)
+	}
+	f, err := os.Open(filepath.Join(dir, "manifest.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	man, err := document.DecodeManifest(f, "manifest.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if man.Moving != 1 || man.Variants[0].Moves || !man.Variants[1].Moves || man.Variants[1].Mechanisms == 0 {
+		t.Errorf("manifest: moving %d, variants %+v", man.Moving, man.Variants)
+	}
+	txt, err := os.ReadFile(filepath.Join(dir, "compare.txt"))
+	if err != nil || !strings.Contains(string(txt), "v2  02-spot-dofs=tx   MOVES") {
+		t.Errorf("compare.txt does not flag v2: %v", err)
+	}
+	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{`href="01-spot-dofs=tx+ty+tz/report.html"`, `<tr class="moves">`, `id="plot-stiffness-rotational"`, "run " + man.RunID} {
+		if !strings.Contains(string(page), want) {
+			t.Errorf("report.html lacks %s", want)
+		}
+	}
+}

@@ -1,0 +1,356 @@
+package pipeline
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"runtime"
+	"strings"
+	"sync"
+
+	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/spot"
+	"github.com/joinery-cae/joinery/joints/stiffness"
+	"github.com/joinery-cae/joinery/writers"
+	"github.com/joinery-cae/joinery/writers/document"
+	"github.com/joinery-cae/joinery/writers/html"
+)
+
+// SweepSettings are a sweep's settings: the build settings every
+// variant starts from, the varied settings and the bound on the
+// variants' number.
+type SweepSettings struct {
+	Build       BuildSettings
+	Vary        []Vary
+	MaxVariants int
+	Out         string
+}
+
+// SweepSettings reads and checks the job's sweep settings. vary, when
+// not empty, replaces the job's sweep vary list (flags win), and
+// maxVariants, when above 0, its max_variants. Errors are usage errors.
+func (job *Job) SweepSettings(vary []Vary, maxVariants int) (SweepSettings, error) {
+	b, err := job.BuildSettings()
+	if err != nil {
+		return SweepSettings{}, err
+	}
+	s := SweepSettings{Build: b, Vary: job.Sweep.Vary, MaxVariants: DefaultMaxVariants, Out: b.Out}
+	if len(vary) > 0 {
+		s.Vary = vary
+	}
+	if job.Sweep.MaxVariants != nil {
+		s.MaxVariants = *job.Sweep.MaxVariants
+	}
+	if maxVariants > 0 {
+		s.MaxVariants = maxVariants
+	}
+	if len(s.Vary) == 0 {
+		return s, UsageError(errors.New("nothing to vary: give --vary KEY=V1,V2 or a sweep: vary: section in the job file"))
+	}
+	seen := map[string]bool{}
+	for _, v := range s.Vary {
+		if seen[v.Key] {
+			return s, UsageError(fmt.Errorf("--vary %s given twice", v.Key))
+		}
+		seen[v.Key] = true
+	}
+	if n := s.count(); n > s.MaxVariants {
+		return s, UsageError(fmt.Errorf("%s make %d variants, more than --max-variants %d: vary fewer settings or values, or raise --max-variants",
+			s.product(), n, s.MaxVariants))
+	}
+	return s, nil
+}
+
+// count returns the number of variants, saturating above
+// MaxMaxVariants.
+func (s *SweepSettings) count() int {
+	n := 1
+	for _, v := range s.Vary {
+		n *= len(v.Values)
+		if n > MaxMaxVariants {
+			return MaxMaxVariants + 1
+		}
+	}
+	return n
+}
+
+// product says how the variants' number comes about: "3 x 2 values of
+// attach and links".
+func (s *SweepSettings) product() string {
+	counts, keys := make([]string, len(s.Vary)), make([]string, len(s.Vary))
+	for i, v := range s.Vary {
+		counts[i], keys[i] = fmt.Sprint(len(v.Values)), v.Key
+	}
+	return strings.Join(counts, " x ") + " values of " + strings.Join(keys, ", ")
+}
+
+// Variant is one build of a sweep.
+type Variant struct {
+	// Name is its folder's name: its number from 01 and its settings,
+	// "03-spot-dofs=tx+ty+tz-attach=patch".
+	Name     string
+	Settings []document.Setting
+	Job      *Job // the job with the variant's settings
+	Build    BuildSettings
+}
+
+// Variants returns the Cartesian product of the varied values, the
+// last varied setting changing fastest, each applied over job's build
+// settings as its flag would be.
+func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
+	n := s.count()
+	width := max(2, len(fmt.Sprint(n)))
+	out := make([]Variant, 0, n)
+	for i := range n {
+		vj := *job
+		var settings []document.Setting
+		names := []string{fmt.Sprintf("%0*d", width, i+1)}
+		rest := i
+		idx := make([]int, len(s.Vary))
+		for k := len(s.Vary) - 1; k >= 0; k-- {
+			idx[k] = rest % len(s.Vary[k].Values)
+			rest /= len(s.Vary[k].Values)
+		}
+		for k, v := range s.Vary {
+			key, err := lookupVaryKey(v.Key)
+			if err != nil {
+				return nil, UsageError(err)
+			}
+			val, err := key.set(&vj.Build, v.Values[idx[k]])
+			if err != nil {
+				return nil, UsageError(fmt.Errorf("%s: %w", v.Key, err))
+			}
+			settings = append(settings, document.Setting{Key: v.Key, Value: val})
+			names = append(names, v.Key+"="+val)
+		}
+		b, err := vj.BuildSettings()
+		if err != nil {
+			return nil, err
+		}
+		b.NoPage = s.Build.NoPage
+		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b})
+	}
+	return out, nil
+}
+
+// SweepFiles are the names of the files a sweep writes beside its
+// variants' folders, in order.
+func SweepFiles() []string {
+	return []string{"manifest.json", "manifest.yaml", "compare.json", "compare.txt", "compare.csv", "report.html"}
+}
+
+// SweepOutcome is what a command reports of a sweep.
+type SweepOutcome struct {
+	Out      string
+	RunID    string
+	Files    []string
+	Manifest *document.ManifestDoc
+	Compare  *document.CompareDoc
+	// Reached is set when the findings of some variant reached its
+	// failure level.
+	Reached bool
+}
+
+// variantRun is one variant built and rendered.
+type variantRun struct {
+	run     document.VariantRun
+	files   []writers.Rendered
+	reached bool
+}
+
+// Sweep runs a sensitivity sweep: load and index the job's inputs once,
+// build every variant (in parallel, as many at once as there are
+// processors), check and render each as a plain build would, and write
+// the whole as one set into s.Out: a folder per variant holding its
+// build's set, and beside them the manifest and the comparison.
+func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutcome, error) {
+	if len(job.Joints) == 0 {
+		return nil, UsageError(errors.New("no joint list given: name one with --joints or in the job file's joints"))
+	}
+	variants, err := s.Variants(job)
+	if err != nil {
+		return nil, err
+	}
+	out, err := OpenOutput(s.Out)
+	if err != nil {
+		return nil, err
+	}
+	defer out.Close()
+	in, err := LoadForSet(ctx, job, env)
+	if err != nil {
+		return nil, err
+	}
+	if err := in.missingThickness(); err != nil {
+		return nil, err
+	}
+	var outline *html.Outline
+	var outlineDone sync.WaitGroup
+	if !s.Build.NoPage {
+		outlineDone.Go(func() { outline = html.NewOutline(in.Model.Mesh) })
+	}
+	prog := env.progress()
+	prog.Start("indexing elements", 0)
+	opts := make([]joints.BuildOptions, len(variants))
+	for i, v := range variants {
+		opts[i] = v.Build.Options
+	}
+	in.index = IndexFor(in.Model.Mesh, in.Joints, opts)
+	in.stacks = &spot.Stacks{}
+	prog.Done()
+
+	material := partMaterials(in)
+	runs := make([]variantRun, len(variants))
+	errs := make([]error, len(variants))
+	var mu sync.Mutex
+	prog.Start("building variants", int64(len(variants)))
+	sem := make(chan struct{}, max(1, min(runtime.GOMAXPROCS(0), len(variants))))
+	var wg sync.WaitGroup
+	for i := range variants {
+		wg.Go(func() {
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			if ctx.Err() != nil {
+				errs[i] = ctx.Err()
+				return
+			}
+			runs[i], errs[i] = buildVariant(ctx, in, &variants[i], material, env, func() *html.Outline { outlineDone.Wait(); return outline })
+			mu.Lock()
+			prog.Add(1)
+			mu.Unlock()
+		})
+	}
+	wg.Wait()
+	prog.Done()
+	if err := errors.Join(errs...); err != nil {
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		return nil, err
+	}
+	outlineDone.Wait()
+
+	var vr []document.VariantRun
+	set := writers.Set{Job: "sweep", Generator: env.Generator}
+	outcome := &SweepOutcome{Out: s.Out, Files: SweepFiles()}
+	for i, r := range runs {
+		vr = append(vr, r.run)
+		set.Sets = append(set.Sets, writers.NestedSet{Dir: variants[i].Name,
+			Set: writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID, Files: r.files}})
+		outcome.Reached = outcome.Reached || r.reached
+	}
+	info, err := in.RunInfo(env.Generator, runs[0].run.Result)
+	if err != nil {
+		return nil, err
+	}
+	info.RunID = sweepRunID(env.Generator, s, vr)
+	vary := make([]document.VaryDoc, len(s.Vary))
+	for i, v := range s.Vary {
+		vary[i] = document.VaryDoc{Key: v.Key, Values: v.Values}
+	}
+	man := document.NewManifest(vr, vary, info)
+	cmpDoc := document.NewCompare(vr, info)
+	files := []writers.File{
+		{Name: "manifest.json", Render: func(w io.Writer) error { return document.EncodeManifest(w, man) }},
+		{Name: "manifest.yaml", Render: func(w io.Writer) error { return writers.WriteManifestYAML(w, man) }},
+		{Name: "compare.json", Render: func(w io.Writer) error { return document.EncodeCompare(w, cmpDoc) }},
+		{Name: "compare.txt", Render: func(w io.Writer) error { return writers.WriteCompareText(w, cmpDoc) }},
+		{Name: "compare.csv", Render: func(w io.Writer) error { return writers.WriteCompareCSV(w, cmpDoc) }},
+	}
+	if !s.Build.NoPage {
+		files = append(files, writers.File{Name: "report.html", Render: func(w io.Writer) error {
+			return html.Render(w, html.ForSweep(man, cmpDoc))
+		}})
+	} else {
+		outcome.Files = outcome.Files[:len(outcome.Files)-1]
+	}
+	if set.Files, err = writers.Render(files); err != nil {
+		return nil, err
+	}
+	set.RunID = info.RunID
+	if err := out.Write(set); err != nil {
+		return nil, err
+	}
+	outcome.RunID, outcome.Manifest, outcome.Compare = info.RunID, man, cmpDoc
+	return outcome, nil
+}
+
+// buildVariant builds, checks and renders one variant as Build would,
+// on the sweep's shared inputs and index.
+func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env, outline func() *html.Outline) (variantRun, error) {
+	in := *shared
+	in.Job = v.Job
+	quiet := Env{Generator: env.Generator} // progress and notes come from the sweep
+	res, err := BuildConnectors(ctx, &in, v.Build.Options, quiet)
+	if err != nil {
+		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+	}
+	if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
+		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+	}
+	info, err := in.RunInfo(env.Generator, res)
+	if err != nil {
+		return variantRun{}, err
+	}
+	conn := document.NewConnectors(in.Model.Mesh, res, info)
+	rep := document.NewReport(res, info)
+	files := buildFiles(conn, rep)
+	if !v.Build.NoPage {
+		files = append(files, writers.File{Name: "report.html", Render: func(w io.Writer) error {
+			return html.Render(w, html.ForBuild(rep, conn, outline()))
+		}})
+	}
+	rendered, err := writers.Render(files)
+	if err != nil {
+		return variantRun{}, err
+	}
+	r := variantRun{files: rendered, reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
+	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: res,
+		Pairs: stiffness.Pairs(res.Connectors, material)}
+	for _, f := range rendered {
+		sum := sha256.Sum256(f.Data)
+		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+	}
+	return r, nil
+}
+
+// partMaterials returns the material of each part, from the parts
+// table's material (stiffness.MaterialOf; steel when none).
+func partMaterials(in *Inputs) func(int64) stiffness.Material {
+	m := map[int64]stiffness.Material{}
+	for _, p := range in.Model.Mesh.Parts {
+		m[p.ID] = stiffness.MaterialOf(p.Material)
+	}
+	return func(id int64) stiffness.Material {
+		if mat, ok := m[id]; ok {
+			return mat
+		}
+		return stiffness.Steel()
+	}
+}
+
+// sweepRunIDVersion names the recipe of sweepRunID.
+const sweepRunIDVersion = "joinery sweep run id 1"
+
+// sweepRunID returns the run id of a sweep: the first 16 bytes, in hex,
+// of a SHA-256 over the recipe's version, the generator, the varied
+// settings and every variant's name and run id (which covers its inputs
+// and settings).
+func sweepRunID(generator string, s SweepSettings, runs []document.VariantRun) string {
+	h := sha256.New()
+	fmt.Fprintf(h, "%s\ngenerator %q\n", sweepRunIDVersion, generator)
+	for _, v := range s.Vary {
+		fmt.Fprintf(h, "vary %q %q\n", v.Key, v.Values)
+	}
+	for _, r := range runs {
+		fmt.Fprintf(h, "variant %q %s\n", r.Name, r.RunID)
+	}
+	return hex.EncodeToString(h.Sum(nil)[:document.RunIDLen/2])
+}
+
+// Summary is the few lines a sweep prints on stdout.
+func (o *SweepOutcome) Summary(w io.Writer) error {
+	return writers.WriteSweepSummary(w, o.Manifest, o.Out, o.Files)
+}

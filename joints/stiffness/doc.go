@@ -1,0 +1,20 @@
+// Package stiffness gives a first-order measure of how stiffly the
+// connectors of a build tie each pair of parts, so that the variants of
+// a sweep can be compared before any solve.
+//
+// Every part is taken as rigid and every connector as a spring on the
+// degrees of freedom it couples: a spot weld as a short straight beam of
+// the nugget's diameter and the sheets' contact length (t1+t2)/2 between
+// the two sheets' ends, with Timoshenko's shear term, since shear
+// dominates at length/diameter near 0.2. Per part pair the springs are
+// assembled into the 6 x 6 stiffness of the two parts' relative rigid
+// motion about the pair's centroid (the mean of the spring points), and
+// the principal stiffnesses of its translational and rotational blocks
+// are reported.
+//
+// This is a comparison aid with rigid sheets, not a model of a joint's
+// real stiffness: in reality the sheets' bending near a weld or a bolt
+// dominates, and it is left out here. Only the ratios between variants
+// of one model mean something. Units: N/mm for translations, N mm/rad
+// for rotations, with lengths in mm and moduli in N/mm^2.
+package stiffness

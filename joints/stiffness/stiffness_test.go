@@ -1,0 +1,173 @@
+package stiffness
+
+import (
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/joints"
+)
+
+func near(got, want, rel float64) bool {
+	return math.Abs(got-want) <= rel*math.Max(math.Abs(want), 1e-300)
+}
+
+// iso is a spring of stiffness k in every translation.
+func iso(p r3.Vec, k float64) Spring {
+	return Spring{Point: p, Axis: r3.Vec{Z: 1}, Axial: k, Shear: k, DOFs: joints.Translations}
+}
+
+func TestParallelSprings(t *testing.T) {
+	// n equal springs k in parallel: translational stiffness n k (statics
+	// texts: springs in parallel add).
+	const k = 1000.0
+	for _, n := range []int{1, 2, 5} {
+		var ss []Spring
+		for i := range n {
+			ss = append(ss, iso(r3.Vec{X: float64(10 * i)}, k))
+		}
+		c := r3.Vec{X: 10 * float64(n-1) / 2}
+		tr, _ := Principal(Assemble(ss, c))
+		for _, v := range tr {
+			if !near(v, float64(n)*k, 1e-12) {
+				t.Errorf("n=%d: translational %v, want %g each", n, tr, float64(n)*k)
+			}
+		}
+	}
+}
+
+func TestParallelAxisRule(t *testing.T) {
+	// Four springs k at (+-a, 0, 0) and (0, +-b, 0) around their
+	// centroid: rotational stiffness sum k d_i^2 about each axis through
+	// the centroid, d_i the distance of spring i from the axis
+	// (parallel-axis rule; statics texts, REFERENCES.md): about x 2 k b^2,
+	// about y 2 k a^2, about z 2 k (a^2 + b^2).
+	const k, a, b = 500.0, 30.0, 20.0
+	ss := []Spring{iso(r3.Vec{X: a}, k), iso(r3.Vec{X: -a}, k), iso(r3.Vec{Y: b}, k), iso(r3.Vec{Y: -b}, k)}
+	_, rot := Principal(Assemble(ss, r3.Vec{}))
+	want := [3]float64{2 * k * b * b, 2 * k * a * a, 2 * k * (a*a + b*b)} // ascending as a > b
+	for i := range 3 {
+		if !near(rot[i], want[i], 1e-12) {
+			t.Errorf("rotational %v, want %v", rot, want)
+		}
+	}
+	// Shifted off the origin, the same about their centroid.
+	off := r3.Vec{X: 1000, Y: -400, Z: 7}
+	for i := range ss {
+		ss[i].Point = r3.Add(ss[i].Point, off)
+	}
+	_, rot2 := Principal(Assemble(ss, off))
+	for i := range 3 {
+		if !near(rot2[i], want[i], 1e-9) {
+			t.Errorf("shifted: rotational %v, want %v", rot2, want)
+		}
+	}
+}
+
+func TestSingleTranslationsOnlyConnector(t *testing.T) {
+	// One point constraint leaves three rotations about its own point
+	// (classical rigid-body kinematics; from memory): zero rotational
+	// stiffness about the spring's point.
+	s := Beam(5, 1.15, Steel())
+	s.Point, s.Axis, s.DOFs = r3.Vec{X: 3, Y: 4, Z: 5}, r3.Vec{Z: 1}, joints.Translations
+	tr, rot := Principal(Assemble([]Spring{s}, s.Point))
+	if rot != [3]float64{} {
+		t.Errorf("rotational %v, want zero", rot)
+	}
+	if tr[0] <= 0 {
+		t.Errorf("translational %v, want all positive", tr)
+	}
+}
+
+func TestCoupledRotationsAddBeamTerms(t *testing.T) {
+	// A single spring coupling all six, about its own point: the
+	// rotational block is diag(EI/L, EI/L, GJ/L) for a beam along z.
+	// By hand, steel E = 210,000 N/mm^2, nu = 0.3 (G = E/2.6 =
+	// 80,769.23 N/mm^2; EN 1993-1-1 3.2.6, from memory), d = 5 mm, L = 1
+	// mm: I = pi 5^4 / 64 = 30.6796 mm^4, EI/L = 6.44272e6 N mm/rad;
+	// J = 2 I = 61.3592 mm^4, GJ/L = 4.95594e6 N mm/rad (a beam's end
+	// rotation under a uniform moment M L/(EI), twist T L/(GJ); any
+	// strength-of-materials text).
+	s := Beam(5, 1, Steel())
+	s.Axis, s.DOFs = r3.Vec{Z: 1}, joints.AllDOFs
+	_, rot := Principal(Assemble([]Spring{s}, s.Point))
+	want := [3]float64{4.95594e6, 6.44272e6, 6.44272e6}
+	for i := range 3 {
+		if !near(rot[i], want[i], 1e-5) {
+			t.Errorf("rotational %v, want %v", rot, want)
+		}
+	}
+	// Released rotations: zero again.
+	s.DOFs = joints.Translations
+	if _, rot := Principal(Assemble([]Spring{s}, s.Point)); rot != [3]float64{} {
+		t.Errorf("translations only: rotational %v", rot)
+	}
+}
+
+func TestBeamShear(t *testing.T) {
+	m := Steel()
+	// Cowper's shear coefficient of a circle at nu = 0.3: 7.8/8.8 =
+	// 0.8864 (Cowper 1966; from memory).
+	if k := ShearCoefficient(0.3); !near(k, 7.8/8.8, 1e-12) {
+		t.Errorf("kappa %g", k)
+	}
+	const d = 5.0
+	a := math.Pi * d * d / 4
+	i := math.Pi * math.Pow(d, 4) / 64
+	// A slender beam, L/d = 100: Euler-Bernoulli's clamped-clamped
+	// transverse stiffness 12 EI / L^3 (REFERENCES.md; Przemieniecki 1968,
+	// from memory), the shear term below 0.1 per cent.
+	L := 100 * d
+	if got, want := Beam(d, L, m).Shear, 12*m.E*i/(L*L*L); !near(got, want, 1e-3) {
+		t.Errorf("slender: shear %g, want %g", got, want)
+	}
+	// A spot weld, L/d = 0.2: shear dominates and the stiffness tends to
+	// that of a shear block kappa G A / L (Timoshenko's beam with phi >>
+	// 1), here within 2 per cent (phi = 57 at this ratio).
+	L = 0.2 * d
+	if got, want := Beam(d, L, m).Shear, ShearCoefficient(m.Nu)*m.G*a/L; !near(got, want, 0.02) {
+		t.Errorf("stubby: shear %g, want about %g", got, want)
+	}
+	if got, want := Beam(d, L, m).Axial, m.E*a/L; !near(got, want, 1e-12) {
+		t.Errorf("axial %g, want EA/L %g", got, want)
+	}
+}
+
+func TestPairsFromConnectors(t *testing.T) {
+	// Three two-sheet welds in a line along x between parts 1 and 2,
+	// translations only: rotational stiffness about the line is zero
+	// (collinear point constraints leave one rotation about their line;
+	// classical rigid-body kinematics, from memory), about z through the
+	// centroid k_shear (2 * 20^2) (parallel-axis rule).
+	var conns []joints.Connector
+	for i, x := range []float64{-20, 0, 20} {
+		c := joints.Connector{Joint: joints.Joint{ID: string(rune('a' + i)), Kind: joints.Spot}, Diameter: 5, DOFs: joints.Translations,
+			Stack: joints.Stack{Axis: r3.Vec{Z: 1}, Sheets: []joints.Sheet{{Part: 2, Thickness: 1}, {Part: 1, Thickness: 1.5}}},
+			Ends:  []joints.End{{Point: r3.Vec{X: x}}, {Point: r3.Vec{X: x, Z: 1.25}}}}
+		conns = append(conns, c)
+	}
+	conns = append(conns, joints.Connector{Status: joints.NotBuilt, Joint: joints.Joint{ID: "x", Kind: joints.Spot}})
+	ps := Pairs(conns, func(int64) Material { return Steel() })
+	if len(ps) != 1 || ps[0].A != 1 || ps[0].B != 2 || ps[0].Springs != 3 || ps[0].Material != "steel" {
+		t.Fatalf("pairs %+v", ps)
+	}
+	ks := Beam(5, 1.25, Steel()).Shear
+	rot := ps[0].Rotational
+	if rot[0] != 0 {
+		t.Errorf("about the weld line: %g, want 0", rot[0])
+	}
+	if !near(rot[1], ks*2*400, 1e-9) && !near(rot[2], ks*2*400, 1e-9) {
+		t.Errorf("rotational %v, want k_shear 800 = %g among them", rot, ks*800)
+	}
+}
+
+func TestMaterialOf(t *testing.T) {
+	for _, c := range []struct {
+		name, want string
+	}{{"", "steel"}, {"DC04", "steel"}, {"S355MC", "steel"}, {"EN AW-6082 T6", "aluminium"}, {"AlMg3", "aluminium"}, {"Aluminium", "aluminium"}} {
+		if got := MaterialOf(c.name).Name; got != c.want {
+			t.Errorf("%q: %s, want %s", c.name, got, c.want)
+		}
+	}
+}
