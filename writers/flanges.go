@@ -159,6 +159,7 @@ func WriteFlangesSummary(w io.Writer, doc *document.FlangesDoc, rep *document.Re
 		ew.printf("by code     %s\n", countList(s.ByCode))
 	}
 	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("run id      %s\n", doc.RunID)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err
 }

@@ -172,20 +172,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
-	switch {
-	case g.json:
-		if err := g.writeJSON(buildJSON{Summary: out.Report.Summary, Inputs: out.Report.Inputs, Out: out.Out, Files: out.Files, RunID: out.RunID, Caution: document.Caution}); err != nil {
-			return err
-		}
-	case !g.quiet:
-		if err := out.Summary(g.stdout); err != nil {
-			return err
-		}
-	}
-	if out.Reached {
-		return &findingsError{msg: out.FailMessage(s.FailOn)}
-	}
-	return nil
+	return g.finish(buildJSON{Summary: out.Report.Summary, Inputs: out.Report.Inputs, Out: out.Out, Files: out.Files, RunID: out.RunID, Caution: document.Caution}, out.Summary, out.Reached, func() string { return out.FailMessage(s.FailOn) })
 }
 
 // buildJSON is what build --json prints.

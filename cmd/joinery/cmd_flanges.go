@@ -137,21 +137,8 @@ func runFlanges(c *cobra.Command, o *flangesOptions, g *globalOptions, args []st
 	if err != nil {
 		return err
 	}
-	switch {
-	case g.json:
-		if err := g.writeJSON(flangesJSON{Summary: out.Report.Summary, Flanges: len(out.Flanges.Flanges), Out: out.Out,
-			Files: out.Files, Caution: document.Caution}); err != nil {
-			return err
-		}
-	case !g.quiet:
-		if err := out.FlangesSummary(g.stdout); err != nil {
-			return err
-		}
-	}
-	if out.Reached {
-		return &findingsError{msg: out.FailMessage(s.FailOn)}
-	}
-	return nil
+	return g.finish(flangesJSON{Summary: out.Report.Summary, Flanges: len(out.Flanges.Flanges), Out: out.Out,
+		Files: out.Files, RunID: out.RunID, Caution: document.Caution}, out.FlangesSummary, out.Reached, func() string { return out.FailMessage(s.FailOn) })
 }
 
 // flangesJSON is what flanges --json prints.
@@ -160,5 +147,6 @@ type flangesJSON struct {
 	Flanges int              `json:"flanges"`
 	Out     string           `json:"out"`
 	Files   []string         `json:"files"`
+	RunID   string           `json:"run_id"`
 	Caution string           `json:"caution"`
 }

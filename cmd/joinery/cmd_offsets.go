@@ -108,20 +108,7 @@ func runOffsets(c *cobra.Command, o *offsetsOptions, g *globalOptions, args []st
 	if err != nil {
 		return err
 	}
-	switch {
-	case g.json:
-		if err := g.writeJSON(offsetsJSON{Summary: out.Report.Summary, Parts: out.Surfaces.Parts, Out: out.Out, Files: out.Files, Caution: document.Caution}); err != nil {
-			return err
-		}
-	case !g.quiet:
-		if err := out.Summary(g.stdout); err != nil {
-			return err
-		}
-	}
-	if out.Reached {
-		return &findingsError{msg: fmt.Sprintf("findings at or above %q: see %s/report.txt", s.FailOn, out.Out)}
-	}
-	return nil
+	return g.finish(offsetsJSON{Summary: out.Report.Summary, Parts: out.Surfaces.Parts, Out: out.Out, Files: out.Files, RunID: out.RunID, Caution: document.Caution}, out.Summary, out.Reached, func() string { return fmt.Sprintf("findings at or above %q: see %s/report.txt", s.FailOn, out.Out) })
 }
 
 // offsetsJSON is what offsets --json prints.
@@ -130,5 +117,6 @@ type offsetsJSON struct {
 	Parts   []document.PartSurfaceDoc `json:"parts"`
 	Out     string                    `json:"out"`
 	Files   []string                  `json:"files"`
+	RunID   string                    `json:"run_id"`
 	Caution string                    `json:"caution"`
 }

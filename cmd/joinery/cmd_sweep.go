@@ -110,21 +110,10 @@ func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
-	switch {
-	case g.json:
-		if err := g.writeJSON(sweepJSON{Out: out.Out, Files: out.Files, RunID: out.RunID, Variants: out.Manifest.Variants,
-			Moving: out.Manifest.Moving, Caution: document.Caution}); err != nil {
-			return err
-		}
-	case !g.quiet:
-		if err := out.Summary(g.stdout); err != nil {
-			return err
-		}
-	}
-	if out.Reached {
-		return &findingsError{msg: fmt.Sprintf("findings at or above %q in some variant: see %s", s.Build.FailOn, out.Out+"/manifest.yaml")}
-	}
-	return nil
+	return g.finish(sweepJSON{Out: out.Out, Files: out.Files, RunID: out.RunID, Variants: out.Manifest.Variants,
+		Moving: out.Manifest.Moving, Caution: document.Caution}, out.Summary, out.Reached, func() string {
+		return fmt.Sprintf("findings at or above %q in some variant: see %s", s.Build.FailOn, out.Out+"/manifest.yaml")
+	})
 }
 
 // sweepJSON is what sweep --json prints.

@@ -77,3 +77,23 @@ and a connectivity report in joinery's own documented formats.
 	root.AddCommand(newInspectCommand(g), newBuildCommand(g), newCheckCommand(g), newFlangesCommand(g), newOffsetsCommand(g), newSweepCommand(g))
 	return root
 }
+
+// finish ends a command that wrote an output set: it prints doc (--json)
+// or the summary (unless --quiet), then returns the findings error, with
+// the message failMsg gives, when the findings reached --fail-on.
+func (g *globalOptions) finish(doc any, summary func(io.Writer) error, reached bool, failMsg func() string) error {
+	switch {
+	case g.json:
+		if err := g.writeJSON(doc); err != nil {
+			return err
+		}
+	case !g.quiet:
+		if err := summary(g.stdout); err != nil {
+			return err
+		}
+	}
+	if reached {
+		return &findingsError{msg: failMsg()}
+	}
+	return nil
+}
