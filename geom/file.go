@@ -1,6 +1,7 @@
 package geom
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"io/fs"
@@ -31,7 +32,7 @@ type File struct {
 func OpenRegular(path string) (*File, error) {
 	fi, err := os.Stat(path)
 	if err != nil {
-		return nil, err
+		return nil, openError(path, err)
 	}
 	if err := checkRegular(path, fi); err != nil {
 		return nil, err
@@ -40,7 +41,7 @@ func OpenRegular(path string) (*File, error) {
 	// blocking the open; the second check below refuses it.
 	f, err := os.OpenFile(path, openFlags, 0)
 	if err != nil {
-		return nil, err
+		return nil, openError(path, err)
 	}
 	if fi, err = f.Stat(); err != nil {
 		f.Close()
@@ -131,3 +132,26 @@ func Excerpt[T ~string | ~[]byte](s T) string {
 	}
 	return string(s[:n]) + "..."
 }
+
+// openError turns the failure to open an input into an input error when
+// the input is at fault (no such file, no permission to read it: the
+// user named the wrong file), and keeps other failures as they are.
+func openError(path string, err error) error {
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return &InputError{File: path, Offset: -1, Record: -1, Err: openFailure{"no such file", fs.ErrNotExist}}
+	case errors.Is(err, fs.ErrPermission):
+		return &InputError{File: path, Offset: -1, Record: -1, Err: openFailure{"no permission to read it", fs.ErrPermission}}
+	}
+	return err
+}
+
+// openFailure is why an input could not be opened, in words, keeping
+// the os package's error for errors.Is.
+type openFailure struct {
+	msg string
+	err error
+}
+
+func (e openFailure) Error() string { return e.msg }
+func (e openFailure) Unwrap() error { return e.err }

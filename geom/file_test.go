@@ -30,8 +30,8 @@ func TestReadFileRegularOnly(t *testing.T) {
 		t.Errorf("%s: %v, want an input error saying it is a directory", dir, err)
 	}
 	missing := filepath.Join(dir, "missing.txt")
-	if _, err := ReadFile(missing, nil); !errors.Is(err, fs.ErrNotExist) || errors.Is(err, ErrInput) {
-		t.Errorf("%s: %v, want the os package's not-exist error", missing, err)
+	if _, err := ReadFile(missing, nil); !errors.Is(err, fs.ErrNotExist) || !errors.Is(err, ErrInput) {
+		t.Errorf("%s: %v, want an input error that is the os package's not-exist error", missing, err)
 	}
 }
 

@@ -3,6 +3,7 @@ package geom
 import (
 	"bytes"
 	"crypto/sha256"
+	"errors"
 	"os"
 	"path/filepath"
 	"testing"
@@ -34,7 +35,7 @@ func TestReadFileDigest(t *testing.T) {
 			t.Errorf("size %d: without a digest: %v", size, err)
 		}
 	}
-	if _, err := ReadFile(filepath.Join(dir, "missing"), sha256.New()); !os.IsNotExist(err) {
+	if _, err := ReadFile(filepath.Join(dir, "missing"), sha256.New()); !errors.Is(err, os.ErrNotExist) || !errors.Is(err, ErrInput) {
 		t.Errorf("missing file: %v", err)
 	}
 }

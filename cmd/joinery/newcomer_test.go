@@ -515,3 +515,29 @@ func TestInspectSaysTri(t *testing.T) {
 	}
 	t.Errorf("no parts table header in %q", out)
 }
+
+// A mesh, parts table or joint list that does not exist is the input's
+// fault: exit 2, the message names the file, and nothing is written.
+func TestMissingInputFiles(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	missing := filepath.Join(dir, "nothing-here")
+	welds := filepath.Join(exampleDir, "welds.csv")
+	for _, c := range []struct {
+		name string
+		args []string
+	}{
+		{"mesh", []string{"--mesh", missing + ".vtk", "--joints", welds}},
+		{"parts", []string{exampleJob, "--parts", missing + ".yaml"}},
+		{"joints", []string{exampleJob, "--joints", missing + ".csv"}},
+	} {
+		out := filepath.Join(dir, "out-"+c.name)
+		code, _, errs := runCLI(t, append([]string{"build", "--out", out}, c.args...)...)
+		if code != exitBadInput || !strings.Contains(errs, missing) || !strings.Contains(errs, "no such file") {
+			t.Errorf("%s: exit %d, stderr %q; want 2 naming the file", c.name, code, errs)
+		}
+		if _, err := os.Stat(out); !os.IsNotExist(err) {
+			t.Errorf("%s: output directory written", c.name)
+		}
+	}
+}

@@ -134,8 +134,8 @@ func TestReadPartsCSVErrors(t *testing.T) {
 func TestReadPartsExtension(t *testing.T) {
 	_, err := ReadParts("parts.txt")
 	checkErr(t, err, `parts.txt: unknown parts table type ".txt"`)
-	if _, err := ReadParts("does-not-exist.yaml"); err == nil || errors.Is(err, geom.ErrInput) {
-		t.Errorf("missing file: err = %v, want a non-input error", err)
+	if _, err := ReadParts("does-not-exist.yaml"); !errors.Is(err, geom.ErrInput) || !strings.Contains(err.Error(), "does-not-exist.yaml: no such file") {
+		t.Errorf("missing file: err = %v, want an input error naming the file", err)
 	}
 }
 
