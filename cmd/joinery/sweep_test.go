@@ -311,3 +311,56 @@ func TestSweepFlagsMovingVariants(t *testing.T) {
 		}
 	}
 }
+
+// TestSweepBoltRotationRelease releases the bracket bolts' rotations on
+// the example: the bracket (400) is held to the beam (200) by its two
+// bolts alone, so with rotations coupled the pair's smallest rotational
+// stiffness is the two shanks' bending 2 EI/L about the line through
+// them, and with translations only it is zero (two point constraints
+// leave the rotation about the line through them; classical rigid-body
+// kinematics, from memory); the other two drop by the shanks' own
+// bending or torsion, the parallel-axis terms of the spread remaining
+// (statics texts). The translational stiffness does not change.
+func TestSweepBoltRotationRelease(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	code, _, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--quiet", "--fail-on", "never", "--vary", "bolt-dofs=tx+ty+tz+rx+ry+rz,tx+ty+tz")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	raw, err := os.ReadFile(filepath.Join(dir, "compare.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc document.CompareDoc
+	if err := json.Unmarshal(raw, &doc); err != nil {
+		t.Fatal(err)
+	}
+	var found bool
+	for _, p := range doc.Pairs {
+		if len(p.Parts) != 2 || p.Parts[0] != 200 || p.Parts[1] != 400 {
+			continue
+		}
+		found = true
+		if len(p.Variants) != 2 || p.Variants[0].Springs != 2 || p.Variants[1].Springs != 2 {
+			t.Fatalf("pair 200-400: %+v, want two variants of two bolt springs", p.Variants)
+		}
+		r := p.Variants[1].RatioRotational
+		if r[0] == nil || *r[0] != 0 {
+			t.Errorf("released: smallest rotational ratio %v, want 0", r[0])
+		}
+		for a := 1; a < 3; a++ {
+			if r[a] == nil || !(*r[a] > 0 && *r[a] < 1) {
+				t.Errorf("released: rotational ratio %d %v, want in (0, 1)", a, r[a])
+			}
+		}
+		for a, q := range p.Variants[1].RatioTranslational {
+			if q == nil || *q != 1 {
+				t.Errorf("released: translational ratio %d %v, want 1", a, q)
+			}
+		}
+	}
+	if !found {
+		t.Error("compare.json has no pair 200-400")
+	}
+}

@@ -6,7 +6,9 @@
 // degrees of freedom it couples: a spot weld as a short straight beam of
 // the nugget's diameter and the sheets' contact length (t1+t2)/2 between
 // the two sheets' ends, with Timoshenko's shear term, since shear
-// dominates at length/diameter near 0.2. Per part pair the springs are
+// dominates at length/diameter near 0.2; a bolt as its shank between
+// each two consecutive sheets' centres, the same beam of the bolt's
+// diameter (RigidShankFactor times stiffer for a rigid shank). Per part pair the springs are
 // assembled into the 6 x 6 stiffness of the two parts' relative rigid
 // motion about the pair's centroid (the mean of the spring points), and
 // the principal stiffnesses of its translational and rotational blocks

@@ -22,6 +22,15 @@ type Pair struct {
 	Translational, Rotational [3]float64
 }
 
+// RigidShankFactor is how many times stiffer than the beam shank of
+// the same bolt a rigid shank is taken to be in the summary (our
+// choice: a rigid link has no stiffness of its own to report, and an
+// infinite one would leave no ratio to read; a large finite factor on
+// the beam of the same diameter and length keeps every term finite, in
+// the beam's proportions, and the ratios between variants that share
+// the shank form exact).
+const RigidShankFactor = 1000.0
+
 // Springs returns the springs of a connector, one per pair of
 // consecutive sheets, with the parts each joins; none for a connector
 // not built. material gives a part's material.
@@ -31,22 +40,43 @@ type Pair struct {
 // the stack axis, of the softer of the two materials, coupling the
 // connector's degrees of freedom, whatever the form of its links or
 // attachment (which change where it is tied, not what ties it).
+//
+// A bolt is, per pair of consecutive sheets, the part of its shank
+// between the two sheets' centres: a beam of the bolt's diameter and
+// the distance between the centres (the contact length (t1+t2)/2 where
+// the centres coincide), at their midpoint, along the stack axis, of
+// the shank's material (ShankModulus, ShankPoisson); a rigid shank is
+// that beam times RigidShankFactor. It couples the bolt's ring degrees
+// of freedom: the shank ties all six between the centres, but each
+// sheet is held only on what its ring couples. The ring's own spread
+// is left out, as the nugget's is for a weld: with translations-only
+// rings, the rotational stiffness of a pair comes only from the spread
+// of its several connectors (parallel-axis rule), so releasing a
+// bolt's rotations lowers it.
 func Springs(c *joints.Connector, material func(part int64) Material) ([]Spring, [][2]int64) {
 	if c.Status == joints.NotBuilt || len(c.Ends) != len(c.Stack.Sheets) {
 		return nil, nil
 	}
 	switch c.Joint.Kind {
 	case joints.Spot:
+	case joints.Bolt:
+		if c.Bolt == nil {
+			return nil, nil
+		}
 	default:
-		// Bolts (issue 10): a bolt by its shank and ring, once bolts are
-		// built; until then they carry nothing here.
 		return nil, nil
 	}
 	var springs []Spring
 	var pairs [][2]int64
 	for i := 0; i+1 < len(c.Stack.Sheets); i++ {
 		a, b := c.Stack.Sheets[i], c.Stack.Sheets[i+1]
-		s := Beam(c.Diameter, (a.Thickness+b.Thickness)/2, Softer(material(a.Part), material(b.Part)))
+		contact := (a.Thickness + b.Thickness) / 2
+		var s Spring
+		if c.Joint.Kind == joints.Bolt {
+			s = shankSpring(c, contact, r3.Norm(r3.Sub(c.Ends[i+1].Point, c.Ends[i].Point)))
+		} else {
+			s = Beam(c.Diameter, contact, Softer(material(a.Part), material(b.Part)))
+		}
 		s.Point = r3.Scale(0.5, r3.Add(c.Ends[i].Point, c.Ends[i+1].Point))
 		s.Axis = c.Stack.Axis
 		s.DOFs = c.DOFs
@@ -54,6 +84,28 @@ func Springs(c *joints.Connector, material func(part int64) Material) ([]Spring,
 		pairs = append(pairs, joints.PairKey(a.Part, b.Part))
 	}
 	return springs, pairs
+}
+
+// shankSpring returns the spring of a bolt's shank between two centres
+// a distance length apart, contact when they coincide (mm).
+func shankSpring(c *joints.Connector, contact, length float64) Spring {
+	if length <= contact*1e-6 {
+		length = contact
+	}
+	m := Steel()
+	if e, nu := c.Bolt.ShankModulus, c.Bolt.ShankPoisson; e > 0 && nu > -1 && nu < 0.5 {
+		// G = E / (2 (1 + nu)) of an isotropic material (any strength of
+		// materials text; from memory).
+		m = Material{Name: "steel", E: e, Nu: nu, G: e / (2 * (1 + nu))}
+	}
+	s := Beam(c.Diameter, length, m)
+	if c.Bolt.Shank == joints.RigidShank {
+		s.Axial *= RigidShankFactor
+		s.Shear *= RigidShankFactor
+		s.Torsion *= RigidShankFactor
+		s.Bending *= RigidShankFactor
+	}
+	return s
 }
 
 // Pairs assembles the springs of every connector per part pair and
@@ -74,7 +126,11 @@ func Pairs(conns []joints.Connector, material func(part int64) Material) []Pair 
 				by[p] = a
 			}
 			a.springs = append(a.springs, s)
-			a.mats[Softer(material(p[0]), material(p[1])).Name] = true
+			m := Softer(material(p[0]), material(p[1])).Name
+			if conns[i].Joint.Kind == joints.Bolt {
+				m = "steel" // a bolt's shank is steel whatever its sheets
+			}
+			a.mats[m] = true
 		}
 	}
 	out := make([]Pair, 0, len(by))

@@ -171,3 +171,94 @@ func TestMaterialOf(t *testing.T) {
 		}
 	}
 }
+
+// bolt is a two-sheet bolt of diameter 10 mm between parts 1 and 2,
+// along z, at (0, y, 0), its centres length mm apart.
+func bolt(id string, y, length float64, shank joints.ShankForm, dofs joints.DOFs) joints.Connector {
+	c := joints.Connector{Joint: joints.Joint{ID: id, Kind: joints.Bolt}, Diameter: 10, DOFs: dofs,
+		Stack: joints.Stack{Axis: r3.Vec{Z: 1}, Sheets: []joints.Sheet{{Part: 1, Thickness: 2}, {Part: 2, Thickness: 2}}},
+		Ends:  []joints.End{{Point: r3.Vec{Y: y}}, {Point: r3.Vec{Y: y, Z: length}}},
+		Bolt:  &joints.BoltData{Shank: shank, Support: -1}}
+	if shank == joints.BeamShank {
+		c.Bolt.ShankModulus, c.Bolt.ShankPoisson = joints.DefaultShankModulus, joints.DefaultShankPoisson
+	}
+	return c
+}
+
+func TestBoltShankSprings(t *testing.T) {
+	// One beam-shank M10 bolt, centres L = 4 mm apart, all six coupled,
+	// about its own point. By hand, steel E = 210,000 N/mm^2, nu = 0.3,
+	// G = E/2.6 = 80,769.23 N/mm^2 (EN 1993-1-1 3.2.6; from memory),
+	// d = 10 mm: A = pi 10^2/4 = 78.5398 mm^2, I = pi 10^4/64 = 490.874
+	// mm^4, J = 2 I = 981.748 mm^4 (circular section, any
+	// strength-of-materials text; from memory):
+	//   EA/L = 210,000 * 78.5398 / 4 = 4.12334e6 N/mm
+	//   EI/L = 210,000 * 490.874 / 4 = 2.57709e7 N mm/rad
+	//   GJ/L = 80,769.23 * 981.748 / 4 = 1.98238e7 N mm/rad
+	//   phi = 12 EI / (kappa G A L^2), kappa = 7.8/8.8 (Cowper 1966; from
+	//   memory) = 1.23700e9 / (0.886364 * 80,769.23 * 78.5398 * 16)
+	//   = 1.23700e9 / 8.99638e7 = 13.75; across 12 EI / (L^3 (1 + phi))
+	//   = 1.23700e9 / (64 * 14.75) = 1.31038e6 N/mm (clamped-clamped
+	//   Timoshenko beam, Przemieniecki 1968; from memory).
+	c := bolt("b", 0, 4, joints.BeamShank, joints.AllDOFs)
+	ss, pairs := Springs(&c, func(int64) Material { return Aluminium() })
+	if len(ss) != 1 || pairs[0] != [2]int64{1, 2} {
+		t.Fatalf("springs %+v pairs %v", ss, pairs)
+	}
+	if p := ss[0].Point; p != (r3.Vec{Z: 2}) {
+		t.Errorf("point %v, want the centres' midpoint (0, 0, 2)", p)
+	}
+	tr, rot := Principal(Assemble(ss, ss[0].Point))
+	wantT := [3]float64{1.31038e6, 1.31038e6, 4.12334e6}
+	wantR := [3]float64{1.98238e7, 2.57709e7, 2.57709e7}
+	for i := range 3 {
+		// The shank is steel, whatever the sheets' material.
+		if !near(tr[i], wantT[i], 1e-5) || !near(rot[i], wantR[i], 1e-5) {
+			t.Errorf("translational %v, want %v; rotational %v, want %v", tr, wantT, rot, wantR)
+		}
+	}
+	// A rigid shank: the same beam times RigidShankFactor, every term.
+	r := bolt("b", 0, 4, joints.RigidShank, joints.AllDOFs)
+	rs, _ := Springs(&r, func(int64) Material { return Steel() })
+	if len(rs) != 1 || !near(rs[0].Axial, RigidShankFactor*ss[0].Axial, 1e-12) || !near(rs[0].Shear, RigidShankFactor*ss[0].Shear, 1e-12) ||
+		!near(rs[0].Torsion, RigidShankFactor*ss[0].Torsion, 1e-12) || !near(rs[0].Bending, RigidShankFactor*ss[0].Bending, 1e-12) {
+		t.Errorf("rigid shank %+v, want %g x %+v", rs, RigidShankFactor, ss)
+	}
+	// Translations only: a single bolt holds no rotation about its own
+	// point (a point constraint; classical rigid-body kinematics, from
+	// memory).
+	c.DOFs = joints.Translations
+	if _, rot := Principal(Assemble(func() []Spring { s, _ := Springs(&c, nil); return s }(), r3.Vec{Z: 2})); rot != [3]float64{} {
+		t.Errorf("translations only: rotational %v, want zero", rot)
+	}
+}
+
+func TestBoltPairRotationalRelease(t *testing.T) {
+	// Two beam-shank bolts at y = +-a along z, as the example's bracket
+	// is held. Translations only, about the centroid (parallel-axis rule,
+	// statics texts): about x 2 k_axial a^2, about z 2 k_across a^2,
+	// about y (the line through the bolts) zero. Coupling rotations adds
+	// each shank's 2 EI/L about x and y, 2 GJ/L about z: the smallest
+	// principal rotational stiffness goes from 2 EI/L to zero when the
+	// rotations are released.
+	const a = 25.0
+	mat := func(int64) Material { return Steel() }
+	one := Beam(10, 4, Steel())
+	for _, c := range []struct {
+		dofs joints.DOFs
+		want [3]float64
+	}{
+		{joints.Translations, [3]float64{0, 2 * one.Shear * a * a, 2 * one.Axial * a * a}},
+		{joints.AllDOFs, [3]float64{2 * one.Bending, 2*one.Shear*a*a + 2*one.Torsion, 2*one.Axial*a*a + 2*one.Bending}},
+	} {
+		ps := Pairs([]joints.Connector{bolt("b1", -a, 4, joints.BeamShank, c.dofs), bolt("b2", a, 4, joints.BeamShank, c.dofs)}, mat)
+		if len(ps) != 1 || ps[0].Springs != 2 || ps[0].Material != "steel" || ps[0].Centroid != (r3.Vec{Z: 2}) {
+			t.Fatalf("%v: pairs %+v", c.dofs, ps)
+		}
+		for i := range 3 {
+			if !near(ps[0].Rotational[i], c.want[i], 1e-9) && !(c.want[i] == 0 && math.Abs(ps[0].Rotational[i]) < 1e-6*c.want[2]) {
+				t.Errorf("%v: rotational %v, want %v", c.dofs, ps[0].Rotational, c.want)
+			}
+		}
+	}
+}

@@ -25,7 +25,8 @@ const (
 // compare.txt and stands in compare.json.
 const StiffnessNote = "Connection stiffness: a comparison aid with rigid sheets, not a model of the joints' real stiffness. " +
 	"Every part is taken as rigid and every connector as a spring on the degrees of freedom it couples " +
-	"(a spot weld as a Timoshenko beam of the nugget diameter and the sheets' contact length); " +
+	"(a spot weld as a Timoshenko beam of the nugget diameter and the sheets' contact length, " +
+	"a bolt as its shank between the sheets' centres, a rigid shank 1000 times that beam); " +
 	"in reality the sheets' bending near a weld or a bolt dominates. Only the ratios between variants mean something."
 
 // Setting is one varied setting of a variant: its key (the flag's name)
