@@ -185,10 +185,10 @@ build:
 `
 
 // sweepYAML is the example's sensitivity sweep (joinery sweep): the
-// job with a sweep section. Bolt rotational release (bolt_dofs) joins it
-// once bolts are built.
+// job with a sweep section, bolt rotational release by attachment form.
 const sweepYAML = `# joinery job, version 1: a sensitivity sweep of the van-rear-crossmember
-# example (invented): spot-weld rotations coupled or released, by attachment form.
+# example (invented): the towing-eye bolts' rotations coupled or released,
+# by the spot welds' attachment form.
 # Written by go run ./examples/van-rear-crossmember/gen
 version: 1
 meshes: [mesh/floor.vtk, mesh/beam.vtk, mesh/closing-plate.jmesh, mesh/bracket.jmesh]
@@ -197,7 +197,7 @@ joints: [welds.csv]
 out: out-sweep
 sweep:
   vary:
-    spot_dofs: [tx+ty+tz+rx+ry+rz, tx+ty+tz]
+    bolt_dofs: [tx+ty+tz+rx+ry+rz, tx+ty+tz]
     attach: [interpolated, patch]
 `
 
