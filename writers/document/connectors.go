@@ -333,14 +333,22 @@ func boltDoc(c *joints.Connector) *BoltDoc {
 // builds shows one line per changed connector and the file stays a
 // third of its fully indented size.
 func EncodeConnectors(w io.Writer, doc *ConnectorsDoc) error {
-	ew := &errWriter{w: w}
-	head := []struct {
-		key string
-		v   any
-	}{
+	return encodeLines(w, []field{
 		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"new_ids", doc.IDs},
-	}
+	}, "connectors", doc.Connectors)
+}
+
+// field is one header field of a document written by encodeLines.
+type field struct {
+	key string
+	v   any
+}
+
+// encodeLines writes a JSON object of the header fields, one per line,
+// then the array listKey of items, one compact item per line.
+func encodeLines[T any](w io.Writer, head []field, listKey string, items []T) error {
+	ew := &errWriter{w: w}
 	ew.printf("{\n")
 	for _, h := range head {
 		b, err := compactJSON(h.v)
@@ -349,19 +357,19 @@ func EncodeConnectors(w io.Writer, doc *ConnectorsDoc) error {
 		}
 		ew.printf("  %q: %s,\n", h.key, b)
 	}
-	ew.printf("  \"connectors\": [")
-	for i := range doc.Connectors {
-		b, err := compactJSON(&doc.Connectors[i])
+	ew.printf("  %q: [", listKey)
+	for i := range items {
+		b, err := compactJSON(&items[i])
 		if err != nil {
 			return err
 		}
 		sep := ","
-		if i == len(doc.Connectors)-1 {
+		if i == len(items)-1 {
 			sep = ""
 		}
 		ew.printf("\n    %s%s", b, sep)
 	}
-	if len(doc.Connectors) > 0 {
+	if len(items) > 0 {
 		ew.printf("\n  ")
 	}
 	ew.printf("]\n}\n")

@@ -163,39 +163,10 @@ func flangeDoc(m *geom.Mesh, f *joints.Flange) FlangeDoc {
 // EncodeFlanges writes the flanges document: its header fields one per
 // line, then one flange per line, as EncodeConnectors does.
 func EncodeFlanges(w io.Writer, doc *FlangesDoc) error {
-	ew := &errWriter{w: w}
-	head := []struct {
-		key string
-		v   any
-	}{
+	return encodeLines(w, []field{
 		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"facing_fields", doc.Fields},
-	}
-	ew.printf("{\n")
-	for _, h := range head {
-		b, err := compactJSON(h.v)
-		if err != nil {
-			return err
-		}
-		ew.printf("  %q: %s,\n", h.key, b)
-	}
-	ew.printf("  \"flanges\": [")
-	for i := range doc.Flanges {
-		b, err := compactJSON(&doc.Flanges[i])
-		if err != nil {
-			return err
-		}
-		sep := ","
-		if i == len(doc.Flanges)-1 {
-			sep = ""
-		}
-		ew.printf("\n    %s%s", b, sep)
-	}
-	if len(doc.Flanges) > 0 {
-		ew.printf("\n  ")
-	}
-	ew.printf("]\n}\n")
-	return ew.err
+	}, "flanges", doc.Flanges)
 }
 
 // DecodeFlanges reads a flanges document; name is the file's name, for
