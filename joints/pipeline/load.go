@@ -71,9 +71,9 @@ type Inputs struct {
 	// Tags names the free tag columns of each joint list that has some.
 	Tags []joints.ListTags
 	// Connectors are the connector files a check read, as given; they
-	// enter the run id with their bytes' SHA-256.
+	// enter the run id with their bytes' digest.
 	Connectors []string
-	// sums holds the SHA-256 of every input file, taken as it was read
+	// sums holds the digest of every input file, taken as it was read
 	// (LoadForSet); nil after Load.
 	sums *inputSums
 	// index, when set, is the spatial index BuildConnectors uses instead
