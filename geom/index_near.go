@@ -2,7 +2,8 @@ package geom
 
 import (
 	"math"
-	"math/bits"
+	mbits "math/bits"
+	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -35,14 +36,17 @@ func (t *packedTree) remap(list []int32) {
 // elements. A connector build, whose queries all stay near the joints,
 // thus indexes a few per cent of a large body instead of all of it.
 //
-// Elements are selected in one pass through a bitmap of grid cells that
-// lie within margin of a point, so the cost is linear in the mesh and the
-// result does not depend on the order of the points.
+// Elements are selected in one pass over the mesh: a bitmap of grid
+// cells that lie within margin of a point rejects the far ones, and the
+// points listed in an element's cells decide exactly (the distance from
+// each point to the element's box), so the cost is linear in the mesh
+// and the result does not depend on the order of the points. The boxes
+// found on the way are those the tree is built from.
 func NewIndexNear(m *Mesh, pts []r3.Vec, margin float64, withNodes bool) *Index {
-	sel := nearElements(m, pts, margin)
+	sel, boxes := nearElements(m, pts, margin)
 	x := &Index{m: m, nodes: packedTree{level: []int{0, 0}}}
 	if !withNodes {
-		x.elems = newPackedTree(subsetItems{elemItems{m}, sel})
+		x.elems = newPackedTreeOf(boxes)
 		x.elems.remap(sel)
 		return x
 	}
@@ -61,15 +65,16 @@ func NewIndexNear(m *Mesh, pts []r3.Vec, margin float64, withNodes bool) *Index 
 		x.nodes = newPackedTree(subsetItems{nodeItems{m.Coords}, nodes})
 		x.nodes.remap(nodes)
 	})
-	x.elems = newPackedTree(subsetItems{elemItems{m}, sel})
+	x.elems = newPackedTreeOf(boxes)
 	x.elems.remap(sel)
 	wg.Wait()
 	return x
 }
 
 // nearElements returns, in increasing order, the elements whose bounding
-// box lies within margin of a point (and possibly a few more).
-func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
+// box lies within margin of a point, and their boxes in float32
+// (box32Of) in the same order.
+func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, []box32) {
 	var finitePts []r3.Vec
 	for _, p := range pts {
 		if finite(p.X) && finite(p.Y) && finite(p.Z) {
@@ -77,98 +82,174 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) []int32 {
 		}
 	}
 	if len(finitePts) == 0 || !(margin >= 0) || math.IsInf(margin, 0) {
-		return nil
+		return nil, nil
 	}
-	// The grid spans the points' box grown by margin; its cells are at
-	// least half the margin wide, coarser if the grid would be too large.
-	// Around each point it marks the cells that come within margin of it
-	// (with a little slack against rounding), a ball of cells rather than
-	// a cube: the fewer elements the index holds, the faster it builds.
-	// An element within margin of a point has a spot of its box within
-	// margin, in a cell that is marked.
-	lo, hi := finitePts[0], finitePts[0]
-	for _, p := range finitePts {
-		lo = r3.Vec{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
-		hi = r3.Vec{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y), Z: math.Max(hi.Z, p.Z)}
-	}
-	lo = r3.Sub(lo, r3.Vec{X: margin, Y: margin, Z: margin})
-	hi = r3.Add(hi, r3.Vec{X: margin, Y: margin, Z: margin})
-	ext := r3.Sub(hi, lo)
-	size := math.Max(margin/2, 1e-9*math.Max(ext.X, math.Max(ext.Y, ext.Z)))
-	const maxCells = 1 << 27
-	var nx, ny, nz int
-	for {
-		nx, ny, nz = int(ext.X/size)+1, int(ext.Y/size)+1, int(ext.Z/size)+1
-		if float64(nx)*float64(ny)*float64(nz) <= maxCells {
-			break
-		}
-		size *= 2
-	}
-	cell := func(v, o float64, n int) int { return min(n-1, max(0, int((v-o)/size))) }
-	// gap is the distance along an axis from v to cell i of the axis
-	// starting at o.
-	gap := func(v, o float64, i int) float64 {
-		a := o + float64(i)*size
-		return math.Max(0, math.Max(a-v, v-(a+size)))
-	}
-	marked := make([]uint64, (nx*ny*nz+63)/64)
-	reach := int(math.Ceil(margin/size)) + 1
-	limit := margin + 1e-6*size
-	for _, p := range finitePts {
-		cx, cy, cz := cell(p.X, lo.X, nx), cell(p.Y, lo.Y, ny), cell(p.Z, lo.Z, nz)
-		for i := max(0, cx-reach); i <= min(nx-1, cx+reach); i++ {
-			dx := gap(p.X, lo.X, i)
-			for j := max(0, cy-reach); j <= min(ny-1, cy+reach); j++ {
-				dy := gap(p.Y, lo.Y, j)
-				for k := max(0, cz-reach); k <= min(nz-1, cz+reach); k++ {
-					if dz := gap(p.Z, lo.Z, k); dx*dx+dy*dy+dz*dz > limit*limit {
-						continue
-					}
-					c := (i*ny+j)*nz + k
-					marked[c/64] |= 1 << (c % 64)
-				}
-			}
-		}
-	}
+	g := newPointGrid(finitePts, margin)
 	// Blocks of elements are scanned concurrently, each marking its
-	// elements in a bit set (a block covers whole words), which is then
-	// read in element order: the selection comes out in increasing
-	// element order, in an array of its exact size.
+	// elements in a bit set (a block covers whole words) and counting
+	// them; a second pass computes the chosen elements' boxes again
+	// straight into their place (cheaper than growing lists), so the
+	// selection comes out in increasing element order, in arrays of their
+	// exact size.
 	ne := m.NumElems()
 	chosen := make([]uint64, (ne+63)/64)
+	counts := make([]int, (ne+parallelBlock-1)/parallelBlock+1)
 	parallelBlocks(ne, func(from, to int) {
+		n := 0
 		for e := from; e < to; e++ {
-			blo, bhi := elemBox(m, e)
-			if bhi.X < lo.X || blo.X > hi.X || bhi.Y < lo.Y || blo.Y > hi.Y || bhi.Z < lo.Z || blo.Z > hi.Z {
-				continue
+			if g.near(elemBox(m, e)) {
+				chosen[e/64] |= 1 << (e % 64)
+				n++
 			}
-			i0, i1 := cell(blo.X, lo.X, nx), cell(bhi.X, lo.X, nx)
-			j0, j1 := cell(blo.Y, lo.Y, ny), cell(bhi.Y, lo.Y, ny)
-			k0, k1 := cell(blo.Z, lo.Z, nz), cell(bhi.Z, lo.Z, nz)
-		scan:
-			for i := i0; i <= i1; i++ {
-				for j := j0; j <= j1; j++ {
-					for k := k0; k <= k1; k++ {
-						c := (i*ny+j)*nz + k
-						if marked[c/64]&(1<<(c%64)) != 0 {
-							chosen[e/64] |= 1 << (e % 64)
-							break scan
-						}
-					}
-				}
+		}
+		counts[from/parallelBlock+1] = n
+	})
+	for b := 1; b < len(counts); b++ {
+		counts[b] += counts[b-1]
+	}
+	sel := make([]int32, counts[len(counts)-1])
+	boxes := make([]box32, len(sel))
+	parallelBlocks(ne, func(from, to int) {
+		k := counts[from/parallelBlock]
+		for wi := from / 64; wi < (to+63)/64; wi++ {
+			for w := chosen[wi]; w != 0; w &= w - 1 {
+				e := wi*64 + mbits.TrailingZeros64(w)
+				sel[k] = int32(e)
+				boxes[k] = box32Of(elemBox(m, e))
+				k++
 			}
 		}
 	})
-	count := 0
-	for _, w := range chosen {
-		count += bits.OnesCount64(w)
+	return sel, boxes
+}
+
+// pointGrid answers "does this box come within margin of one of the
+// points" in about constant time: a grid spanning the points' box grown
+// by margin, its cells at least half the margin wide (coarser if the grid
+// would be too large), a bitmap of the cells that come within margin of
+// a point (a ball of cells round each, with a little slack against
+// rounding) and, per marked cell, the points whose ball marked it. A box
+// within margin of a point has its spot nearest the point in a cell
+// that point marked, so testing the points listed in the box's cells
+// finds it.
+type pointGrid struct {
+	pts        []r3.Vec
+	lo, hi     r3.Vec
+	size       float64
+	nx, ny, nz int
+	lim2       float64 // margin squared, with slack against rounding
+	marked     []uint64
+	wordRank   []int32 // marked cells before each word of marked
+	start      []int32 // points of marked cell r: list[start[r]:start[r+1]]
+	list       []int32
+}
+
+func newPointGrid(pts []r3.Vec, margin float64) *pointGrid {
+	g := &pointGrid{pts: pts}
+	lo, hi := pts[0], pts[0]
+	for _, p := range pts {
+		lo = r3.Vec{X: math.Min(lo.X, p.X), Y: math.Min(lo.Y, p.Y), Z: math.Min(lo.Z, p.Z)}
+		hi = r3.Vec{X: math.Max(hi.X, p.X), Y: math.Max(hi.Y, p.Y), Z: math.Max(hi.Z, p.Z)}
 	}
-	sel := make([]int32, 0, count)
-	for wi, w := range chosen {
-		for w != 0 {
-			sel = append(sel, int32(wi*64+bits.TrailingZeros64(w)))
-			w &= w - 1
+	g.lo = r3.Sub(lo, r3.Vec{X: margin, Y: margin, Z: margin})
+	g.hi = r3.Add(hi, r3.Vec{X: margin, Y: margin, Z: margin})
+	ext := r3.Sub(g.hi, g.lo)
+	g.size = math.Max(margin/2, 1e-9*math.Max(ext.X, math.Max(ext.Y, ext.Z)))
+	const maxCells = 1 << 27
+	for {
+		g.nx, g.ny, g.nz = int(ext.X/g.size)+1, int(ext.Y/g.size)+1, int(ext.Z/g.size)+1
+		if float64(g.nx)*float64(g.ny)*float64(g.nz) <= maxCells {
+			break
+		}
+		g.size *= 2
+	}
+	limit := margin * (1 + 1e-9)
+	g.lim2 = limit * limit
+	cellLimit := margin + 1e-6*g.size
+	g.marked = make([]uint64, (g.nx*g.ny*g.nz+63)/64)
+	reach := int(math.Ceil(margin/g.size)) + 1
+	// ball calls fn on every cell that comes within margin of p.
+	ball := func(p r3.Vec, fn func(c int)) {
+		cx, cy, cz := g.cell(p.X, g.lo.X, g.nx), g.cell(p.Y, g.lo.Y, g.ny), g.cell(p.Z, g.lo.Z, g.nz)
+		for i := max(0, cx-reach); i <= min(g.nx-1, cx+reach); i++ {
+			dx := g.gap(p.X, g.lo.X, i)
+			for j := max(0, cy-reach); j <= min(g.ny-1, cy+reach); j++ {
+				dy := g.gap(p.Y, g.lo.Y, j)
+				for k := max(0, cz-reach); k <= min(g.nz-1, cz+reach); k++ {
+					if dz := g.gap(p.Z, g.lo.Z, k); dx*dx+dy*dy+dz*dz <= cellLimit*cellLimit {
+						fn((i*g.ny+j)*g.nz + k)
+					}
+				}
+			}
 		}
 	}
-	return sel
+	for _, p := range pts {
+		ball(p, func(c int) { g.marked[c/64] |= 1 << (c % 64) })
+	}
+	g.wordRank = make([]int32, len(g.marked)+1)
+	for w, bits := range g.marked {
+		g.wordRank[w+1] = g.wordRank[w] + int32(mbits.OnesCount64(bits))
+	}
+	g.start = make([]int32, g.wordRank[len(g.marked)]+1)
+	for _, p := range pts {
+		ball(p, func(c int) { g.start[g.rank(c)+1]++ })
+	}
+	for r := 1; r < len(g.start); r++ {
+		g.start[r] += g.start[r-1]
+	}
+	g.list = make([]int32, g.start[len(g.start)-1])
+	fill := slices.Clone(g.start[:len(g.start)-1])
+	for i, p := range pts {
+		ball(p, func(c int) {
+			r := g.rank(c)
+			g.list[fill[r]] = int32(i)
+			fill[r]++
+		})
+	}
+	return g
+}
+
+// cell returns the cell along an axis starting at o with n cells that
+// holds v (the end cells for values beyond).
+func (g *pointGrid) cell(v, o float64, n int) int { return min(n-1, max(0, int((v-o)/g.size))) }
+
+// gap is the distance along an axis from v to cell i of the axis
+// starting at o.
+func (g *pointGrid) gap(v, o float64, i int) float64 {
+	a := o + float64(i)*g.size
+	return math.Max(0, math.Max(a-v, v-(a+g.size)))
+}
+
+// rank returns the index of marked cell c among the marked cells.
+func (g *pointGrid) rank(c int) int {
+	w := c / 64
+	return int(g.wordRank[w]) + mbits.OnesCount64(g.marked[w]&(1<<(c%64)-1))
+}
+
+// near reports whether the box [blo, bhi] comes within margin of a point
+// (false for an empty box).
+func (g *pointGrid) near(blo, bhi r3.Vec) bool {
+	if bhi.X < g.lo.X || blo.X > g.hi.X || bhi.Y < g.lo.Y || blo.Y > g.hi.Y || bhi.Z < g.lo.Z || blo.Z > g.hi.Z {
+		return false
+	}
+	i0, i1 := g.cell(blo.X, g.lo.X, g.nx), g.cell(bhi.X, g.lo.X, g.nx)
+	j0, j1 := g.cell(blo.Y, g.lo.Y, g.ny), g.cell(bhi.Y, g.lo.Y, g.ny)
+	k0, k1 := g.cell(blo.Z, g.lo.Z, g.nz), g.cell(bhi.Z, g.lo.Z, g.nz)
+	for i := i0; i <= i1; i++ {
+		for j := j0; j <= j1; j++ {
+			for k := k0; k <= k1; k++ {
+				c := (i*g.ny+j)*g.nz + k
+				if g.marked[c/64]&(1<<(c%64)) == 0 {
+					continue
+				}
+				r := g.rank(c)
+				for _, pi := range g.list[g.start[r]:g.start[r+1]] {
+					if boxDist2(blo, bhi, g.pts[pi]) <= g.lim2 {
+						return true
+					}
+				}
+			}
+		}
+	}
+	return false
 }

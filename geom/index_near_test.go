@@ -71,3 +71,51 @@ func TestIndexNearWithoutNodes(t *testing.T) {
 		t.Fatal("element query found nothing")
 	}
 }
+
+// nearElements selects exactly the elements whose box comes within the
+// margin of a point (brute force over every element and point is the
+// reference), with their float32 boxes, whatever the margin: small
+// against the elements, large, or so large that the grid coarsens.
+func TestNearElementsExact(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	meshes := []*Mesh{gridMesh(60, 40, 2.5, 1.5), soupMesh(rng, 3000)}
+	for mi, m := range meshes {
+		for _, tc := range []struct {
+			name   string
+			npts   int
+			margin float64
+		}{
+			{"no margin", 30, 0},
+			{"below the element size", 30, 0.7},
+			{"a few elements", 20, 6},
+			{"most of the model", 5, 40},
+			{"one point", 1, 3},
+		} {
+			pts := make([]r3.Vec, tc.npts)
+			for i := range pts {
+				c := m.Coords[rng.IntN(len(m.Coords))]
+				pts[i] = r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
+			}
+			sel, boxes := nearElements(m, pts, tc.margin)
+			var want []int32
+			for e := range m.NumElems() {
+				lo, hi := elemBox(m, e)
+				for _, p := range pts {
+					if boxDist2(lo, hi, p) <= tc.margin*tc.margin {
+						want = append(want, int32(e))
+						break
+					}
+				}
+			}
+			if !slices.Equal(sel, want) {
+				t.Errorf("mesh %d, %s: %d elements selected, want %d", mi, tc.name, len(sel), len(want))
+				continue
+			}
+			for i, e := range sel {
+				if boxes[i] != box32Of(elemBox(m, int(e))) {
+					t.Fatalf("mesh %d, %s: box of element %d differs", mi, tc.name, e)
+				}
+			}
+		}
+	}
+}

@@ -153,8 +153,76 @@ func newPackedTree(items treeItems) packedTree {
 	if n == 0 {
 		return packedTree{level: []int{0, 0}}
 	}
-	// The levels' sizes, so that the item boxes are computed straight into
-	// the tree's array.
+	t := newLevels(n)
+	// Item boxes in input order, computed straight into the tree's array
+	// (they serve only for the codes), with the bounds of their centres.
+	// Blocks of items run concurrently; each item's box depends on the
+	// item alone and min/max merge in any order, so the result does not
+	// depend on the number of goroutines.
+	boxes := t.boxes[:n]
+	var c centreBounds
+	parallelBlocks(n, func(from, to int) {
+		var b centreBounds
+		b.reset()
+		for i := from; i < to; i++ {
+			lo, hi := items.Box(i)
+			boxes[i] = box32Of(lo, hi)
+			b.add(&boxes[i])
+		}
+		c.merge(&b)
+	})
+	t.ids = curveOrder(boxes, &c)
+
+	// Level 0: the item boxes in curve order, made again from the items
+	// in input order over the boxes in input order, which only served
+	// for the codes, each written to its rank on the curve (reading the
+	// items in curve order instead would chase one cache miss after
+	// another through the mesh); then the unions.
+	rank := make([]int32, n)
+	for i, id := range t.ids {
+		rank[id] = int32(i)
+	}
+	parallelBlocks(n, func(from, to int) {
+		for i := from; i < to; i++ {
+			boxes[rank[i]] = box32Of(items.Box(i))
+		}
+	})
+	t.unions()
+	return t
+}
+
+// newPackedTreeOf builds a packedTree over items whose boxes are given,
+// in item order (boxes[i] is item i's), as newPackedTree would over the
+// same boxes, without computing them again.
+func newPackedTreeOf(boxes []box32) packedTree {
+	n := len(boxes)
+	if n == 0 {
+		return packedTree{level: []int{0, 0}}
+	}
+	t := newLevels(n)
+	var c centreBounds
+	parallelBlocks(n, func(from, to int) {
+		var b centreBounds
+		b.reset()
+		for i := from; i < to; i++ {
+			b.add(&boxes[i])
+		}
+		c.merge(&b)
+	})
+	t.ids = curveOrder(boxes, &c)
+	level0 := t.boxes[:n]
+	parallelBlocks(n, func(from, to int) {
+		for i := from; i < to; i++ {
+			level0[i] = boxes[t.ids[i]]
+		}
+	})
+	t.unions()
+	return t
+}
+
+// newLevels returns a tree over n > 0 items with its levels' sizes set
+// and its boxes allocated.
+func newLevels(n int) packedTree {
 	t := packedTree{level: []int{0}}
 	total := 0
 	for c := n; ; c = (c + treeFan - 1) / treeFan {
@@ -165,40 +233,54 @@ func newPackedTree(items treeItems) packedTree {
 		}
 	}
 	t.boxes = make([]box32, total)
-	// Item boxes in input order, and the bounds of their centres.
-	// Blocks of items run concurrently; each item's box depends on the
-	// item alone and min/max merge in any order, so the result does not
-	// depend on the number of goroutines.
-	boxes := t.boxes[:n]
-	clo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
-	chi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
-	var mu sync.Mutex
-	parallelBlocks(n, func(from, to int) {
-		blo := [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
-		bhi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
-		for i := from; i < to; i++ {
-			lo, hi := items.Box(i)
-			b := box32Of(lo, hi)
-			boxes[i] = b
-			for k := range 3 {
-				c := (float64(b.lo[k]) + float64(b.hi[k])) / 2
-				blo[k], bhi[k] = minIgnoreNaN(blo[k], c), maxIgnoreNaN(bhi[k], c)
-			}
-		}
-		mu.Lock()
-		for k := range 3 {
-			clo[k], chi[k] = minIgnoreNaN(clo[k], blo[k]), maxIgnoreNaN(chi[k], bhi[k])
-		}
-		mu.Unlock()
-	})
-	// Morton codes of the centres, with one scale for all axes so that
-	// the curve's cells are cubes: a scale per axis would stretch the
-	// cells of a flat model.
+	return t
+}
+
+// centreBounds are the bounds of the centres of item boxes, merged from
+// blocks of items under a lock.
+type centreBounds struct {
+	mu     sync.Mutex
+	lo, hi [3]float64
+	set    bool
+}
+
+func (c *centreBounds) reset() {
+	c.lo = [3]float64{math.Inf(1), math.Inf(1), math.Inf(1)}
+	c.hi = [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
+	c.set = true
+}
+
+// add takes in the centre of box b (NaN bounds are ignored).
+func (c *centreBounds) add(b *box32) {
+	for k := range 3 {
+		m := (float64(b.lo[k]) + float64(b.hi[k])) / 2
+		c.lo[k], c.hi[k] = minIgnoreNaN(c.lo[k], m), maxIgnoreNaN(c.hi[k], m)
+	}
+}
+
+// merge takes in the bounds of a block.
+func (c *centreBounds) merge(b *centreBounds) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if !c.set {
+		c.reset()
+	}
+	for k := range 3 {
+		c.lo[k], c.hi[k] = minIgnoreNaN(c.lo[k], b.lo[k]), maxIgnoreNaN(c.hi[k], b.hi[k])
+	}
+}
+
+// curveOrder returns the items in the order of the Morton codes of their
+// box centres (stable: ties keep the item order), c the centres' bounds.
+func curveOrder(boxes []box32, c *centreBounds) []int32 {
+	n := len(boxes)
+	// One scale for all axes so that the curve's cells are cubes: a
+	// scale per axis would stretch the cells of a flat model.
 	// The resolution grows with n: a few cells per item along each axis.
 	bits := min(mortonBits, max(6, (mbits.Len(uint(n))+2)/3+4))
 	top := uint64(1)<<bits - 1
 	var scale float64
-	if d := max(chi[0]-clo[0], chi[1]-clo[1], chi[2]-clo[2]); d > 0 && !math.IsInf(d, 0) {
+	if d := max(c.hi[0]-c.lo[0], c.hi[1]-c.lo[1], c.hi[2]-c.lo[2]); d > 0 && !math.IsInf(d, 0) {
 		scale = float64(top) / d
 	}
 	codes := make([]uint64, n)
@@ -208,29 +290,18 @@ func newPackedTree(items treeItems) packedTree {
 			b := &boxes[i]
 			var q [3]uint64
 			for k := range 3 {
-				q[k] = quantize((float64(b.lo[k])+float64(b.hi[k]))/2, clo[k], scale, top)
+				q[k] = quantize((float64(b.lo[k])+float64(b.hi[k]))/2, c.lo[k], scale, top)
 			}
 			codes[i] = morton3(q[0], q[1], q[2])
 			ids[i] = int32(i)
 		}
 	})
 	radixSort(codes, ids, 3*bits)
-	t.ids = ids
+	return ids
+}
 
-	// Level 0: the item boxes in curve order, made again from the items
-	// in input order over the boxes in input order, which only served
-	// for the codes, each written to its rank on the curve (reading the
-	// items in curve order instead would chase one cache miss after
-	// another through the mesh); then the unions.
-	rank := make([]int32, n)
-	for i, id := range ids {
-		rank[id] = int32(i)
-	}
-	parallelBlocks(n, func(from, to int) {
-		for i := from; i < to; i++ {
-			boxes[rank[i]] = box32Of(items.Box(i))
-		}
-	})
+// unions fills the levels above 0 with the unions of their children.
+func (t *packedTree) unions() {
 	for l := 1; l+1 < len(t.level); l++ {
 		child := t.boxes[t.level[l-1]:t.level[l]]
 		for i := range t.level[l+1] - t.level[l] {
@@ -241,7 +312,6 @@ func newPackedTree(items treeItems) packedTree {
 			t.boxes[t.level[l]+i] = b
 		}
 	}
-	return t
 }
 
 // levels returns the number of levels; the root is node 0 of level

@@ -348,8 +348,25 @@ func MaxThickness(m *geom.Mesh) float64 {
 		}
 		return t
 	}
-	for e := range m.ElemIDs {
-		t = math.Max(t, m.Thickness(e))
+	// One tight pass over the elements' own thicknesses (a build asks
+	// for this several times over millions of elements); the elements
+	// without one (NaN) take their part's, as geom.Mesh.Thickness does.
+	var partUsed []bool
+	for e, v := range m.ElemThickness {
+		switch {
+		case v > t:
+			t = v
+		case v != v: // NaN
+			if partUsed == nil {
+				partUsed = make([]bool, len(m.Parts))
+			}
+			partUsed[m.ElemPart[e]] = true
+		}
+	}
+	for i, used := range partUsed {
+		if used {
+			t = math.Max(t, m.Parts[i].Thickness)
+		}
 	}
 	return t
 }

@@ -102,3 +102,15 @@ func BenchmarkIndex2M(b *testing.B) {
 		geom.NewIndex(md.Mesh)
 	}
 }
+
+// BenchmarkIndexNear2M measures building the index a build uses (the
+// elements within reach of 6,000 welds) on the same body.
+func BenchmarkIndexNear2M(b *testing.B) {
+	if testing.Short() {
+		b.Skip("2,000,000 elements")
+	}
+	md := synthModel(b, 2_000_000, 6000)
+	for b.Loop() {
+		IndexFor(md.Mesh, md.Joints, joints.BuildOptions{})
+	}
+}
