@@ -358,16 +358,27 @@ func encodeLines[T any](w io.Writer, head []field, listKey string, items []T) er
 		ew.printf("  %q: %s,\n", h.key, b)
 	}
 	ew.printf("  %q: [", listKey)
+	// One encoder and one buffer serve every item; once the first item
+	// is known, a writer that can grow (the bytes.Buffer a set renders
+	// into) is grown to about the whole list's size at once instead of
+	// doubling its way there.
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
 	for i := range items {
-		b, err := compactJSON(&items[i])
-		if err != nil {
+		buf.Reset()
+		buf.WriteString("\n    ")
+		if err := enc.Encode(&items[i]); err != nil {
 			return err
 		}
-		sep := ","
-		if i == len(items)-1 {
-			sep = ""
+		b := bytes.TrimRight(buf.Bytes(), "\n")
+		if i < len(items)-1 {
+			b = append(b, ',')
 		}
-		ew.printf("\n    %s%s", b, sep)
+		if g, ok := w.(interface{ Grow(int) }); ok && i == 0 {
+			g.Grow(len(b) * len(items) * 9 / 8)
+		}
+		ew.Write(b)
 	}
 	if len(items) > 0 {
 		ew.printf("\n  ")
