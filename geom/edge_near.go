@@ -1,6 +1,7 @@
 package geom
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -16,36 +17,41 @@ import (
 //
 // It needs no global edge table: an edge within r of q has every element
 // that uses it within r too (their bounding boxes hold the edge), so the
-// near elements suffice, and counting edge uses among them tells which
-// edges are free.
+// elements of near whose box lies within r of q suffice, and counting
+// edge uses among them tells which edges are free.
 func FreeEdgeDistance(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) float64 {
-	var lbuf [128]int32
-	var kbuf [512]uint64
-	local := lbuf[:0]
-	keys := kbuf[:0]
+	type edgeUse struct {
+		key uint64
+		e   int32
+		k   int32
+	}
+	var ubuf [256]edgeUse
+	uses := ubuf[:0]
+	r2 := r * r * pruneSlack
 	for _, e := range near {
 		if m.ElemPart[e] != pi {
 			continue
 		}
-		local = append(local, e)
+		if lo, hi := elemBox(m, int(e)); !(boxDist2(lo, hi, q) <= r2) {
+			continue
+		}
 		for k := range m.Type(int(e)).Corners() {
-			keys = append(keys, edgeKey(m.ElemEdge(int(e), k)))
+			uses = append(uses, edgeUse{edgeKey(m.ElemEdge(int(e), k)), e, int32(k)})
 		}
 	}
-	slices.Sort(keys)
+	slices.SortFunc(uses, func(a, b edgeUse) int { return cmp.Compare(a.key, b.key) })
 	best := math.Inf(1)
-	for _, e := range local {
-		for k := range m.Type(int(e)).Corners() {
-			ed := m.ElemEdge(int(e), k)
-			key := edgeKey(ed)
-			i, _ := slices.BinarySearch(keys, key)
-			if i+1 < len(keys) && keys[i+1] == key {
-				continue // shared by another element of the part
-			}
-			if d := m.EdgeDistance(ed, q); d <= r && d < best {
+	for i := 0; i < len(uses); {
+		j := i + 1
+		for j < len(uses) && uses[j].key == uses[i].key {
+			j++
+		}
+		if j == i+1 { // used by one element of the part only: free
+			if d := m.EdgeDistance(m.ElemEdge(int(uses[i].e), int(uses[i].k)), q); d <= r && d < best {
 				best = d
 			}
 		}
+		i = j
 	}
 	return best
 }

@@ -1,0 +1,75 @@
+package geom
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// freeEdgeDistanceAll is the reference for FreeEdgeDistance: every
+// element of the part in near counts the uses of its edges, whatever its
+// distance to q.
+func freeEdgeDistanceAll(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) float64 {
+	uses := map[uint64]int{}
+	for _, e := range near {
+		if m.ElemPart[e] == pi {
+			for k := range m.Type(int(e)).Corners() {
+				uses[edgeKey(m.ElemEdge(int(e), k))]++
+			}
+		}
+	}
+	best := math.Inf(1)
+	for _, e := range near {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for k := range m.Type(int(e)).Corners() {
+			ed := m.ElemEdge(int(e), k)
+			if uses[edgeKey(ed)] == 1 {
+				if d := m.EdgeDistance(ed, q); d <= r && d < best {
+					best = d
+				}
+			}
+		}
+	}
+	return best
+}
+
+// FreeEdgeDistance looks only at the elements within r of q: the answer
+// must be the one counting every near element's edges, on a grid of four
+// parts (their shared rows are free edges of both), on unconnected
+// elements of uneven size (every edge free, some collapsed) and with
+// radii from below an element to several.
+func TestFreeEdgeDistanceMatchesAllElements(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	for _, tc := range []struct {
+		name string
+		m    *Mesh
+	}{
+		{"grid of four parts", gridMesh(40, 40, 2.5, 1.5)},
+		{"unconnected elements", soupMesh(rng, 2000)},
+	} {
+		x := NewIndex(tc.m)
+		found := 0
+		for range 500 {
+			q := tc.m.Coords[rng.IntN(len(tc.m.Coords))]
+			q = r3.Add(q, r3.Vec{X: 3 * rng.NormFloat64(), Y: 3 * rng.NormFloat64(), Z: rng.NormFloat64()})
+			r := 0.5 + 20*rng.Float64()
+			near := x.ElemsNear(q, r+5*rng.Float64(), nil)
+			for pi := range int32(len(tc.m.Parts)) {
+				got, want := FreeEdgeDistance(tc.m, near, q, pi, r), freeEdgeDistanceAll(tc.m, near, q, pi, r)
+				if got != want && !(math.IsInf(got, 1) && math.IsInf(want, 1)) {
+					t.Fatalf("%s: q %v, r %g, part %d: %g, want %g", tc.name, q, r, pi, got, want)
+				}
+				if !math.IsInf(got, 1) {
+					found++
+				}
+			}
+		}
+		if found == 0 {
+			t.Errorf("%s: no free edge found within reach: the test tests nothing", tc.name)
+		}
+	}
+}
