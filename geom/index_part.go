@@ -26,10 +26,13 @@ const TieDistance = 1e-9
 // so the answer does not depend on the order of the elements in the mesh
 // or its files.
 //
-// Elements are visited in order of their bounding-box distance from p,
-// and an element whose box lies farther than its part's best projection
-// so far (plus TieDistance) is not projected: the box distance is a lower
-// bound of the distance to the element's surface. A query costs
+// Elements are visited in order of their bounding-box distance from p
+// (the index's box, rounded outwards), and an element whose box lies
+// farther than its part's best projection so far (plus TieDistance) is
+// not projected: the box distance is a lower bound of the distance to
+// the element's surface. The choice is made once the best distances are
+// final, so neither the order of the visits nor how tight the bounds are
+// changes the answer. A query costs
 // O(log n) plus the elements near p.
 func (x *Index) ClosestPerPart(p r3.Vec, r float64) []Projection {
 	q, r2, ok := query(p, r)
@@ -37,21 +40,17 @@ func (x *Index) ClosestPerPart(p r3.Vec, r float64) []Projection {
 		return nil
 	}
 	m := x.m
-	var buf [256]int32
-	cand := x.elems.appendWithin(buf[:0], &q, r2*pruneSlack)
-	if len(cand) == 0 {
-		return nil
-	}
 	type near struct {
-		d2 float64 // squared distance from p to the element's box
+		d2 float64 // squared distance from p to the element's box in the index
 		e  int32
 	}
-	list := make([]near, 0, len(cand))
-	for _, e := range cand {
-		lo, hi := elemBox(m, int(e))
-		if d2 := boxDist2(lo, hi, p); d2 <= r2*pruneSlack {
-			list = append(list, near{d2, e})
-		}
+	// The index's boxes (rounded outwards) give the lower bounds: no
+	// need to make the elements' boxes again.
+	var buf [256]near
+	list := buf[:0]
+	x.elems.within(&q, r2*pruneSlack, func(k int, d2 float64) { list = append(list, near{d2, x.elems.ids[k]}) })
+	if len(list) == 0 {
+		return nil
 	}
 	slices.SortFunc(list, func(a, b near) int {
 		return cmp.Or(cmp.Compare(a.d2, b.d2), cmp.Compare(m.ElemIDs[a.e], m.ElemIDs[b.e]))

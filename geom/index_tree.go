@@ -338,29 +338,37 @@ type treeRef struct {
 // squared distance r2 of p, in tree order. The float32 boxes are rounded
 // outwards, so callers apply their exact test to the result.
 func (t *packedTree) appendWithin(dst []int32, p *[3]float64, r2 float64) []int32 {
+	t.within(p, r2, func(k int, _ float64) { dst = append(dst, t.ids[k]) })
+	return dst
+}
+
+// within calls fn, in tree order, for every item whose float32 box lies
+// within squared distance r2 of p, with its index k in level 0 (the
+// item is ids[k]) and the squared distance d2 from p to that box: a
+// lower bound of the distance to the item itself.
+func (t *packedTree) within(p *[3]float64, r2 float64, fn func(k int, d2 float64)) {
 	if len(t.ids) == 0 {
-		return dst
+		return
 	}
 	var buf [8 * treeFan]treeRef
 	stack := buf[:0]
 	top := t.levels() - 1
-	if t.box(top, 0).dist2(p) > r2 {
-		return dst
+	if d2 := t.box(top, 0).dist2(p); d2 > r2 {
+		return
+	} else if top == 0 {
+		fn(0, d2)
+		return
 	}
 	stack = append(stack, treeRef{int32(top), 0})
 	for len(stack) > 0 {
 		n := stack[len(stack)-1]
 		stack = stack[:len(stack)-1]
-		if n.l == 0 {
-			dst = append(dst, t.ids[n.i])
-			continue
-		}
 		lo, hi := t.children(int(n.l), int(n.i))
 		if n.l == 1 {
 			items := t.boxes[lo:hi] // level 0 starts at 0
 			for j := range items {
-				if items[j].dist2(p) <= r2 {
-					dst = append(dst, t.ids[lo+j])
+				if d2 := items[j].dist2(p); d2 <= r2 {
+					fn(lo+j, d2)
 				}
 			}
 			continue
@@ -372,7 +380,6 @@ func (t *packedTree) appendWithin(dst []int32, p *[3]float64, r2 float64) []int3
 			}
 		}
 	}
-	return dst
 }
 
 // queued is a tree node waiting in a best-first search, with the squared
