@@ -43,38 +43,36 @@ func (t *packedTree) remap(list []int32) {
 // and the result does not depend on the order of the points. The boxes
 // found on the way are those the tree is built from.
 func NewIndexNear(m *Mesh, pts []r3.Vec, margin float64, withNodes bool) *Index {
-	sel, boxes := nearElements(m, pts, margin)
+	sel, elems := nearElements(m, pts, margin)
 	x := &Index{m: m, nodes: packedTree{level: []int{0, 0}}}
-	if !withNodes {
-		x.elems = newPackedTreeOf(boxes)
-		x.elems.remap(sel)
-		return x
-	}
-	used := make([]bool, m.NumNodes())
-	var nodes []int32
-	for _, e := range sel {
-		for _, n := range m.ElemNodes(int(e)) {
-			if !used[n] {
-				used[n] = true
-				nodes = append(nodes, n)
+	var wg sync.WaitGroup
+	if withNodes {
+		used := make([]bool, m.NumNodes())
+		var nodes []int32
+		for _, e := range sel {
+			for _, n := range m.ElemNodes(int(e)) {
+				if !used[n] {
+					used[n] = true
+					nodes = append(nodes, n)
+				}
 			}
 		}
+		wg.Go(func() {
+			x.nodes = newPackedTree(subsetItems{nodeItems{m.Coords}, nodes})
+			x.nodes.remap(nodes)
+		})
 	}
-	var wg sync.WaitGroup
-	wg.Go(func() {
-		x.nodes = newPackedTree(subsetItems{nodeItems{m.Coords}, nodes})
-		x.nodes.remap(nodes)
-	})
-	x.elems = newPackedTreeOf(boxes)
-	x.elems.remap(sel)
+	elems.sortItems()
+	elems.remap(sel)
+	x.elems = elems
 	wg.Wait()
 	return x
 }
 
 // nearElements returns, in increasing order, the elements whose bounding
-// box lies within margin of a point, and their boxes in float32
-// (box32Of) in the same order.
-func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, []box32) {
+// box lies within margin of a point, and a tree over them waiting for
+// sortItems: its item boxes (box32Of) filled in, in the same order.
+func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, packedTree) {
 	var finitePts []r3.Vec
 	for _, p := range pts {
 		if finite(p.X) && finite(p.Y) && finite(p.Z) {
@@ -82,15 +80,15 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, []box32) {
 		}
 	}
 	if len(finitePts) == 0 || !(margin >= 0) || math.IsInf(margin, 0) {
-		return nil, nil
+		return nil, packedTree{level: []int{0, 0}}
 	}
 	g := newPointGrid(finitePts, margin)
 	// Blocks of elements are scanned concurrently, each marking its
 	// elements in a bit set (a block covers whole words) and counting
 	// them; a second pass computes the chosen elements' boxes again
-	// straight into their place (cheaper than growing lists), so the
-	// selection comes out in increasing element order, in arrays of their
-	// exact size.
+	// straight into the tree's array (cheaper than growing lists and
+	// copying them), so the selection comes out in increasing element
+	// order, in arrays of their exact size.
 	ne := m.NumElems()
 	chosen := make([]uint64, (ne+63)/64)
 	counts := make([]int, (ne+parallelBlock-1)/parallelBlock+1)
@@ -108,7 +106,11 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, []box32) {
 		counts[b] += counts[b-1]
 	}
 	sel := make([]int32, counts[len(counts)-1])
-	boxes := make([]box32, len(sel))
+	if len(sel) == 0 {
+		return nil, packedTree{level: []int{0, 0}}
+	}
+	t := newLevels(len(sel))
+	boxes := t.boxes[:len(sel)]
 	parallelBlocks(ne, func(from, to int) {
 		k := counts[from/parallelBlock]
 		for wi := from / 64; wi < (to+63)/64; wi++ {
@@ -120,7 +122,7 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, []box32) {
 			}
 		}
 	})
-	return sel, boxes
+	return sel, t
 }
 
 // pointGrid answers "does this box come within margin of one of the

@@ -96,7 +96,8 @@ func TestNearElementsExact(t *testing.T) {
 				c := m.Coords[rng.IntN(len(m.Coords))]
 				pts[i] = r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
 			}
-			sel, boxes := nearElements(m, pts, tc.margin)
+			sel, tree := nearElements(m, pts, tc.margin)
+			boxes := tree.boxes[:len(sel)]
 			var want []int32
 			for e := range m.NumElems() {
 				lo, hi := elemBox(m, e)

@@ -191,15 +191,16 @@ func newPackedTree(items treeItems) packedTree {
 	return t
 }
 
-// newPackedTreeOf builds a packedTree over items whose boxes are given,
-// in item order (boxes[i] is item i's), as newPackedTree would over the
-// same boxes, without computing them again.
-func newPackedTreeOf(boxes []box32) packedTree {
-	n := len(boxes)
+// sortItems finishes a tree made by newLevels whose item boxes have been
+// filled in item order (boxes[i] is item i's): it puts them in curve
+// order in place, as newPackedTree would order the same boxes, and makes
+// the levels above.
+func (t *packedTree) sortItems() {
+	n := t.level[1]
 	if n == 0 {
-		return packedTree{level: []int{0, 0}}
+		return
 	}
-	t := newLevels(n)
+	boxes := t.boxes[:n]
 	var c centreBounds
 	parallelBlocks(n, func(from, to int) {
 		var b centreBounds
@@ -210,14 +211,27 @@ func newPackedTreeOf(boxes []box32) packedTree {
 		c.merge(&b)
 	})
 	t.ids = curveOrder(boxes, &c)
-	level0 := t.boxes[:n]
-	parallelBlocks(n, func(from, to int) {
-		for i := from; i < to; i++ {
-			level0[i] = boxes[t.ids[i]]
+	// Level 0 in place: box k becomes the box of item ids[k], cycle by
+	// cycle of the permutation, without a second array of boxes.
+	done := make([]uint64, (n+63)/64)
+	for k := range n {
+		if done[k/64]&(1<<(k%64)) != 0 {
+			continue
 		}
-	})
+		first := boxes[k]
+		j := k
+		for {
+			done[j/64] |= 1 << (j % 64)
+			src := int(t.ids[j])
+			if src == k {
+				boxes[j] = first
+				break
+			}
+			boxes[j] = boxes[src]
+			j = src
+		}
+	}
 	t.unions()
-	return t
 }
 
 // newLevels returns a tree over n > 0 items with its levels' sizes set
