@@ -12,8 +12,8 @@ import (
 // of part pi (an element edge that no other element of the part shares)
 // within radius r, or +Inf when there is none. The edges of second-order
 // elements are the curves through their midside nodes (Mesh.EdgeDistance). near must hold every
-// element within r of q (it may hold more), for example the answer of
-// Index.ElemsNear(q, r).
+// element within r of q (it may hold more, in any order), for example the
+// answer of Index.ElemsNear(q, r) or Index.CandidatesNear(q, r).
 //
 // It needs no global edge table: an edge within r of q has every element
 // that uses it within r too (their bounding boxes hold the edge), so the

@@ -41,7 +41,8 @@ func freeEdgeDistanceAll(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) f
 // must be the one counting every near element's edges, on a grid of four
 // parts (their shared rows are free edges of both), on unconnected
 // elements of uneven size (every edge free, some collapsed) and with
-// radii from below an element to several.
+// radii from below an element to several; with the near elements of
+// ElemsNear and with the rough candidates of CandidatesNear.
 func TestFreeEdgeDistanceMatchesAllElements(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 8))
 	for _, tc := range []struct {
@@ -59,9 +60,13 @@ func TestFreeEdgeDistanceMatchesAllElements(t *testing.T) {
 			r := 0.5 + 20*rng.Float64()
 			near := x.ElemsNear(q, r+5*rng.Float64(), nil)
 			for pi := range int32(len(tc.m.Parts)) {
-				got, want := FreeEdgeDistance(tc.m, near, q, pi, r), freeEdgeDistanceAll(tc.m, near, q, pi, r)
-				if got != want && !(math.IsInf(got, 1) && math.IsInf(want, 1)) {
-					t.Fatalf("%s: q %v, r %g, part %d: %g, want %g", tc.name, q, r, pi, got, want)
+				want := freeEdgeDistanceAll(tc.m, near, q, pi, r)
+				got := FreeEdgeDistance(tc.m, near, q, pi, r)
+				rough := FreeEdgeDistance(tc.m, x.CandidatesNear(q, r, nil), q, pi, r)
+				for _, g := range []float64{got, rough} {
+					if g != want && !(math.IsInf(g, 1) && math.IsInf(want, 1)) {
+						t.Fatalf("%s: q %v, r %g, part %d: %g (ElemsNear), %g (CandidatesNear), want %g", tc.name, q, r, pi, got, rough, want)
+					}
 				}
 				if !math.IsInf(got, 1) {
 					found++

@@ -139,6 +139,20 @@ func (x *Index) ElemsNear(p r3.Vec, r float64, dst []int32) []int32 {
 	return keep
 }
 
+// CandidatesNear appends to dst the elements whose box in the index
+// (ElemBox in single precision, rounded outwards) lies within distance r
+// of p, in no particular order, and returns the extended slice: every
+// element ElemsNear finds and possibly a few more, without its exact
+// test and sort, for a caller whose own test makes the order and the
+// few extra elements irrelevant (FreeEdgeDistance).
+func (x *Index) CandidatesNear(p r3.Vec, r float64, dst []int32) []int32 {
+	q, r2, ok := query(p, r)
+	if !ok {
+		return dst
+	}
+	return x.elems.appendWithin(dst, &q, r2*pruneSlack)
+}
+
 // ProjectNear projects p onto every element accepted by filter (nil
 // accepts all) whose surface lies within distance r of p, and returns the
 // projections sorted by distance, then element index.

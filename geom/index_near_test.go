@@ -120,3 +120,25 @@ func TestNearElementsExact(t *testing.T) {
 		}
 	}
 }
+
+// CandidatesNear holds every element ElemsNear finds, each once.
+func TestCandidatesNearHoldsElemsNear(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for _, m := range []*Mesh{gridMesh(50, 30, 2.5, 1.5), soupMesh(rng, 3000)} {
+		x := NewIndex(m)
+		for range 300 {
+			c := m.Coords[rng.IntN(len(m.Coords))]
+			p := r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
+			r := 10 * rng.Float64()
+			cand := slices.Sorted(slices.Values(x.CandidatesNear(p, r, nil)))
+			if len(slices.Compact(slices.Clone(cand))) != len(cand) {
+				t.Fatalf("p %v, r %g: an element found twice", p, r)
+			}
+			for _, e := range x.ElemsNear(p, r, nil) {
+				if _, ok := slices.BinarySearch(cand, e); !ok {
+					t.Fatalf("p %v, r %g: element %d of ElemsNear not a candidate", p, r, e)
+				}
+			}
+		}
+	}
+}

@@ -94,7 +94,9 @@ func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 		reach = math.Max(reach, s.Proj.Dist)
 	}
 	var nbuf [256]int32
-	near := x.ElemsNear(j.Point, reach+2*edgeLimit, nbuf[:0])
+	// FreeEdgeDistance makes its own test of every candidate: the rough
+	// candidates serve it as well as ElemsNear's, for less.
+	near := x.CandidatesNear(j.Point, reach+2*edgeLimit, nbuf[:0])
 	var fs []joints.Finding
 	for i := range st.Sheets {
 		s := &st.Sheets[i]
