@@ -55,7 +55,10 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	if prog == nil {
 		prog = geom.NoProgress{}
 	}
-	o = o.Defaults(joints.MaxThickness(m))
+	if o.Reach <= 0 {
+		o = o.Defaults(joints.MaxThickness(m)) // a pass over every element: only when needed
+	}
+	o = o.Defaults(0)
 	prog.Start("checking the welds", 0)
 	defer prog.Done()
 	// The set checks and the assembly checks are independent: run them
