@@ -528,8 +528,8 @@ func FuzzParseConnectors(f *testing.F) {
 }
 
 // foldedKeys reports whether data holds an object key that differs only
-// in case from a field name of names, which encoding/json matches and
-// the schema does not.
+// in case from a field name of names (all of them lower case), which
+// encoding/json matches and the schema does not.
 func foldedKeys(data []byte, names map[string]bool) bool {
 	dec := json.NewDecoder(bytes.NewReader(data))
 	type frame struct{ object, key bool }
@@ -541,7 +541,7 @@ func foldedKeys(data []byte, names map[string]bool) bool {
 		}
 		top := len(stack) - 1
 		if k, ok := tok.(string); ok && top >= 0 && stack[top].object && stack[top].key {
-			if !names[k] && names[strings.ToLower(k)] || names[k] != nameFold(names, k) {
+			if !names[k] && names[strings.ToLower(k)] {
 				return true
 			}
 			stack[top].key = false
@@ -562,16 +562,6 @@ func foldedKeys(data []byte, names map[string]bool) bool {
 			stack[top].key = true // a value done: a key comes next
 		}
 	}
-}
-
-// nameFold reports whether some name of names equals k but for case.
-func nameFold(names map[string]bool, k string) bool {
-	for n := range names {
-		if strings.EqualFold(n, k) {
-			return true
-		}
-	}
-	return false
 }
 
 // fieldNames returns the JSON names of the document's fields.
