@@ -629,3 +629,63 @@ func BenchmarkParseConnectors(b *testing.B) {
 		}
 	})
 }
+
+// exactFloat gives strconv.ParseFloat's value, bit for bit, wherever it
+// gives one: on numbers as Go writes them and on random digit strings
+// with points, exponents and leading and trailing zeros.
+func TestExactFloat(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	var cases []string
+	for range 200000 {
+		var s string
+		switch rng.IntN(3) {
+		case 0:
+			v := rng.NormFloat64() * math.Pow10(rng.IntN(30)-15)
+			s = strconv.FormatFloat(v, 'g', -1, 64)
+			if rng.IntN(2) == 0 {
+				s = strconv.FormatFloat(v, 'f', -1, 64)
+			}
+		default:
+			var b strings.Builder
+			if rng.IntN(2) == 0 {
+				b.WriteByte('-')
+			}
+			n := 1 + rng.IntN(20)
+			for k := range n {
+				if k == 0 && n > 1 {
+					b.WriteByte(byte('1' + rng.IntN(9)))
+				} else {
+					b.WriteByte(byte('0' + rng.IntN(10)))
+				}
+			}
+			if rng.IntN(2) == 0 {
+				b.WriteByte('.')
+				for range 1 + rng.IntN(20) {
+					b.WriteByte(byte('0' + rng.IntN(10)))
+				}
+			}
+			if rng.IntN(2) == 0 {
+				b.WriteString([]string{"e", "E", "e+", "e-", "E-"}[rng.IntN(5)])
+				b.WriteString(strconv.Itoa(rng.IntN(40)))
+			}
+			s = b.String()
+		}
+		cases = append(cases, s)
+	}
+	cases = append(cases, "0", "-0", "0.0", "-0.0e5", "1e22", "1e23", "123456789012345", "1234567890123456", "0.000000000000000000000001", "9007199254740993", "1e-22", "4.5e-23", "0e0")
+	fast := 0
+	for _, s := range cases {
+		want, err := strconv.ParseFloat(s, 64)
+		got, ok := exactFloat([]byte(s))
+		if !ok {
+			continue
+		}
+		fast++
+		if err != nil || math.Float64bits(got) != math.Float64bits(want) {
+			t.Fatalf("%s: %v (%x), strconv %v (%x, %v)", s, got, math.Float64bits(got), want, math.Float64bits(want), err)
+		}
+	}
+	if fast < len(cases)/4 {
+		t.Errorf("fast path taken for %d of %d numbers only", fast, len(cases))
+	}
+}

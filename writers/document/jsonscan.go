@@ -454,12 +454,86 @@ func (s *scanner) float(v *float64) {
 	if !s.ok() {
 		return
 	}
+	if f, ok := exactFloat(b); ok {
+		*v = f
+		return
+	}
 	f, err := strconv.ParseFloat(string(b), 64)
 	if err != nil {
 		s.fail(start, "number %s out of range", excerptBytes(b))
 		return
 	}
 	*v = f
+}
+
+// exactFloat returns the value of the JSON number b (checked against
+// the grammar) when it can be had exactly in one floating-point
+// operation: its significant digits make an integer m below 10^15 (so
+// below 2^53) and its decimal exponent e is within 22 of 0, so that m
+// and 10^|e| are exact float64s and m * 10^e (or m / 10^-e), rounded
+// once, is the correctly rounded value that strconv.ParseFloat gives
+// (the fast path of Clinger 1990, which strconv takes too, after a
+// slower scan of the digits). ok is false otherwise.
+func exactFloat(b []byte) (f float64, ok bool) {
+	i, neg := 0, false
+	if b[0] == '-' {
+		i, neg = 1, true
+	}
+	var m uint64
+	digits, frac, point := 0, 0, false
+	for ; i < len(b); i++ {
+		c := b[i]
+		if c == '.' {
+			point = true
+			continue
+		}
+		if c < '0' || c > '9' {
+			break // the exponent
+		}
+		if point {
+			frac++
+		}
+		if m == 0 && c == '0' {
+			continue // a leading zero
+		}
+		if digits == 15 {
+			return 0, false
+		}
+		m = 10*m + uint64(c-'0')
+		digits++
+	}
+	e := -frac
+	if i < len(b) { // e or E, a sign, digits
+		i++
+		eneg := b[i] == '-'
+		if b[i] == '+' || b[i] == '-' {
+			i++
+		}
+		x := 0
+		for ; i < len(b); i++ {
+			if x = 10*x + int(b[i]-'0'); x > 1000 {
+				return 0, false
+			}
+		}
+		if eneg {
+			x = -x
+		}
+		e += x
+	}
+	f = float64(m)
+	switch {
+	case m == 0 || e == 0:
+	case e > 0 && e <= 22:
+		f *= math.Pow10(e)
+	case e < 0 && e >= -22:
+		f /= math.Pow10(-e)
+	default:
+		return 0, false
+	}
+	if neg {
+		f = -f
+	}
+	return f, true
 }
 
 // maxExactInt is 2^53: integers up to it are exact in a float64.
