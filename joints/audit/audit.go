@@ -99,8 +99,8 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 // collectWelds returns the welds to check, sorted by id: the built spot
 // connectors and the extra points whose ids no connector has.
 func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, o *joints.BuildOptions) []weld {
-	var ws []weld
-	ids := map[string]bool{}
+	ws := make([]weld, 0, len(conns)+len(extra))
+	ids := make(map[string]bool, len(conns))
 	for i := range conns {
 		c := &conns[i]
 		ids[c.Joint.ID] = true

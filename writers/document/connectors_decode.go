@@ -106,10 +106,6 @@ type connDecoder struct {
 	part    string
 	partIdx int
 
-	ints    []int64
-	floats  []float64
-	sheetsS []SheetDoc
-	linksS  []LinkDoc
 	intsA   arena[int64]
 	floatsA arena[float64]
 	sheetA  arena[SheetDoc]
@@ -402,19 +398,33 @@ func (d *connDecoder) idRange(r *IDRange) {
 }
 
 func (d *connDecoder) connectors(doc *ConnectorsDoc) {
-	out := []ConnectorDoc{}
+	// Connectors are decoded into blocks of growing size, then copied
+	// once into one slice (a slice grown by append copies its large
+	// items several times over).
+	var blocks [][]ConnectorDoc
+	block := make([]ConnectorDoc, 0, 64)
+	n := 0
 	if !d.array(func() {
 		d.ws()
 		d.starts = append(d.starts, d.pos)
-		out = append(out, ConnectorDoc{})
-		d.cur, d.curIdx = &out[len(out)-1], len(out)-1
+		if len(block) == cap(block) {
+			blocks = append(blocks, block)
+			block = make([]ConnectorDoc, 0, 2*cap(block))
+		}
+		block = block[:len(block)+1]
+		d.cur, d.curIdx = &block[len(block)-1], n
 		d.connector(d.cur)
 		d.cur = nil
+		n++
 	}) {
 		if d.ok() {
 			doc.Connectors = nil
 		}
 		return
+	}
+	out := make([]ConnectorDoc, 0, n)
+	for _, b := range append(blocks, block) {
+		out = append(out, b...)
 	}
 	doc.Connectors = out
 }
@@ -518,55 +528,47 @@ func (d *connDecoder) connector(c *ConnectorDoc) {
 // int64s reads an array of integers into *v, in the arena (null sets
 // nil).
 func (d *connDecoder) int64s(v *[]int64) {
-	d.ints = d.ints[:0]
-	if !d.array(func() {
-		d.ints = append(d.ints, 0)
-		d.int64(&d.ints[len(d.ints)-1])
-	}) {
+	d.intsA.begin()
+	if !d.array(func() { d.int64(d.intsA.next()) }) {
 		if d.ok() {
 			*v = nil
 		}
 		return
 	}
-	*v = d.intsA.add(d.ints)
+	*v = d.intsA.end()
 }
 
 // float64s reads an array of numbers into *v, in the arena (null sets
 // nil).
 func (d *connDecoder) float64s(v *[]float64) {
-	d.floats = d.floats[:0]
-	if !d.array(func() {
-		d.floats = append(d.floats, 0)
-		d.float(&d.floats[len(d.floats)-1])
-	}) {
+	d.floatsA.begin()
+	if !d.array(func() { d.float(d.floatsA.next()) }) {
 		if d.ok() {
 			*v = nil
 		}
 		return
 	}
-	*v = d.floatsA.add(d.floats)
+	*v = d.floatsA.end()
 }
 
 func (d *connDecoder) sheets(c *ConnectorDoc) {
-	d.sheetsS = d.sheetsS[:0]
-	d.part = "sheet"
+	d.part, d.partIdx = "sheet", 0
 	defer func() { d.part = "" }()
+	d.sheetA.begin()
 	if !d.array(func() {
-		d.partIdx = len(d.sheetsS)
-		d.sheetsS = append(d.sheetsS, SheetDoc{})
-		d.sheet(len(d.sheetsS) - 1)
+		d.sheet(d.sheetA.next())
+		d.partIdx++
 	}) {
 		if d.ok() {
 			c.Sheets = nil
 		}
 		return
 	}
-	c.Sheets = d.sheetA.add(d.sheetsS)
+	c.Sheets = d.sheetA.end()
 }
 
-func (d *connDecoder) sheet(i int) {
+func (d *connDecoder) sheet(sh *SheetDoc) {
 	var seen uint64
-	sh := &d.sheetsS[i]
 	d.object(func(key []byte) {
 		switch string(key) {
 		case "part":
@@ -651,20 +653,19 @@ func (d *connDecoder) vecs(v *[]Vec) {
 }
 
 func (d *connDecoder) links(c *ConnectorDoc) {
-	d.linksS = d.linksS[:0]
-	d.part = "link"
+	d.part, d.partIdx = "link", 0
 	defer func() { d.part = "" }()
+	d.linkA.begin()
 	if !d.array(func() {
-		d.partIdx = len(d.linksS)
-		d.linksS = append(d.linksS, LinkDoc{})
-		d.link(&d.linksS[len(d.linksS)-1])
+		d.link(d.linkA.next())
+		d.partIdx++
 	}) {
 		if d.ok() {
 			c.Links = nil
 		}
 		return
 	}
-	c.Links = d.linkA.add(d.linksS)
+	c.Links = d.linkA.end()
 }
 
 func (d *connDecoder) link(l *LinkDoc) {

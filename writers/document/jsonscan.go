@@ -40,7 +40,6 @@ type scanner struct {
 	where  func() string
 	depth  int // objects and arrays open
 
-	strS []string // scratch for the strings of the array being read
 	strA arena[string]
 	// Arenas for the targets of pointer fields.
 	vecA   arena[Vec]
@@ -663,19 +662,14 @@ func (s *scanner) int64Ptr(v **int64) {
 // strings reads an array of strings into *v (null sets nil), in the
 // scanner's arena.
 func (s *scanner) strings(v *[]string) {
-	start := len(s.strS)
-	if !s.array(func() {
-		s.strS = append(s.strS, "")
-		s.str(&s.strS[len(s.strS)-1])
-	}) {
+	s.strA.begin()
+	if !s.array(func() { s.str(s.strA.next()) }) {
 		if s.ok() {
 			*v = nil
 		}
-		s.strS = s.strS[:start]
 		return
 	}
-	*v = s.strA.add(s.strS[start:])
-	s.strS = s.strS[:start]
+	*v = s.strA.end()
 }
 
 // stringMap reads an object of strings into *v, adding to the map there
@@ -731,30 +725,48 @@ func excerptBytes(b []byte) string {
 	return string(b)
 }
 
-// arena hands out slices of one large backing array, so that the many
-// short arrays of a large document (nodes, weights) cost a few
-// allocations instead of one each. Each slice is capped at its length,
-// so appending to it copies instead of overwriting its neighbour.
-type arena[T any] struct{ buf []T }
-
-// add returns a slice of the arena holding items.
-func (a *arena[T]) add(items []T) []T {
-	if len(items) > cap(a.buf)-len(a.buf) {
-		a.buf = make([]T, 0, max(4096, 2*len(items)))
-	}
-	if len(items) == 0 {
-		return []T{} // empty, not nil, as encoding/json gives []
-	}
-	n := len(a.buf)
-	a.buf = append(a.buf, items...)
-	return a.buf[n : n+len(items) : n+len(items)]
+// arena hands out slices of large backing arrays, so that the many
+// short arrays of a large document (nodes, weights, sheets) cost a few
+// allocations instead of one each, and are decoded in place. A run of
+// items (one array) is begun, extended item by item and ended; each run
+// is capped at its length, so appending to it copies instead of
+// overwriting its neighbour.
+type arena[T any] struct {
+	buf  []T
+	from int // where the current run starts in buf
 }
 
-// one returns a pointer to a new zero item of the arena.
-func (a *arena[T]) one() *T {
+// arenaChunk is the smallest backing array, in items.
+const arenaChunk = 2048
+
+// begin starts a run.
+func (a *arena[T]) begin() { a.from = len(a.buf) }
+
+// next returns a new zero item at the end of the current run; the
+// pointer is valid until the next call (a full backing array moves the
+// run into a new one).
+func (a *arena[T]) next() *T {
 	if len(a.buf) == cap(a.buf) {
-		a.buf = make([]T, 0, 1024)
+		run := a.buf[a.from:]
+		b := make([]T, len(run), max(arenaChunk, 2*len(run)))
+		copy(b, run)
+		a.buf, a.from = b, 0
 	}
 	a.buf = a.buf[:len(a.buf)+1]
 	return &a.buf[len(a.buf)-1]
+}
+
+// end returns the run's items: empty, not nil, for none, as
+// encoding/json gives [].
+func (a *arena[T]) end() []T {
+	if len(a.buf) == a.from {
+		return []T{}
+	}
+	return a.buf[a.from:len(a.buf):len(a.buf)]
+}
+
+// one returns a pointer to a new zero item (a run of one).
+func (a *arena[T]) one() *T {
+	a.begin()
+	return a.next()
 }
