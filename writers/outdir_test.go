@@ -567,7 +567,8 @@ func TestSetChecksRunIDs(t *testing.T) {
 	}
 }
 
-// ReadSet refuses a set that is not whole or not of one run.
+// ReadSet refuses a set that is not whole or not of one run, and so
+// does ReadSetFile, whichever file it keeps.
 func TestReadSetRefusesMixedSets(t *testing.T) {
 	base := t.TempDir()
 	a, b := filepath.Join(base, "a"), filepath.Join(base, "b")
@@ -590,27 +591,50 @@ func TestReadSetRefusesMixedSets(t *testing.T) {
 		{"mixed", func() { copyFile("report.txt") }, "report.txt: carries run id \"" + runB + "\", not the set's " + runA + ": the set is mixed"},
 		{"missing", func() { os.Remove(filepath.Join(a, "connectors.csv")) }, "connectors.csv: missing from the output set"},
 		{"changed", func() { os.WriteFile(filepath.Join(a, "report.txt"), []byte("joinery (run "+runA+") edited\n"), 0o644) }, "report.txt: not the file the set's marker lists"},
+		{"changed past the first read", func() {
+			p := filepath.Join(a, "connectors.json")
+			raw, _ := os.ReadFile(p)
+			raw[len(raw)-5] = 'q'
+			os.WriteFile(p, raw, 0o644)
+		}, "connectors.json: not the file the set's marker lists"},
 		{"no marker", func() { os.Remove(filepath.Join(a, document.SetMarker)) }, "not an output set of Joinery"},
 		{"no directory", func() { os.RemoveAll(a) }, "no such output directory"},
 	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			os.RemoveAll(a)
-			if err := WriteSet(a, testSet(runA, 1)); err != nil {
-				t.Fatal(err)
-			}
-			tt.change()
-			set, err := ReadSet(a)
-			if tt.want == "" {
-				if err != nil || set.Marker.RunID != runA || !bytes.Contains(set.Files["report.txt"], []byte(runA)) {
-					t.Fatalf("whole set: %v", err)
+	readers := []struct {
+		name string
+		read func(string) (*SetContents, error)
+		kept int // files kept of the whole set
+	}{
+		{"ReadSet", ReadSet, len(testSet(runA, 1).Files)},
+		{"ReadSetFile report.txt", func(d string) (*SetContents, error) { return ReadSetFile(d, "report.txt") }, 1},
+		{"ReadSetFile connectors.csv", func(d string) (*SetContents, error) { return ReadSetFile(d, "connectors.csv") }, 1},
+	}
+	for _, r := range readers {
+		for _, tt := range tests {
+			t.Run(r.name+"/"+tt.name, func(t *testing.T) {
+				os.RemoveAll(a)
+				// connectors.json larger than hashFile's buffer
+				if err := WriteSet(a, testSet(runA, 300<<10)); err != nil {
+					t.Fatal(err)
 				}
-				return
-			}
-			if err == nil || !strings.Contains(err.Error(), tt.want) || !errors.Is(err, geom.ErrInput) {
-				t.Fatalf("err %v\nwant an input error containing %q", err, tt.want)
-			}
-		})
+				tt.change()
+				set, err := r.read(a)
+				if tt.want == "" {
+					if err != nil || set.Marker.RunID != runA || len(set.Files) != r.kept {
+						t.Fatalf("whole set: %v", err)
+					}
+					for name, data := range set.Files {
+						if !bytes.Contains(data, []byte(runA)) {
+							t.Errorf("%s: %q", name, data)
+						}
+					}
+					return
+				}
+				if err == nil || !strings.Contains(err.Error(), tt.want) || !errors.Is(err, geom.ErrInput) {
+					t.Fatalf("err %v\nwant an input error containing %q", err, tt.want)
+				}
+			})
+		}
 	}
 }
 

@@ -39,9 +39,22 @@ type SetContents struct {
 // one. Errors are input errors naming the file (geom.ErrInput): the set
 // is the input of the command that reads it.
 func ReadSet(dir string) (*SetContents, error) {
-	set, err := readSetOnce(dir)
+	return readSet(dir, func(string) bool { return true })
+}
+
+// ReadSetFile checks the output set in dir as ReadSet does and returns
+// it with the bytes of its file name alone in Files: the other files
+// are hashed as they are read, through a small buffer, and not kept (a
+// check that reads a build's connectors.json needs neither the memory
+// nor the fresh pages of the set's other files).
+func ReadSetFile(dir, name string) (*SetContents, error) {
+	return readSet(dir, func(n string) bool { return n == name })
+}
+
+func readSet(dir string, keep func(name string) bool) (*SetContents, error) {
+	set, err := readSetOnce(dir, keep)
 	if errors.Is(err, errSetGone) {
-		set, err = readSetOnce(dir)
+		set, err = readSetOnce(dir, keep)
 	}
 	if errors.Is(err, errSetGone) {
 		return nil, geom.FileError(dir, "the output set keeps changing while it is read (another run is writing it); read it again when that run is done")
@@ -62,7 +75,7 @@ func CheckSet(dir string) (*document.SetDoc, error) {
 // errSetGone says a set was removed while being read.
 var errSetGone = errors.New("set removed while read")
 
-func readSetOnce(dir string) (*SetContents, error) {
+func readSetOnce(dir string, keep func(name string) bool) (*SetContents, error) {
 	root, err := os.OpenRoot(dir)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, geom.FileError(dir, "no such output directory")
@@ -78,14 +91,10 @@ func readSetOnce(dir string) (*SetContents, error) {
 		fd, err2 := os.Stat(dir)
 		return err1 != nil || err2 != nil || !os.SameFile(fr, fd)
 	}
-	open := func(name string) ([]byte, error) {
-		f, err := root.Open(name)
-		if err != nil {
-			return nil, err
-		}
-		defer f.Close()
-		return io.ReadAll(f)
-	}
+	// ReadFile sizes its buffer from the file's size (io.ReadAll grows
+	// its own step by step, copying and clearing several times the size
+	// of a set's large files).
+	open := root.ReadFile
 	markerName := filepath.Join(dir, document.SetMarker)
 	raw, err := open(document.SetMarker)
 	if errors.Is(err, fs.ErrNotExist) {
@@ -108,12 +117,24 @@ func readSetOnce(dir string) (*SetContents, error) {
 		return nil, geom.FileError(markerName, "run_id %q is not a run id", geom.Excerpt(marker.RunID))
 	}
 	set := &SetContents{Marker: marker, Files: make(map[string][]byte, len(marker.Files))}
+	var buf []byte // hashFile's, allocated on first use
 	for _, sf := range marker.Files {
 		name := filepath.Join(dir, sf.Name)
 		if sf.Name != filepath.Base(sf.Name) || sf.Name == document.SetMarker {
 			return nil, geom.FileError(markerName, "file name %q is not a file of the set", geom.Excerpt(sf.Name))
 		}
-		data, err := open(sf.Name)
+		var data []byte
+		var size int64
+		var sum [sha256.Size]byte
+		if keep(sf.Name) {
+			data, err = open(sf.Name)
+			size, sum = int64(len(data)), sha256.Sum256(data)
+		} else {
+			if buf == nil {
+				buf = make([]byte, 256<<10)
+			}
+			data, size, sum, err = hashFile(root, sf.Name, buf)
+		}
 		switch {
 		case errors.Is(err, fs.ErrNotExist):
 			if gone() {
@@ -126,11 +147,12 @@ func readSetOnce(dir string) (*SetContents, error) {
 		if id := document.FindRunID(data); id != marker.RunID {
 			return nil, geom.FileError(name, "carries run id %q, not the set's %s: the set is mixed", id, marker.RunID)
 		}
-		sum := sha256.Sum256(data)
-		if int64(len(data)) != sf.Bytes || hex.EncodeToString(sum[:]) != sf.SHA256 {
+		if size != sf.Bytes || hex.EncodeToString(sum[:]) != sf.SHA256 {
 			return nil, geom.FileError(name, "not the file the set's marker lists (size or SHA-256 differ): changed since run %s wrote it", marker.RunID)
 		}
-		set.Files[sf.Name] = data
+		if keep(sf.Name) {
+			set.Files[sf.Name] = data
+		}
 	}
 	for _, n := range marker.Sets {
 		if n.Name != filepath.Base(n.Name) || n.Name == document.SetMarker || n.Name == "." || n.Name == ".." || n.Name == "" {
@@ -160,4 +182,31 @@ func readSetOnce(dir string) (*SetContents, error) {
 		set.Sets[n.Name] = sub
 	}
 	return set, nil
+}
+
+// hashFile reads the file name of root through buf and returns its first document.RunIDHead bytes, its size and its
+// SHA-256.
+func hashFile(root *os.Root, name string, buf []byte) (head []byte, size int64, sum [sha256.Size]byte, err error) {
+	f, err := root.Open(name)
+	if err != nil {
+		return nil, 0, sum, err
+	}
+	defer f.Close()
+	h := sha256.New()
+	for {
+		n, err := f.Read(buf)
+		if len(head) < document.RunIDHead {
+			head = append(head, buf[:min(n, document.RunIDHead-len(head))]...)
+		}
+		h.Write(buf[:n])
+		size += int64(n)
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, 0, sum, err
+		}
+	}
+	h.Sum(sum[:0])
+	return head, size, sum, nil
 }

@@ -31,6 +31,7 @@ type buildOptions struct {
 	holeTol      float64
 	failOn       string
 	noHTML       bool
+	noCheck      bool
 	flags        *pflag.FlagSet
 }
 
@@ -56,6 +57,8 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.failOn, "fail-on", "error", "exit 1 when findings reach this level: error, warning, info or never")
 	fs.BoolVar(&o.noHTML, "no-html", false, "developer switch: leave report.html out, to measure what it costs")
 	_ = fs.MarkHidden("no-html")
+	fs.BoolVar(&o.noCheck, "no-check", false, "developer switch: leave the check step out, to measure what it costs")
+	_ = fs.MarkHidden("no-check")
 }
 
 // apply layers the flags the user set over the job's settings.
@@ -167,7 +170,7 @@ func runBuild(c *cobra.Command, o *buildOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
-	s.NoPage = o.noHTML
+	s.NoPage, s.NoCheck = o.noHTML, o.noCheck
 	out, err := pipeline.Build(c.Context(), job, s, g.env())
 	if err != nil {
 		return err

@@ -55,7 +55,10 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	if prog == nil {
 		prog = geom.NoProgress{}
 	}
-	o = o.Defaults(joints.MaxThickness(m))
+	if o.Reach <= 0 {
+		o = o.Defaults(joints.MaxThickness(m)) // a pass over every element: only when needed
+	}
+	o = o.Defaults(0)
 	prog.Start("checking the welds", 0)
 	defer prog.Done()
 	// The set checks and the assembly checks are independent: run them
@@ -96,8 +99,8 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 // collectWelds returns the welds to check, sorted by id: the built spot
 // connectors and the extra points whose ids no connector has.
 func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, o *joints.BuildOptions) []weld {
-	var ws []weld
-	ids := map[string]bool{}
+	ws := make([]weld, 0, len(conns)+len(extra))
+	ids := make(map[string]bool, len(conns))
 	for i := range conns {
 		c := &conns[i]
 		ids[c.Joint.ID] = true

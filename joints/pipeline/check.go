@@ -159,7 +159,7 @@ func readConnectorBytes(p string) ([]byte, string, error) {
 		}
 		return data, p, nil
 	}
-	set, err := writers.ReadSet(dir)
+	set, err := writers.ReadSetFile(dir, name)
 	if err != nil {
 		return nil, p, err
 	}
@@ -187,7 +187,7 @@ func parseConnectorFiles(paths []string) ([]connectorFile, error) {
 		cf := connectorFile{path: p, data: data}
 		switch ext := strings.ToLower(filepath.Ext(name)); ext {
 		case ".json":
-			if cf.doc, err = document.DecodeConnectors(bytes.NewReader(data), name); err != nil {
+			if cf.doc, err = document.ParseConnectors(data, name); err != nil {
 				return nil, err
 			}
 			if err = cf.doc.ToMillimetres(); err != nil {
@@ -222,14 +222,22 @@ func ReadConnectors(m *geom.Mesh, paths []string, o joints.BuildOptions, env Env
 
 // resolveConnectors turns connector files read into connectors of m.
 func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOptions, env Env) ([]joints.Connector, error) {
-	var conns []joints.Connector
+	n := 0
+	for fi := range files {
+		if files[fi].doc != nil {
+			n += len(files[fi].doc.Connectors)
+		} else {
+			n += len(files[fi].welds)
+		}
+	}
+	conns := make([]joints.Connector, 0, n)
 	// Where each id was first seen: its file and the index of the
 	// connector there (lines are looked up only for a message).
 	type place struct {
 		file *connectorFile
 		i    int
 	}
-	where := map[string]place{}
+	where := make(map[string]place, n)
 	lineOf := func(pl place) int {
 		if pl.file.doc != nil {
 			return pl.file.doc.ConnectorLine(pl.i)

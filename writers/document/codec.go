@@ -36,16 +36,25 @@ func decodeRaw(r io.Reader, name, schema string, version int, v any) ([]byte, er
 			return nil, jsonError(name, data, err)
 		}
 	}
-	switch {
-	case h.Schema != schema:
-		return nil, geom.FileError(name, "not a %s document (schema %q)", schema, geom.Excerpt(h.Schema))
-	case h.Version != version:
-		return nil, geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
+	if err := checkHeader(name, h, schema, version); err != nil {
+		return nil, err
 	}
 	if err := json.Unmarshal(data, v); err != nil {
 		return nil, jsonError(name, data, err)
 	}
 	return data, nil
+}
+
+// checkHeader refuses a document whose header h is not of the schema
+// and version asked for.
+func checkHeader(name string, h header, schema string, version int) error {
+	switch {
+	case h.Schema != schema:
+		return geom.FileError(name, "not a %s document (schema %q)", schema, geom.Excerpt(h.Schema))
+	case h.Version != version:
+		return geom.FileError(name, "%s version %d; this Joinery reads version %d", schema, h.Version, version)
+	}
+	return nil
 }
 
 // quickHeader reads the schema and version of a document from the

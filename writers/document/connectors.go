@@ -36,8 +36,9 @@ type ConnectorsDoc struct {
 	IDs        IDRange        `json:"new_ids"`
 	Connectors []ConnectorDoc `json:"connectors"`
 
-	raw   []byte // the file DecodeConnectors read, for ConnectorLine
-	lines []int  // line of each connector, found on first use
+	raw    []byte // the file ParseConnectors read, for ConnectorLine
+	starts []int  // byte offset of each connector in raw
+	lines  []int  // line of each connector, found on first use
 }
 
 // Units names the units of every number: lengths in the unit of the
@@ -396,18 +397,4 @@ func compactJSON(v any) ([]byte, error) {
 		return nil, err
 	}
 	return bytes.TrimRight(buf.Bytes(), "\n"), nil
-}
-
-// DecodeConnectors reads a connectors document written by
-// EncodeConnectors (or anything of the same schema and version); name is
-// the file's name, for errors. Unknown fields are ignored (see the
-// versioning rule).
-func DecodeConnectors(r io.Reader, name string) (*ConnectorsDoc, error) {
-	var doc ConnectorsDoc
-	raw, err := decodeRaw(r, name, ConnectorsSchema, ConnectorsVersion, &doc)
-	if err != nil {
-		return nil, err
-	}
-	doc.raw = raw
-	return &doc, nil
 }

@@ -2,7 +2,6 @@ package document
 
 import (
 	"bytes"
-	"encoding/json"
 	"fmt"
 	"math"
 	"runtime"
@@ -109,6 +108,13 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 		}
 		return n, nil
 	}
+	// Slices sized once: a document holds thousands of connectors.
+	if len(d.Sheets) > 0 {
+		c.Stack.Sheets = make([]joints.Sheet, 0, len(d.Sheets))
+	}
+	if len(d.Links) > 0 {
+		c.Links = make([]joints.Link, 0, len(d.Links))
+	}
 	for si, s := range d.Sheets {
 		if _, ok := m.PartIndex(s.Part); !ok {
 			return c, fmt.Errorf("sheet %d: part %d is not in the mesh", si, s.Part)
@@ -131,7 +137,7 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 		if len(s.Nodes) != len(s.Weights) || len(s.Nodes) == 0 {
 			return c, fmt.Errorf("sheet %d: %d nodes and %d weights", si, len(s.Nodes), len(s.Weights))
 		}
-		end := joints.End{Point: s.EndPoint.r3(), NodeIndex: -1, Weights: s.Weights}
+		end := joints.End{Point: s.EndPoint.r3(), NodeIndex: -1, Weights: s.Weights, Nodes: make([]int32, 0, len(s.Nodes))}
 		for _, id := range s.Nodes {
 			n, err := node(id)
 			if err != nil {
@@ -145,6 +151,10 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 			endID = *s.EndNode
 		case len(end.Nodes) == 1:
 			end.NodeIndex = end.Nodes[0]
+		}
+		if c.Ends == nil {
+			c.Ends = make([]joints.End, 0, len(d.Sheets))
+			c.EndIDs = make([]int64, 0, len(d.Sheets))
 		}
 		c.Ends = append(c.Ends, end)
 		c.EndIDs = append(c.EndIDs, endID)
@@ -238,59 +248,17 @@ func (v Vec) r3() r3.Vec { return r3.Vec{X: v[0], Y: v[1], Z: v[2]} }
 // document starts in its file, 0 when unknown. The lines are found on
 // first use, in one pass over the file.
 func (doc *ConnectorsDoc) ConnectorLine(i int) int {
-	if doc.lines == nil && doc.raw != nil {
-		doc.lines = connectorLines(doc.raw)
-		if doc.lines == nil {
-			doc.lines = []int{}
+	if doc.lines == nil && doc.starts != nil {
+		doc.lines = make([]int, len(doc.starts))
+		line, seen := 1, 0
+		for k, off := range doc.starts {
+			line += bytes.Count(doc.raw[seen:off], []byte("\n"))
+			seen = off
+			doc.lines[k] = line
 		}
 	}
 	if i < 0 || i >= len(doc.lines) {
 		return 0
 	}
 	return doc.lines[i]
-}
-
-// connectorLines walks a connectors document's tokens to the elements of
-// its "connectors" array and returns the line each starts on.
-func connectorLines(data []byte) []int {
-	dec := json.NewDecoder(bytes.NewReader(data))
-	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
-		return nil
-	}
-	var seen int64 // lines are counted up to here
-	line := 1
-	lineAt := func(off int64) int {
-		for off < int64(len(data)) && (data[off] == ' ' || data[off] == '\n' || data[off] == '\r' || data[off] == '\t' || data[off] == ',') {
-			off++
-		}
-		line += bytes.Count(data[seen:off], []byte("\n"))
-		seen = off
-		return line
-	}
-	for dec.More() {
-		key, err := dec.Token()
-		if err != nil {
-			return nil
-		}
-		if key != "connectors" {
-			var skip json.RawMessage
-			if dec.Decode(&skip) != nil {
-				return nil
-			}
-			continue
-		}
-		if t, err := dec.Token(); err != nil || t != json.Delim('[') {
-			return nil
-		}
-		var lines []int
-		for dec.More() {
-			lines = append(lines, lineAt(dec.InputOffset()))
-			var skip json.RawMessage
-			if dec.Decode(&skip) != nil {
-				return lines
-			}
-		}
-		return lines
-	}
-	return nil
 }

@@ -2,7 +2,11 @@ package html
 
 import (
 	"cmp"
+	"math"
+	"runtime"
 	"slices"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -49,26 +53,22 @@ const OutlineTolerance = 0.05
 // build the loops' bookkeeping (pieces, outlines) that a picture does
 // not need (BenchmarkOutline).
 func NewOutline(m *geom.Mesh) *Outline {
-	chains := partChains(m)
-	o := &Outline{Parts: make([]PartOutline, 0, len(m.Parts))}
-	order := make([]int, len(m.Parts))
-	for i := range order {
-		order[i] = i
-	}
-	slices.SortFunc(order, func(a, b int) int { return cmp.Compare(m.Parts[a].ID, m.Parts[b].ID) })
-	for _, pi := range order {
-		p := m.Parts[pi]
-		po := PartOutline{ID: p.ID, Name: p.Name, Chains: make([]Chain, len(chains[pi]))}
-		for k, nodes := range chains[pi] {
-			c := make(Chain, len(nodes))
-			for i, n := range nodes {
+	parts := make([]PartOutline, len(m.Parts))
+	eachPart(m, func(t *partTables, pi int, es []int32) {
+		nodes := t.nodeChains(m, es)
+		chains := make([]Chain, len(nodes))
+		for k, ns := range nodes {
+			c := make(Chain, len(ns))
+			for i, n := range ns {
 				c[i] = m.Coords[n]
 			}
-			po.Chains[k] = simplify3(c, OutlineTolerance)
+			chains[k] = simplify3(c, OutlineTolerance)
 		}
-		o.Parts = append(o.Parts, po)
-	}
-	return o
+		p := m.Parts[pi]
+		parts[pi] = PartOutline{ID: p.ID, Name: p.Name, Chains: chains}
+	})
+	slices.SortFunc(parts, func(a, b PartOutline) int { return cmp.Compare(a.ID, b.ID) })
+	return &Outline{Parts: parts}
 }
 
 // In returns the outline, whose points are in mm, in a unit of mm
@@ -94,12 +94,20 @@ func (o *Outline) In(mm float64) *Outline {
 }
 
 // partChains returns the free edges of every part of m (see NewOutline)
-// chained into polylines of node indices, indexed by part index. Each
-// part is done on its own with its nodes numbered locally, so that the
-// tables stay small enough for the processor's caches whatever the size
-// of the model.
+// chained into polylines of node indices, indexed by part index.
 func partChains(m *geom.Mesh) [][][]int32 {
-	// The elements of each part, in element order.
+	out := make([][][]int32, len(m.Parts))
+	eachPart(m, func(t *partTables, pi int, es []int32) { out[pi] = t.nodeChains(m, es) })
+	return out
+}
+
+// eachPart calls part for every part of m (its index and elements, in
+// element order) from GOMAXPROCS goroutines, each with its own working
+// tables. part must write only what belongs to its part, so that the
+// result does not depend on the schedule. Each part is done on its own,
+// with its nodes numbered locally, so that the tables stay small enough
+// for the processor's caches whatever the size of the model.
+func eachPart(m *geom.Mesh, part func(t *partTables, pi int, es []int32)) {
 	first := make([]int32, len(m.Parts)+1)
 	for _, p := range m.ElemPart {
 		first[p+1]++
@@ -113,56 +121,86 @@ func partChains(m *geom.Mesh) [][][]int32 {
 		elems[fill[p]] = int32(e)
 		fill[p]++
 	}
-	out := make([][][]int32, len(m.Parts))
-	local := make([]int32, m.NumNodes()) // node -> 1 + its local number in the current part, else 0
-	// Written before it is read: fresh memory first read maps a shared
-	// page of zeros, which every first write then replaces, and on a
-	// machine with other threads running each replacement stops them all
-	// (a flush of their address translations): 0.5 s on the
-	// 2,000,000-element body.
-	clear(local)
-	var t partTables
-	for pi := range m.Parts {
-		es := elems[first[pi]:first[pi+1]]
-		// Number the part's nodes locally, keep each element's local
-		// corners, and count the edges filed under each lower node (for
-		// freeEdges), in one pass over the part's elements.
-		t.global = t.global[:0]
-		t.start = append(t.start[:0], 0)
-		t.corners = grow(t.corners, 4*len(es))
-		for i, e := range es {
-			nodes := m.Conn[m.ElemStart[e]:m.ElemStart[e+1]]
-			nc := m.Type(int(e)).Corners()
-			c := t.corners[4*i : 4*i+4]
-			c[3] = -1
-			for k, n := range nodes[:nc] {
-				if local[n] == 0 {
-					t.global = append(t.global, n)
-					t.start = append(t.start, 0)
-					local[n] = int32(len(t.global))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(m.Parts)) {
+		wg.Go(func() {
+			var t partTables
+			for {
+				pi := int(next.Add(1) - 1)
+				if pi >= len(m.Parts) {
+					return
 				}
-				c[k] = local[n] - 1
+				part(&t, pi, elems[first[pi]:first[pi+1]])
 			}
-			prev := c[nc-1]
-			for _, n := range c[:nc] {
-				if n != prev { // collapsed edges bound nothing
-					t.start[min(n, prev)+1]++
-				}
-				prev = n
-			}
-		}
-		for _, n := range t.global {
-			local[n] = 0
-		}
-		t.freeEdges()
-		out[pi] = t.chains()
+		})
 	}
-	return out
+	wg.Wait()
+}
+
+// nodeChains returns the free edges of the part made of elements es
+// chained into polylines of node indices (see chains).
+func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
+	if len(es) == 0 {
+		return nil
+	}
+	// Number the part's nodes locally, through a table over the range
+	// of node indices the part uses (meshes number a part's nodes
+	// together, so the range is short); keep each element's local
+	// corners, and count the edges filed under each lower node (for
+	// freeEdges), in one pass over the part's elements.
+	lo, hi := int32(math.MaxInt32), int32(-1)
+	for _, e := range es {
+		for _, n := range m.Conn[m.ElemStart[e]:m.ElemStart[e+1]] {
+			lo, hi = min(lo, n), max(hi, n)
+		}
+	}
+	if r := int(hi-lo) + 1; len(t.local) < r {
+		// Zero, and written before it is read: fresh memory first read
+		// maps a shared page of zeros, which every first write then
+		// replaces, and on a machine with other threads running each
+		// replacement stops them all (a flush of their address
+		// translations).
+		t.local = make([]int32, r)
+		clear(t.local)
+	}
+	local := t.local[:hi-lo+1] // node - lo -> 1 + its local number, else 0
+	t.global = t.global[:0]
+	t.start = append(t.start[:0], 0)
+	t.corners = grow(t.corners, 4*len(es))
+	for i, e := range es {
+		nodes := m.Conn[m.ElemStart[e]:m.ElemStart[e+1]]
+		nc := m.Type(int(e)).Corners()
+		c := t.corners[4*i : 4*i+4]
+		c[3] = -1
+		for k, n := range nodes[:nc] {
+			l := &local[n-lo]
+			if *l == 0 {
+				t.global = append(t.global, n)
+				t.start = append(t.start, 0)
+				*l = int32(len(t.global))
+			}
+			c[k] = *l - 1
+		}
+		prev := c[nc-1]
+		for _, n := range c[:nc] {
+			if n != prev { // collapsed edges bound nothing
+				t.start[min(n, prev)+1]++
+			}
+			prev = n
+		}
+	}
+	for _, n := range t.global {
+		local[n-lo] = 0
+	}
+	t.freeEdges()
+	return t.chains()
 }
 
 // partTables are the working tables of one part, in local node numbers;
 // they are reused from part to part.
 type partTables struct {
+	local   []int32 // node index - the part's lowest -> 1 + local node, else 0
 	global  []int32 // local node -> node index
 	corners []int32 // 4 local corner nodes per element; the 4th is -1 for triangles
 	start   []int32 // edge buckets by lower node, then free-edge incidences by node

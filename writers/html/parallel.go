@@ -2,6 +2,7 @@ package html
 
 import (
 	"runtime"
+	"slices"
 	"sync"
 	"sync/atomic"
 )
@@ -38,6 +39,11 @@ func parallel(n int, fn func(i int)) {
 func writeAll(w *Writer, n int, part func(w *Writer, i int)) {
 	ws := make([]Writer, n)
 	parallel(n, func(i int) { part(&ws[i], i) })
+	size := len(w.b)
+	for i := range ws {
+		size += len(ws[i].b)
+	}
+	w.b = slices.Grow(w.b, size-len(w.b))
 	for i := range ws {
 		w.b = append(w.b, ws[i].b...)
 	}
