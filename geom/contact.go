@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"iter"
 	"math"
 	"slices"
 
@@ -109,7 +110,10 @@ type FacingPair struct {
 // in contact with another part, the facing node pairs, and the element
 // pairs they were found from, for further point tests (Probe).
 type Contacts struct {
-	x        *Index
+	// m is the mesh; Contacts keeps no reference to the index it was
+	// found with, so that the index can be let go when only the
+	// contacts are needed further on.
+	m        *Mesh
 	rule     ContactRule
 	cosLimit float64
 	elems    []int32    // elements with a partner, increasing
@@ -121,8 +125,12 @@ type Contacts struct {
 	nStart   []int32    // per mesh node n: its elements among elems
 	nElems   []int32
 	hosts    map[[2]int32]int32 // part pair (smaller index first) -> host part
-	records  []NodeContact      // host nodes in contact, sorted by node, part, other part
-	facing   []FacingPair
+	// records holds the host nodes in contact, sorted by node, part,
+	// other part, in blocks of parallelBlock nodes: records[b] those of
+	// nodes b*parallelBlock to (b+1)*parallelBlock-1. nrec counts them.
+	records [][]NodeContact
+	nrec    int
+	facing  []FacingPair
 }
 
 // ElemSize returns the size of element e, mm: the square root of its area
@@ -153,7 +161,7 @@ func FindContacts(ctx context.Context, x *Index, r ContactRule) (*Contacts, erro
 		return nil, err
 	}
 	m := x.m
-	c := &Contacts{x: x, rule: r, cosLimit: math.Cos(r.AngleLimit * math.Pi / 180)}
+	c := &Contacts{m: x.m, rule: r, cosLimit: math.Cos(r.AngleLimit * math.Pi / 180)}
 	tmax, outer := 0.0, false
 	for _, p := range m.Parts {
 		tmax = math.Max(tmax, p.Thickness)
@@ -216,7 +224,7 @@ func (c *Contacts) midOffset(e int32) (off, t float64) {
 			return c.info[i].off, c.info[i].t
 		}
 	}
-	m := c.x.m
+	m := c.m
 	t = m.Thickness(int(e))
 	return m.Part(int(e)).Surface.MidOffset(t), t
 }
@@ -229,21 +237,35 @@ func (c *Contacts) pairReach(a, b int32) float64 {
 	return (ta+tb)/2 + c.rule.Allowance(ta, tb) + math.Abs(oa) + math.Abs(ob)
 }
 
-// index builds the partner lists of the elements in pairs and the lists
-// of those elements per node.
-func (c *Contacts) index(pairs [][2]int32) {
-	m := c.x.m
+// index builds the partner lists of the elements in pairs (chunks of
+// pairs, see contactPairs) and the lists of those elements per node.
+func (c *Contacts) index(chunks [][][2]int32) {
+	m := c.m
 	ne, nn := m.NumElems(), m.NumNodes()
+	npairs := 0
 	deg := make([]int32, ne+1)
-	for _, p := range pairs {
-		deg[p[0]+1]++
-		deg[p[1]+1]++
+	for _, pairs := range chunks {
+		npairs += len(pairs)
+		for _, p := range pairs {
+			deg[p[0]+1]++
+			deg[p[1]+1]++
+		}
 	}
-	c.elemPos = make([]int32, ne)
-	c.pStart = []int32{0}
+	// The degrees become the positions in elems, in place (fresh memory
+	// is dear: this is one array fewer).
+	count := 0
+	for _, d := range deg[1:] {
+		if d > 0 {
+			count++
+		}
+	}
+	c.elemPos = deg[1:]
+	c.elems = make([]int32, 0, count)
+	c.pStart = make([]int32, 1, count+1)
 	for e := range ne {
+		d := c.elemPos[e]
 		c.elemPos[e] = -1
-		if d := deg[e+1]; d > 0 {
+		if d > 0 {
 			c.elemPos[e] = int32(len(c.elems))
 			c.elems = append(c.elems, int32(e))
 			c.pStart = append(c.pStart, c.pStart[len(c.pStart)-1]+d)
@@ -265,13 +287,15 @@ func (c *Contacts) index(pairs [][2]int32) {
 			c.info[i] = in
 		}
 	})
-	c.partners = make([]int32, 2*len(pairs))
+	c.partners = make([]int32, 2*npairs)
 	fill := make([]int32, len(c.elems))
-	for _, p := range pairs {
-		for k := range 2 {
-			i := c.elemPos[p[k]]
-			c.partners[c.pStart[i]+fill[i]] = p[1-k]
-			fill[i]++
+	for _, pairs := range chunks {
+		for _, p := range pairs {
+			for k := range 2 {
+				i := c.elemPos[p[k]]
+				c.partners[c.pStart[i]+fill[i]] = p[1-k]
+				fill[i]++
+			}
 		}
 	}
 	parallelBlocks(len(c.elems), func(from, to int) {
@@ -291,14 +315,17 @@ func (c *Contacts) index(pairs [][2]int32) {
 	for i := 1; i <= nn; i++ {
 		c.nStart[i] += c.nStart[i-1]
 	}
+	// Each node's start serves as its cursor while the lists fill (each
+	// ends at the next one's start), and is put back after.
 	c.nElems = make([]int32, c.nStart[nn])
-	nfill := make([]int32, nn)
 	for _, e := range c.elems {
 		for _, n := range m.ElemNodes(int(e)) {
-			c.nElems[c.nStart[n]+nfill[n]] = e
-			nfill[n]++
+			c.nElems[c.nStart[n]] = e
+			c.nStart[n]++
 		}
 	}
+	copy(c.nStart[1:], c.nStart[:nn])
+	c.nStart[0] = 0
 }
 
 // size returns ElemSize of element e, from the cache for candidate
@@ -307,7 +334,7 @@ func (c *Contacts) size(e int32) float64 {
 	if i := c.elemPos[e]; i >= 0 && c.info != nil {
 		return c.info[i].size
 	}
-	return c.x.m.ElemSize(int(e))
+	return c.m.ElemSize(int(e))
 }
 
 // normal returns the normal of element e, from the cache for candidate
@@ -316,14 +343,11 @@ func (c *Contacts) normal(e int32) r3.Vec {
 	if i := c.elemPos[e]; i >= 0 && c.info != nil {
 		return c.info[i].normal
 	}
-	return c.x.m.Normal(int(e))
+	return c.m.Normal(int(e))
 }
 
 // Mesh returns the mesh the contacts were found in.
-func (c *Contacts) Mesh() *Mesh { return c.x.m }
-
-// Index returns the index the contacts were found with.
-func (c *Contacts) Index() *Index { return c.x }
+func (c *Contacts) Mesh() *Mesh { return c.m }
 
 // Rule returns the rule the contacts were found with.
 func (c *Contacts) Rule() ContactRule { return c.rule }
@@ -348,22 +372,40 @@ func (c *Contacts) Partners(e int32) []int32 {
 // order. The slice aliases c.
 func (c *Contacts) NodeElems(n int32) []int32 { return c.nElems[c.nStart[n]:c.nStart[n+1]] }
 
-// Records returns the nodes in contact with another part, sorted by
+// Records yields the nodes in contact with another part, sorted by
 // node, part and other part: for every pair of parts, the nodes of its
-// host (see Host). The slice aliases c.
-func (c *Contacts) Records() []NodeContact { return c.records }
+// host (see Host). The records alias c.
+func (c *Contacts) Records() iter.Seq[*NodeContact] {
+	return func(yield func(*NodeContact) bool) {
+		for _, b := range c.records {
+			for i := range b {
+				if !yield(&b[i]) {
+					return
+				}
+			}
+		}
+	}
+}
+
+// NumRecords returns the number of records Records yields.
+func (c *Contacts) NumRecords() int { return c.nrec }
 
 // Record returns the contact of node n of part with the other part, and
 // false when the node is not in contact with it or part is not the
 // pair's host.
 func (c *Contacts) Record(n, part, other int32) (*NodeContact, bool) {
-	i, ok := slices.BinarySearchFunc(c.records, [3]int32{n, part, other}, func(r NodeContact, k [3]int32) int {
+	b := int(n) / parallelBlock
+	if n < 0 || b >= len(c.records) {
+		return nil, false
+	}
+	rs := c.records[b]
+	i, ok := slices.BinarySearchFunc(rs, [3]int32{n, part, other}, func(r NodeContact, k [3]int32) int {
 		return cmp.Or(cmp.Compare(r.Node, k[0]), cmp.Compare(r.Part, k[1]), cmp.Compare(r.Other, k[2]))
 	})
 	if !ok {
 		return nil, false
 	}
-	return &c.records[i], true
+	return &rs[i], true
 }
 
 // Facing returns the facing node pairs, sorted by the part ids of PartA
@@ -393,7 +435,7 @@ type candidate struct {
 // best distance so far. Of elements at the same distance (to a relative
 // 1e-9) the first found is kept, in the order of cands.
 func (c *Contacts) nearest(q r3.Vec, cands []int32, buf *[]candidate) Projection {
-	m := c.x.m
+	m := c.m
 	list := (*buf)[:0]
 	qa := [3]float64{q.X, q.Y, q.Z}
 	r2 := c.reach * c.reach * pruneSlack
@@ -470,7 +512,7 @@ func (c *Contacts) evaluate(q r3.Vec, a int32, best *Projection, cands []int32) 
 // evaluateLean is evaluate with the given lean (see freeEdgeLean) of the
 // free-edge test.
 func (c *Contacts) evaluateLean(q r3.Vec, a int32, best *Projection, cands []int32, lean float64) (NodeContact, bool) {
-	m := c.x.m
+	m := c.m
 	b := int32(best.Elem)
 	na, nb := c.normal(a), best.Normal
 	offA, ta := c.midOffset(a)
@@ -505,7 +547,7 @@ func (c *Contacts) evaluateLean(q r3.Vec, a int32, best *Projection, cands []int
 // free edge. A foot on an edge shared with a neighbour (a crease of a
 // faceted curved sheet) does not count.
 func (c *Contacts) beyondFreeEdge(q r3.Vec, pr *Projection, cands []int32) float64 {
-	m := c.x.m
+	m := c.m
 	e := pr.Elem
 	nodes := m.ElemNodes(e)
 	nc := m.Type(e).Corners()
@@ -571,11 +613,20 @@ func (c *Contacts) beyondFreeEdge(q r3.Vec, pr *Projection, cands []int32) float
 // free edge by more than a few micrometres is out (no lean allowance):
 // Probe finds where an overlap ends.
 func (c *Contacts) Probe(q r3.Vec, e, other int32) (NodeContact, bool) {
-	var buf []candidate
+	var sc ProbeScratch
+	return c.ProbeWith(&sc, q, e, other)
+}
+
+// ProbeScratch is the reusable memory of a goroutine's probes.
+type ProbeScratch struct{ buf []candidate }
+
+// ProbeWith is Probe with scratch memory sc, which the caller reuses
+// from probe to probe (not concurrently).
+func (c *Contacts) ProbeWith(sc *ProbeScratch, q r3.Vec, e, other int32) (NodeContact, bool) {
 	cands := c.partnersOf(e, other)
-	best := c.nearest(q, cands, &buf)
+	best := c.nearest(q, cands, &sc.buf)
 	if best.Elem < 0 {
-		return NodeContact{Node: -1, Nearest: -1, Elem: e, OtherElem: -1, Part: c.x.m.ElemPart[e], Other: other, Margin: 1}, false
+		return NodeContact{Node: -1, Nearest: -1, Elem: e, OtherElem: -1, Part: c.m.ElemPart[e], Other: other, Margin: 1}, false
 	}
 	return c.evaluateLean(q, e, &best, cands, 0)
 }
@@ -590,9 +641,9 @@ func (c *Contacts) Normal(e int32) r3.Vec { return c.normal(e) }
 // partnersOf returns the partners of element e that belong to part other.
 func (c *Contacts) partnersOf(e, other int32) []int32 {
 	ps := c.Partners(e)
-	lo, _ := slices.BinarySearchFunc(ps, other, func(b, p int32) int { return cmp.Compare(c.x.m.ElemPart[b], p) })
+	lo, _ := slices.BinarySearchFunc(ps, other, func(b, p int32) int { return cmp.Compare(c.m.ElemPart[b], p) })
 	hi := lo
-	for hi < len(ps) && c.x.m.ElemPart[ps[hi]] == other {
+	for hi < len(ps) && c.m.ElemPart[ps[hi]] == other {
 		hi++
 	}
 	return ps[lo:hi]
@@ -603,7 +654,7 @@ func (c *Contacts) partnersOf(e, other int32) []int32 {
 // mesh there (the smaller mean size of its paired elements), ties to the
 // lower part id.
 func (c *Contacts) chooseHosts() {
-	m := c.x.m
+	m := c.m
 	type acc struct {
 		n    int
 		size float64
@@ -671,7 +722,7 @@ type contactScratch struct {
 // bend belongs to the flange as well as to the wall). It returns the
 // record with Nearest set, and whether the node is in contact.
 func (c *Contacts) nodeContact(n, own, other int32, sc *contactScratch) (NodeContact, bool) {
-	m := c.x.m
+	m := c.m
 	es := c.NodeElems(n)
 	sc.cands = sc.cands[:0]
 	for _, a := range es {
@@ -711,7 +762,7 @@ func (c *Contacts) nodeContact(n, own, other int32, sc *contactScratch) (NodeCon
 // against each other part it is paired with, and keeps the nodes in
 // contact.
 func (c *Contacts) nodeRecords() {
-	m := c.x.m
+	m := c.m
 	nn := m.NumNodes()
 	blocks := make([][]NodeContact, (nn+parallelBlock-1)/parallelBlock)
 	parallelBlocks(nn, func(from, to int) {
@@ -756,13 +807,11 @@ func (c *Contacts) nodeRecords() {
 		}
 		blocks[from/parallelBlock] = out
 	})
-	total := 0
+	// The blocks are kept as they are (nodes in order within and across
+	// them): one slice of all would be a copy in fresh memory.
+	c.records = blocks
 	for _, b := range blocks {
-		total += len(b)
-	}
-	c.records = make([]NodeContact, 0, total)
-	for _, b := range blocks {
-		c.records = append(c.records, b...)
+		c.nrec += len(b)
 	}
 }
 
@@ -778,7 +827,7 @@ func (c *Contacts) facingLimit(a, b int32) float64 {
 // element of the other part within reach is among them. Ties go to the
 // lower node id.
 func (c *Contacts) nearestFacing(n int32, rec *NodeContact, cands []int32) int32 {
-	m := c.x.m
+	m := c.m
 	lim := c.facingLimit(rec.Elem, rec.OtherElem)
 	near := false
 	for _, v := range m.ElemNodes(int(rec.OtherElem)) {
@@ -807,15 +856,15 @@ func (c *Contacts) nearestFacing(n int32, rec *NodeContact, cands []int32) int32
 // that are each other's nearest across a contact and face each other
 // within the lateral limit. The other part's node is tested on demand.
 func (c *Contacts) facingPairs() {
-	m := c.x.m
-	blocks := make([][]FacingPair, (len(c.records)+parallelBlock-1)/parallelBlock)
-	parallelBlocks(len(c.records), func(from, to int) {
+	m := c.m
+	blocks := make([][]FacingPair, len(c.records))
+	parallelEach(len(c.records), func(b int) {
 		var (
 			out []FacingPair
 			sc  contactScratch
 		)
-		for i := from; i < to; i++ {
-			r := &c.records[i]
+		for k := range c.records[b] {
+			r := &c.records[b][k]
 			if r.Nearest < 0 {
 				continue
 			}
@@ -846,7 +895,7 @@ func (c *Contacts) facingPairs() {
 			}
 			out = append(out, fp)
 		}
-		blocks[from/parallelBlock] = out
+		blocks[b] = out
 	})
 	var out []FacingPair
 	for _, b := range blocks {
@@ -863,7 +912,7 @@ func (c *Contacts) facingPairs() {
 // Mesh.Project does, taking a short cut for flat convex quads (most
 // elements of a formed sheet's flange, see flatQuadFoot).
 func (c *Contacts) project(e int32, q r3.Vec) Projection {
-	m := c.x.m
+	m := c.m
 	nodes := m.ElemNodes(int(e))
 	if m.Type(int(e)).Corners() != 4 || len(nodes) < 4 {
 		return m.Project(int(e), q)

@@ -45,7 +45,7 @@ func TestContactPairsAgainstBruteForce(t *testing.T) {
 		x := NewElemIndex(m)
 		const r = 2.0
 		keep := func(a, b int32, na, nb *[3]float32, d2 float64) bool { return (a+b)%3 != 0 }
-		got := x.contactPairs(r, keep)
+		got := concat(x.contactPairs(r, keep))
 		slices.SortFunc(got, func(p, q [2]int32) int {
 			if p[0] != q[0] {
 				return int(p[0] - q[0])
@@ -164,7 +164,7 @@ func TestContactsAgainstRule(t *testing.T) {
 				t.Fatalf("host %d, want the finer sheet 1", host)
 			}
 			in := map[int32]bool{}
-			for _, r := range c.Records() {
+			for r := range c.Records() {
 				in[r.Node] = true
 				if r.Part != 1 || r.Other != 0 || math.Abs(r.Gap-tc.b.zc) > 1e-12 || math.Abs(r.Contact-(tc.a.t+tc.b.t)/2) > 1e-12 {
 					t.Fatalf("record %+v", r)

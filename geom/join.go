@@ -107,17 +107,39 @@ func (j *nearJoin) leafPairs() [][2]int32 {
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), len(tasks)) {
 		wg.Go(func() {
+			var buf [][2]int32 // the worker's, kept per task in a slice of its size
 			for {
 				i := int(next.Add(1) - 1)
 				if i >= len(tasks) {
 					return
 				}
-				out[i] = j.walk(tasks[i].a, tasks[i].b, nil)
+				buf = j.walk(tasks[i].a, tasks[i].b, buf[:0])
+				out[i] = slices.Clone(buf)
 			}
 		})
 	}
 	wg.Wait()
 	return concat(out)
+}
+
+// parallelEach calls fn for i = 0 to n-1 on up to GOMAXPROCS goroutines,
+// handing out one i at a time (for items of uneven cost); fn must write
+// its results by i.
+func parallelEach(n int, fn func(i int)) {
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), n) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= n {
+					return
+				}
+				fn(i)
+			}
+		})
+	}
+	wg.Wait()
 }
 
 // concat joins the parts in order.
@@ -291,10 +313,11 @@ type pairTest func(e, f, pe, pf int32, d2 float64) bool
 // elemPairs returns the pairs of elements of different groups under the
 // leaf pairs (from leafPairs) whose boxes lie within reach and that keep
 // accepts (every one when keep is nil), each pair once with the smaller
-// element index first, in an order that depends only on the index.
-// onLeaf, when not nil, is called once for each leaf before keep sees
-// any of its items (to prepare what keep reads about them).
-func (j *nearJoin) elemPairs(pairs [][2]int32, onLeaf func(leaf int), keep pairTest) [][2]int32 {
+// element index first, in an order that depends only on the index: the
+// pairs of the chunks in turn (concat joins them). onLeaf, when not nil,
+// is called once for each leaf before keep sees any of its items (to
+// prepare what keep reads about them).
+func (j *nearJoin) elemPairs(pairs [][2]int32, onLeaf func(leaf int), keep pairTest) [][][2]int32 {
 	if len(pairs) == 0 {
 		return nil
 	}
@@ -310,26 +333,31 @@ func (j *nearJoin) elemPairs(pairs [][2]int32, onLeaf func(leaf int), keep pairT
 	var wg sync.WaitGroup
 	for range min(runtime.GOMAXPROCS(0), nchunks) {
 		wg.Go(func() {
+			// Each chunk's pairs are gathered in the worker's buffer, used
+			// again from chunk to chunk, and kept in a slice of their
+			// size: growing a slice per chunk would leave twice as much
+			// fresh memory behind.
+			var buf [][2]int32
 			for {
 				c := int(next.Add(1) - 1)
 				if c >= nchunks {
 					return
 				}
-				var out [][2]int32
+				buf = buf[:0]
 				for _, p := range pairs[c*chunk : min((c+1)*chunk, len(pairs))] {
 					a, b := int(p[0]), int(p[1])
 					if ready != nil {
 						ready[a].Do(func() { onLeaf(a) })
 						ready[b].Do(func() { onLeaf(b) })
 					}
-					out = j.leafItems(lg, a, b, keep, out)
+					buf = j.leafItems(lg, a, b, keep, buf)
 				}
-				outs[c] = out
+				outs[c] = slices.Clone(buf)
 			}
 		})
 	}
 	wg.Wait()
-	return concat(outs)
+	return outs
 }
 
 // leafItems appends the pairs between the items of leaves a <= b (or
@@ -407,16 +435,16 @@ func (x *Index) ElemPairsNear(r float64, group []int32) [][2]int32 {
 		return nil
 	}
 	j := newNearJoin(x, r, group)
-	return j.elemPairs(j.leafPairs(), nil, nil)
+	return concat(j.elemPairs(j.leafPairs(), nil, nil))
 }
 
 // contactPairs returns the pairs of elements of different parts whose
 // bounding boxes lie within r of each other and that keep accepts (see
-// ElemPairsNear), each pair once with the smaller element index first.
-// keep gets the two elements, their unit normals (single precision,
+// ElemPairsNear), each pair once with the smaller element index first,
+// in chunks (as elemPairs gives them). keep gets the two elements, their unit normals (single precision,
 // computed only for the leaves near another part) and the squared
 // distance of their boxes; it is called from several goroutines at once.
-func (x *Index) contactPairs(r float64, keep func(a, b int32, na, nb *[3]float32, d2 float64) bool) [][2]int32 {
+func (x *Index) contactPairs(r float64, keep func(a, b int32, na, nb *[3]float32, d2 float64) bool) [][][2]int32 {
 	if len(x.elems.ids) < 2 || !(r >= 0) {
 		return nil
 	}

@@ -112,18 +112,17 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 				}
 				for l := lo; l < min(lo+chunk, nl); l++ {
 					if start[l] < start[l+1] {
-						out[l] = w.leaf(t, int32(l), partner[start[l]:start[l+1]], &sc, nil)
+						// Found in the worker's buffer, kept in a slice of
+						// their size.
+						sc.found = w.leaf(t, int32(l), partner[start[l]:start[l+1]], &sc, sc.found[:0])
+						out[l] = slices.Clone(sc.found)
 					}
 				}
 			}
 		})
 	}
 	wg.Wait()
-	var all []Facing
-	for _, o := range out {
-		all = append(all, o...)
-	}
-	return all
+	return concat(out)
 }
 
 // facingWalk holds what the walks of FacingElements share.
@@ -255,7 +254,8 @@ type leafCluster struct {
 
 // leafScratch is a worker's reusable memory.
 type leafScratch struct {
-	runs []groupRun
+	runs  []groupRun
+	found []Facing
 }
 
 // leaf appends the facing elements of the items of leaf l, among the

@@ -66,9 +66,7 @@ func Rule(m *geom.Mesh, o *joints.BuildOptions, fo *joints.FlangeOptions) geom.C
 func Find(ctx context.Context, c *geom.Contacts, fo joints.FlangeOptions) (*Set, error) {
 	m := c.Mesh()
 	groups := map[[2]int32][]*geom.NodeContact{}
-	recs := c.Records()
-	for i := range recs {
-		r := &recs[i]
+	for r := range c.Records() {
 		k := [2]int32{r.Part, r.Other}
 		groups[k] = append(groups[k], r)
 	}
@@ -156,17 +154,23 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 	// Which component each host node in contact belongs to, for the
 	// facing pairs.
 	comps := w.components()
-	compOf := map[int32]int{}
+	// compOf[i] is the component of the node of w.recs[i], -1 for none.
+	compOf := make([]int32, len(w.recs))
+	for i := range compOf {
+		compOf[i] = -1
+	}
 	for k, comp := range comps {
 		for _, e := range comp {
 			for _, n := range m.ElemNodes(int(e)) {
-				if w.rec(n) != nil {
-					if _, ok := compOf[n]; !ok {
-						compOf[n] = k
-					}
+				if i := w.recOf[n]; i > 0 && compOf[i-1] < 0 {
+					compOf[i-1] = int32(k)
 				}
 			}
 		}
+	}
+	inComp := func(n int32, k int) bool {
+		i := w.recOf[n]
+		return i > 0 && compOf[i-1] == int32(k)
 	}
 	type built struct {
 		f    joints.Flange
@@ -212,8 +216,8 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 		// Thicknesses and nodes in contact.
 		var th, to []float64
 		nodes := 0
-		for _, r := range w.recs {
-			if ck, ok := compOf[r.Node]; ok && ck == k {
+		for i, r := range w.recs {
+			if compOf[i] == int32(k) {
 				nodes++
 				th = append(th, m.Thickness(int(r.Elem)))
 				to = append(to, m.Thickness(int(r.OtherElem)))
@@ -231,7 +235,7 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 			if fp.PartA != w.host {
 				hn = fp.B
 			}
-			if ck, ok := compOf[hn]; ok && ck == k {
+			if inComp(hn, k) {
 				f.Facing = append(f.Facing, fp)
 			}
 		}

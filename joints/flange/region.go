@@ -25,6 +25,7 @@ type pairWork struct {
 	// not in contact: a worker's table over all nodes, filled for the
 	// pair at hand and cleared after it (clearRecs).
 	recOf []int32
+	probe geom.ProbeScratch
 }
 
 // indexRecs fills recOf (of the mesh's node count, all zero) for the
@@ -144,7 +145,7 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 	// jumps where the normals stop being near-parallel). u is in
 	// contact: its margin is taken as 0.
 	lo, hi := 0.0, 1.0
-	rh, _ := w.c.Probe(b, e, w.other)
+	rh, _ := w.c.ProbeWith(&w.probe, b, e, w.other)
 	fh := rh.Margin
 	t0, f0 := -1.0, 0.0 // a second point beyond the edge, for the secant
 	for range w.bisect {
@@ -160,7 +161,7 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 			t = hi - fh/l // as if the margin grew one for one
 		}
 		t = min(max(t, lo+(hi-lo)/64), hi-(hi-lo)/64)
-		r, in := w.c.Probe(at(t), e, w.other)
+		r, in := w.c.ProbeWith(&w.probe, at(t), e, w.other)
 		if in {
 			lo = t
 			continue

@@ -85,6 +85,13 @@ type Result struct {
 // nugget rule; other zero values mean the build defaults. x must index every
 // element (geom.NewIndex or geom.NewElemIndex).
 func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
+	return InferWith(ctx, x, geom.Adjacency{}, js, o, prog)
+}
+
+// InferWith is Infer with the node-to-element adjacency of the indexed
+// mesh (geom.NodeElements) when the caller has it, for instance found
+// while the index was built; an empty adj (no Start) is found here.
+func InferWith(ctx context.Context, x *geom.Index, adj geom.Adjacency, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
 	if err := o.Validate(); err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}
@@ -100,7 +107,9 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 
 	reach := 2*tmax + allowance(tmax, tmax)
 	prog.Start("orienting normals", 0)
-	adj := geom.NodeElements(m)
+	if adj.Start == nil {
+		adj = geom.NodeElements(m)
+	}
 	// The facing elements need the mesh as it is, not the orientation:
 	// find them while the normals are oriented (each stage alone leaves
 	// a core idle part of the time). Both answers are deterministic.

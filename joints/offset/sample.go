@@ -48,7 +48,40 @@ type sample struct {
 // index; the parts of higher index are looked at only to tell whether
 // they lie in between (upward).
 func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
-	// Facings come grouped by element.
+	// Facings come grouped by element: runs of about overlapChunk
+	// facings, cut between elements, are sampled concurrently and their
+	// samples joined in order.
+	const overlapChunk = 1 << 14
+	var cuts []int
+	for lo := 0; lo < len(fs); {
+		hi := min(lo+overlapChunk, len(fs))
+		for hi < len(fs) && fs[hi].Elem == fs[hi-1].Elem {
+			hi++
+		}
+		cuts = append(cuts, lo)
+		lo = hi
+	}
+	cuts = append(cuts, len(fs))
+	parts := make([][]sample, len(cuts)-1)
+	parallelRange(len(parts), 1, func(lo, hi int) {
+		for k := lo; k < hi; k++ {
+			parts[k] = elementSamples(m, fs[cuts[k]:cuts[k+1]], or, allowance)
+		}
+	})
+	n := 0
+	for _, p := range parts {
+		n += len(p)
+	}
+	out := make([]sample, 0, n)
+	for _, p := range parts {
+		out = append(out, p...)
+	}
+	return out
+}
+
+// elementSamples is overlapSamples on facings fs that hold all the
+// facings of each of their elements.
+func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64) []sample {
 	var out []sample
 	type found struct {
 		part int32

@@ -97,6 +97,11 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 		prog.Done()
 		return nil, fmt.Errorf("pipeline: %w", err)
 	}
+	if !fo.Pitch.Set() {
+		// Only placing welds needs the index again: without a pitch its
+		// memory serves the flanges' work instead of fresh memory.
+		x = nil
+	}
 	set, err := flange.Find(ctx, c, fo)
 	prog.Done()
 	if err != nil {

@@ -63,9 +63,15 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 	page := startPage(m)
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
+	// The node-to-element adjacency the inference needs is found while
+	// the elements are indexed (the index leaves a core idle part of the
+	// time).
+	adjc := make(chan geom.Adjacency, 1)
+	go func() { adjc <- geom.NodeElements(m) }()
 	x := geom.NewElemIndex(m)
+	adj := <-adjc
 	prog.Done()
-	res, err := offset.Infer(ctx, x, in.Joints, s.Options, prog)
+	res, err := offset.InferWith(ctx, x, adj, in.Joints, s.Options, prog)
 	if err != nil {
 		return nil, err
 	}
