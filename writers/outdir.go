@@ -2,8 +2,6 @@ package writers
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -32,7 +30,12 @@ import (
 //     marked by the .joinery-set file of an earlier set and holding
 //     nothing else.
 //   - Write writes every file and the marker into .<name>.new-<digits>,
-//     syncs them to disk, and swaps the directory in: on Linux an atomic
+//     syncs them to disk, and swaps the directory in (a sweep writes
+//     each nested set, a variant's folder, into that directory with
+//     WriteNested as soon as it is rendered, each file synced, while the
+//     next variants are built; Write then adds the outer files and does
+//     the swap, so the swap still comes only after every file and folder
+//     of the whole set is on disk): on Linux an atomic
 //     exchange of the two directories (renameat2 with RENAME_EXCHANGE),
 //     then the old set is removed; elsewhere, or where the file system
 //     cannot exchange, two renames (the old set aside to
@@ -115,6 +118,11 @@ type OutputDir struct {
 	written bool // Write was called
 	placed  bool // the new set stands in the output directory
 	closed  bool
+
+	mu     sync.Mutex           // guards what follows, for WriteNested
+	tmp    string               // the temporary directory, once made
+	nested []document.NestedSet // the nested sets written into tmp
+	failed bool                 // a WriteNested failed: Write fails too
 }
 
 // dirState is what stands at the output directory when a run starts.
@@ -383,20 +391,72 @@ func (d *OutputDir) Write(set Set) error {
 	if err := checkSet(set); err != nil {
 		return err
 	}
+	d.mu.Lock()
+	defer d.mu.Unlock()
 	d.written = true
-	tmp, err := d.writeTemp(set)
+	if d.failed {
+		d.removeTemp()
+		return OutputError(fmt.Errorf("writing the output set into %s: a nested set was not written; %s", d.name, d.leftAs()))
+	}
+	err := d.writeTemp(set)
 	if err == nil {
-		err = d.swap(tmp)
+		err = d.swap(d.tmp)
 	}
 	if err != nil {
-		if tmp != "" {
-			d.fsys.RemoveAll(tmp)
-		}
+		d.removeTemp()
 		return OutputError(fmt.Errorf("writing the output set into %s: %w; %s", d.name, err, d.leftAs()))
 	}
 	d.placed = true
 	d.fsys.SyncDir(d.parent)
 	return nil
+}
+
+// WriteNested writes the nested set n into the set being written now,
+// before Write, so that a caller making many nested sets (a sweep's
+// variants) need not hold them all in memory: its folder, its files and
+// its marker are written into the temporary directory and synced to
+// disk, and Write lists it in the outer marker (in folder-name order)
+// with the nested sets of its own Set.Sets. Safe for concurrent use; not
+// after Write. On failure the error (an output error) says what is left,
+// and Write fails too.
+func (d *OutputDir) WriteNested(n NestedSet) error {
+	if err := checkNested(n); err != nil {
+		return err
+	}
+	d.mu.Lock()
+	if d.closed || d.written {
+		d.mu.Unlock()
+		return errors.New("writers: nested set written after Write or Close")
+	}
+	if slices.ContainsFunc(d.nested, func(o document.NestedSet) bool { return o.Name == n.Dir }) {
+		d.mu.Unlock()
+		return fmt.Errorf("writers: nested set %s written twice", n.Dir)
+	}
+	err := d.makeTemp(n.Set.Generator)
+	if err == nil {
+		// Reserved now, so that a second writer of the same folder fails.
+		d.nested = append(d.nested, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
+	}
+	tmp := d.tmp
+	d.mu.Unlock()
+	if err == nil {
+		err = d.writeNested(tmp, n)
+	}
+	if err != nil {
+		d.mu.Lock()
+		d.failed = true
+		d.mu.Unlock()
+		return OutputError(fmt.Errorf("writing the output set into %s: %w; %s", d.name, err, d.leftAs()))
+	}
+	return nil
+}
+
+// removeTemp removes the temporary directory, when made.
+func (d *OutputDir) removeTemp() {
+	if d.tmp != "" {
+		d.fsys.RemoveAll(d.tmp)
+		d.tmp = ""
+	}
 }
 
 // leftAs says what a failed run left in the output directory.
@@ -423,16 +483,28 @@ func checkSet(set Set) error {
 		seen[f.Name] = true
 	}
 	for _, n := range set.Sets {
-		if !plainName(n.Dir) || seen[n.Dir] {
+		if seen[n.Dir] {
 			return fmt.Errorf("writers: bad or repeated folder name %q of a nested set", n.Dir)
 		}
 		seen[n.Dir] = true
-		if len(n.Set.Sets) > 0 {
-			return fmt.Errorf("writers: nested set %s holds sets of its own", n.Dir)
+		if err := checkNested(n); err != nil {
+			return err
 		}
-		if err := checkFiles(n.Set); err != nil {
-			return fmt.Errorf("%w (in nested set %s)", err, n.Dir)
-		}
+	}
+	return nil
+}
+
+// checkNested checks a nested set: a plain folder name, files only,
+// every file carrying its run id.
+func checkNested(n NestedSet) error {
+	if !plainName(n.Dir) {
+		return fmt.Errorf("writers: bad or repeated folder name %q of a nested set", n.Dir)
+	}
+	if len(n.Set.Sets) > 0 {
+		return fmt.Errorf("writers: nested set %s holds sets of its own", n.Dir)
+	}
+	if err := checkFiles(n.Set); err != nil {
+		return fmt.Errorf("%w (in nested set %s)", err, n.Dir)
 	}
 	return nil
 }
@@ -460,39 +532,66 @@ func checkFiles(set Set) error {
 	return nil
 }
 
-// writeTemp writes the set and its marker into a new temporary directory
-// beside the output directory, synced to disk, and returns its path
-// (also on error, when it was made).
-func (d *OutputDir) writeTemp(set Set) (string, error) {
+// makeTemp makes the temporary directory beside the output directory,
+// once, with a marker not yet complete in it. d.mu is held.
+func (d *OutputDir) makeTemp(generator string) error {
+	if d.tmp != "" {
+		return nil
+	}
 	tmp, err := mkdirUnique(d.fsys, filepath.Join(d.parent, "."+d.base+newInfix))
 	if err != nil {
-		return "", err
+		return err
 	}
-	marker := newMarker(set)
+	d.tmp = tmp
 	// A marker first, so that a run killed while writing leaves a
 	// directory the next run recognises as its own to remove.
-	if err := d.writeMarker(tmp, marker); err != nil {
-		return tmp, err
+	return d.writeMarker(tmp, newMarker(Set{Generator: generator}))
+}
+
+// writeNested writes the nested set n into its folder of tmp, synced to
+// disk.
+func (d *OutputDir) writeNested(tmp string, n NestedSet) error {
+	sub := filepath.Join(tmp, n.Dir)
+	if err := d.fsys.Mkdir(sub, 0o755); err != nil {
+		return err
+	}
+	if err := d.writeFiles(sub, n.Set, newMarker(n.Set)); err != nil {
+		return fmt.Errorf("%s: %w", n.Dir, err)
+	}
+	return nil
+}
+
+// writeTemp writes the set and its marker into the temporary directory
+// beside the output directory (made when no nested set made it), synced
+// to disk, beside the nested sets WriteNested wrote there. d.mu is held.
+func (d *OutputDir) writeTemp(set Set) error {
+	if err := d.makeTemp(set.Generator); err != nil {
+		return err
 	}
 	for _, n := range set.Sets {
-		sub := filepath.Join(tmp, n.Dir)
-		if err := d.fsys.Mkdir(sub, 0o755); err != nil {
-			return tmp, err
+		if slices.ContainsFunc(d.nested, func(o document.NestedSet) bool { return o.Name == n.Dir }) {
+			return fmt.Errorf("writers: nested set %s written twice", n.Dir)
 		}
-		if err := d.writeFiles(sub, n.Set, newMarker(n.Set)); err != nil {
-			return tmp, fmt.Errorf("%s: %w", n.Dir, err)
+		if err := d.writeNested(d.tmp, n); err != nil {
+			return err
 		}
-		marker.Sets = append(marker.Sets, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
+		d.nested = append(d.nested, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
 	}
-	if err := d.writeFiles(tmp, set, marker); err != nil {
-		return tmp, err
+	marker := newMarker(set)
+	marker.Sets = slices.Clone(d.nested)
+	slices.SortFunc(marker.Sets, func(a, b document.NestedSet) int { return strings.Compare(a.Name, b.Name) })
+	if len(marker.Sets) == 0 {
+		marker.Sets = nil
+	}
+	if err := d.writeFiles(d.tmp, set, marker); err != nil {
+		return err
 	}
 	if d.state.exists {
-		if err := d.fsys.Chmod(tmp, d.state.mode); err != nil {
-			return tmp, err
+		if err := d.fsys.Chmod(d.tmp, d.state.mode); err != nil {
+			return err
 		}
 	}
-	return tmp, nil
+	return nil
 }
 
 // newMarker returns the marker of set, not yet complete, listing no
@@ -515,8 +614,7 @@ func (d *OutputDir) writeFiles(dir string, set Set, marker *document.SetDoc) err
 		return err
 	}
 	for _, f := range set.Files {
-		sum := sha256.Sum256(f.Data)
-		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.sum()})
 	}
 	marker.Complete = true
 	if err := d.writeMarker(dir, marker); err != nil {
@@ -586,10 +684,15 @@ func (d *OutputDir) swap(tmp string) error {
 // written, removes the parent directories OpenSet made. It is safe to
 // call more than once.
 func (d *OutputDir) Close() error {
+	d.mu.Lock()
+	defer d.mu.Unlock()
 	if d.closed {
 		return nil
 	}
 	d.closed = true
+	if !d.placed {
+		d.removeTemp() // nested sets written for a Write that never came
+	}
 	var err error
 	if d.lock != nil {
 		err = d.lock.release()
