@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"runtime"
+	"slices"
 	"strings"
 	"sync"
 
@@ -95,6 +96,10 @@ type Variant struct {
 	Settings []document.Setting
 	Job      *Job // the job with the variant's settings
 	Build    BuildSettings
+	// shareKey, per builder, names the variant's values of the varied
+	// settings the builder reads: variants with the same key share its
+	// connectors.
+	shareKey map[builders]string
 }
 
 // Variants returns the Cartesian product of the varied values, the
@@ -108,6 +113,7 @@ func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 		vj := *job
 		var settings []document.Setting
 		names := []string{fmt.Sprintf("%0*d", width, i+1)}
+		share := map[builders]string{spotBuilder: "", boltBuilder: ""}
 		rest := i
 		idx := make([]int, len(s.Vary))
 		for k := len(s.Vary) - 1; k >= 0; k-- {
@@ -125,13 +131,18 @@ func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 			}
 			settings = append(settings, document.Setting{Key: v.Key, Value: val})
 			names = append(names, v.Key+"="+val)
+			for b := range share {
+				if key.reads&b != 0 {
+					share[b] += fmt.Sprintf("%s=%q ", v.Key, val)
+				}
+			}
 		}
 		b, err := vj.BuildSettings()
 		if err != nil {
 			return nil, err
 		}
 		b.NoPage = s.Build.NoPage
-		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b})
+		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b, shareKey: share})
 	}
 	return out, nil
 }
@@ -157,7 +168,7 @@ type SweepOutcome struct {
 // variantRun is one variant built and rendered.
 type variantRun struct {
 	run     document.VariantRun
-	files   []writers.Rendered
+	files   []writers.Rendered // until written
 	reached bool
 }
 
@@ -199,6 +210,7 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	}
 	in.index = IndexFor(in.Model.Mesh, in.Joints, opts)
 	in.stacks = &spot.Stacks{}
+	in.shared = &sharedBuilds{}
 	prog.Done()
 
 	material := partMaterials(in)
@@ -206,17 +218,34 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	errs := make([]error, len(variants))
 	var mu sync.Mutex
 	prog.Start("building variants", int64(len(variants)))
-	sem := make(chan struct{}, max(1, min(runtime.GOMAXPROCS(0), len(variants))))
+	// As many variants are built at once as there are processors; each
+	// is written into the set's temporary directory (out.WriteNested,
+	// synced) as soon as it is rendered, while the next ones are built,
+	// and its buffers serve the next variant. At most one more variant
+	// than are built at once holds its rendered files, so memory stays
+	// bounded whatever the number of variants.
+	workers := max(1, min(runtime.GOMAXPROCS(0), len(variants)))
+	building, holding := make(chan struct{}, workers), make(chan struct{}, workers+1)
+	bufs := writers.NewBuffers()
 	var wg sync.WaitGroup
 	for i := range variants {
 		wg.Go(func() {
-			sem <- struct{}{}
-			defer func() { <-sem }()
+			holding <- struct{}{}
+			defer func() { <-holding }()
 			if ctx.Err() != nil {
 				errs[i] = ctx.Err()
 				return
 			}
-			runs[i], errs[i] = buildVariant(ctx, in, &variants[i], material, env, func() *html.Outline { outlineDone.Wait(); return outline })
+			building <- struct{}{}
+			r, err := buildVariant(ctx, in, &variants[i], material, env, bufs, func() *html.Outline { outlineDone.Wait(); return outline })
+			<-building
+			if err == nil {
+				err = out.WriteNested(writers.NestedSet{Dir: variants[i].Name,
+					Set: writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID, Files: r.files}})
+			}
+			bufs.Release(r.files)
+			r.files = nil
+			runs[i], errs[i] = r, err
 			mu.Lock()
 			prog.Add(1)
 			mu.Unlock()
@@ -235,10 +264,8 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	var vr []document.VariantRun
 	set := writers.Set{Job: "sweep", Generator: env.Generator}
 	outcome := &SweepOutcome{Out: s.Out, Files: SweepFiles()}
-	for i, r := range runs {
+	for _, r := range runs {
 		vr = append(vr, r.run)
-		set.Sets = append(set.Sets, writers.NestedSet{Dir: variants[i].Name,
-			Set: writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID, Files: r.files}})
 		outcome.Reached = outcome.Reached || r.reached
 	}
 	info, err := in.RunInfo(env.Generator, runs[0].run.Result)
@@ -278,10 +305,12 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 }
 
 // buildVariant builds, checks and renders one variant as Build would,
-// on the sweep's shared inputs and index.
-func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env, outline func() *html.Outline) (variantRun, error) {
+// on the sweep's shared inputs and index, into buffers lent by bufs.
+func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env,
+	bufs *writers.Buffers, outline func() *html.Outline) (variantRun, error) {
 	in := *shared
 	in.Job = v.Job
+	in.shareKey = v.shareKey
 	quiet := Env{Generator: env.Generator} // progress and notes come from the sweep
 	res, err := BuildConnectors(ctx, &in, v.Build.Options, quiet)
 	if err != nil {
@@ -302,7 +331,7 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 			return html.Render(w, html.ForBuild(rep, conn, outline()))
 		}})
 	}
-	rendered, err := writers.Render(files)
+	rendered, err := writers.RenderInto(files, bufs)
 	if err != nil {
 		return variantRun{}, err
 	}
@@ -310,10 +339,72 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: res,
 		Pairs: stiffness.Pairs(res.Connectors, material)}
 	for _, f := range rendered {
-		sum := sha256.Sum256(f.Data)
-		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.SHA256})
 	}
 	return r, nil
+}
+
+// sharedBuilds keeps the connectors each builder made for a sweep's
+// variants, by builder and share key (Variant.shareKey): a builder's
+// connectors depend only on the inputs, the index and the settings it
+// reads, which the variants of one key have in common.
+type sharedBuilds struct {
+	mu    sync.Mutex
+	built map[shareID]*builtConns
+}
+
+type shareID struct {
+	b   builders
+	key string
+}
+
+// builtConns is one builder's connectors, built once.
+type builtConns struct {
+	once  sync.Once
+	conns []joints.Connector
+	err   error
+}
+
+// buildShared returns the connectors builder b makes with build: in a
+// sweep (in.shared set), built once per share key and copied for each
+// variant, as joints.NewResult then sorts them and hands out ids in
+// place; otherwise build's own.
+func (in *Inputs) buildShared(b builders, build func() ([]joints.Connector, error)) ([]joints.Connector, error) {
+	if in.shared == nil || in.shareKey == nil {
+		return build()
+	}
+	sh := in.shared
+	id := shareID{b, in.shareKey[b]}
+	sh.mu.Lock()
+	if sh.built == nil {
+		sh.built = map[shareID]*builtConns{}
+	}
+	bc := sh.built[id]
+	if bc == nil {
+		bc = &builtConns{}
+		sh.built[id] = bc
+	}
+	sh.mu.Unlock()
+	bc.once.Do(func() { bc.conns, bc.err = build() })
+	if bc.err != nil {
+		return nil, bc.err
+	}
+	return cloneConnectors(bc.conns), nil
+}
+
+// cloneConnectors copies connectors deep enough for joints.NewResult and
+// the checks to change the copy alone: the slice, the links (ids are
+// written into them) and the findings; the ends, the stack and the
+// bolt's data are only read after a builder made them.
+func cloneConnectors(cs []joints.Connector) []joints.Connector {
+	out := slices.Clone(cs)
+	for i := range out {
+		c := &out[i]
+		c.Links = slices.Clone(c.Links)
+		c.Findings = slices.Clone(c.Findings)
+		c.EndIDs = slices.Clone(c.EndIDs)
+	}
+	return out
 }
 
 // partMaterials returns the material of each part, from the parts

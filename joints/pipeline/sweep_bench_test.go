@@ -55,7 +55,7 @@ func BenchmarkSweep8(b *testing.B) {
 		t0 := time.Now()
 		in := newInputs()
 		o := html.NewOutline(md.Mesh)
-		if _, err := buildVariant(ctx, in, &Variant{Name: "build", Job: job, Build: BuildSettings{}}, material, Env{}, func() *html.Outline { return o }); err != nil {
+		if _, err := buildVariant(ctx, in, &Variant{Name: "build", Job: job, Build: BuildSettings{}}, material, Env{}, nil, func() *html.Outline { return o }); err != nil {
 			b.Fatal(err)
 		}
 		t1 := time.Now()
@@ -73,7 +73,7 @@ func BenchmarkSweep8(b *testing.B) {
 			go func() {
 				sem <- struct{}{}
 				defer func() { <-sem }()
-				_, err := buildVariant(ctx, in, &variants[i], material, Env{}, func() *html.Outline { return o })
+				_, err := buildVariant(ctx, in, &variants[i], material, Env{}, nil, func() *html.Outline { return o })
 				done <- err
 			}()
 		}
