@@ -101,11 +101,12 @@ func RenderInto(files []File, bufs *Buffers) ([]Rendered, error) {
 type Buffers struct {
 	mu   sync.Mutex
 	free map[string][]*bytes.Buffer
+	most map[string]int // the largest file of each name taken back
 }
 
 // NewBuffers returns an empty set of buffers.
 func NewBuffers() *Buffers {
-	return &Buffers{free: map[string][]*bytes.Buffer{}}
+	return &Buffers{free: map[string][]*bytes.Buffer{}, most: map[string]int{}}
 }
 
 func (b *Buffers) get(name string) *bytes.Buffer {
@@ -114,13 +115,17 @@ func (b *Buffers) get(name string) *bytes.Buffer {
 	}
 	b.mu.Lock()
 	defer b.mu.Unlock()
+	buf := new(bytes.Buffer)
 	if n := len(b.free[name]); n > 0 {
-		buf := b.free[name][n-1]
+		buf = b.free[name][n-1]
 		b.free[name] = b.free[name][:n-1]
 		buf.Reset()
-		return buf
 	}
-	return new(bytes.Buffer)
+	// Room for the largest file of the name so far and an eighth more
+	// (variants differ in size): one allocation where growing by
+	// doubling would copy the file several times over.
+	buf.Grow(b.most[name] + b.most[name]/8)
+	return buf
 }
 
 // Release takes back the buffers of files rendered by RenderInto:
@@ -137,8 +142,8 @@ func (b *Buffers) Release(files []Rendered) {
 		if cap(f.Data) == 0 {
 			continue
 		}
-		buf := bytes.NewBuffer(f.Data[:0])
-		b.free[f.Name] = append(b.free[f.Name], buf)
+		b.most[f.Name] = max(b.most[f.Name], len(f.Data))
+		b.free[f.Name] = append(b.free[f.Name], bytes.NewBuffer(f.Data[:0]))
 		f.Data = nil
 	}
 }

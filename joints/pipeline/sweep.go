@@ -210,7 +210,7 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	}
 	in.index = IndexFor(in.Model.Mesh, in.Joints, opts)
 	in.stacks = &spot.Stacks{}
-	in.shared = &sharedBuilds{}
+	in.shared = newSharedBuilds(variants)
 	prog.Done()
 
 	material := partMaterials(in)
@@ -336,12 +336,28 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 		return variantRun{}, err
 	}
 	r := variantRun{files: rendered, reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
-	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: res,
+	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: summaryResult(res),
 		Pairs: stiffness.Pairs(res.Connectors, material)}
 	for _, f := range rendered {
 		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.SHA256})
 	}
 	return r, nil
+}
+
+// summaryResult returns what the manifest and the comparison read of a
+// variant's result (document.NewManifest, NewCompare: the connectors'
+// joints, states, stacks and degrees of freedom, the findings, the
+// kinematic counts, the options), without the connectors' ends, links
+// and own findings, which every variant would otherwise keep in memory
+// until the sweep's end: on a body, tens of megabytes a variant.
+func summaryResult(r *joints.Result) *joints.Result {
+	s := *r
+	s.Connectors = make([]joints.Connector, len(r.Connectors))
+	for i := range r.Connectors {
+		c := &r.Connectors[i]
+		s.Connectors[i] = joints.Connector{Joint: c.Joint, Status: c.Status, Stack: c.Stack, DOFs: c.DOFs, Attach: c.Attach}
+	}
+	return &s
 }
 
 // sharedBuilds keeps the connectors each builder made for a sweep's
@@ -351,6 +367,23 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 type sharedBuilds struct {
 	mu    sync.Mutex
 	built map[shareID]*builtConns
+}
+
+// newSharedBuilds returns the shared builds of variants, each knowing
+// how many variants take it, so that it is dropped once the last one
+// has its copy.
+func newSharedBuilds(variants []Variant) *sharedBuilds {
+	sh := &sharedBuilds{built: map[shareID]*builtConns{}}
+	for _, v := range variants {
+		for b, key := range v.shareKey {
+			id := shareID{b, key}
+			if sh.built[id] == nil {
+				sh.built[id] = &builtConns{}
+			}
+			sh.built[id].users++
+		}
+	}
+	return sh
 }
 
 type shareID struct {
@@ -363,6 +396,7 @@ type builtConns struct {
 	once  sync.Once
 	conns []joints.Connector
 	err   error
+	users int // variants still to take a copy; guarded by sharedBuilds.mu
 }
 
 // buildShared returns the connectors builder b makes with build: in a
@@ -376,20 +410,22 @@ func (in *Inputs) buildShared(b builders, build func() ([]joints.Connector, erro
 	sh := in.shared
 	id := shareID{b, in.shareKey[b]}
 	sh.mu.Lock()
-	if sh.built == nil {
-		sh.built = map[shareID]*builtConns{}
-	}
 	bc := sh.built[id]
-	if bc == nil {
-		bc = &builtConns{}
-		sh.built[id] = bc
-	}
 	sh.mu.Unlock()
+	if bc == nil {
+		return nil, fmt.Errorf("pipeline: no shared build for %v", id) // a variant not of the sweep: a bug
+	}
 	bc.once.Do(func() { bc.conns, bc.err = build() })
 	if bc.err != nil {
 		return nil, bc.err
 	}
-	return cloneConnectors(bc.conns), nil
+	conns := cloneConnectors(bc.conns)
+	sh.mu.Lock()
+	if bc.users--; bc.users == 0 {
+		bc.conns = nil // the last variant of the key has its copy
+	}
+	sh.mu.Unlock()
+	return conns, nil
 }
 
 // cloneConnectors copies connectors deep enough for joints.NewResult and
