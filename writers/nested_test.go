@@ -3,6 +3,7 @@ package writers
 import (
 	"bytes"
 	"errors"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -177,4 +178,80 @@ func readAll(t *testing.T, dir string) map[string][]byte {
 		t.Fatal(err)
 	}
 	return out
+}
+
+// A nested set rendered straight into its folder is the set written
+// from memory; a rendering that fails, or a file without the run id,
+// is the caller's error, a write that fails an output error, and
+// either fails the whole.
+func TestWriteNestedFilesRendered(t *testing.T) {
+	const runC = "cccccccccccccccccccccccccccccccc"
+	mem := testSet(runA, 3000)
+	var files []File
+	for _, f := range mem.Files {
+		files = append(files, File{Name: f.Name, Render: func(w io.Writer) error { _, err := w.Write(f.Data); return err }})
+	}
+	outer := testSet(runC, 1)
+	want := filepath.Join(t.TempDir(), "want")
+	whole := outer
+	whole.Sets = []NestedSet{{Dir: "01-a=x", Set: mem}}
+	if err := WriteSet(want, whole); err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(t.TempDir(), "got")
+	d, err := OpenSet(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	listed, err := d.WriteNestedFiles("01-a=x", Set{Job: mem.Job, Generator: mem.Generator, RunID: runA}, files)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, f := range mem.Files {
+		if listed[i].Name != f.Name || listed[i].Bytes != int64(len(f.Data)) || listed[i].SHA256 != hashHex(f.Data) {
+			t.Errorf("listed %+v for %s", listed[i], f.Name)
+		}
+	}
+	if err := d.Write(outer); err != nil {
+		t.Fatal(err)
+	}
+	d.Close()
+	got, exp := readAll(t, dir), readAll(t, want)
+	if len(got) != len(exp) {
+		t.Fatalf("%d files, want %d", len(got), len(exp))
+	}
+	for name, b := range exp {
+		if !bytes.Equal(got[name], b) {
+			t.Errorf("%s differs from the set written from memory", name)
+		}
+	}
+
+	bad := errors.New("no such connector")
+	for _, tc := range []struct {
+		name   string
+		fsys   FS
+		file   File
+		output bool
+	}{
+		{"render fails", OSFS{}, File{Name: "x.txt", Render: func(w io.Writer) error { return bad }}, false},
+		{"no run id", OSFS{}, File{Name: "x.txt", Render: func(w io.Writer) error { _, err := io.WriteString(w, "run nothing\n"); return err }}, false},
+		{"disk full", &faultFS{op: "write", name: "connectors.csv", n: 1, err: syscall.ENOSPC}, files[1], true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			d, err := OpenSetFS(dir, tc.fsys)
+			if err != nil {
+				t.Fatal(err)
+			}
+			_, err = d.WriteNestedFiles("01-a=x", Set{Job: "build", Generator: "joinery test", RunID: runA}, []File{files[0], tc.file})
+			if err == nil || errors.Is(err, ErrOutput) != tc.output {
+				t.Errorf("err %v: output error %v, want %v", err, errors.Is(err, ErrOutput), tc.output)
+			}
+			if err := d.Write(outer); !errors.Is(err, ErrOutput) {
+				t.Errorf("Write after a failed nested set: %v", err)
+			}
+			d.Close()
+			checkWhole(t, dir, runC)
+			checkNoLeftovers(t, dir)
+		})
+	}
 }

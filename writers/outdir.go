@@ -1,9 +1,14 @@
 package writers
 
 import (
+	"bufio"
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
+	"hash"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -423,6 +428,12 @@ func (d *OutputDir) WriteNested(n NestedSet) error {
 	if err := checkNested(n); err != nil {
 		return err
 	}
+	return d.nestedInto(n, func(sub string, marker *document.SetDoc) error { return d.writeFiles(sub, n.Set, marker) })
+}
+
+// nestedInto makes the folder of the nested set n in the temporary
+// directory and fills it with fill, given the folder and its marker.
+func (d *OutputDir) nestedInto(n NestedSet, fill func(sub string, marker *document.SetDoc) error) error {
 	d.mu.Lock()
 	if d.closed || d.written {
 		d.mu.Unlock()
@@ -440,15 +451,147 @@ func (d *OutputDir) WriteNested(n NestedSet) error {
 	tmp := d.tmp
 	d.mu.Unlock()
 	if err == nil {
-		err = d.writeNested(tmp, n)
+		sub := filepath.Join(tmp, n.Dir)
+		if err = d.fsys.Mkdir(sub, 0o755); err == nil {
+			if err = fill(sub, newMarker(n.Set)); err != nil {
+				err = fmt.Errorf("%s: %w", n.Dir, err)
+			}
+		}
 	}
 	if err != nil {
 		d.mu.Lock()
 		d.failed = true
 		d.mu.Unlock()
+		var re *renderError
+		if errors.As(err, &re) {
+			return err
+		}
 		return OutputError(fmt.Errorf("writing the output set into %s: %w; %s", d.name, err, d.leftAs()))
 	}
 	return nil
+}
+
+// WriteNestedFiles writes a nested set as WriteNested does, rendering
+// each of files (concurrently) straight into its file in the temporary
+// directory instead of into memory first, hashing it as it goes, and
+// returns the files as its marker lists them (name, size, SHA-256), in
+// the order given. set gives the folder's job, generator and run id
+// (its Files and Sets are not used). A file that does not carry the run
+// id near its start, or whose rendering fails, fails the nested set
+// (not an output error: the caller's); a write that fails is an output
+// error. Either way Write fails too.
+func (d *OutputDir) WriteNestedFiles(dir string, set Set, files []File) ([]document.SetFile, error) {
+	n := NestedSet{Dir: dir, Set: Set{Job: set.Job, Generator: set.Generator, RunID: set.RunID}}
+	if err := checkNested(n); err != nil {
+		return nil, err
+	}
+	seen := map[string]bool{}
+	for _, f := range files {
+		if !plainName(f.Name) || seen[f.Name] {
+			return nil, fmt.Errorf("writers: bad or repeated file name %q in an output set", f.Name)
+		}
+		seen[f.Name] = true
+	}
+	var listed []document.SetFile
+	err := d.nestedInto(n, func(sub string, marker *document.SetDoc) error {
+		var err error
+		listed, err = d.renderFiles(sub, set.RunID, files)
+		if err != nil {
+			return err
+		}
+		marker.Files = append(marker.Files, listed...)
+		return d.completeSet(sub, marker)
+	})
+	return listed, err
+}
+
+// renderError marks a file's rendering that failed, as opposed to its
+// writing: the caller's error, not an output error.
+type renderError struct{ err error }
+
+func (e *renderError) Error() string { return e.err.Error() }
+func (e *renderError) Unwrap() error { return e.err }
+
+// renderFiles renders files into dir, each synced to disk, and returns
+// them as a marker lists them.
+func (d *OutputDir) renderFiles(dir, runID string, files []File) ([]document.SetFile, error) {
+	listed := make([]document.SetFile, len(files))
+	errs := make([]error, len(files))
+	var wg sync.WaitGroup
+	for i := range files {
+		wg.Go(func() { listed[i], errs[i] = d.renderFile(filepath.Join(dir, files[i].Name), runID, &files[i]) })
+	}
+	wg.Wait()
+	return listed, errors.Join(errs...)
+}
+
+// renderFile renders f into a new file at path through a buffer,
+// hashing what it writes, checks that the file carries runID near its
+// start and syncs it.
+func (d *OutputDir) renderFile(path, runID string, f *File) (document.SetFile, error) {
+	out, err := d.fsys.Create(path)
+	if err != nil {
+		return document.SetFile{}, err
+	}
+	w := &hashWriter{w: out, h: sha256.New()}
+	bw := bufio.NewWriterSize(w, renderBuffer)
+	rerr := f.Render(bw)
+	if rerr == nil {
+		rerr = bw.Flush()
+	}
+	err = w.err // the file's own failure comes first
+	if err == nil && rerr != nil {
+		err = &renderError{fmt.Errorf("writers: rendering %s: %w", f.Name, rerr)}
+	}
+	if err == nil {
+		if got := document.FindRunID(w.head); got != runID {
+			err = &renderError{fmt.Errorf("writers: %s does not carry the set's run id %s near its start (found %q)", f.Name, runID, got)}
+		}
+	}
+	if err == nil {
+		err = out.Sync()
+	}
+	if cerr := out.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		if _, ok := err.(*renderError); ok {
+			return document.SetFile{}, err
+		}
+		return document.SetFile{}, fmt.Errorf("writing %s: %w", f.Name, err)
+	}
+	return document.SetFile{Name: f.Name, Bytes: w.n, SHA256: hex.EncodeToString(w.h.Sum(nil))}, nil
+}
+
+// renderBuffer is the buffer between a file's rendering and its file
+// (our choice: large enough that writes are few, small beside a file).
+const renderBuffer = 1 << 20
+
+// hashWriter writes to w, hashing what it writes, counting it and
+// keeping its first document.RunIDHead bytes; it keeps w's first error.
+type hashWriter struct {
+	w    io.Writer
+	h    hash.Hash
+	n    int64
+	head []byte
+	err  error
+}
+
+func (w *hashWriter) Write(p []byte) (int, error) {
+	if w.err != nil {
+		return 0, w.err
+	}
+	if k := document.RunIDHead - len(w.head); k > 0 {
+		w.head = append(w.head, p[:min(k, len(p))]...)
+	}
+	w.h.Write(p)
+	n, err := w.w.Write(p)
+	w.n += int64(n)
+	if err == nil && n < len(p) {
+		err = io.ErrShortWrite
+	}
+	w.err = err
+	return n, err
 }
 
 // removeTemp removes the temporary directory, when made.
@@ -616,6 +759,12 @@ func (d *OutputDir) writeFiles(dir string, set Set, marker *document.SetDoc) err
 	for _, f := range set.Files {
 		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.sum()})
 	}
+	return d.completeSet(dir, marker)
+}
+
+// completeSet writes marker, complete, into dir beside the files it
+// lists, written and synced, and syncs dir.
+func (d *OutputDir) completeSet(dir string, marker *document.SetDoc) error {
 	marker.Complete = true
 	if err := d.writeMarker(dir, marker); err != nil {
 		return err

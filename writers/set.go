@@ -64,19 +64,14 @@ func hashHex(data []byte) string {
 // Render renders every file in memory, concurrently (they are
 // independent), and returns them in the order given, each with its
 // SHA-256; the first error stops the set, so that nothing is written.
-func Render(files []File) ([]Rendered, error) { return RenderInto(files, nil) }
-
-// RenderInto renders as Render does, into buffers lent by bufs (nil:
-// new ones). Give the files back with bufs.Release once they are
-// written and nothing holds their data.
-func RenderInto(files []File, bufs *Buffers) ([]Rendered, error) {
+func Render(files []File) ([]Rendered, error) {
 	out := make([]Rendered, len(files))
 	errs := make([]error, len(files))
 	var wg sync.WaitGroup
 	for i := range files {
 		wg.Go(func() {
-			buf := bufs.get(files[i].Name)
-			errs[i] = files[i].Render(buf)
+			var buf bytes.Buffer
+			errs[i] = files[i].Render(&buf)
 			out[i] = Rendered{Name: files[i].Name, Data: buf.Bytes()}
 			if errs[i] == nil {
 				out[i].SHA256 = hashHex(out[i].Data)
@@ -86,64 +81,8 @@ func RenderInto(files []File, bufs *Buffers) ([]Rendered, error) {
 	wg.Wait()
 	for i, err := range errs {
 		if err != nil {
-			bufs.Release(out)
 			return nil, fmt.Errorf("writers: rendering %s: %w", files[i].Name, err)
 		}
 	}
 	return out, nil
-}
-
-// Buffers lends rendering buffers by file name, so that runs rendering
-// the same files many times (a sweep's variants) reuse the memory of
-// those already written instead of growing new buffers each time. Safe
-// for concurrent use; a nil *Buffers lends new buffers and takes none
-// back.
-type Buffers struct {
-	mu   sync.Mutex
-	free map[string][]*bytes.Buffer
-	most map[string]int // the largest file of each name taken back
-}
-
-// NewBuffers returns an empty set of buffers.
-func NewBuffers() *Buffers {
-	return &Buffers{free: map[string][]*bytes.Buffer{}, most: map[string]int{}}
-}
-
-func (b *Buffers) get(name string) *bytes.Buffer {
-	if b == nil {
-		return new(bytes.Buffer)
-	}
-	b.mu.Lock()
-	defer b.mu.Unlock()
-	buf := new(bytes.Buffer)
-	if n := len(b.free[name]); n > 0 {
-		buf = b.free[name][n-1]
-		b.free[name] = b.free[name][:n-1]
-		buf.Reset()
-	}
-	// Room for the largest file of the name so far and an eighth more
-	// (variants differ in size): one allocation where growing by
-	// doubling would copy the file several times over.
-	buf.Grow(b.most[name] + b.most[name]/8)
-	return buf
-}
-
-// Release takes back the buffers of files rendered by RenderInto:
-// their Data must not be used afterwards. Files not rendered into b are
-// left alone.
-func (b *Buffers) Release(files []Rendered) {
-	if b == nil {
-		return
-	}
-	b.mu.Lock()
-	defer b.mu.Unlock()
-	for i := range files {
-		f := &files[i]
-		if cap(f.Data) == 0 {
-			continue
-		}
-		b.most[f.Name] = max(b.most[f.Name], len(f.Data))
-		b.free[f.Name] = append(b.free[f.Name], bytes.NewBuffer(f.Data[:0]))
-		f.Data = nil
-	}
 }

@@ -165,10 +165,9 @@ type SweepOutcome struct {
 	Reached bool
 }
 
-// variantRun is one variant built and rendered.
+// variantRun is one variant built.
 type variantRun struct {
 	run     document.VariantRun
-	files   []writers.Rendered // until written
 	reached bool
 }
 
@@ -219,32 +218,25 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	var mu sync.Mutex
 	prog.Start("building variants", int64(len(variants)))
 	// As many variants are built at once as there are processors; each
-	// is written into the set's temporary directory (out.WriteNested,
-	// synced) as soon as it is rendered, while the next ones are built,
-	// and its buffers serve the next variant. At most one more variant
-	// than are built at once holds its rendered files, so memory stays
-	// bounded whatever the number of variants.
-	workers := max(1, min(runtime.GOMAXPROCS(0), len(variants)))
-	building, holding := make(chan struct{}, workers), make(chan struct{}, workers+1)
-	bufs := writers.NewBuffers()
+	// renders its files straight into its folder of the set's temporary
+	// directory (out.WriteNestedFiles, synced), so that no variant's
+	// files stay in memory and memory stays bounded whatever the number
+	// of variants; the swap comes once every variant is on disk.
+	sem := make(chan struct{}, max(1, min(runtime.GOMAXPROCS(0), len(variants))))
 	var wg sync.WaitGroup
 	for i := range variants {
 		wg.Go(func() {
-			holding <- struct{}{}
-			defer func() { <-holding }()
+			sem <- struct{}{}
+			defer func() { <-sem }()
 			if ctx.Err() != nil {
 				errs[i] = ctx.Err()
 				return
 			}
-			building <- struct{}{}
-			r, err := buildVariant(ctx, in, &variants[i], material, env, bufs, func() *html.Outline { outlineDone.Wait(); return outline })
-			<-building
+			v := &variants[i]
+			r, files, err := buildVariant(ctx, in, v, material, env, func() *html.Outline { outlineDone.Wait(); return outline })
 			if err == nil {
-				err = out.WriteNested(writers.NestedSet{Dir: variants[i].Name,
-					Set: writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID, Files: r.files}})
+				r.run.Files, err = out.WriteNestedFiles(v.Name, writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID}, files)
 			}
-			bufs.Release(r.files)
-			r.files = nil
 			runs[i], errs[i] = r, err
 			mu.Lock()
 			prog.Add(1)
@@ -304,24 +296,25 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	return outcome, nil
 }
 
-// buildVariant builds, checks and renders one variant as Build would,
-// on the sweep's shared inputs and index, into buffers lent by bufs.
+// buildVariant builds and checks one variant as Build would, on the
+// sweep's shared inputs and index, and returns it with the files of its
+// set, to render.
 func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env,
-	bufs *writers.Buffers, outline func() *html.Outline) (variantRun, error) {
+	outline func() *html.Outline) (variantRun, []writers.File, error) {
 	in := *shared
 	in.Job = v.Job
 	in.shareKey = v.shareKey
 	quiet := Env{Generator: env.Generator} // progress and notes come from the sweep
 	res, err := BuildConnectors(ctx, &in, v.Build.Options, quiet)
 	if err != nil {
-		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
 	if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
-		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
 	info, err := in.RunInfo(env.Generator, res)
 	if err != nil {
-		return variantRun{}, err
+		return variantRun{}, nil, err
 	}
 	conn := document.NewConnectors(in.Model.Mesh, res, info)
 	rep := document.NewReport(res, info)
@@ -331,17 +324,10 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 			return html.Render(w, html.ForBuild(rep, conn, outline()))
 		}})
 	}
-	rendered, err := writers.RenderInto(files, bufs)
-	if err != nil {
-		return variantRun{}, err
-	}
-	r := variantRun{files: rendered, reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
+	r := variantRun{reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
 	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: summaryResult(res),
 		Pairs: stiffness.Pairs(res.Connectors, material)}
-	for _, f := range rendered {
-		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.SHA256})
-	}
-	return r, nil
+	return r, files, nil
 }
 
 // summaryResult returns what the manifest and the comparison read of a
