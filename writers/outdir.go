@@ -36,11 +36,14 @@ import (
 //     nothing else.
 //   - Write writes every file and the marker into .<name>.new-<digits>,
 //     syncs them to disk, and swaps the directory in (a sweep writes
-//     each nested set, a variant's folder, into that directory with
-//     WriteNested as soon as it is rendered, each file synced, while the
-//     next variants are built; Write then adds the outer files and does
-//     the swap, so the swap still comes only after every file and folder
-//     of the whole set is on disk): on Linux an atomic
+//     each nested set, a variant's folder, into that directory before
+//     Write, with WriteNestedFiles, which renders the files straight
+//     into it, or WriteNested; each file is synced, then its folder's
+//     marker, completed, and the folder, while the next variants are
+//     built. Write then adds the outer files and marker and does the
+//     swap, so the swap still comes only after every file and folder of
+//     the whole set is on disk, and a run killed before it leaves the
+//     old set as it was): on Linux an atomic
 //     exchange of the two directories (renameat2 with RENAME_EXCHANGE),
 //     then the old set is removed; elsewhere, or where the file system
 //     cannot exchange, two renames (the old set aside to
