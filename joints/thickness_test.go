@@ -62,3 +62,36 @@ func TestThicknessMismatches(t *testing.T) {
 		t.Errorf("part thickness ranges %+v", st)
 	}
 }
+
+// MaxThickness gives what math.Max folded over every element's
+// thickness gives, special values included (math.Max's rules: +Inf
+// wins over NaN, NaN over numbers).
+func TestMaxThicknessAsMathMax(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	for _, tc := range []struct {
+		name  string
+		elems []float64 // per element; NaN: the part's
+		part  float64
+	}{
+		{"plain", []float64{1.2, 0.8, 2.5}, 1},
+		{"part's", []float64{nan, 0.8, nan}, 3},
+		{"part NaN", []float64{nan, 0.8}, nan},
+		{"part NaN then Inf", []float64{nan, inf, 0.8}, nan},
+		{"Inf then part NaN", []float64{inf, nan}, nan},
+		{"negative zero", []float64{math.Copysign(0, -1)}, 1},
+		{"none", nil, 1},
+	} {
+		m := &geom.Mesh{Parts: []geom.Part{{ID: 1, Thickness: tc.part}}, ElemThickness: tc.elems,
+			ElemIDs: make([]int64, len(tc.elems)), ElemPart: make([]int32, len(tc.elems))}
+		if tc.elems == nil {
+			m.ElemThickness = []float64{}
+		}
+		want := 0.0
+		for e := range m.ElemThickness {
+			want = math.Max(want, m.Thickness(e))
+		}
+		if got := MaxThickness(m); math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
+			t.Errorf("%s: MaxThickness = %g, want %g", tc.name, got, want)
+		}
+	}
+}

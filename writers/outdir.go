@@ -1,11 +1,14 @@
 package writers
 
 import (
+	"bufio"
 	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"hash"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -32,7 +35,15 @@ import (
 //     marked by the .joinery-set file of an earlier set and holding
 //     nothing else.
 //   - Write writes every file and the marker into .<name>.new-<digits>,
-//     syncs them to disk, and swaps the directory in: on Linux an atomic
+//     syncs them to disk, and swaps the directory in (a sweep writes
+//     each nested set, a variant's folder, into that directory before
+//     Write, with WriteNestedFiles, which renders the files straight
+//     into it, or WriteNested; each file is synced, then its folder's
+//     marker, completed, and the folder, while the next variants are
+//     built. Write then adds the outer files and marker and does the
+//     swap, so the swap still comes only after every file and folder of
+//     the whole set is on disk, and a run killed before it leaves the
+//     old set as it was): on Linux an atomic
 //     exchange of the two directories (renameat2 with RENAME_EXCHANGE),
 //     then the old set is removed; elsewhere, or where the file system
 //     cannot exchange, two renames (the old set aside to
@@ -115,6 +126,11 @@ type OutputDir struct {
 	written bool // Write was called
 	placed  bool // the new set stands in the output directory
 	closed  bool
+
+	mu     sync.Mutex           // guards what follows, for WriteNested
+	tmp    string               // the temporary directory, once made
+	nested []document.NestedSet // the nested sets written into tmp
+	failed bool                 // a WriteNested failed: Write fails too
 }
 
 // dirState is what stands at the output directory when a run starts.
@@ -383,20 +399,210 @@ func (d *OutputDir) Write(set Set) error {
 	if err := checkSet(set); err != nil {
 		return err
 	}
+	d.mu.Lock()
+	defer d.mu.Unlock()
 	d.written = true
-	tmp, err := d.writeTemp(set)
+	if d.failed {
+		d.removeTemp()
+		return OutputError(fmt.Errorf("writing the output set into %s: a nested set was not written; %s", d.name, d.leftAs()))
+	}
+	err := d.writeTemp(set)
 	if err == nil {
-		err = d.swap(tmp)
+		err = d.swap(d.tmp)
 	}
 	if err != nil {
-		if tmp != "" {
-			d.fsys.RemoveAll(tmp)
-		}
+		d.removeTemp()
 		return OutputError(fmt.Errorf("writing the output set into %s: %w; %s", d.name, err, d.leftAs()))
 	}
 	d.placed = true
 	d.fsys.SyncDir(d.parent)
 	return nil
+}
+
+// WriteNested writes the nested set n into the set being written now,
+// before Write, so that a caller making many nested sets (a sweep's
+// variants) need not hold them all in memory: its folder, its files and
+// its marker are written into the temporary directory and synced to
+// disk, and Write lists it in the outer marker (in folder-name order)
+// with the nested sets of its own Set.Sets. Safe for concurrent use; not
+// after Write. On failure the error (an output error) says what is left,
+// and Write fails too.
+func (d *OutputDir) WriteNested(n NestedSet) error {
+	if err := checkNested(n); err != nil {
+		return err
+	}
+	return d.nestedInto(n, func(sub string, marker *document.SetDoc) error { return d.writeFiles(sub, n.Set, marker) })
+}
+
+// nestedInto makes the folder of the nested set n in the temporary
+// directory and fills it with fill, given the folder and its marker.
+func (d *OutputDir) nestedInto(n NestedSet, fill func(sub string, marker *document.SetDoc) error) error {
+	d.mu.Lock()
+	if d.closed || d.written {
+		d.mu.Unlock()
+		return errors.New("writers: nested set written after Write or Close")
+	}
+	if slices.ContainsFunc(d.nested, func(o document.NestedSet) bool { return o.Name == n.Dir }) {
+		d.mu.Unlock()
+		return fmt.Errorf("writers: nested set %s written twice", n.Dir)
+	}
+	err := d.makeTemp(n.Set.Generator)
+	if err == nil {
+		// Reserved now, so that a second writer of the same folder fails.
+		d.nested = append(d.nested, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
+	}
+	tmp := d.tmp
+	d.mu.Unlock()
+	if err == nil {
+		sub := filepath.Join(tmp, n.Dir)
+		if err = d.fsys.Mkdir(sub, 0o755); err == nil {
+			if err = fill(sub, newMarker(n.Set)); err != nil {
+				err = fmt.Errorf("%s: %w", n.Dir, err)
+			}
+		}
+	}
+	if err != nil {
+		d.mu.Lock()
+		d.failed = true
+		d.mu.Unlock()
+		var re *renderError
+		if errors.As(err, &re) {
+			return err
+		}
+		return OutputError(fmt.Errorf("writing the output set into %s: %w; %s", d.name, err, d.leftAs()))
+	}
+	return nil
+}
+
+// WriteNestedFiles writes a nested set as WriteNested does, rendering
+// each of files (concurrently) straight into its file in the temporary
+// directory instead of into memory first, hashing it as it goes, and
+// returns the files as its marker lists them (name, size, SHA-256), in
+// the order given. set gives the folder's job, generator and run id
+// (its Files and Sets are not used). A file that does not carry the run
+// id near its start, or whose rendering fails, fails the nested set
+// (not an output error: the caller's); a write that fails is an output
+// error. Either way Write fails too.
+func (d *OutputDir) WriteNestedFiles(dir string, set Set, files []File) ([]document.SetFile, error) {
+	n := NestedSet{Dir: dir, Set: Set{Job: set.Job, Generator: set.Generator, RunID: set.RunID}}
+	if err := checkNested(n); err != nil {
+		return nil, err
+	}
+	seen := map[string]bool{}
+	for _, f := range files {
+		if !plainName(f.Name) || seen[f.Name] {
+			return nil, fmt.Errorf("writers: bad or repeated file name %q in an output set", f.Name)
+		}
+		seen[f.Name] = true
+	}
+	var listed []document.SetFile
+	err := d.nestedInto(n, func(sub string, marker *document.SetDoc) error {
+		var err error
+		listed, err = d.renderFiles(sub, set.RunID, files)
+		if err != nil {
+			return err
+		}
+		marker.Files = append(marker.Files, listed...)
+		return d.completeSet(sub, marker)
+	})
+	return listed, err
+}
+
+// renderError marks a file's rendering that failed, as opposed to its
+// writing: the caller's error, not an output error.
+type renderError struct{ err error }
+
+func (e *renderError) Error() string { return e.err.Error() }
+func (e *renderError) Unwrap() error { return e.err }
+
+// renderFiles renders files into dir, each synced to disk, and returns
+// them as a marker lists them.
+func (d *OutputDir) renderFiles(dir, runID string, files []File) ([]document.SetFile, error) {
+	listed := make([]document.SetFile, len(files))
+	errs := make([]error, len(files))
+	var wg sync.WaitGroup
+	for i := range files {
+		wg.Go(func() { listed[i], errs[i] = d.renderFile(filepath.Join(dir, files[i].Name), runID, &files[i]) })
+	}
+	wg.Wait()
+	return listed, errors.Join(errs...)
+}
+
+// renderFile renders f into a new file at path through a buffer,
+// hashing what it writes, checks that the file carries runID near its
+// start and syncs it.
+func (d *OutputDir) renderFile(path, runID string, f *File) (document.SetFile, error) {
+	out, err := d.fsys.Create(path)
+	if err != nil {
+		return document.SetFile{}, err
+	}
+	w := &hashWriter{w: out, h: sha256.New()}
+	bw := bufio.NewWriterSize(w, renderBuffer)
+	rerr := f.Render(bw)
+	if rerr == nil {
+		rerr = bw.Flush()
+	}
+	err = w.err // the file's own failure comes first
+	if err == nil && rerr != nil {
+		err = &renderError{fmt.Errorf("writers: rendering %s: %w", f.Name, rerr)}
+	}
+	if err == nil {
+		if got := document.FindRunID(w.head); got != runID {
+			err = &renderError{fmt.Errorf("writers: %s does not carry the set's run id %s near its start (found %q)", f.Name, runID, got)}
+		}
+	}
+	if err == nil {
+		err = out.Sync()
+	}
+	if cerr := out.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		if _, ok := err.(*renderError); ok {
+			return document.SetFile{}, err
+		}
+		return document.SetFile{}, fmt.Errorf("writing %s: %w", f.Name, err)
+	}
+	return document.SetFile{Name: f.Name, Bytes: w.n, SHA256: hex.EncodeToString(w.h.Sum(nil))}, nil
+}
+
+// renderBuffer is the buffer between a file's rendering and its file
+// (our choice: large enough that writes are few, small beside a file).
+const renderBuffer = 1 << 20
+
+// hashWriter writes to w, hashing what it writes, counting it and
+// keeping its first document.RunIDHead bytes; it keeps w's first error.
+type hashWriter struct {
+	w    io.Writer
+	h    hash.Hash
+	n    int64
+	head []byte
+	err  error
+}
+
+func (w *hashWriter) Write(p []byte) (int, error) {
+	if w.err != nil {
+		return 0, w.err
+	}
+	if k := document.RunIDHead - len(w.head); k > 0 {
+		w.head = append(w.head, p[:min(k, len(p))]...)
+	}
+	w.h.Write(p)
+	n, err := w.w.Write(p)
+	w.n += int64(n)
+	if err == nil && n < len(p) {
+		err = io.ErrShortWrite
+	}
+	w.err = err
+	return n, err
+}
+
+// removeTemp removes the temporary directory, when made.
+func (d *OutputDir) removeTemp() {
+	if d.tmp != "" {
+		d.fsys.RemoveAll(d.tmp)
+		d.tmp = ""
+	}
 }
 
 // leftAs says what a failed run left in the output directory.
@@ -423,16 +629,28 @@ func checkSet(set Set) error {
 		seen[f.Name] = true
 	}
 	for _, n := range set.Sets {
-		if !plainName(n.Dir) || seen[n.Dir] {
+		if seen[n.Dir] {
 			return fmt.Errorf("writers: bad or repeated folder name %q of a nested set", n.Dir)
 		}
 		seen[n.Dir] = true
-		if len(n.Set.Sets) > 0 {
-			return fmt.Errorf("writers: nested set %s holds sets of its own", n.Dir)
+		if err := checkNested(n); err != nil {
+			return err
 		}
-		if err := checkFiles(n.Set); err != nil {
-			return fmt.Errorf("%w (in nested set %s)", err, n.Dir)
-		}
+	}
+	return nil
+}
+
+// checkNested checks a nested set: a plain folder name, files only,
+// every file carrying its run id.
+func checkNested(n NestedSet) error {
+	if !plainName(n.Dir) {
+		return fmt.Errorf("writers: bad or repeated folder name %q of a nested set", n.Dir)
+	}
+	if len(n.Set.Sets) > 0 {
+		return fmt.Errorf("writers: nested set %s holds sets of its own", n.Dir)
+	}
+	if err := checkFiles(n.Set); err != nil {
+		return fmt.Errorf("%w (in nested set %s)", err, n.Dir)
 	}
 	return nil
 }
@@ -460,39 +678,66 @@ func checkFiles(set Set) error {
 	return nil
 }
 
-// writeTemp writes the set and its marker into a new temporary directory
-// beside the output directory, synced to disk, and returns its path
-// (also on error, when it was made).
-func (d *OutputDir) writeTemp(set Set) (string, error) {
+// makeTemp makes the temporary directory beside the output directory,
+// once, with a marker not yet complete in it. d.mu is held.
+func (d *OutputDir) makeTemp(generator string) error {
+	if d.tmp != "" {
+		return nil
+	}
 	tmp, err := mkdirUnique(d.fsys, filepath.Join(d.parent, "."+d.base+newInfix))
 	if err != nil {
-		return "", err
+		return err
 	}
-	marker := newMarker(set)
+	d.tmp = tmp
 	// A marker first, so that a run killed while writing leaves a
 	// directory the next run recognises as its own to remove.
-	if err := d.writeMarker(tmp, marker); err != nil {
-		return tmp, err
+	return d.writeMarker(tmp, newMarker(Set{Generator: generator}))
+}
+
+// writeNested writes the nested set n into its folder of tmp, synced to
+// disk.
+func (d *OutputDir) writeNested(tmp string, n NestedSet) error {
+	sub := filepath.Join(tmp, n.Dir)
+	if err := d.fsys.Mkdir(sub, 0o755); err != nil {
+		return err
+	}
+	if err := d.writeFiles(sub, n.Set, newMarker(n.Set)); err != nil {
+		return fmt.Errorf("%s: %w", n.Dir, err)
+	}
+	return nil
+}
+
+// writeTemp writes the set and its marker into the temporary directory
+// beside the output directory (made when no nested set made it), synced
+// to disk, beside the nested sets WriteNested wrote there. d.mu is held.
+func (d *OutputDir) writeTemp(set Set) error {
+	if err := d.makeTemp(set.Generator); err != nil {
+		return err
 	}
 	for _, n := range set.Sets {
-		sub := filepath.Join(tmp, n.Dir)
-		if err := d.fsys.Mkdir(sub, 0o755); err != nil {
-			return tmp, err
+		if slices.ContainsFunc(d.nested, func(o document.NestedSet) bool { return o.Name == n.Dir }) {
+			return fmt.Errorf("writers: nested set %s written twice", n.Dir)
 		}
-		if err := d.writeFiles(sub, n.Set, newMarker(n.Set)); err != nil {
-			return tmp, fmt.Errorf("%s: %w", n.Dir, err)
+		if err := d.writeNested(d.tmp, n); err != nil {
+			return err
 		}
-		marker.Sets = append(marker.Sets, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
+		d.nested = append(d.nested, document.NestedSet{Name: n.Dir, RunID: n.Set.RunID, Job: n.Set.Job})
 	}
-	if err := d.writeFiles(tmp, set, marker); err != nil {
-		return tmp, err
+	marker := newMarker(set)
+	marker.Sets = slices.Clone(d.nested)
+	slices.SortFunc(marker.Sets, func(a, b document.NestedSet) int { return strings.Compare(a.Name, b.Name) })
+	if len(marker.Sets) == 0 {
+		marker.Sets = nil
+	}
+	if err := d.writeFiles(d.tmp, set, marker); err != nil {
+		return err
 	}
 	if d.state.exists {
-		if err := d.fsys.Chmod(tmp, d.state.mode); err != nil {
-			return tmp, err
+		if err := d.fsys.Chmod(d.tmp, d.state.mode); err != nil {
+			return err
 		}
 	}
-	return tmp, nil
+	return nil
 }
 
 // newMarker returns the marker of set, not yet complete, listing no
@@ -515,9 +760,14 @@ func (d *OutputDir) writeFiles(dir string, set Set, marker *document.SetDoc) err
 		return err
 	}
 	for _, f := range set.Files {
-		sum := sha256.Sum256(f.Data)
-		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+		marker.Files = append(marker.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: f.sum()})
 	}
+	return d.completeSet(dir, marker)
+}
+
+// completeSet writes marker, complete, into dir beside the files it
+// lists, written and synced, and syncs dir.
+func (d *OutputDir) completeSet(dir string, marker *document.SetDoc) error {
 	marker.Complete = true
 	if err := d.writeMarker(dir, marker); err != nil {
 		return err
@@ -586,10 +836,15 @@ func (d *OutputDir) swap(tmp string) error {
 // written, removes the parent directories OpenSet made. It is safe to
 // call more than once.
 func (d *OutputDir) Close() error {
+	d.mu.Lock()
+	defer d.mu.Unlock()
 	if d.closed {
 		return nil
 	}
 	d.closed = true
+	if !d.placed {
+		d.removeTemp() // nested sets written for a Write that never came
+	}
 	var err error
 	if d.lock != nil {
 		err = d.lock.release()

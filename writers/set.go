@@ -2,6 +2,8 @@ package writers
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -39,11 +41,29 @@ type File struct {
 type Rendered struct {
 	Name string
 	Data []byte
+	// SHA256 is the SHA-256 of Data in hex, as Render found it while the
+	// file was still in cache; "" when the file was made otherwise, and
+	// then computed where it is needed (the set marker).
+	SHA256 string
+}
+
+// sum returns the SHA-256 of the file's data in hex.
+func (r *Rendered) sum() string {
+	if r.SHA256 != "" {
+		return r.SHA256
+	}
+	return hashHex(r.Data)
+}
+
+// hashHex returns the SHA-256 of data in hex.
+func hashHex(data []byte) string {
+	s := sha256.Sum256(data)
+	return hex.EncodeToString(s[:])
 }
 
 // Render renders every file in memory, concurrently (they are
-// independent), and returns them in the order given; the first error
-// stops the set, so that nothing is written.
+// independent), and returns them in the order given, each with its
+// SHA-256; the first error stops the set, so that nothing is written.
 func Render(files []File) ([]Rendered, error) {
 	out := make([]Rendered, len(files))
 	errs := make([]error, len(files))
@@ -53,6 +73,9 @@ func Render(files []File) ([]Rendered, error) {
 			var buf bytes.Buffer
 			errs[i] = files[i].Render(&buf)
 			out[i] = Rendered{Name: files[i].Name, Data: buf.Bytes()}
+			if errs[i] == nil {
+				out[i].SHA256 = hashHex(out[i].Data)
+			}
 		})
 	}
 	wg.Wait()

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/joinery-cae/joinery/joints/pipeline"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
 )
@@ -147,6 +148,66 @@ func TestSweepVariantsAreBuilds(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// A sweep builds each builder's connectors once for the variants that
+// agree on every setting the builder reads: each key, varied against a
+// key the other builder reads (bolt-dofs; attach for bolt-dofs), gives
+// variants that are plain builds byte for byte, so that no key is
+// marked as read by fewer builders than read it.
+func TestSweepSharesOnlyWhatIsEqual(t *testing.T) {
+	skipWithoutExample(t)
+	values := map[string][2]string{
+		"spot-dofs":     {"tx+ty+tz", "tx+ty+tz+rx+ry+rz"},
+		"attach":        {"interpolated", "patch"},
+		"links":         {"gap", "offset"},
+		"nugget-rule":   {"4sqrt", "5sqrt"},
+		"bolt-dofs":     {"tx+ty+tz", "tx+ty+tz+rx+ry+rz"},
+		"bolt-coupling": {"rigid", "averaging"},
+		"shank":         {"rigid", "beam"},
+		"bolt-ring":     {"hole", "washer"},
+	}
+	for _, k := range pipeline.VaryKeys() {
+		if _, ok := values[k.Flag]; !ok {
+			t.Fatalf("key %s has no values in this test", k.Flag)
+		}
+	}
+	for key, kv := range values {
+		partner := "bolt-dofs"
+		if key == partner {
+			partner = "attach"
+		}
+		pv := values[partner]
+		t.Run(key, func(t *testing.T) {
+			dir := filepath.Join(t.TempDir(), "sweep")
+			code, _, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--quiet", "--fail-on", "never",
+				"--vary", key+"="+kv[0]+","+kv[1], "--vary", partner+"="+pv[0]+","+pv[1])
+			if code != exitOK {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			i := 0
+			for _, v := range kv {
+				for _, p := range pv {
+					i++
+					b := filepath.Join(t.TempDir(), "build")
+					if code, _, errs := runCLI(t, "build", exampleJob, "--out", b, "--quiet", "--fail-on", "never",
+						"--"+key, strings.ReplaceAll(v, "+", ","), "--"+partner, strings.ReplaceAll(p, "+", ",")); code != exitOK {
+						t.Fatalf("build: exit %d: %s", code, errs)
+					}
+					name := "0" + string(rune('0'+i)) + "-" + key + "=" + v + "-" + partner + "=" + p
+					got, want := readTree(t, filepath.Join(dir, name)), readTree(t, b)
+					if len(got) != len(want) || len(got) == 0 {
+						t.Errorf("%s: %d files, the build %d", name, len(got), len(want))
+					}
+					for f := range want {
+						if !bytes.Equal(got[f], want[f]) {
+							t.Errorf("%s: %s differs from the plain build's", name, f)
+						}
+					}
+				}
+			}
+		})
 	}
 }
 

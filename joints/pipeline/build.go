@@ -175,11 +175,13 @@ func BuildConnectors(ctx context.Context, in *Inputs, o joints.BuildOptions, env
 		index = IndexFor(m, in.Joints, []joints.BuildOptions{o})
 		prog.Done()
 	}
-	conns, err := spot.BuildShared(ctx, index, in.Joints, o, prog, in.stacks)
+	conns, err := in.buildShared(spotBuilder, func() ([]joints.Connector, error) {
+		return spot.BuildShared(ctx, index, in.Joints, o, prog, in.stacks)
+	})
 	if err != nil {
 		return nil, err
 	}
-	bolts, err := bolt.Build(ctx, index, in.Joints, o, prog)
+	bolts, err := in.buildShared(boltBuilder, func() ([]joints.Connector, error) { return bolt.Build(ctx, index, in.Joints, o, prog) })
 	if err != nil {
 		return nil, err
 	}

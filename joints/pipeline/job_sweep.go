@@ -43,26 +43,42 @@ type Vary struct {
 }
 
 // VaryKey is one setting a sweep can vary: its flag name, its job key,
-// and set, which checks a value and sets it on a job's build settings
-// the way the build flag does, returning the value as a variant's name
-// writes it. Adding a key is adding one entry to VaryKeys.
+// the builders whose connectors it changes, and set, which checks a
+// value and sets it on a job's build settings the way the build flag
+// does, returning the value as a variant's name writes it. Adding a key
+// is adding one entry to VaryKeys.
 type VaryKey struct {
 	Flag, Job string
-	set       func(b *JobBuild, v string) (string, error)
+	// reads says which builders read the setting (its field of
+	// joints.BuildOptions): variants that differ only in settings a
+	// builder does not read share that builder's connectors (built once,
+	// copied before ids are handed out). Mark a key read by every
+	// builder that looks at its field, or variants would share what they
+	// must not (TestSweepSharesOnlyWhatIsEqual checks it).
+	reads builders
+	set   func(b *JobBuild, v string) (string, error)
 }
+
+// builders names the connector builders of a build, as bits.
+type builders uint8
+
+const (
+	spotBuilder builders = 1 << iota // joints/spot
+	boltBuilder                      // joints/bolt
+)
 
 // VaryKeys lists the settings a sweep can vary, in the order the help
 // lists them. A function, not a variable: no package-level state.
 func VaryKeys() []VaryKey {
 	return []VaryKey{
-		{"spot-dofs", "spot_dofs", setDOFs(func(b *JobBuild) *[]string { return &b.SpotDOFs })},
-		{"attach", "attach", setChoice(func(b *JobBuild) *string { return &b.Attach }, func(s string) error { _, err := joints.ParseAttach(s); return err })},
-		{"links", "links", setChoice(func(b *JobBuild) *string { return &b.Links }, func(s string) error { _, err := joints.ParseLinkForm(s); return err })},
-		{"nugget-rule", "nugget_rule", setChoice(func(b *JobBuild) *string { return &b.NuggetRule }, func(s string) error { _, err := joints.ParseNuggetRule(s); return err })},
-		{"bolt-dofs", "bolt_dofs", setDOFs(func(b *JobBuild) *[]string { return &b.BoltDOFs })},
-		{"bolt-coupling", "bolt_coupling", setChoice(func(b *JobBuild) *string { return &b.BoltCoupling }, func(s string) error { _, err := joints.ParseBoltCoupling(s); return err })},
-		{"shank", "shank", setChoice(func(b *JobBuild) *string { return &b.Shank }, func(s string) error { _, err := joints.ParseShankForm(s); return err })},
-		{"bolt-ring", "bolt_ring", setChoice(func(b *JobBuild) *string { return &b.BoltRing }, func(s string) error { _, err := joints.ParseBoltRing(s); return err })},
+		{"spot-dofs", "spot_dofs", spotBuilder, setDOFs(func(b *JobBuild) *[]string { return &b.SpotDOFs })},
+		{"attach", "attach", spotBuilder, setChoice(func(b *JobBuild) *string { return &b.Attach }, func(s string) error { _, err := joints.ParseAttach(s); return err })},
+		{"links", "links", spotBuilder | boltBuilder, setChoice(func(b *JobBuild) *string { return &b.Links }, func(s string) error { _, err := joints.ParseLinkForm(s); return err })},
+		{"nugget-rule", "nugget_rule", spotBuilder, setChoice(func(b *JobBuild) *string { return &b.NuggetRule }, func(s string) error { _, err := joints.ParseNuggetRule(s); return err })},
+		{"bolt-dofs", "bolt_dofs", boltBuilder, setDOFs(func(b *JobBuild) *[]string { return &b.BoltDOFs })},
+		{"bolt-coupling", "bolt_coupling", boltBuilder, setChoice(func(b *JobBuild) *string { return &b.BoltCoupling }, func(s string) error { _, err := joints.ParseBoltCoupling(s); return err })},
+		{"shank", "shank", boltBuilder, setChoice(func(b *JobBuild) *string { return &b.Shank }, func(s string) error { _, err := joints.ParseShankForm(s); return err })},
+		{"bolt-ring", "bolt_ring", boltBuilder, setChoice(func(b *JobBuild) *string { return &b.BoltRing }, func(s string) error { _, err := joints.ParseBoltRing(s); return err })},
 	}
 }
 

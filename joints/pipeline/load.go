@@ -83,6 +83,10 @@ type Inputs struct {
 	// stacks, when set, keeps the welds' stacks for the builds that share
 	// them (a sweep's variants).
 	stacks *spot.Stacks
+	// shared and shareKey, when set, let a sweep's variants share the
+	// connectors of a builder (Inputs.buildShared in sweep.go).
+	shared   *sharedBuilds
+	shareKey map[builders]string
 }
 
 // Load reads the model and the joint lists a job names, holds their

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"runtime"
+	"slices"
 	"strings"
 	"sync"
 
@@ -95,6 +96,10 @@ type Variant struct {
 	Settings []document.Setting
 	Job      *Job // the job with the variant's settings
 	Build    BuildSettings
+	// shareKey, per builder, names the variant's values of the varied
+	// settings the builder reads: variants with the same key share its
+	// connectors.
+	shareKey map[builders]string
 }
 
 // Variants returns the Cartesian product of the varied values, the
@@ -108,6 +113,7 @@ func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 		vj := *job
 		var settings []document.Setting
 		names := []string{fmt.Sprintf("%0*d", width, i+1)}
+		share := map[builders]string{spotBuilder: "", boltBuilder: ""}
 		rest := i
 		idx := make([]int, len(s.Vary))
 		for k := len(s.Vary) - 1; k >= 0; k-- {
@@ -125,13 +131,18 @@ func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 			}
 			settings = append(settings, document.Setting{Key: v.Key, Value: val})
 			names = append(names, v.Key+"="+val)
+			for b := range share {
+				if key.reads&b != 0 {
+					share[b] += fmt.Sprintf("%s=%q ", v.Key, val)
+				}
+			}
 		}
 		b, err := vj.BuildSettings()
 		if err != nil {
 			return nil, err
 		}
 		b.NoPage = s.Build.NoPage
-		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b})
+		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b, shareKey: share})
 	}
 	return out, nil
 }
@@ -154,10 +165,9 @@ type SweepOutcome struct {
 	Reached bool
 }
 
-// variantRun is one variant built and rendered.
+// variantRun is one variant built.
 type variantRun struct {
 	run     document.VariantRun
-	files   []writers.Rendered
 	reached bool
 }
 
@@ -199,6 +209,7 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	}
 	in.index = IndexFor(in.Model.Mesh, in.Joints, opts)
 	in.stacks = &spot.Stacks{}
+	in.shared = newSharedBuilds(variants)
 	prog.Done()
 
 	material := partMaterials(in)
@@ -206,6 +217,11 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	errs := make([]error, len(variants))
 	var mu sync.Mutex
 	prog.Start("building variants", int64(len(variants)))
+	// As many variants are built at once as there are processors; each
+	// renders its files straight into its folder of the set's temporary
+	// directory (out.WriteNestedFiles, synced), so that no variant's
+	// files stay in memory and memory stays bounded whatever the number
+	// of variants; the swap comes once every variant is on disk.
 	sem := make(chan struct{}, max(1, min(runtime.GOMAXPROCS(0), len(variants))))
 	var wg sync.WaitGroup
 	for i := range variants {
@@ -216,7 +232,12 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 				errs[i] = ctx.Err()
 				return
 			}
-			runs[i], errs[i] = buildVariant(ctx, in, &variants[i], material, env, func() *html.Outline { outlineDone.Wait(); return outline })
+			v := &variants[i]
+			r, files, err := buildVariant(ctx, in, v, material, env, func() *html.Outline { outlineDone.Wait(); return outline })
+			if err == nil {
+				r.run.Files, err = out.WriteNestedFiles(v.Name, writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID}, files)
+			}
+			runs[i], errs[i] = r, err
 			mu.Lock()
 			prog.Add(1)
 			mu.Unlock()
@@ -235,10 +256,8 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	var vr []document.VariantRun
 	set := writers.Set{Job: "sweep", Generator: env.Generator}
 	outcome := &SweepOutcome{Out: s.Out, Files: SweepFiles()}
-	for i, r := range runs {
+	for _, r := range runs {
 		vr = append(vr, r.run)
-		set.Sets = append(set.Sets, writers.NestedSet{Dir: variants[i].Name,
-			Set: writers.Set{Job: "build", Generator: env.Generator, RunID: r.run.RunID, Files: r.files}})
 		outcome.Reached = outcome.Reached || r.reached
 	}
 	info, err := in.RunInfo(env.Generator, runs[0].run.Result)
@@ -277,22 +296,25 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	return outcome, nil
 }
 
-// buildVariant builds, checks and renders one variant as Build would,
-// on the sweep's shared inputs and index.
-func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env, outline func() *html.Outline) (variantRun, error) {
+// buildVariant builds and checks one variant as Build would, on the
+// sweep's shared inputs and index, and returns it with the files of its
+// set, to render.
+func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func(int64) stiffness.Material, env Env,
+	outline func() *html.Outline) (variantRun, []writers.File, error) {
 	in := *shared
 	in.Job = v.Job
+	in.shareKey = v.shareKey
 	quiet := Env{Generator: env.Generator} // progress and notes come from the sweep
 	res, err := BuildConnectors(ctx, &in, v.Build.Options, quiet)
 	if err != nil {
-		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
 	if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
-		return variantRun{}, fmt.Errorf("variant %s: %w", v.Name, err)
+		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
 	info, err := in.RunInfo(env.Generator, res)
 	if err != nil {
-		return variantRun{}, err
+		return variantRun{}, nil, err
 	}
 	conn := document.NewConnectors(in.Model.Mesh, res, info)
 	rep := document.NewReport(res, info)
@@ -302,18 +324,109 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 			return html.Render(w, html.ForBuild(rep, conn, outline()))
 		}})
 	}
-	rendered, err := writers.Render(files)
-	if err != nil {
-		return variantRun{}, err
-	}
-	r := variantRun{files: rendered, reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
-	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: res,
+	r := variantRun{reached: v.Build.Fail && res.Reached(v.Build.FailOn)}
+	r.run = document.VariantRun{Name: v.Name, Settings: v.Settings, RunID: info.RunID, Result: summaryResult(res),
 		Pairs: stiffness.Pairs(res.Connectors, material)}
-	for _, f := range rendered {
-		sum := sha256.Sum256(f.Data)
-		r.run.Files = append(r.run.Files, document.SetFile{Name: f.Name, Bytes: int64(len(f.Data)), SHA256: hex.EncodeToString(sum[:])})
+	return r, files, nil
+}
+
+// summaryResult returns what the manifest and the comparison read of a
+// variant's result (document.NewManifest, NewCompare: the connectors'
+// joints, states, stacks and degrees of freedom, the findings, the
+// kinematic counts, the options), without the connectors' ends, links
+// and own findings, which every variant would otherwise keep in memory
+// until the sweep's end: on a body, tens of megabytes a variant.
+func summaryResult(r *joints.Result) *joints.Result {
+	s := *r
+	s.Connectors = make([]joints.Connector, len(r.Connectors))
+	for i := range r.Connectors {
+		c := &r.Connectors[i]
+		s.Connectors[i] = joints.Connector{Joint: c.Joint, Status: c.Status, Stack: c.Stack, DOFs: c.DOFs, Attach: c.Attach}
 	}
-	return r, nil
+	return &s
+}
+
+// sharedBuilds keeps the connectors each builder made for a sweep's
+// variants, by builder and share key (Variant.shareKey): a builder's
+// connectors depend only on the inputs, the index and the settings it
+// reads, which the variants of one key have in common.
+type sharedBuilds struct {
+	mu    sync.Mutex
+	built map[shareID]*builtConns
+}
+
+// newSharedBuilds returns the shared builds of variants, each knowing
+// how many variants take it, so that it is dropped once the last one
+// has its copy.
+func newSharedBuilds(variants []Variant) *sharedBuilds {
+	sh := &sharedBuilds{built: map[shareID]*builtConns{}}
+	for _, v := range variants {
+		for b, key := range v.shareKey {
+			id := shareID{b, key}
+			if sh.built[id] == nil {
+				sh.built[id] = &builtConns{}
+			}
+			sh.built[id].users++
+		}
+	}
+	return sh
+}
+
+type shareID struct {
+	b   builders
+	key string
+}
+
+// builtConns is one builder's connectors, built once.
+type builtConns struct {
+	once  sync.Once
+	conns []joints.Connector
+	err   error
+	users int // variants still to take a copy; guarded by sharedBuilds.mu
+}
+
+// buildShared returns the connectors builder b makes with build: in a
+// sweep (in.shared set), built once per share key and copied for each
+// variant, as joints.NewResult then sorts them and hands out ids in
+// place; otherwise build's own.
+func (in *Inputs) buildShared(b builders, build func() ([]joints.Connector, error)) ([]joints.Connector, error) {
+	if in.shared == nil || in.shareKey == nil {
+		return build()
+	}
+	sh := in.shared
+	id := shareID{b, in.shareKey[b]}
+	sh.mu.Lock()
+	bc := sh.built[id]
+	sh.mu.Unlock()
+	if bc == nil {
+		return nil, fmt.Errorf("pipeline: no shared build for %v", id) // a variant not of the sweep: a bug
+	}
+	bc.once.Do(func() { bc.conns, bc.err = build() })
+	if bc.err != nil {
+		return nil, bc.err
+	}
+	conns := cloneConnectors(bc.conns)
+	sh.mu.Lock()
+	if bc.users--; bc.users == 0 {
+		bc.conns = nil // the last variant of the key has its copy
+	}
+	sh.mu.Unlock()
+	return conns, nil
+}
+
+// cloneConnectors copies connectors deep enough for joints.NewResult and
+// the checks to change the copy alone: the slice, the links (ids are
+// written into them) and the findings; the ends, the stack and the
+// bolt's data are only read after a builder made them.
+func cloneConnectors(cs []joints.Connector) []joints.Connector {
+	out := slices.Clone(cs)
+	for i := range out {
+		c := &out[i]
+		c.Links = slices.Clone(c.Links)
+		c.Findings = slices.Clone(c.Findings)
+		c.EndIDs = slices.Clone(c.EndIDs)
+	}
+	return out
 }
 
 // partMaterials returns the material of each part, from the parts

@@ -11,6 +11,7 @@ import (
 	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/joints/stiffness"
 	"github.com/joinery-cae/joinery/joints/synth"
+	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/html"
 )
 
@@ -55,7 +56,7 @@ func BenchmarkSweep8(b *testing.B) {
 		t0 := time.Now()
 		in := newInputs()
 		o := html.NewOutline(md.Mesh)
-		if _, err := buildVariant(ctx, in, &Variant{Name: "build", Job: job, Build: BuildSettings{}}, material, Env{}, func() *html.Outline { return o }); err != nil {
+		if err := renderVariant(ctx, in, &Variant{Name: "build", Job: job, Build: BuildSettings{}}, material, func() *html.Outline { return o }); err != nil {
 			b.Fatal(err)
 		}
 		t1 := time.Now()
@@ -67,14 +68,14 @@ func BenchmarkSweep8(b *testing.B) {
 		}
 		in.index = spot.IndexForAll(md.Mesh, md.Joints, opts)
 		in.stacks = &spot.Stacks{}
+		in.shared = newSharedBuilds(variants)
 		done := make(chan error, len(variants))
 		sem := make(chan struct{}, 2)
 		for i := range variants {
 			go func() {
 				sem <- struct{}{}
 				defer func() { <-sem }()
-				_, err := buildVariant(ctx, in, &variants[i], material, Env{}, func() *html.Outline { return o })
-				done <- err
+				done <- renderVariant(ctx, in, &variants[i], material, func() *html.Outline { return o })
 			}()
 		}
 		for range variants {
@@ -90,4 +91,13 @@ func BenchmarkSweep8(b *testing.B) {
 	b.ReportMetric(float64(tBuild.Milliseconds())/n, "build-ms")
 	b.ReportMetric(float64(tSweep.Milliseconds())/n, "sweep8-ms")
 	b.ReportMetric(float64(tSweep)/float64(tBuild), "sweep/build")
+}
+
+// renderVariant builds a variant and renders its files in memory.
+func renderVariant(ctx context.Context, in *Inputs, v *Variant, material func(int64) stiffness.Material, outline func() *html.Outline) error {
+	_, files, err := buildVariant(ctx, in, v, material, Env{}, outline)
+	if err == nil {
+		_, err = writers.Render(files)
+	}
+	return err
 }
