@@ -858,7 +858,7 @@ func (c *Contacts) nearestFacing(n int32, rec *NodeContact, cands []int32) int32
 func (c *Contacts) facingPairs() {
 	m := c.m
 	blocks := make([][]FacingPair, len(c.records))
-	parallelEach(len(c.records), func(b int) {
+	ParallelEach(len(c.records), func(b int) {
 		var (
 			out []FacingPair
 			sc  contactScratch

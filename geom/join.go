@@ -122,26 +122,6 @@ func (j *nearJoin) leafPairs() [][2]int32 {
 	return concat(out)
 }
 
-// parallelEach calls fn for i = 0 to n-1 on up to GOMAXPROCS goroutines,
-// handing out one i at a time (for items of uneven cost); fn must write
-// its results by i.
-func parallelEach(n int, fn func(i int)) {
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(runtime.GOMAXPROCS(0), n) {
-		wg.Go(func() {
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				fn(i)
-			}
-		})
-	}
-	wg.Wait()
-}
-
 // concat joins the parts in order.
 func concat[T any](parts [][]T) []T {
 	n := 0

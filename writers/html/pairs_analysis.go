@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/writers/document"
 )
@@ -111,7 +112,7 @@ func analyse(conn *document.ConnectorsDoc, findings []document.FindingDoc) *buil
 			an.unpaired = append(an.unpaired, i)
 		}
 	}
-	parallel(len(an.pairs), func(k int) {
+	geom.ParallelEach(len(an.pairs), func(k int) {
 		pa := an.pairs[k]
 		for _, i := range pa.conns {
 			c := &conn.Connectors[i]
