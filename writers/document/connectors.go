@@ -332,12 +332,20 @@ func boltDoc(c *joints.Connector) *BoltDoc {
 // EncodeConnectors writes the connectors document: its header fields
 // one per line, then one connector per line, so that a diff between two
 // builds shows one line per changed connector and the file stays a
-// third of its fully indented size.
+// third of its fully indented size. The connectors are written by
+// appendConnector (connectors_encode.go), byte for byte as encoding/json
+// would write them, without its reflection; the header, written once,
+// goes through encoding/json.
 func EncodeConnectors(w io.Writer, doc *ConnectorsDoc) error {
-	return encodeLines(w, []field{
+	return encodeLines(w, connectorsHead(doc), "connectors", doc.Connectors, appendConnector)
+}
+
+// connectorsHead returns the header fields of doc, in their order.
+func connectorsHead(doc *ConnectorsDoc) []field {
+	return []field{
 		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"new_ids", doc.IDs},
-	}, "connectors", doc.Connectors)
+	}
 }
 
 // field is one header field of a document written by encodeLines.
@@ -346,9 +354,19 @@ type field struct {
 	v   any
 }
 
+// appendFunc appends the compact JSON of one item to dst.
+type appendFunc[T any] func(dst []byte, item *T) ([]byte, error)
+
+// flushAt is the size at which encodeLines hands its buffer to the
+// writer: large enough that writes are few, small enough that the
+// buffer stays small beside the document.
+const flushAt = 64 << 10
+
 // encodeLines writes a JSON object of the header fields, one per line,
-// then the array listKey of items, one compact item per line.
-func encodeLines[T any](w io.Writer, head []field, listKey string, items []T) error {
+// then the array listKey of items, one compact item per line, each
+// appended by appendItem. On an error, what precedes the failing item
+// has been written.
+func encodeLines[T any](w io.Writer, head []field, listKey string, items []T, appendItem appendFunc[T]) error {
 	ew := &errWriter{w: w}
 	ew.printf("{\n")
 	for _, h := range head {
@@ -359,33 +377,55 @@ func encodeLines[T any](w io.Writer, head []field, listKey string, items []T) er
 		ew.printf("  %q: %s,\n", h.key, b)
 	}
 	ew.printf("  %q: [", listKey)
-	// One encoder and one buffer serve every item; once the first item
-	// is known, a writer that can grow (the bytes.Buffer a set renders
-	// into) is grown to about the whole list's size at once instead of
+	// One buffer serves every item and goes to w whenever it is full;
+	// when it is full the first time, a writer that can grow (the
+	// bytes.Buffer a set renders into) is grown to about the whole
+	// list's size, judged from the items so far, at once instead of
 	// doubling its way there.
+	buf := make([]byte, 0, flushAt+flushAt/4)
+	grown := false
+	for i := range items {
+		start := len(buf)
+		buf = append(buf, "\n    "...)
+		var err error
+		if buf, err = appendItem(buf, &items[i]); err != nil {
+			ew.Write(buf[:start])
+			return err
+		}
+		if i < len(items)-1 {
+			buf = append(buf, ',')
+		}
+		if len(buf) >= flushAt {
+			if g, ok := w.(interface{ Grow(int) }); ok && !grown {
+				g.Grow(len(buf) / (i + 1) * len(items) * 9 / 8)
+				grown = true
+			}
+			ew.Write(buf)
+			buf = buf[:0]
+		}
+	}
+	if len(items) > 0 {
+		buf = append(buf, "\n  "...)
+	}
+	buf = append(buf, "]\n}\n"...)
+	ew.Write(buf)
+	return ew.err
+}
+
+// jsonItems returns an appendFunc that writes items with encoding/json
+// (HTML characters not escaped), for the documents without a writer of
+// their own.
+func jsonItems[T any]() appendFunc[T] {
 	var buf bytes.Buffer
 	enc := json.NewEncoder(&buf)
 	enc.SetEscapeHTML(false)
-	for i := range items {
+	return func(dst []byte, item *T) ([]byte, error) {
 		buf.Reset()
-		buf.WriteString("\n    ")
-		if err := enc.Encode(&items[i]); err != nil {
-			return err
+		if err := enc.Encode(item); err != nil {
+			return dst, err
 		}
-		b := bytes.TrimRight(buf.Bytes(), "\n")
-		if i < len(items)-1 {
-			b = append(b, ',')
-		}
-		if g, ok := w.(interface{ Grow(int) }); ok && i == 0 {
-			g.Grow(len(b) * len(items) * 9 / 8)
-		}
-		ew.Write(b)
+		return append(dst, bytes.TrimRight(buf.Bytes(), "\n")...), nil
 	}
-	if len(items) > 0 {
-		ew.printf("\n  ")
-	}
-	ew.printf("]\n}\n")
-	return ew.err
 }
 
 // compactJSON marshals v on one line, without HTML escaping.

@@ -593,25 +593,11 @@ func fieldNames() map[string]bool {
 // golden build's, repeated) with ParseConnectors and, for comparison,
 // with encoding/json.
 func BenchmarkParseConnectors(b *testing.B) {
-	var data []byte
-	for _, raw := range goldenConnectors(b) {
-		doc, err := ParseConnectors(raw, "golden")
-		if err != nil {
-			b.Fatal(err)
-		}
-		base := doc.Connectors
-		doc.Connectors = nil
-		for i := 0; len(doc.Connectors) < 6000; i++ {
-			c := base[i%len(base)]
-			c.ID = fmt.Sprintf("%s-%d", c.ID, i)
-			doc.Connectors = append(doc.Connectors, c)
-		}
-		var buf bytes.Buffer
-		if err := EncodeConnectors(&buf, doc); err != nil {
-			b.Fatal(err)
-		}
-		data = buf.Bytes()
+	var buf bytes.Buffer
+	if err := EncodeConnectors(&buf, repeatedGolden(b, 6000)); err != nil {
+		b.Fatal(err)
 	}
+	data := buf.Bytes()
 	b.Run("ParseConnectors", func(b *testing.B) {
 		b.SetBytes(int64(len(data)))
 		for b.Loop() {

@@ -166,7 +166,7 @@ func EncodeFlanges(w io.Writer, doc *FlangesDoc) error {
 	return encodeLines(w, []field{
 		{"schema", doc.Schema}, {"version", doc.Version}, {"generator", doc.Generator}, {"run_id", doc.RunID}, {"caution", doc.Caution}, {"units", doc.Units},
 		{"inputs", doc.Inputs}, {"options", doc.Options}, {"facing_fields", doc.Fields},
-	}, "flanges", doc.Flanges)
+	}, "flanges", doc.Flanges, jsonItems[FlangeDoc]())
 }
 
 // DecodeFlanges reads a flanges document; name is the file's name, for
