@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"image"
 	"image/color"
 	"image/color/palette"
@@ -14,6 +15,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"syscall"
 	"testing"
 	"time"
 
@@ -54,16 +56,32 @@ func chromium(t *testing.T) string {
 // returns its standard output and its log.
 func runChromium(t *testing.T, bin string, args ...string) (stdout, log string) {
 	t.Helper()
-	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
-	defer cancel()
-	all := append(chromiumFlags(), "--user-data-dir="+t.TempDir())
-	cmd := exec.CommandContext(ctx, bin, append(all, args...)...)
-	var out, errb bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &errb
-	if err := cmd.Run(); err != nil {
+	// Headless Chromium itself now and then dies of a signal on a loaded
+	// machine before it has loaded anything (seen as a segmentation
+	// fault in its start-up); such a run says nothing about the page, so
+	// it is tried again, up to chromiumTries times in all. Any other
+	// failure, and a crash on every try, fails the test.
+	const chromiumTries = 3
+	for try := 1; ; try++ {
+		ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
+		all := append(chromiumFlags(), "--user-data-dir="+t.TempDir())
+		cmd := exec.CommandContext(ctx, bin, append(all, args...)...)
+		var out, errb bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &errb
+		err := cmd.Run()
+		cancel()
+		if err == nil {
+			return out.String(), errb.String()
+		}
+		var exit *exec.ExitError
+		if errors.As(err, &exit) && ctx.Err() == nil && try < chromiumTries {
+			if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
+				t.Logf("chromium %v died of %v (try %d of %d); trying again", args, ws.Signal(), try, chromiumTries)
+				continue
+			}
+		}
 		t.Fatalf("chromium %v: %v\n%s", args, err, errb.String())
 	}
-	return out.String(), errb.String()
 }
 
 var (
