@@ -45,7 +45,7 @@ func TestContactPairsAgainstBruteForce(t *testing.T) {
 		x := NewElemIndex(m)
 		const r = 2.0
 		keep := func(a, b int32, na, nb *[3]float32, d2 float64) bool { return (a+b)%3 != 0 }
-		got := concat(x.contactPairs(r, keep))
+		got := slices.Concat(x.contactPairs(r, keep)...)
 		slices.SortFunc(got, func(p, q [2]int32) int {
 			if p[0] != q[0] {
 				return int(p[0] - q[0])

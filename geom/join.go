@@ -119,20 +119,7 @@ func (j *nearJoin) leafPairs() [][2]int32 {
 		})
 	}
 	wg.Wait()
-	return concat(out)
-}
-
-// concat joins the parts in order.
-func concat[T any](parts [][]T) []T {
-	n := 0
-	for _, p := range parts {
-		n += len(p)
-	}
-	all := make([]T, 0, n)
-	for _, p := range parts {
-		all = append(all, p...)
-	}
-	return all
+	return slices.Concat(out...)
 }
 
 // tasks splits the walk of the root against itself into at least want
@@ -415,7 +402,7 @@ func (x *Index) ElemPairsNear(r float64, group []int32) [][2]int32 {
 		return nil
 	}
 	j := newNearJoin(x, r, group)
-	return concat(j.elemPairs(j.leafPairs(), nil, nil))
+	return slices.Concat(j.elemPairs(j.leafPairs(), nil, nil)...)
 }
 
 // contactPairs returns the pairs of elements of different parts whose

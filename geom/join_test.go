@@ -113,9 +113,9 @@ func TestJoinLeafPairsCover(t *testing.T) {
 		}
 		keep := func(a, b int32, na, nb *[3]float32, d2 float64) bool { return math.Abs(dot32(na, nb)) > 0.5 }
 		runtime.GOMAXPROCS(1)
-		one := concat(x.contactPairs(r, keep))
+		one := slices.Concat(x.contactPairs(r, keep)...)
 		runtime.GOMAXPROCS(3)
-		if got := concat(x.contactPairs(r, keep)); !slices.Equal(one, got) {
+		if got := slices.Concat(x.contactPairs(r, keep)...); !slices.Equal(one, got) {
 			t.Errorf("%d elements: contactPairs depends on GOMAXPROCS", n)
 		}
 	}

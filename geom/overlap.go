@@ -122,7 +122,7 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 		})
 	}
 	wg.Wait()
-	return concat(out)
+	return slices.Concat(out...)
 }
 
 // facingWalk holds what the walks of FacingElements share.

@@ -68,15 +68,7 @@ func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, reach,
 			parts[k] = elementSamples(m, fs[cuts[k]:cuts[k+1]], or, allowance)
 		}
 	})
-	n := 0
-	for _, p := range parts {
-		n += len(p)
-	}
-	out := make([]sample, 0, n)
-	for _, p := range parts {
-		out = append(out, p...)
-	}
-	return out
+	return slices.Concat(parts...)
 }
 
 // elementSamples is overlapSamples on facings fs that hold all the
