@@ -137,9 +137,20 @@ type facingWalk struct {
 	// single precision, for the quick tests (parallel or not, clusters,
 	// near or not); the walks use exact values.
 	geo []elemGeo
-	// clusters[leafCl[l]:leafCl[l+1]] sum up the elements of leaf l.
-	clusters []cluster
-	leafCl   []int32
+	// clusters[b] holds the clusters of the leaves of block b (leaves
+	// b*parallelBlock to (b+1)*parallelBlock-1) in leaf order, and
+	// clEnd[l] where leaf l's end in its block's (see leafClusters).
+	clusters [][]cluster
+	clEnd    []int32
+}
+
+// leafClusters returns the clusters that sum up the elements of leaf l.
+func (w *facingWalk) leafClusters(l int32) []cluster {
+	lo := int32(0)
+	if l%parallelBlock != 0 {
+		lo = w.clEnd[l-1]
+	}
+	return w.clusters[l/parallelBlock][lo:w.clEnd[l]]
 }
 
 // elemGeo is an element's unit normal, centroid and the radius about
@@ -191,44 +202,47 @@ func (c *cluster) admits(c0, n r3.Vec, repCos, r float64) bool {
 }
 
 // summarize fills the clusters of every leaf that has partners
-// (leafCl[l]:leafCl[l+1] of clusters), in the order of the leaf's items.
+// (leafClusters), in the order of the leaf's items. Each block of leaves
+// keeps its clusters in one slice (fresh memory is dear: no slice per
+// leaf, no copy of them all into one).
 func (w *facingWalk) summarize(t *packedTree, start []int32) {
 	nl := t.count(1)
-	per := make([][]cluster, nl)
+	w.clEnd = make([]int32, nl)
+	w.clusters = make([][]cluster, (nl+parallelBlock-1)/parallelBlock)
 	parallelBlocks(nl, func(from, to int) {
+		// About 1.8 clusters per leaf on a car body: room for two.
+		cs := make([]cluster, 0, 2*(to-from))
 		for l := from; l < to; l++ {
-			if start[l] == start[l+1] {
-				continue
+			if start[l] < start[l+1] {
+				cs = w.leafSummary(t, l, cs)
 			}
-			lo, hi := t.children(1, l)
-			var cs []cluster
-			for _, e := range t.ids[lo:hi] {
-				n := w.normal32(e)
-				if r3.Dot(n, n) == 0 {
-					continue
-				}
-				c, rad := vec32(&w.geo[e].c), float64(w.geo[e].rad)
-				k := slices.IndexFunc(cs, func(cl cluster) bool { return cl.g == w.group[e] && math.Abs(r3.Dot(cl.n, n)) >= clusterCos })
-				if k < 0 {
-					cs = append(cs, cluster{g: w.group[e], n: n, lo: c, hi: c, rad: rad})
-					continue
-				}
-				cl := &cs[k]
-				cl.lo = r3.Vec{X: math.Min(cl.lo.X, c.X), Y: math.Min(cl.lo.Y, c.Y), Z: math.Min(cl.lo.Z, c.Z)}
-				cl.hi = r3.Vec{X: math.Max(cl.hi.X, c.X), Y: math.Max(cl.hi.Y, c.Y), Z: math.Max(cl.hi.Z, c.Z)}
-				cl.rad = math.Max(cl.rad, rad)
-			}
-			per[l] = cs
+			w.clEnd[l] = int32(len(cs))
 		}
+		w.clusters[from/parallelBlock] = cs
 	})
-	w.leafCl = make([]int32, nl+1)
-	for l, cs := range per {
-		w.leafCl[l+1] = w.leafCl[l] + int32(len(cs))
+}
+
+// leafSummary appends the clusters of leaf l to cs.
+func (w *facingWalk) leafSummary(t *packedTree, l int, cs []cluster) []cluster {
+	first := len(cs)
+	lo, hi := t.children(1, l)
+	for _, e := range t.ids[lo:hi] {
+		n := w.normal32(e)
+		if r3.Dot(n, n) == 0 {
+			continue
+		}
+		c, rad := vec32(&w.geo[e].c), float64(w.geo[e].rad)
+		k := slices.IndexFunc(cs[first:], func(cl cluster) bool { return cl.g == w.group[e] && math.Abs(r3.Dot(cl.n, n)) >= clusterCos })
+		if k < 0 {
+			cs = append(cs, cluster{g: w.group[e], n: n, lo: c, hi: c, rad: rad})
+			continue
+		}
+		cl := &cs[first+k]
+		cl.lo = r3.Vec{X: math.Min(cl.lo.X, c.X), Y: math.Min(cl.lo.Y, c.Y), Z: math.Min(cl.lo.Z, c.Z)}
+		cl.hi = r3.Vec{X: math.Max(cl.hi.X, c.X), Y: math.Max(cl.hi.Y, c.Y), Z: math.Max(cl.hi.Z, c.Z)}
+		cl.rad = math.Max(cl.rad, rad)
 	}
-	w.clusters = make([]cluster, 0, w.leafCl[nl])
-	for _, cs := range per {
-		w.clusters = append(w.clusters, cs...)
-	}
+	return cs
 }
 
 // groupRun is one group near a leaf: its clusters in the partner
@@ -273,8 +287,9 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 	}
 	runs := sc.runs[:0]
 	for _, p := range partners {
-		for k := w.leafCl[p]; k < w.leafCl[p+1]; k++ {
-			c := &w.clusters[k]
+		pcs := w.leafClusters(p)
+		for k := range pcs {
+			c := &pcs[k]
 			if c.g == only {
 				continue
 			}

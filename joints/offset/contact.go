@@ -71,16 +71,22 @@ const tieGrain = 1e-6
 // tie returns v in units of tieGrain, rounded.
 func tie(v float64) float64 { return math.Round(v / tieGrain) }
 
-// contacts clusters the samples into contacts, sorted by A, B, Opposed,
-// Separation. allowance gives the agreement allowance of two thicknesses.
-func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) float64) []Contact {
+// contacts clusters the samples (chunks, in order) into contacts, sorted
+// by A, B, Opposed, Separation. allowance gives the agreement allowance of
+// two thicknesses.
+func contacts(m *geom.Mesh, chunks [][]sample, allowance func(t1, t2 float64) float64) []Contact {
 	// Sort an order, not the samples themselves (they are large).
-	order := make([]int32, len(samples))
-	for i := range order {
-		order[i] = int32(i)
+	n := 0
+	for _, c := range chunks {
+		n += len(c)
 	}
-	slices.SortFunc(order, func(i, j int32) int {
-		x, y := &samples[i], &samples[j]
+	order := make([]*sample, 0, n)
+	for _, c := range chunks {
+		for i := range c {
+			order = append(order, &c[i])
+		}
+	}
+	slices.SortFunc(order, func(x, y *sample) int {
 		switch {
 		case x.ida != y.ida:
 			return cmp.Compare(x.ida, y.ida)
@@ -96,11 +102,10 @@ func contacts(m *geom.Mesh, samples []sample, allowance func(t1, t2 float64) flo
 		return cmp.Or(cmp.Compare(tie(x.at.X), tie(y.at.X)), cmp.Compare(tie(x.at.Y), tie(y.at.Y)), cmp.Compare(tie(x.at.Z), tie(y.at.Z)),
 			cmp.Compare(x.s, y.s))
 	})
-	sorted := make([]sample, len(samples))
-	for i, k := range order {
-		sorted[i] = samples[k]
+	samples := make([]sample, len(order))
+	for i, p := range order {
+		samples[i] = *p
 	}
-	samples = sorted
 	var out []Contact
 	for lo := 0; lo < len(samples); {
 		hi := lo + 1

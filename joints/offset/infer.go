@@ -133,8 +133,8 @@ func InferWith(ctx context.Context, x *geom.Index, adj geom.Adjacency, js []join
 	}
 	prog.Start("measuring overlaps", 0)
 	<-facing
-	samples := overlapSamples(m, fs, &or, reach, cosTol, allowance)
-	samples = append(samples, siteSamples(x, &or, js, &o, cosTol)...)
+	samples := overlapSamples(m, fs, &or, allowance)
+	samples = append(samples, siteSamples(x, &or, js, &o, cosTol))
 	prog.Done()
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("offset: interrupted: %w", err)

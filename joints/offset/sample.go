@@ -47,7 +47,11 @@ type sample struct {
 // cosTol, true). Each pair of parts is sampled from its part of lower
 // index; the parts of higher index are looked at only to tell whether
 // they lie in between (upward).
-func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, reach, cosTol float64, allowance func(t1, t2 float64) float64) []sample {
+//
+// The samples are returned in chunks, in order: fresh memory is dear, so
+// each chunk's samples are found in its worker's reused buffer and kept
+// at their size, and the chunks are not joined.
+func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64) [][]sample {
 	// Facings come grouped by element: runs of about overlapChunk
 	// facings, cut between elements, are sampled concurrently and their
 	// samples joined in order.
@@ -63,18 +67,28 @@ func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, reach,
 	}
 	cuts = append(cuts, len(fs))
 	parts := make([][]sample, len(cuts)-1)
+	bufs := make(chan []sample, runtime.GOMAXPROCS(0))
 	parallelRange(len(parts), 1, func(lo, hi int) {
+		var buf []sample
+		select {
+		case buf = <-bufs:
+		default:
+		}
 		for k := lo; k < hi; k++ {
-			parts[k] = elementSamples(m, fs[cuts[k]:cuts[k+1]], or, allowance)
+			buf = elementSamples(m, fs[cuts[k]:cuts[k+1]], or, allowance, buf[:0])
+			parts[k] = slices.Clone(buf)
+		}
+		select {
+		case bufs <- buf:
+		default:
 		}
 	})
-	return slices.Concat(parts...)
+	return parts
 }
 
-// elementSamples is overlapSamples on facings fs that hold all the
-// facings of each of their elements.
-func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64) []sample {
-	var out []sample
+// elementSamples appends to out overlapSamples on facings fs that hold
+// all the facings of each of their elements.
+func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64, out []sample) []sample {
 	type found struct {
 		part int32
 		s, t float64
@@ -150,11 +164,7 @@ func siteSamples(x *geom.Index, or *geom.Orientation, js []joints.Joint, o *join
 			out[i] = siteSample(x, or, &js[i], o, cosTol)
 		}
 	})
-	var all []sample
-	for _, s := range out {
-		all = append(all, s...)
-	}
-	return all
+	return slices.Concat(out...)
 }
 
 func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
