@@ -232,7 +232,15 @@ func (w *facingWalk) leafSummary(t *packedTree, l int, cs []cluster) []cluster {
 			continue
 		}
 		c, rad := vec32(&w.geo[e].c), float64(w.geo[e].rad)
-		k := slices.IndexFunc(cs[first:], func(cl cluster) bool { return cl.g == w.group[e] && math.Abs(r3.Dot(cl.n, n)) >= clusterCos })
+		// (Loops over pointers here and below: the clusters are large to
+		// copy, and these loops run millions of times.)
+		k := -1
+		for i := first; i < len(cs); i++ {
+			if cs[i].g == w.group[e] && math.Abs(r3.Dot(cs[i].n, n)) >= clusterCos {
+				k = i - first
+				break
+			}
+		}
 		if k < 0 {
 			cs = append(cs, cluster{g: w.group[e], n: n, lo: c, hi: c, rad: rad})
 			continue
@@ -254,6 +262,17 @@ type groupRun struct {
 	g    int32
 	cls  []mergedCluster
 	warm int32
+}
+
+// admits reports whether one of the merged clusters of rn admits the line
+// through c0 along n (cluster.admits).
+func (rn *groupRun) admits(c0, n r3.Vec, repCos, r float64) bool {
+	for i := range rn.cls {
+		if rn.cls[i].admits(c0, n, repCos, r) {
+			return true
+		}
+	}
+	return false
 }
 
 type mergedCluster struct {
@@ -314,7 +333,13 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 				i = len(runs) - 1
 			}
 			rn := &runs[i]
-			k := slices.IndexFunc(rn.cls, func(mc mergedCluster) bool { return math.Abs(r3.Dot(mc.n, c.n)) >= clusterCos })
+			k := -1
+			for i := range rn.cls {
+				if math.Abs(r3.Dot(rn.cls[i].n, c.n)) >= clusterCos {
+					k = i
+					break
+				}
+			}
 			if k < 0 {
 				if len(rn.cls) < cap(rn.cls) {
 					rn.cls = rn.cls[:len(rn.cls)+1]
@@ -356,7 +381,7 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 				if w.upward && (pass == 0) != (rn.g > w.group[e]) || !w.upward && pass == 1 {
 					continue
 				}
-				if rn.g == w.group[e] || !slices.ContainsFunc(rn.cls, func(mc mergedCluster) bool { return mc.admits(ce, ne, repCos, w.r) }) {
+				if rn.g == w.group[e] || !rn.admits(ce, ne, repCos, w.r) {
 					continue // no element of the group is parallel to e and near enough
 				}
 				// From the element found for the item before, when it lies
@@ -394,7 +419,8 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 func (w *facingWalk) nearest(t *packedTree, ce, ne r3.Vec, rn *groupRun, repCos float64) int32 {
 	slack := 1 - 1e-6 // single-precision normals
 	leafCos := math.Cos(math.Acos(min(1, w.cosTol)) + 5.01*math.Pi/180)
-	for _, mc := range rn.cls {
+	for i := range rn.cls {
+		mc := &rn.cls[i]
 		if !mc.admits(ce, ne, repCos, w.r) {
 			continue
 		}
