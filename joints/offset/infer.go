@@ -92,6 +92,16 @@ func Infer(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Build
 // mesh (geom.NodeElements) when the caller has it, for instance found
 // while the index was built; an empty adj (no Start) is found here.
 func InferWith(ctx context.Context, x *geom.Index, adj geom.Adjacency, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
+	return InferOriented(ctx, x, adj, nil, js, o, prog)
+}
+
+// InferOriented is InferWith with the orientation of the mesh's normals
+// (geom.OrientNormals with adj) given by orient, which the caller may
+// have started before the index was built, so that it runs beside the
+// index; orient is called once, after the facing elements are found. A
+// nil orient orients the normals here, beside the facing search. adj
+// must not be empty when orient is given.
+func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orient func() geom.Orientation, js []joints.Joint, o joints.BuildOptions, prog geom.Progress) (*Result, error) {
 	if err := o.Validate(); err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}
@@ -119,7 +129,10 @@ func InferWith(ctx context.Context, x *geom.Index, adj geom.Adjacency, js []join
 		defer close(facing)
 		fs = x.FacingElements(adj, m.ElemPart, reach, cosTol, true)
 	}()
-	or := geom.OrientNormals(m, adj)
+	if orient == nil {
+		orient = func() geom.Orientation { return geom.OrientNormals(m, adj) }
+	}
+	or := orient()
 	prog.Done()
 	if err := ctx.Err(); err != nil {
 		<-facing

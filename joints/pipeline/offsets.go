@@ -63,15 +63,20 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 	page := startPage(m)
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
-	// The node-to-element adjacency the inference needs is found while
-	// the elements are indexed (the index leaves a core idle part of the
-	// time).
+	// The node-to-element adjacency the inference needs, and with it the
+	// orientation of the normals, are found while the elements are
+	// indexed (the index leaves a core idle part of the time).
 	adjc := make(chan geom.Adjacency, 1)
-	go func() { adjc <- geom.NodeElements(m) }()
+	orc := make(chan geom.Orientation, 1)
+	go func() {
+		adj := geom.NodeElements(m)
+		adjc <- adj
+		orc <- geom.OrientNormals(m, adj)
+	}()
 	x := geom.NewElemIndex(m)
 	adj := <-adjc
 	prog.Done()
-	res, err := offset.InferWith(ctx, x, adj, in.Joints, s.Options, prog)
+	res, err := offset.InferOriented(ctx, x, adj, func() geom.Orientation { return <-orc }, in.Joints, s.Options, prog)
 	if err != nil {
 		return nil, err
 	}
