@@ -79,24 +79,6 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 	w := &facingWalk{m: x.m, adj: adj, group: group, r: r, cosTol: cosTol, upward: upward, geo: make([]elemGeo, x.m.NumElems())}
 	// Geometry and clusters of the elements of the leaves that have
 	// partners (only they are ever looked at).
-	parallelBlocks(nl, func(from, to int) {
-		var xs [4]r3.Vec
-		for l := from; l < to; l++ {
-			if start[l] == start[l+1] {
-				continue
-			}
-			lo, hi := t.children(1, l)
-			for _, e := range t.ids[lo:hi] {
-				nc, n, c := corners(x.m, int(e), &xs)
-				rad := 0.0
-				for k := range nc {
-					rad = math.Max(rad, r3.Norm2(r3.Sub(xs[k], c)))
-				}
-				w.geo[e] = elemGeo{n: [3]float32{float32(n.X), float32(n.Y), float32(n.Z)},
-					c: [3]float32{float32(c.X), float32(c.Y), float32(c.Z)}, rad: up32(math.Sqrt(rad))}
-			}
-		}
-	})
 	w.summarize(t, start)
 	out := make([][]Facing, nl)
 	var next atomic.Int64
@@ -201,8 +183,9 @@ func (c *cluster) admits(c0, n r3.Vec, repCos, r float64) bool {
 	return BoxDist2(r3.Box{Min: c.lo, Max: c.hi}, c0) <= lim*lim
 }
 
-// summarize fills the clusters of every leaf that has partners
-// (leafClusters), in the order of the leaf's items. Each block of leaves
+// summarize fills the geometry (geo) of the items of every leaf that has
+// partners and the leaf's clusters (leafClusters), in the order of the
+// leaf's items, in one pass over each leaf. Each block of leaves
 // keeps its clusters in one slice (fresh memory is dear: no slice per
 // leaf, no copy of them all into one).
 func (w *facingWalk) summarize(t *packedTree, start []int32) {
@@ -212,14 +195,30 @@ func (w *facingWalk) summarize(t *packedTree, start []int32) {
 	parallelBlocks(nl, func(from, to int) {
 		// About 1.8 clusters per leaf on a car body: room for two.
 		cs := make([]cluster, 0, 2*(to-from))
+		var xs [4]r3.Vec
 		for l := from; l < to; l++ {
 			if start[l] < start[l+1] {
+				w.leafGeo(t, l, &xs)
 				cs = w.leafSummary(t, l, cs)
 			}
 			w.clEnd[l] = int32(len(cs))
 		}
 		w.clusters[from/parallelBlock] = cs
 	})
+}
+
+// leafGeo fills the geometry of the items of leaf l (geo).
+func (w *facingWalk) leafGeo(t *packedTree, l int, xs *[4]r3.Vec) {
+	lo, hi := t.children(1, l)
+	for _, e := range t.ids[lo:hi] {
+		nc, n, c := corners(w.m, int(e), xs)
+		rad := 0.0
+		for k := range nc {
+			rad = math.Max(rad, r3.Norm2(r3.Sub(xs[k], c)))
+		}
+		w.geo[e] = elemGeo{n: [3]float32{float32(n.X), float32(n.Y), float32(n.Z)},
+			c: [3]float32{float32(c.X), float32(c.Y), float32(c.Z)}, rad: up32(math.Sqrt(rad))}
+	}
 }
 
 // leafSummary appends the clusters of leaf l to cs.
@@ -365,6 +364,11 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 	m := w.m
 	var xs [4]r3.Vec
 	for _, e := range items {
+		// Most items face no other group: the single-precision geometry
+		// tells them apart without reading their corners again.
+		if !w.mayFace(runs, e, repCos) {
+			continue
+		}
 		_, ne, ce := corners(m, int(e), &xs)
 		if r3.Dot(ne, ne) == 0 {
 			continue
@@ -409,6 +413,49 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 		}
 	}
 	return dst
+}
+
+// mayFace reports whether some group of runs other than e's may have a
+// merged cluster that admits e (cluster.admits with e's exact centroid and
+// normal, as the walks use them), judged from e's single-precision
+// centroid and normal (geo), which are the exact ones rounded to nearest:
+// each within a relative 2^-24 per component, so within 1e-6 of the
+// exact normal and 1e-6 times the coordinates' size of the exact
+// centroid, by which the test is widened. False means no group admits e.
+func (w *facingWalk) mayFace(runs []groupRun, e int32, repCos float64) bool {
+	g := &w.geo[e]
+	n, c := vec32(&g.n), vec32(&g.c)
+	if r3.Dot(n, n) == 0 {
+		return false // the exact normal is zero too: a unit normal rounds to no zero vector
+	}
+	size := math.Max(math.Abs(c.X), math.Max(math.Abs(c.Y), math.Abs(c.Z)))
+	if math.IsInf(size, 0) || math.IsNaN(size) {
+		return true // out of single precision's range: ask the exact test
+	}
+	for i := range runs {
+		rn := &runs[i]
+		if rn.g == w.group[e] {
+			continue
+		}
+		for k := range rn.cls {
+			if rn.cls[k].mayAdmit(c, n, size, repCos, w.r) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// mayAdmit is admits widened for a centroid c0 and a unit normal n rounded
+// to single precision, the centroid's largest coordinate being size in
+// magnitude: true whenever admits is for the exact ones.
+func (c *cluster) mayAdmit(c0, n r3.Vec, size, repCos, r float64) bool {
+	const slack = 1e-6
+	if math.Abs(r3.Dot(c.n, n)) < repCos-slack {
+		return false
+	}
+	lim := (r+c.rad)*(1+1e-5) + slack*(1+size)
+	return BoxDist2(r3.Box{Min: c.lo, Max: c.hi}, c0) <= lim*lim
 }
 
 // nearest returns the first element of the group of rn, in the partner
