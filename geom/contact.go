@@ -8,6 +8,7 @@ import (
 	"iter"
 	"math"
 	"slices"
+	"sync"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -765,14 +766,15 @@ func (c *Contacts) nodeRecords() {
 	m := c.m
 	nn := m.NumNodes()
 	blocks := make([][]NodeContact, (nn+parallelBlock-1)/parallelBlock)
+	// A block's records are gathered in a buffer used again from block
+	// to block and kept in a slice of their size: sized for every node
+	// of a candidate element, the blocks would hold more than twice the
+	// records (most such nodes are not in contact), all of it cleared
+	// or fresh memory.
+	bufs := sync.Pool{New: func() any { return new([]NodeContact) }}
 	parallelBlocks(nn, func(from, to int) {
-		count := 0
-		for n := from; n < to; n++ {
-			if c.nStart[n+1] > c.nStart[n] {
-				count++
-			}
-		}
-		out := make([]NodeContact, 0, count)
+		buf := bufs.Get().(*[]NodeContact)
+		out := (*buf)[:0]
 		var (
 			sc   contactScratch
 			keys [][2]int32
@@ -805,7 +807,9 @@ func (c *Contacts) nodeRecords() {
 				}
 			}
 		}
-		blocks[from/parallelBlock] = out
+		blocks[from/parallelBlock] = slices.Clone(out)
+		*buf = out
+		bufs.Put(buf)
 	})
 	// The blocks are kept as they are (nodes in order within and across
 	// them): one slice of all would be a copy in fresh memory.

@@ -247,7 +247,10 @@ func pieceGraph(samples []sample, nodeElems func(n int32) []int32) *graph {
 	for i, s := range samples {
 		at[s.elem] = int32(i)
 	}
-	g := &graph{start: make([]int32, 1, len(samples)+1)}
+	// A piece of a quad mesh has up to 8 neighbours (the elements round
+	// its corners): the edges are gathered in slices of that size at
+	// once, rather than grown by doubling.
+	g := &graph{start: make([]int32, 1, len(samples)+1), to: make([]int32, 0, 8*len(samples)), len: make([]float64, 0, 8*len(samples))}
 	var nb []int32
 	for i, s := range samples {
 		nb = nb[:0]

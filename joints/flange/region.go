@@ -210,6 +210,10 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 	// used once bounds the overlap (an edge with a node in contact is
 	// shared only with elements of the same component).
 	edges := make([]uint64, 0, 4*len(comp))
+	// Every element of comp gives at most one sample, with its nodes in
+	// contact (at most 4) in one shared array.
+	samples = make([]sample, 0, len(comp))
+	inBuf := make([]int32, 0, 4*len(comp))
 	for _, e := range comp {
 		nodes := m.ElemNodes(int(e))
 		nc := m.Type(int(e)).Corners()
@@ -282,7 +286,7 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		// nodes in contact.
 		var off r3.Vec
 		cnt := 0
-		var in []int32
+		in := inBuf[len(inBuf):len(inBuf)]
 		for k := range nc {
 			if r := w.rec(nodes[k]); r != nil {
 				off = r3.Add(off, r3.Sub(r.Faying, m.Coords[nodes[k]]))
@@ -290,6 +294,8 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 				in = append(in, nodes[k])
 			}
 		}
+		inBuf = inBuf[:len(inBuf)+len(in)]
+		in = in[:len(in):len(in)]
 		cen = r3.Add(cen, r3.Scale(1/float64(cnt), off))
 		samples = append(samples, sample{elem: e, pos: cen, area: area, normal: w.c.Normal(e), nodes: in})
 	}

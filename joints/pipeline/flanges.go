@@ -89,18 +89,24 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	fo := s.Flanges.Defaults()
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
-	x := geom.NewElemIndex(m)
+	// Only placing welds needs the index after the contacts: without a
+	// pitch nothing holds it, so that its memory (a sixth of the mesh's)
+	// can serve the contacts' later steps instead of fresh memory.
+	var x *geom.Index
+	if fo.Pitch.Set() {
+		x = geom.NewElemIndex(m)
+	}
 	prog.Done()
 	prog.Start("finding flanges", 0)
-	c, err := geom.FindContacts(ctx, x, flange.Rule(m, &o, &fo))
+	var c *geom.Contacts
+	if x != nil {
+		c, err = geom.FindContacts(ctx, x, flange.Rule(m, &o, &fo))
+	} else {
+		c, err = geom.FindContacts(ctx, geom.NewElemIndex(m), flange.Rule(m, &o, &fo))
+	}
 	if err != nil {
 		prog.Done()
 		return nil, fmt.Errorf("pipeline: %w", err)
-	}
-	if !fo.Pitch.Set() {
-		// Only placing welds needs the index again: without a pitch its
-		// memory serves the flanges' work instead of fresh memory.
-		x = nil
 	}
 	set, err := flange.Find(ctx, c, fo)
 	prog.Done()
