@@ -55,20 +55,10 @@ var version = "dev"
 // examples/synthbody/compare.sh).
 const gcPercent = 25
 
-// heapAdvice is how much of the heap's address space, bytes, Joinery
-// asks the system to back with transparent huge pages at start (see
-// adviseHugePages): 1 GiB, over twice the peak of a flanges or offsets
-// run on the 2,000,000-element synthetic body (420-460 MB); a larger
-// heap grows past it with ordinary pages. Advice costs address space,
-// not memory: pages are backed only when the heap uses them (our
-// measurement: same peak memory with it and without).
-const heapAdvice = 1 << 30
-
 func main() {
 	if os.Getenv("GOGC") == "" {
 		debug.SetGCPercent(gcPercent)
 	}
-	adviseHugePages(heapAdvice)
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	tty := term.IsTerminal(int(os.Stderr.Fd()))
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr, tty)
