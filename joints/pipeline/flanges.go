@@ -89,21 +89,18 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	fo := s.Flanges.Defaults()
 	prog := env.progress()
 	prog.Start("indexing elements", 0)
+	idx := geom.NewElemIndex(m)
+	prog.Done()
 	// Only placing welds needs the index after the contacts: without a
-	// pitch nothing holds it, so that its memory (a sixth of the mesh's)
-	// can serve the contacts' later steps instead of fresh memory.
+	// pitch nothing here holds it past FindContacts (idx is not used
+	// again), so that its memory (a sixth of the mesh's) can serve the
+	// contacts' later steps instead of fresh memory.
 	var x *geom.Index
 	if fo.Pitch.Set() {
-		x = geom.NewElemIndex(m)
+		x = idx
 	}
-	prog.Done()
 	prog.Start("finding flanges", 0)
-	var c *geom.Contacts
-	if x != nil {
-		c, err = geom.FindContacts(ctx, x, flange.Rule(m, &o, &fo))
-	} else {
-		c, err = geom.FindContacts(ctx, geom.NewElemIndex(m), flange.Rule(m, &o, &fo))
-	}
+	c, err := geom.FindContacts(ctx, idx, flange.Rule(m, &o, &fo))
 	if err != nil {
 		prog.Done()
 		return nil, fmt.Errorf("pipeline: %w", err)
