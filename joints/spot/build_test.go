@@ -2,8 +2,10 @@ package spot
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -353,4 +355,41 @@ func buildAll(ctx context.Context, x *geom.Index, js []joints.Joint, o joints.Bu
 		}
 	}
 	return joints.NewResult(x.Mesh(), conns, nil, o)
+}
+
+func TestGapNamesFlippedHost(t *testing.T) {
+	// Part 2 is declared meshed on its bottom face, which lies on part 1's
+	// top face (z = 0.5; part 1 is a 1 mm mid-surface mesh at z = 0), but
+	// its elements' normals point down (-z): the mid-surface is placed at
+	// z = 0 instead of z = 1, which reads as 1 mm of penetration. Reversed,
+	// the normal gives contact exactly (closed form: (t1+t2)/2 = 1 mm).
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5},
+		plate{Part: 2, T: 1, Z: 0.5, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceBottom, FlipOrder: true})
+	c := buildOne1(t, m, joints.Joint{ID: "F1", Point: r3.Vec{X: 22, Y: 23, Z: 0.5}}, joints.BuildOptions{})
+	if got := codes(c); !slices.Equal(got, []string{joints.CodeGapClosed}) {
+		t.Fatalf("findings %v", c.Findings)
+	}
+	host := m.ElemIDs[c.Stack.Sheets[1].Proj.Elem]
+	if c.Stack.Sheets[1].Part != 2 {
+		host = m.ElemIDs[c.Stack.Sheets[0].Proj.Elem]
+	}
+	want := fmt.Sprintf("part 2 is meshed on its bottom face, and the sheets would touch if the normal of its element %d under the weld pointed the other way", host)
+	if msg := c.Findings[0].Message; !strings.Contains(msg, want) {
+		t.Errorf("message %q lacks %q", msg, want)
+	}
+	// The same sheets with part 2's normals pointing up build clean: no hint
+	// where there is no finding.
+	m = plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5},
+		plate{Part: 2, T: 1, Z: 0.5, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceBottom})
+	if c := buildOne1(t, m, joints.Joint{ID: "F2", Point: r3.Vec{X: 22, Y: 23, Z: 0.5}}, joints.BuildOptions{}); len(c.Findings) != 0 {
+		t.Errorf("unflipped: findings %v", c.Findings)
+	}
+	// A mid-surface pair 2 mm apart gets no hint: no outer-surface sheet.
+	m = plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 2, NX: 10, NY: 10, H: 5})
+	c = buildOne1(t, m, joints.Joint{ID: "F3", Point: r3.Vec{X: 22, Y: 23, Z: 1}}, joints.BuildOptions{})
+	for _, f := range c.Findings {
+		if strings.Contains(f.Message, "pointed the other way") {
+			t.Errorf("hint on a mid-surface pair: %q", f.Message)
+		}
+	}
 }

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -43,21 +45,55 @@ func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 		fs = append(fs, j.Finding(joints.Warning, joints.CodeThicknessRange, st.Parts(),
 			"stack outside the scope of ISO 14373: "+why))
 	}
-	fs = append(fs, checkGaps(st, o, j)...)
+	fs = append(fs, checkGaps(x.Mesh(), st, o, j)...)
 	return append(fs, checkEdges(x, j, st, diameter, o)...)
 }
 
 // checkGaps compares each consecutive gap between mid-surfaces with the
-// contact gap (t1+t2)/2 and returns the findings.
-func checkGaps(st *joints.Stack, o *joints.BuildOptions, j *joints.Joint) []joints.Finding {
+// contact gap and reports those off by more than the allowance. A gap
+// that a reversed normal on one sheet of an outer-surface mesh would
+// bring to contact names that sheet's host element (flippedHint).
+func checkGaps(m *geom.Mesh, st *joints.Stack, o *joints.BuildOptions, j *joints.Joint) []joints.Finding {
 	var out []joints.Finding
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		if f, ok := GapFinding(j, a, b, o); ok {
+			f.Message += flippedHint(m, st.Axis, a, b, o)
 			out = append(out, f)
 		}
 	}
 	return out
+}
+
+// flippedHint returns a clause for a gap finding between consecutive
+// sheets a and b when the sheet of a part meshed on an outer surface
+// (top or bottom) would be at contact, within the allowance, had its
+// host element's normal pointed the other way: the mid-surface was then
+// placed on the wrong side of the meshed surface, which reads as a gap
+// off by the sheet's thickness. It returns "" otherwise.
+func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOptions) string {
+	want := (a.Thickness + b.Thickness) / 2
+	tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
+	for k, s := range []joints.Sheet{a, b} {
+		p := m.Part(s.Proj.Elem)
+		off := p.Surface.MidOffset(s.Thickness)
+		if off == 0 {
+			continue
+		}
+		// Reversing the normal moves the mid-surface by twice the offset.
+		shift := -2 * off * r3.Dot(s.Proj.Normal, axis)
+		pa, pb := a.Position, b.Position
+		if k == 0 {
+			pa += shift
+		} else {
+			pb += shift
+		}
+		if math.Abs(math.Abs(pb-pa)-want) <= tol {
+			return fmt.Sprintf("; part %d is meshed on its %s face, and the sheets would touch if the normal of its element %d under the weld pointed the other way: check its normals (inspect --deep reports normals-flipped; joinery offsets infers each part's surface)",
+				s.Part, p.Surface, m.ElemIDs[s.Proj.Elem])
+		}
+	}
+	return ""
 }
 
 // GapFinding compares the gap between the mid-surfaces of consecutive
