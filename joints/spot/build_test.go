@@ -393,3 +393,32 @@ func TestGapNamesFlippedHost(t *testing.T) {
 		}
 	}
 }
+
+func TestTiltedGapIndependentOfHeight(t *testing.T) {
+	// Part 1 (1 mm) is flat at z = 0; part 2 (1.5 mm) is tilted by 10
+	// degrees about the line y = 25, z = 1.25, where it lies at contact,
+	// (t1+t2)/2 = 1.25 mm (shell mid-surface geometry, common practice).
+	// The stack axis is part 1's normal (part 1 is the closer sheet for
+	// every height below), and it meets part 2's plane at z = 1.25 exactly
+	// (elementary geometry): the gap must not depend on the height at
+	// which the weld point is given. Measured through the closest points
+	// instead it would be z0 + (1.25 - z0) cos^2(10 deg), 1.212 mm at z0 = 0.
+	a := 10 * math.Pi / 180
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1.5, Z: 1.25, NX: 10, NY: 10, H: 5})
+	for i := range m.Coords {
+		if m.NodeIDs[i] >= 200000 {
+			y := m.Coords[i].Y - 25
+			m.Coords[i].Y = 25 + y*math.Cos(a)
+			m.Coords[i].Z = 1.25 + y*math.Sin(a)
+		}
+	}
+	for _, z0 := range []float64{0, 0.3, 0.55} {
+		c := buildOne1(t, m, joints.Joint{ID: "T", Point: r3.Vec{X: 22, Y: 25, Z: z0}}, joints.BuildOptions{})
+		if c.Status != joints.Built || len(c.Links) != 1 {
+			t.Fatalf("z0 %g: status %v findings %v", z0, c.Status, c.Findings)
+		}
+		if got := c.Links[0].MidGap; math.Abs(got-1.25) > 1e-9 {
+			t.Errorf("z0 %g: gap %.6f, want 1.25", z0, got)
+		}
+	}
+}

@@ -80,8 +80,9 @@ func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOp
 		if off == 0 {
 			continue
 		}
-		// Reversing the normal moves the mid-surface by twice the offset.
-		shift := -2 * off * r3.Dot(s.Proj.Normal, axis)
+		// Reversing the normal moves the mid-surface to the other side of
+		// the meshed surface.
+		shift := axisCrossing(r3.Vec{}, s.Proj.Normal, axis, -off) - axisCrossing(r3.Vec{}, s.Proj.Normal, axis, off)
 		pa, pb := a.Position, b.Position
 		if k == 0 {
 			pa += shift
