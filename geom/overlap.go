@@ -18,9 +18,6 @@ type Facing struct {
 	Dist float64
 }
 
-// facingSteps bounds the elements one walk visits.
-const facingSteps = 32
-
 // FacingElements finds where the elements of different groups (group[e]
 // for element e, e.g. Mesh.ElemPart) lie across from each other: for
 // every element e with a normal and every other group that has an
@@ -30,26 +27,23 @@ const facingSteps = 32
 // two normals lie within cosTol of parallel, either way (|n_e·n_f| >=
 // cosTol). Quads are taken as their mean plane through their centroid.
 //
-// f is found by walking over the group's surface: from the element of
-// the group found for e's predecessor in the index's order when it lies
-// near e, else from a candidate parallel to e whose reach holds the
-// meeting point, step by step across the edge beyond which the point
-// lies, until it lies inside; a free edge of the group on the way, or a
-// turn of its surface away from parallel, means the line passes beside
-// it.
-// Where the group's surface passes e twice (a fold) the first crossing
-// reached is given. The candidates come from a dual-tree walk of the
-// element index stopped at its leaves, so the work is linear in the
-// number of elements that lie near another group, not quadratic. adj
-// must be m's node-to-element adjacency. The answer is in an order that
-// depends only on the index; it does not depend on GOMAXPROCS.
+// Of the elements of a group that meet e's line so, f is the one met
+// nearest e's centroid (smallest |Dist|); of those met equally near, the
+// one of lowest element id (Mesh.ElemIDs). Every element of the group in
+// the leaves of the element index near e's is tested directly, so the
+// answer depends neither on the order of the elements in the file nor
+// on the shape of the index. The candidates come from a dual-tree walk
+// of the element index stopped at its leaves, so the work is linear in
+// the number of elements that lie near another group, not quadratic.
+// The facings of an element come together, by the other's group; the
+// elements come in the index's order. The answer does not depend on
+// GOMAXPROCS.
 //
 // With upward set, the answer is the half a caller that looks at each
 // pair of groups from its lower group needs: for an element, the groups
 // above its own, and the groups below it only when one above faces it
-// (to tell whether they lie in between). Facings of an element come
-// together, in the order of its groups' first appearance near it.
-func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, upward bool) []Facing {
+// (to tell whether they lie in between).
+func (x *Index) FacingElements(group []int32, r, cosTol float64, upward bool) []Facing {
 	t := &x.elems
 	if len(t.ids) < 2 || !(r >= 0) {
 		return nil
@@ -76,7 +70,7 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 			fill[p[1]]++
 		}
 	}
-	w := &facingWalk{m: x.m, adj: adj, group: group, r: r, cosTol: cosTol, upward: upward, geo: make([]elemGeo, x.m.NumElems())}
+	w := &facingSearch{m: x.m, group: group, r: r, cosTol: cosTol, upward: upward, geo: make([]elemGeo, x.m.NumElems())}
 	// Geometry and clusters of the elements of the leaves that have
 	// partners (only they are ever looked at).
 	w.summarize(t, start)
@@ -107,17 +101,16 @@ func (x *Index) FacingElements(adj Adjacency, group []int32, r, cosTol float64, 
 	return slices.Concat(out...)
 }
 
-// facingWalk holds what the walks of FacingElements share.
-type facingWalk struct {
+// facingSearch holds what the leaves of FacingElements share.
+type facingSearch struct {
 	upward bool
 	m      *Mesh
-	adj    Adjacency
 	group  []int32
 	r      float64
 	cosTol float64
 	// geo holds every element's unit normal, centroid and radius in
 	// single precision, for the quick tests (parallel or not, clusters,
-	// near or not); the walks use exact values.
+	// near or not); the final tests use exact values.
 	geo []elemGeo
 	// clusters[b] holds the clusters of the leaves of block b (leaves
 	// b*parallelBlock to (b+1)*parallelBlock-1) in leaf order, and
@@ -127,7 +120,7 @@ type facingWalk struct {
 }
 
 // leafClusters returns the clusters that sum up the elements of leaf l.
-func (w *facingWalk) leafClusters(l int32) []cluster {
+func (w *facingSearch) leafClusters(l int32) []cluster {
 	lo := int32(0)
 	if l%parallelBlock != 0 {
 		lo = w.clEnd[l-1]
@@ -144,18 +137,7 @@ type elemGeo struct {
 
 func vec32(v *[3]float32) r3.Vec { return r3.Vec{X: float64(v[0]), Y: float64(v[1]), Z: float64(v[2])} }
 
-func (w *facingWalk) normal32(e int32) r3.Vec { return vec32(&w.geo[e].n) }
-
-// reachable reports whether element f may hold the point where the line
-// through e's centroid c along its normal meets f's plane within r: the
-// point lies within r of c and within f's radius of f's centroid (with
-// slack for single precision).
-func (w *facingWalk) reachable(c r3.Vec, f int32) bool {
-	g := &w.geo[f]
-	d := r3.Sub(vec32(&g.c), c)
-	lim := (w.r + float64(g.rad)) * (1 + 1e-5)
-	return r3.Dot(d, d) <= lim*lim
-}
+func (w *facingSearch) normal32(e int32) r3.Vec { return vec32(&w.geo[e].n) }
 
 // cluster sums up the elements of one group in one leaf whose normals
 // lie within clusterCos of the first of them (its representative): the
@@ -188,7 +170,7 @@ func (c *cluster) admits(c0, n r3.Vec, repCos, r float64) bool {
 // leaf's items, in one pass over each leaf. Each block of leaves
 // keeps its clusters in one slice (fresh memory is dear: no slice per
 // leaf, no copy of them all into one).
-func (w *facingWalk) summarize(t *packedTree, start []int32) {
+func (w *facingSearch) summarize(t *packedTree, start []int32) {
 	nl := t.count(1)
 	w.clEnd = make([]int32, nl)
 	w.clusters = make([][]cluster, (nl+parallelBlock-1)/parallelBlock)
@@ -208,7 +190,7 @@ func (w *facingWalk) summarize(t *packedTree, start []int32) {
 }
 
 // leafGeo fills the geometry of the items of leaf l (geo).
-func (w *facingWalk) leafGeo(t *packedTree, l int, xs *[4]r3.Vec) {
+func (w *facingSearch) leafGeo(t *packedTree, l int, xs *[4]r3.Vec) {
 	lo, hi := t.children(1, l)
 	for _, e := range t.ids[lo:hi] {
 		nc, n, c := corners(w.m, int(e), xs)
@@ -222,7 +204,7 @@ func (w *facingWalk) leafGeo(t *packedTree, l int, xs *[4]r3.Vec) {
 }
 
 // leafSummary appends the clusters of leaf l to cs.
-func (w *facingWalk) leafSummary(t *packedTree, l int, cs []cluster) []cluster {
+func (w *facingSearch) leafSummary(t *packedTree, l int, cs []cluster) []cluster {
 	first := len(cs)
 	lo, hi := t.children(1, l)
 	for _, e := range t.ids[lo:hi] {
@@ -256,11 +238,10 @@ func (w *facingWalk) leafSummary(t *packedTree, l int, cs []cluster) []cluster {
 // leaves, merged by normal (merged clusters whose representatives lie
 // within clusterCos of each other; members thus lie within twice that
 // angle of the merged representative), each with the partner leaves it
-// came from, and the element last found.
+// came from.
 type groupRun struct {
-	g    int32
-	cls  []mergedCluster
-	warm int32
+	g   int32
+	cls []mergedCluster
 }
 
 // admits reports whether one of the merged clusters of rn admits the line
@@ -286,13 +267,14 @@ type leafCluster struct {
 
 // leafScratch is a worker's reusable memory.
 type leafScratch struct {
-	runs  []groupRun
-	found []Facing
+	runs   []groupRun
+	found  []Facing
+	leaves []int32 // the leaves one search has looked at
 }
 
 // leaf appends the facing elements of the items of leaf l, among the
 // elements of its partner leaves, in the order of its items.
-func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScratch, dst []Facing) []Facing {
+func (w *facingSearch) leaf(t *packedTree, l int32, partners []int32, sc *leafScratch, dst []Facing) []Facing {
 	ilo, ihi := t.children(1, int(l))
 	items := t.ids[ilo:ihi]
 	// The group of the leaf when it has only one: no item needs it.
@@ -325,9 +307,9 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 					for k := range old {
 						old[k].parts = old[k].parts[:0]
 					}
-					runs[len(runs)-1] = groupRun{g: c.g, cls: old[:0], warm: -1}
+					runs[len(runs)-1] = groupRun{g: c.g, cls: old[:0]}
 				} else {
-					runs = append(runs, groupRun{g: c.g, warm: -1})
+					runs = append(runs, groupRun{g: c.g})
 				}
 				i = len(runs) - 1
 			}
@@ -375,6 +357,7 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 		}
 		// With upward, groups above e's first; those below only when one
 		// above faces e.
+		first := len(dst)
 		found := false
 		for pass := range 2 {
 			if w.upward && pass == 1 && !found {
@@ -388,27 +371,16 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 				if rn.g == w.group[e] || !rn.admits(ce, ne, repCos, w.r) {
 					continue // no element of the group is parallel to e and near enough
 				}
-				// From the element found for the item before, when it lies
-				// near, else from the first element of the group that may
-				// hold the point; where that walk ends is the answer.
-				f, d, res := int32(-1), 0.0, walkLost
-				warmNear := rn.warm >= 0 && w.close(ce, e, rn.warm)
-				if warmNear {
-					f, d, res = w.walk(ce, ne, rn.warm, rn.g)
-				}
-				if !warmNear || res == walkLost {
-					if near := w.nearest(t, ce, ne, rn, repCos); near >= 0 {
-						f, d, res = w.walk(ce, ne, near, rn.g)
-					}
-				}
-				switch res {
-				case walkFound:
-					rn.warm = f
+				if f, d := w.facing(t, ce, ne, rn, repCos, sc); f >= 0 {
 					found = found || pass == 0
 					dst = append(dst, Facing{Elem: e, Other: f, Dist: d})
-				case walkOff, walkFar:
-					rn.warm = f // the last element before the edge: near the next item
 				}
+			}
+		}
+		// e's facings by the other's group (there are few).
+		for i := first + 1; i < len(dst); i++ {
+			for k := i; k > first && w.group[dst[k].Other] < w.group[dst[k-1].Other]; k-- {
+				dst[k], dst[k-1] = dst[k-1], dst[k]
 			}
 		}
 	}
@@ -417,12 +389,12 @@ func (w *facingWalk) leaf(t *packedTree, l int32, partners []int32, sc *leafScra
 
 // mayFace reports whether some group of runs other than e's may have a
 // merged cluster that admits e (cluster.admits with e's exact centroid and
-// normal, as the walks use them), judged from e's single-precision
+// normal, as the search uses them), judged from e's single-precision
 // centroid and normal (geo), which are the exact ones rounded to nearest:
 // each within a relative 2^-24 per component, so within 1e-6 of the
 // exact normal and 1e-6 times the coordinates' size of the exact
 // centroid, by which the test is widened. False means no group admits e.
-func (w *facingWalk) mayFace(runs []groupRun, e int32, repCos float64) bool {
+func (w *facingSearch) mayFace(runs []groupRun, e int32, repCos float64) bool {
 	g := &w.geo[e]
 	n, c := vec32(&g.n), vec32(&g.c)
 	if r3.Dot(n, n) == 0 {
@@ -458,35 +430,77 @@ func (c *cluster) mayAdmit(c0, n r3.Vec, size, repCos, r float64) bool {
 	return BoxDist2(r3.Box{Min: c.lo, Max: c.hi}, c0) <= lim*lim
 }
 
-// nearest returns the first element of the group of rn, in the partner
-// leaves whose clusters admit the line through ce along ne, that is
-// parallel to it within cosTol and may hold it within r (reachable), or
-// -1: a start from which a walk reaches the point over the stretch of
-// surface that faces e.
-func (w *facingWalk) nearest(t *packedTree, ce, ne r3.Vec, rn *groupRun, repCos float64) int32 {
+// facing returns the element of the group of rn that faces the line
+// through ce along unit ne (meets, for an element e with centroid ce
+// and normal ne), and the signed distance along ne to its plane, or -1:
+// of the elements of the group in the partner leaves whose clusters
+// admit the line, those parallel to it within cosTol whose plane it
+// meets within r at a point inside them (meets); of those the one met
+// nearest ce, ties to the lowest element id. The single-precision
+// geometry passes over the elements that cannot hold the point.
+func (w *facingSearch) facing(t *packedTree, ce, ne r3.Vec, rn *groupRun, repCos float64, sc *leafScratch) (int32, float64) {
 	slack := 1 - 1e-6 // single-precision normals
 	leafCos := math.Cos(math.Acos(min(1, w.cosTol)) + 5.01*math.Pi/180)
+	// The centroids of the group's elements are rounded to single
+	// precision: each within 2^-24 of its size per component, well
+	// within lat of the exact one.
+	size := math.Max(math.Abs(ce.X), math.Max(math.Abs(ce.Y), math.Abs(ce.Z)))
+	lat := 1e-6 * (1 + size + w.r)
+	best, bd := int32(-1), 0.0
+	var xs [4]r3.Vec
+	leaves := sc.leaves[:0]
 	for i := range rn.cls {
 		mc := &rn.cls[i]
 		if !mc.admits(ce, ne, repCos, w.r) {
 			continue
 		}
-		prev := int32(-1)
 		for _, lc := range mc.parts {
-			// A leaf's own clusters admit with the tighter angle.
-			if lc.leaf == prev || !lc.c.admits(ce, ne, leafCos, w.r) {
+			// A leaf's own clusters admit with the tighter angle; a leaf
+			// is looked at once, whichever of its clusters admits.
+			if slices.Contains(leaves, lc.leaf) || !lc.c.admits(ce, ne, leafCos, w.r) {
 				continue
 			}
-			prev = lc.leaf
+			leaves = append(leaves, lc.leaf)
 			lo, hi := t.children(1, int(lc.leaf))
 			for _, f := range t.ids[lo:hi] {
-				if w.group[f] == rn.g && math.Abs(r3.Dot(ne, w.normal32(f))) >= w.cosTol*slack && w.reachable(ce, f) {
-					return f
+				if w.group[f] != rn.g {
+					continue
 				}
+				// The point lies within r of ce and inside f, so within f's
+				// radius of its centroid, which thus lies within r plus
+				// that radius of ce and within the radius of the line
+				// (with slack for single precision).
+				g := &w.geo[f]
+				d := r3.Sub(vec32(&g.c), ce)
+				dd, a, rad := r3.Dot(d, d), r3.Dot(d, ne), float64(g.rad)
+				if lim := (w.r + rad) * (1 + 1e-5); dd > lim*lim {
+					continue
+				}
+				if lim := rad*(1+1e-5) + lat; dd-a*a > lim*lim || math.Abs(r3.Dot(ne, vec32(&g.n))) < w.cosTol*slack {
+					continue
+				}
+				s, ok := w.meets(ce, ne, f, &xs)
+				if !ok || best >= 0 && !closer(s, f, bd, best, w.m.ElemIDs) {
+					continue
+				}
+				best, bd = f, s
 			}
 		}
 	}
-	return -1
+	sc.leaves = leaves
+	return best, bd
+}
+
+// closer reports whether element f, met at s, comes before element g,
+// met at t: nearer, or as near and of lower id (then index).
+func closer(s float64, f int32, t float64, g int32, ids []int64) bool {
+	if as, at := math.Abs(s), math.Abs(t); as != at {
+		return as < at
+	}
+	if ids[f] != ids[g] {
+		return ids[f] < ids[g]
+	}
+	return f < g
 }
 
 // corners reads the corners of element e into x and returns their
@@ -517,101 +531,33 @@ func corners(m *Mesh, e int, x *[4]r3.Vec) (int, r3.Vec, r3.Vec) {
 	return nc, r3.Scale(1/l, v), c
 }
 
-// close reports whether element f lies near enough to element e (with
-// centroid c) for a walk from f to stay on the stretch of surface that
-// faces e: within r plus twice both their radii.
-func (w *facingWalk) close(c r3.Vec, e, f int32) bool {
-	d := r3.Sub(vec32(&w.geo[f].c), c)
-	lim := w.r + 2*float64(w.geo[e].rad+w.geo[f].rad)
-	return r3.Dot(d, d) <= lim*lim
-}
-
-// walkEnd says how a walk ended.
-type walkEnd int8
-
-const (
-	walkFound walkEnd = iota // the point lies inside the element returned
-	// walkOff: a free edge of the group, or a turn of its surface away
-	// from parallel, lies just before the point (within the size of the
-	// element left from): the line passes beside the group.
-	walkOff
-	// walkFar: the same, but with the point farther beyond: the walk
-	// may have started on another stretch of the surface.
-	walkFar
-	walkLost // the start was not parallel or too far, or too many steps: start elsewhere
-)
-
-// walk steps over the elements of group g from f toward the point where
-// the line through c along unit n meets the group's surface. It returns
-// the element it ended on (the last parallel one).
-func (w *facingWalk) walk(c, n r3.Vec, f, g int32) (int32, float64, walkEnd) {
-	m := w.m
-	prev := int32(-1)
-	beyond, size := 0.0, 0.0 // how far the point lay beyond the edge crossed last, and the element's size
-	off := func(f int32) (int32, float64, walkEnd) {
-		if beyond > size {
-			return f, 0, walkFar
-		}
-		return f, 0, walkOff
+// meets reports whether the line through c along unit n meets the plane
+// of element f (parallel to n within cosTol) within r of c, at a point
+// inside f (beyond none of its edges by more than a millionth of its
+// longest), and gives the signed distance along n.
+func (w *facingSearch) meets(c, n r3.Vec, f int32, x *[4]r3.Vec) (float64, bool) {
+	nc, nf, cf := corners(w.m, int(f), x)
+	cos := r3.Dot(n, nf)
+	if math.Abs(cos) < w.cosTol || r3.Dot(nf, nf) == 0 {
+		return 0, false
 	}
-	var x [4]r3.Vec
-	for step := range facingSteps {
-		nc, nf, cf := corners(m, int(f), &x)
-		cos := r3.Dot(n, nf)
-		if math.Abs(cos) < w.cosTol || r3.Dot(nf, nf) == 0 {
-			if step > 0 {
-				return off(prev)
-			}
-			return f, 0, walkLost
-		}
-		s := r3.Dot(r3.Sub(cf, c), nf) / cos
-		if math.Abs(s) > w.r {
-			return f, 0, walkLost
-		}
-		p := r3.Add(c, r3.Scale(s, n))
-		// The edge the point lies farthest beyond, if any.
-		worst, wd := -1, 0.0
-		size = 0.0
-		for k := range nc {
-			a, b := x[k], x[(k+1)%nc]
-			edge := r3.Sub(b, a)
-			l := math.Sqrt(r3.Dot(edge, edge))
-			if l == 0 {
-				continue
-			}
-			size = math.Max(size, l)
-			if d := r3.Dot(r3.Sub(p, a), r3.Cross(nf, edge)) / l; d < wd {
-				worst, wd = k, d
-			}
-		}
-		if worst < 0 || -wd <= 1e-6*size {
-			return f, s, walkFound
-		}
-		beyond = -wd
-		next := w.mate(f, worst, g)
-		if next < 0 {
-			return off(f)
-		}
-		if next == prev {
-			return f, 0, walkLost
-		}
-		prev, f = f, next
+	s := r3.Dot(r3.Sub(cf, c), nf) / cos
+	if math.Abs(s) > w.r {
+		return 0, false
 	}
-	return f, 0, walkLost
-}
-
-// mate returns the element of group g other than f that shares edge k of
-// f (the lowest index when several do), or -1.
-func (w *facingWalk) mate(f int32, k int, g int32) int32 {
-	m := w.m
-	nodes := m.ElemNodes(int(f))
-	nc := m.Type(int(f)).Corners()
-	a, b := nodes[k], nodes[(k+1)%nc]
-	best := int32(-1)
-	for _, o := range w.adj.Of(a) {
-		if o != f && w.group[o] == g && (best < 0 || o < best) && usesNode(m, int(o), b) {
-			best = o
+	p := r3.Add(c, r3.Scale(s, n))
+	worst, size := 0.0, 0.0 // how far the point lies beyond an edge, at most; the longest edge
+	for k := range nc {
+		a, b := x[k], x[(k+1)%nc]
+		edge := r3.Sub(b, a)
+		l := math.Sqrt(r3.Dot(edge, edge))
+		if l == 0 {
+			continue
+		}
+		size = math.Max(size, l)
+		if d := r3.Dot(r3.Sub(p, a), r3.Cross(nf, edge)) / l; d < worst {
+			worst = d
 		}
 	}
-	return best
+	return s, -worst <= 1e-6*size
 }

@@ -140,16 +140,15 @@ func TestFacingElements(t *testing.T) {
 	for trial := range 6 {
 		m := stackMesh(rng)
 		x := NewElemIndex(m)
-		adj := NodeElements(m)
 		for _, r := range []float64{1.5, 4.5} {
 			want := facingBrute(m, m.ElemPart, r, cosTol)
 			if r > 4 && len(want) < 200 {
 				t.Fatalf("trial %d: only %d facing pairs: the stack is not stacked", trial, len(want))
 			}
 			runtime.GOMAXPROCS(1)
-			one := x.FacingElements(adj, m.ElemPart, r, cosTol, false)
+			one := x.FacingElements(m.ElemPart, r, cosTol, false)
 			runtime.GOMAXPROCS(3)
-			got := x.FacingElements(adj, m.ElemPart, r, cosTol, false)
+			got := x.FacingElements(m.ElemPart, r, cosTol, false)
 			if !slices.Equal(one, got) {
 				t.Errorf("trial %d r %g: the answer depends on GOMAXPROCS", trial, r)
 			}
@@ -179,7 +178,7 @@ func TestFacingElements(t *testing.T) {
 				}
 			}
 			// upward: only groups above, and those below where one above faces.
-			up := x.FacingElements(adj, m.ElemPart, r, cosTol, true)
+			up := x.FacingElements(m.ElemPart, r, cosTol, true)
 			above := map[int32]bool{}
 			for _, f := range up {
 				if m.ElemPart[f.Other] > m.ElemPart[f.Elem] {

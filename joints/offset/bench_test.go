@@ -47,7 +47,7 @@ func BenchmarkInfer2M(b *testing.B) {
 	x := geom.NewElemIndex(m)
 	b.Run("facing", func(b *testing.B) {
 		for b.Loop() {
-			x.FacingElements(adj, m.ElemPart, 4.5, 0.94, true)
+			x.FacingElements(m.ElemPart, 4.5, 0.94, true)
 		}
 	})
 	b.Run("infer", func(b *testing.B) {

@@ -127,7 +127,7 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	facing := make(chan struct{})
 	go func() {
 		defer close(facing)
-		fs = x.FacingElements(adj, m.ElemPart, reach, cosTol, true)
+		fs = x.FacingElements(m.ElemPart, reach, cosTol, true)
 	}()
 	if orient == nil {
 		orient = func() geom.Orientation { return geom.OrientNormals(m, adj) }

@@ -43,7 +43,7 @@ type sample struct {
 // part order), each sample weighing its element's area, so that a
 // contact weighs its overlap area. The order depends only on the index.
 //
-// fs are the facing elements: x.FacingElements(adj, m.ElemPart, reach,
+// fs are the facing elements: x.FacingElements(m.ElemPart, reach,
 // cosTol, true). Each pair of parts is sampled from its part of lower
 // index; the parts of higher index are looked at only to tell whether
 // they lie in between (upward).
