@@ -478,7 +478,9 @@ const chartIterations = 4
 // the pieces are placed in the chart of the current spine (s along, n
 // across), gathered in bins along s, and the new spine runs through the
 // area-weighted centroids of the bins. An open centreline is extended
-// along its end tangents to where it leaves the overlap.
+// along its end tangents to where it leaves the overlap. The fit rounds
+// a ring's corners off, so a ring's centreline is then its mid-line
+// between the outline and the opening (midline), charted along the fit.
 func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
 	if len(samples) == 0 {
 		return nil

@@ -81,10 +81,10 @@ func midline(sp *spine, outer, inner loop, h, wEst float64) *spine {
 	}
 	sides := [2]side{chart(squareCorners(outer, h)), chart(squareCorners(inner, h))}
 	// nearest returns the point of side sd nearest to p, searching the
-	// segments whose chart s lies within the reach of s.
+	// segments whose chart s lies within the reach of s (a segment in
+	// several bins is measured more than once, to the same distance).
 	reach := 2*wEst + 2*h
 	span := int(math.Ceil(reach / bsz))
-	seen := make(map[int32]bool)
 	nearest := func(sd *side, p r3.Vec, s float64) (r3.Vec, bool) {
 		best, bd := r3.Vec{}, math.Inf(1)
 		b := int(math.Floor(s / bsz))
@@ -92,13 +92,8 @@ func midline(sp *spine, outer, inner loop, h, wEst float64) *spine {
 		if hi-lo+1 >= nb {
 			lo, hi = 0, nb-1
 		}
-		clear(seen)
 		for c := lo; c <= hi; c++ {
 			for _, k := range sd.bins[((c%nb)+nb)%nb] {
-				if seen[k] {
-					continue
-				}
-				seen[k] = true
 				sg := sd.segs[k]
 				q := closestOn(p, sg.a, sg.b)
 				if d := r3.Norm2(r3.Sub(q, p)); d < bd {
