@@ -94,17 +94,27 @@ func (sp *spine) locate(p r3.Vec, hint, window float64) (s, n float64) {
 	try := func(i int) {
 		l := sp.segLen(i)
 		t := r3.Dot(r3.Sub(p, sp.pts[i]), sp.tan[i])
+		vertex := -1 // the vertex the foot is held at, closed spines
 		switch {
 		case t < 0 && (sp.closed || i > 0):
 			t = 0
+			if sp.closed {
+				vertex = i
+			}
 		case t > l && (sp.closed || i < nseg-1):
 			t = l
+			if sp.closed {
+				vertex = (i + 1) % nseg
+			}
 		}
 		foot := r3.Add(sp.pts[i], r3.Scale(t, sp.tan[i]))
 		if d := r3.Norm2(r3.Sub(p, foot)); d < bestD {
 			bestD = d
 			s = sp.cum[i] + t
 			n = r3.Dot(r3.Sub(p, foot), sp.lat[i])
+			if vertex >= 0 {
+				n = sp.wedge(vertex, r3.Sub(p, foot), n)
+			}
 		}
 	}
 	if window <= 0 || 2*window >= sp.length {
@@ -145,6 +155,22 @@ func (sp *spine) locate(p r3.Vec, hint, window float64) (s, n float64) {
 		}
 	}
 	return s, n
+}
+
+// wedge returns the chart n of a point at offset v from vertex k of a
+// closed spine, nearer to the vertex than to either segment's inside:
+// it lies in the wedge on the convex side of the turn there, as far
+// across as it lies from the vertex (lat, the lateral component, would
+// put the points beyond a sharp corner, such as a ring's outer corner
+// round a rectangular opening, onto the centreline). lat is kept where
+// the spine does not turn.
+func (sp *spine) wedge(k int, v r3.Vec, lat float64) float64 {
+	nseg := len(sp.tan)
+	turn := r3.Dot(sp.tan[k], sp.lat[(k+nseg-1)%nseg])
+	if math.Abs(turn) < 1e-9 {
+		return lat
+	}
+	return -math.Copysign(r3.Norm(v), turn)
 }
 
 // at returns the point at arc length s and the tangent there; an open
@@ -452,7 +478,9 @@ const chartIterations = 4
 // the pieces are placed in the chart of the current spine (s along, n
 // across), gathered in bins along s, and the new spine runs through the
 // area-weighted centroids of the bins. An open centreline is extended
-// along its end tangents to where it leaves the overlap.
+// along its end tangents to where it leaves the overlap. The fit rounds
+// a ring's corners off, so a ring's centreline is then its mid-line
+// between the outline and the opening (midline), charted along the fit.
 func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
 	if len(samples) == 0 {
 		return nil
@@ -469,8 +497,9 @@ func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area
 	window := 2*wEst + 2*binLen
 	hints := make([]float64, len(samples))
 	var sp *spine
+	var inner loop
 	if ring {
-		inner := lps[1]
+		inner = lps[1]
 		for _, l := range lps[2:] {
 			if l.length > inner.length {
 				inner = l
@@ -558,6 +587,14 @@ func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area
 	}
 	if next, _, _ := refit(sp, samples, ss, nn, binLen, true); next != nil {
 		sp = next
+	}
+	if ring {
+		// The fit above finds the middle of the pieces, which round a
+		// ring's corners off; the ring's centreline is the middle of
+		// its cross-sections between the outline and the opening.
+		if mid := midline(sp, lps[0], inner, h, wEst); mid != nil {
+			sp = mid
+		}
 	}
 	return canonical(sp, samples, lps, area, binLen)
 }
