@@ -42,6 +42,61 @@ type weld struct {
 	pairs    [][2]int64 // part pairs the weld joins (PairKey), unique
 	spacing  float64    // minimum spacing for its stack, mm
 	gov      float64    // governing thickness, mm
+	// on holds the weld point's nearest point on each of its sheets
+	// (where one was found), by part: distances between welds are
+	// measured there, on the sheet they share.
+	on []sheetPoint
+	// off is the largest distance from point to a point of on, mm.
+	off float64
+}
+
+// sheetPoint is a weld point's nearest point on one of its sheets.
+type sheetPoint struct {
+	part int64
+	p    r3.Vec
+}
+
+// sheetDist returns the distance between welds a and b measured on the
+// sheets of parts that both join: between their nearest points on the
+// sheet, the least over those sheets, and the part it was measured on.
+// Welds given at different heights through the stack (one on the
+// faying surface, one at a mid-surface) are so judged by their spacing
+// along the sheet. Without a nearest point on a common sheet it is the
+// distance between the weld points (part 0).
+func sheetDist(a, b *weld, parts []int64) (float64, int64) {
+	best, on := math.Inf(1), int64(0)
+	for _, part := range parts {
+		pa, okA := pointOn(a, part)
+		pb, okB := pointOn(b, part)
+		if okA && okB {
+			if d := r3.Norm(r3.Sub(pa, pb)); d < best {
+				best, on = d, part
+			}
+		}
+	}
+	if on == 0 {
+		return r3.Norm(r3.Sub(a.point, b.point)), 0
+	}
+	return best, on
+}
+
+func pointOn(w *weld, part int64) (r3.Vec, bool) {
+	for _, s := range w.on {
+		if s.part == part {
+			return s.p, true
+		}
+	}
+	return r3.Vec{}, false
+}
+
+// maxOff returns twice the largest weld's off: two welds at most d apart
+// on a sheet they share lie at most d plus that apart.
+func maxOff(ws []weld) float64 {
+	off := 0.0
+	for i := range ws {
+		off = math.Max(off, ws[i].off)
+	}
+	return 2 * off
 }
 
 // Run audits the built connectors of conns (others are left out) and
@@ -108,6 +163,10 @@ func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, 
 			continue
 		}
 		w := weld{id: c.Joint.ID, conn: c, point: c.Joint.Point, diameter: c.Diameter, parts: c.Stack.Parts()}
+		for _, s := range c.Stack.Sheets {
+			w.on = append(w.on, sheetPoint{s.Part, s.Proj.Point})
+			w.off = math.Max(w.off, r3.Norm(r3.Sub(s.Proj.Point, w.point)))
+		}
 		for _, l := range c.Links {
 			w.pairs = appendPair(w.pairs, joints.PairKey(c.Stack.Sheets[l.From].Part, c.Stack.Sheets[l.To].Part))
 		}
@@ -132,30 +191,44 @@ func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, 
 }
 
 // extraWelds makes the welds of extra joint points: the parts they list,
-// else the parts with an element within reach of the point.
+// else the parts with an element within reach of the point; with the
+// point's nearest point on each of those parts within reach.
 func extraWelds(m *geom.Mesh, js []*joints.Joint, o *joints.BuildOptions) []weld {
-	var x *geom.Index
-	pts := make([]r3.Vec, 0, len(js))
-	for _, j := range js {
-		if len(j.Parts) == 0 {
-			pts = append(pts, j.Point)
-		}
+	pts := make([]r3.Vec, len(js))
+	for i, j := range js {
+		pts[i] = j.Point
 	}
-	if len(pts) > 0 {
-		x = geom.NewIndexNear(m, pts, 1.01*o.Reach, false)
-	}
+	x := geom.NewIndexNear(m, pts, 1.01*o.Reach, false)
 	out := make([]weld, 0, len(js))
 	var buf []int32
 	for _, j := range js {
 		w := weld{id: j.ID, point: j.Point, parts: slices.Clone(j.Parts)}
-		if len(w.parts) == 0 {
-			buf = x.ElemsNear(j.Point, o.Reach, buf[:0])
-			for _, e := range buf {
-				p := m.Parts[m.ElemPart[e]].ID
-				if !slices.Contains(w.parts, p) && m.Project(int(e), j.Point).Dist <= o.Reach {
+		listed := len(w.parts) > 0
+		var near []geom.Projection // the nearest point of each part, in the order first met
+		buf = x.ElemsNear(j.Point, o.Reach, buf[:0])
+		for _, e := range buf {
+			p := m.Parts[m.ElemPart[e]].ID
+			if listed && !slices.Contains(w.parts, p) {
+				continue
+			}
+			pr := m.Project(int(e), j.Point)
+			if pr.Dist > o.Reach {
+				continue
+			}
+			k := slices.IndexFunc(w.on, func(s sheetPoint) bool { return s.part == p })
+			switch {
+			case k < 0:
+				w.on = append(w.on, sheetPoint{p, pr.Point})
+				near = append(near, pr)
+				if !listed {
 					w.parts = append(w.parts, p)
 				}
+			case pr.Dist < near[k].Dist || pr.Dist == near[k].Dist && pr.Elem < near[k].Elem:
+				w.on[k].p, near[k] = pr.Point, pr
 			}
+		}
+		for _, pr := range near {
+			w.off = math.Max(w.off, pr.Dist)
 		}
 		slices.Sort(w.parts)
 		var ts []float64
@@ -188,18 +261,6 @@ func appendPair(ps [][2]int64, p [2]int64) [][2]int64 {
 		return ps
 	}
 	return append(ps, p)
-}
-
-// shareSheet reports whether a and b have a part in common, and which
-// (the smallest id).
-func shareSheet(a, b *weld) (int64, bool) {
-	best, ok := int64(0), false
-	for _, p := range a.parts {
-		if slices.Contains(b.parts, p) && (!ok || p < best) {
-			best, ok = p, true
-		}
-	}
-	return best, ok
 }
 
 // sharedParts returns the parts a and b have in common, sorted.

@@ -279,3 +279,60 @@ func TestStripOnALineOfWelds(t *testing.T) {
 }
 
 func itoa(v int64) string { return strconv.FormatInt(v, 10) }
+
+// Distances between welds are measured on the sheet they share: two
+// 1.5 mm sheets (mid-surfaces at z = 0 and 1.5, in contact) with one
+// weld given at the lower sheet's mid-surface and the other at the upper
+// one's, 1.5 mm higher. Minimum spacing for 1.5 mm, interpolated
+// linearly in the resistance welding manufacturers' table between 1.27
+// mm (22.2) and 1.57 mm (25.4): 24.653 mm; nugget 5 sqrt(1.5) = 6.124 mm
+// (common practice). In the plane the welds lie 20, 24.63 and 6 mm
+// apart; in space sqrt(d^2 + 1.5^2) = 20.056, 24.676 (above the
+// spacing) and 6.185 mm (above the nugget diameter).
+func TestDistancesOnTheSharedSheet(t *testing.T) {
+	two := []plate{{Part: 1, T: 1.5, NX: 60, NY: 10, H: 5}, {Part: 2, T: 1.5, Z: 1.5, NX: 60, NY: 10, H: 5}}
+	m := plates(two...)
+	spacing := 22.2 + (1.5-1.27)/(1.57-1.27)*(25.4-22.2)
+	if s := joints.MinSpacing(1.5, 2); math.Abs(s-spacing) > 1e-9 || s < 24.63 || math.Hypot(24.63, 1.5) < s {
+		t.Fatalf("MinSpacing(1.5, 2) = %g, want %g between 24.63 and %g", s, spacing, math.Hypot(24.63, 1.5))
+	}
+	if d := 5 * math.Sqrt(1.5); d < 6 || math.Hypot(6, 1.5) < d {
+		t.Fatalf("nugget %g not between 6 and %g", d, math.Hypot(6, 1.5))
+	}
+	for _, tc := range []struct {
+		name  string
+		dx    float64
+		code  string
+		apart string
+	}{
+		{"pitch-short, 20 mm in the plane", 20, joints.CodePitchShort, " are 20 mm apart"},
+		{"pitch-short, 24.63 mm in the plane", 24.63, joints.CodePitchShort, " are 24.63 mm apart"},
+		{"duplicate, 6 mm in the plane", 6, joints.CodeDuplicate, " are 6 mm apart"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			pts := []r3.Vec{{X: 100, Y: 25, Z: 0}, {X: 100 + tc.dx, Y: 25, Z: 1.5}}
+			conns := build(t, m, weldsAt(pts...), joints.BuildOptions{})
+			for _, c := range conns {
+				if c.Status == joints.NotBuilt || len(c.Stack.Sheets) != 2 {
+					t.Fatalf("weld %s: %v, stack %v, %v", c.Joint.ID, c.Status, c.Stack.Parts(), c.Findings)
+				}
+			}
+			// The same welds built, and as extra points beside a weld far
+			// away (not built).
+			far := build(t, m, weldsAt(r3.Vec{X: 280, Y: 25, Z: 0.75}), joints.BuildOptions{})
+			far[0].Joint.ID = "F1"
+			for _, rep := range []*Report{
+				audit(t, m, conns, nil, joints.BuildOptions{}),
+				audit(t, m, far, []joints.Joint{{ID: "W1", Kind: joints.Spot, Point: pts[0]}, {ID: "W2", Kind: joints.Spot, Point: pts[1]}}, joints.BuildOptions{}),
+			} {
+				fs := ofCode(rep.Findings, tc.code)
+				if len(fs) != 1 || !slices.Equal(fs[0].Joints, []string{"W1", "W2"}) || !strings.Contains(fs[0].Message, tc.apart) {
+					t.Errorf("want one %s of W1 and W2 saying %q: %v", tc.code, tc.apart, summary(rep.Findings))
+					for _, f := range fs {
+						t.Log(f.Message)
+					}
+				}
+			}
+		})
+	}
+}

@@ -5,8 +5,6 @@ import (
 	"math"
 	"slices"
 
-	"gonum.org/v1/gonum/spatial/r3"
-
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -21,7 +19,7 @@ func duplicates(m *geom.Mesh, ws []weld) (map[[2]int32]bool, []joints.Finding) {
 	for i := range ws {
 		dmax = math.Max(dmax, ws[i].diameter)
 	}
-	g := newGrid(dmax, len(ws))
+	g := newGrid(dmax+maxOff(ws), len(ws))
 	for i := range ws {
 		g.add(int32(i), ws[i].point)
 	}
@@ -36,17 +34,18 @@ func duplicates(m *geom.Mesh, ws []weld) (map[[2]int32]bool, []joints.Finding) {
 				continue
 			}
 			b := &ws[j]
-			d := r3.Norm(r3.Sub(a.point, b.point))
+			shared := sharedParts(a, b)
+			if len(shared) == 0 {
+				continue
+			}
+			d, _ := sheetDist(a, b, shared)
 			lim := (a.diameter + b.diameter) / 2
 			if !(d < lim) {
 				continue
 			}
-			if _, ok := shareSheet(a, b); !ok {
-				continue
-			}
 			pairs[pairOf(int32(i), j)] = true
 			fs = append(fs, duplicateFinding(a, b, fmt.Sprintf("welds %s and %s are %s mm apart, less than their nugget diameter (%s mm): their nuggets overlap on %s; one weld is defined twice",
-				a.id, b.id, joints.MM(d), joints.MM(lim), partsWord(sharedParts(a, b)))))
+				a.id, b.id, joints.MM(d), joints.MM(lim), partsWord(shared))))
 		}
 	}
 	// Node-pair connectors on the same pair of nodes.
@@ -118,7 +117,7 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 		if len(list) < 2 || !(smax > 0) {
 			continue
 		}
-		g := newGrid(smax, len(list))
+		g := newGrid(smax+maxOff(ws), len(list))
 		for _, i := range list {
 			g.add(i, ws[i].point)
 		}
@@ -133,13 +132,13 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 				if !slices.Contains(b.pairs, key) {
 					continue // a weld of another pair in a shared cell: g holds only this pair's
 				}
-				d := r3.Norm(r3.Sub(a.point, b.point))
+				d, _ := sheetDist(a, b, key[:])
 				lim := math.Max(a.spacing, b.spacing)
 				pj := pairOf(i, j)
 				if !(d < lim) || dups[pj] || reported[pj] || chain[i] >= 0 && chain[i] == chain[j] {
 					continue
 				}
-				if !consecutive(ws, buf, i, j, d) {
+				if !consecutive(ws, buf, i, j, d, key[:]) {
 					continue
 				}
 				reported[pj] = true
@@ -163,13 +162,17 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 }
 
 // consecutive reports whether no weld among cand (the neighbours of i,
-// which hold every weld within d of i) lies closer than d to both i and j.
-func consecutive(ws []weld, cand []int32, i, j int32, d float64) bool {
+// which hold every weld within d of i on the sheets of parts) lies
+// closer than d to both i and j, measured on those sheets.
+func consecutive(ws []weld, cand []int32, i, j int32, d float64, parts []int64) bool {
 	for _, k := range cand {
 		if k == i || k == j {
 			continue
 		}
-		if r3.Norm(r3.Sub(ws[k].point, ws[i].point)) < d && r3.Norm(r3.Sub(ws[k].point, ws[j].point)) < d {
+		if dk, _ := sheetDist(&ws[k], &ws[i], parts); !(dk < d) {
+			continue
+		}
+		if dk, _ := sheetDist(&ws[k], &ws[j], parts); dk < d {
 			return false
 		}
 	}

@@ -211,30 +211,9 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 	// The mesh may be too coarse for the pitch: space the welds wider,
 	// at the smallest pitch that keeps them apart.
 	if !p.apart(i, ws) {
-		lo, hi := pitch, pitch
-		var good []weld
-		goodUsed := 0.0
-		for hi < 2*f.Length+pitch {
-			hi *= 1.25
-			if cand, u := eval(hi, margin); len(cand) > 0 && p.apart(i, cand) {
-				good, goodUsed = cand, u
-				break
-			}
-		}
+		good, goodUsed := p.widen(i, pitch, margin)
 		if good == nil {
-			// Even the widest spacing failed (a single weld always
-			// passes, so this is a flange with one station whose weld was
-			// skipped): keep what there is.
 			good, goodUsed = ws, used
-		} else {
-			for range 8 {
-				mid := (lo + hi) / 2
-				if cand, u := eval(mid, margin); len(cand) > 0 && p.apart(i, cand) {
-					hi, good, goodUsed = mid, cand, u
-				} else {
-					lo = mid
-				}
-			}
 		}
 		fs = append(fs, flangeFinding(f, joints.Warning, joints.CodePitchTooFine,
 			fmt.Sprintf("flange %s: at %s mm pitch neighbouring welds would share attachment elements%s (mesh about %s mm); welds spaced at %s mm instead, the smallest pitch that keeps them apart",
@@ -291,6 +270,113 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 	return ws, used, fs
 }
 
+// nStations returns how many stations stations(l, p, e, closed) gives.
+func nStations(l, p, e float64, closed bool) int {
+	if closed {
+		return max(int(math.Floor(l/p+1e-9)), 0)
+	}
+	free := l - 2*e
+	if free < -1e-9 {
+		return 0
+	}
+	return int(math.Floor(math.Max(free, 0)/p+1e-9)) + 1
+}
+
+// widen returns the welds of flange i, whose stations at pitch (end
+// margin margin) break the rule of apart, spaced at the smallest pitch
+// above that keeps them apart, and the spacing used; nil if none does.
+//
+// Whether welds stay apart is not monotonic in the pitch (the stations
+// move against the mesh as the pitch changes: 16.5 mm may keep them
+// apart where 17.5 does not), so the pitches are tried in rising order,
+// not bisected: on a closed flange every count of stations below the
+// one asked (each has a single layout); on an open one every pitch
+// 1 per cent above the last and, for every count of stations, the
+// pitch that spreads them over the whole length between the margins.
+// The first that keeps them apart is refined by bisection against the
+// last that did not. Since fewer stations come with every larger pitch,
+// the smallest pitch found places the most welds (stations left empty
+// counted out: a larger pitch is still tried while it could place more).
+func (p *placer) widen(i int, pitch, margin float64) ([]weld, float64) {
+	f := &p.set.Flanges[i]
+	var free []facingAt
+	if f.Match == joints.Congruent {
+		free = p.facingAlong(i)
+	}
+	// try places the stations at pitch q, stopping at the first pair of
+	// consecutive welds that is not apart.
+	try := func(q float64) (ws []weld, used float64, live int, ok bool) {
+		ss, used := stations(f.Length, q, margin, f.Closed)
+		ws = make([]weld, 0, len(ss))
+		first, last := -1, -1
+		for k, s := range ss {
+			ws = append(ws, p.station(i, k+1, s))
+			if ws[k].skip != "" {
+				continue
+			}
+			if last >= 0 && !p.pairApart(f, free, &ws[last], &ws[k]) {
+				return nil, used, 0, false
+			}
+			if first < 0 {
+				first = k
+			}
+			last = k
+			live++
+		}
+		if f.Closed && live > 2 && !p.pairApart(f, free, &ws[last], &ws[first]) {
+			return nil, used, 0, false
+		}
+		return ws, used, live, true
+	}
+	var best []weld
+	bestUsed, bestLive := 0.0, -1
+	if f.Closed {
+		for n := nStations(f.Length, pitch, margin, true) - 1; n >= 1 && n > bestLive; n-- {
+			if ws, used, live, ok := try(f.Length / float64(n)); ok && live > bestLive {
+				best, bestUsed, bestLive = ws, used, live
+			}
+		}
+		return best, bestUsed
+	}
+	span := math.Max(f.Length-2*margin, 0)
+	next := func(c float64) float64 {
+		g := c * 1.01
+		for k := nStations(f.Length, c, margin, false) - 1; k >= 1; k-- {
+			if top := span / float64(k); top > c*(1+1e-9) {
+				return math.Min(g, top) // k+1 stations over the whole span
+			}
+		}
+		return math.Max(g, span*(1+1e-6)+1e-9) // a single station
+	}
+	prev, lo, hi := pitch, pitch, pitch
+	for c := next(pitch); ; c = next(c) {
+		n := nStations(f.Length, c, margin, false)
+		if n <= bestLive {
+			break
+		}
+		if ws, used, live, ok := try(c); ok && live > bestLive {
+			best, bestUsed, bestLive = ws, used, live
+			lo, hi = prev, c
+		}
+		prev = c
+		if n <= 1 {
+			break
+		}
+	}
+	if best == nil {
+		return nil, 0
+	}
+	for range 8 {
+		mid := (lo + hi) / 2
+		if ws, used, live, ok := try(mid); ok && live >= bestLive {
+			hi, best, bestUsed, bestLive = mid, ws, used, live
+		} else {
+			lo = mid
+		}
+	}
+	return best, bestUsed
+}
+
 // meshSize returns the median size of the host elements under the welds.
 func (p *placer) meshSize(ws []weld) float64 {
 	var xs []float64
@@ -325,15 +411,21 @@ func (p *placer) apart(i int, ws []weld) bool {
 		pairs = len(live)
 	}
 	for k := range pairs {
-		a, b := live[k], live[(k+1)%len(live)]
-		if shareAny(a.touched, b.touched) {
-			return false
-		}
-		if f.Match == joints.Congruent && !freeBetween(free, a, b, f.Length, f.Closed) {
+		if !p.pairApart(f, free, live[k], live[(k+1)%len(live)]) {
 			return false
 		}
 	}
 	return true
+}
+
+// pairApart reports whether consecutive welds a and b of flange f keep
+// the rule of apart; free are the flange's facing pairs along its
+// centreline (congruent flanges).
+func (p *placer) pairApart(f *joints.Flange, free []facingAt, a, b *weld) bool {
+	if shareAny(a.touched, b.touched) {
+		return false
+	}
+	return f.Match != joints.Congruent || freeBetween(free, a, b, f.Length, f.Closed)
 }
 
 // facingAt is a facing pair with its place along the centreline.

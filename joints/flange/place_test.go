@@ -339,3 +339,72 @@ func TestPlaceOnRing(t *testing.T) {
 		}
 	}
 }
+
+// A pitch finer than the mesh allows gives the most welds that keep the
+// rule, spaced at the smallest pitch that keeps them apart. On a 6 mm
+// grid a 78 mm strip keeps interpolated welds apart from 16.5 mm (five
+// stations) but not from 17.0 to 18 mm (four stations would fit, yet
+// they share elements), so the rule is not monotonic in the pitch and a
+// search that bisects from the pitch asked may end above the window:
+// it gave four welds at 18.06 mm for 1 mm. The count is checked against
+// arithmetic: n = floor((L - 2e) / p) + 1 stations for length L = 78,
+// end margins e = one nugget diameter, 5 sqrt(1) = 5 mm (common
+// practice), and p the smallest pitch asked that gives no
+// pitch-too-fine finding (found by trying them every 0.05 mm).
+func TestTooFinePitchGivesMostWelds(t *testing.T) {
+	const h, l, e = 6.0, 78.0, 5.0
+	m := mesh(plate(1, 1, 0, 0, 0, 13, 10, h), plate(2, 1, 0, 2*h, 1, 13, 4, h))
+	uses := elemsOf(m)
+	set := findAll(t, m, joints.FlangeOptions{})
+	f := one(t, set)
+	if !near(f.Length, l, 1e-6) {
+		t.Fatalf("flange %g mm long, want %g", f.Length, l)
+	}
+	x := geom.NewElemIndex(m)
+	bo := joints.BuildOptions{}.Defaults(joints.MaxThickness(m))
+	run := func(pitch float64) (*joints.Flange, []joints.Finding) {
+		set.opts.Pitch = joints.Pitch{MM: pitch}
+		fs, err := set.Place(context.Background(), x, bo)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return one(t, set), fs
+	}
+	workable := 0.0
+	for k := range 400 {
+		p := 10 + 0.05*float64(k)
+		if _, fs := run(p); codeCount(fs, joints.CodePitchTooFine) == 0 {
+			workable = p
+			break
+		}
+	}
+	if workable == 0 {
+		t.Fatal("no workable pitch from 10 to 30 mm")
+	}
+	want := int(math.Floor((l-2*e)/workable)) + 1
+	if want != 5 { // 68 / 16.5 -> 4, + 1
+		t.Fatalf("smallest workable pitch %g mm gives %d stations, want 5", workable, want)
+	}
+	for _, pitch := range []float64{1, 0.2, 8} {
+		f, fs := run(pitch)
+		if codeCount(fs, joints.CodePitchTooFine) != 1 || len(f.Welds) < want || f.Pitch > workable+1e-9 {
+			t.Errorf("pitch %g: %d welds at %g mm (pitch-too-fine %d); want %d at no more than %g, and the finding",
+				pitch, len(f.Welds), f.Pitch, codeCount(fs, joints.CodePitchTooFine), want, workable)
+		}
+		for i := 1; i < len(f.Welds); i++ {
+			touched := map[int32]bool{}
+			for _, n := range attachNodesOf(m, f.Welds[i-1].Joint, joints.Interpolated) {
+				for _, el := range uses[n] {
+					touched[el] = true
+				}
+			}
+			for _, n := range attachNodesOf(m, f.Welds[i].Joint, joints.Interpolated) {
+				for _, el := range uses[n] {
+					if touched[el] {
+						t.Fatalf("pitch %g: welds %s and %s share element %d", pitch, f.Welds[i-1].Joint.ID, f.Welds[i].Joint.ID, m.ElemIDs[el])
+					}
+				}
+			}
+		}
+	}
+}

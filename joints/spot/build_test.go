@@ -422,3 +422,32 @@ func TestTiltedGapIndependentOfHeight(t *testing.T) {
 		}
 	}
 }
+
+// The edge-close message tells a weld centre over the sheet near its
+// edge from one that lies off the sheet: two 1 mm plates 50 mm square
+// (edge at x = 50), nugget 5 sqrt(1) = 5 mm (common practice), so the
+// edge limit is 5 mm; a weld at x = 47 lies 50 - 47 = 3 mm inside the
+// edge, one at x = 51 lies 51 - 50 = 1 mm beyond it (still within the
+// lateral limit of 0.5 x 5/2 = 1.25 mm that holds the sheets in the
+// stack), and one at x = 50 lies on it (plate geometry).
+func TestEdgeCloseOffSheet(t *testing.T) {
+	m := plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5})
+	for _, tc := range []struct {
+		x    float64
+		want string
+	}{
+		{47, "weld centre 3 mm from a free edge of part %d (minimum 5 mm = 1 nugget diameter(s))"},
+		{50, "weld centre 0 mm from a free edge of part %d (minimum 5 mm = 1 nugget diameter(s))"},
+		{51, "weld centre off part %d: 1 mm beyond its free edge (it should lie at least 5 mm = 1 nugget diameter(s) inside it)"},
+	} {
+		c := buildOne1(t, m, joints.Joint{ID: "W", Point: r3.Vec{X: tc.x, Y: 25, Z: 0.5}}, joints.BuildOptions{})
+		if got := codes(c); !slices.Equal(got, []string{joints.CodeEdgeClose, joints.CodeEdgeClose}) {
+			t.Fatalf("x = %g: findings %v, want two edge-close", tc.x, c.Findings)
+		}
+		for _, f := range c.Findings {
+			if want := fmt.Sprintf(tc.want, f.Parts[0]); f.Message != want {
+				t.Errorf("x = %g: %q, want %q", tc.x, f.Message, want)
+			}
+		}
+	}
+}

@@ -139,10 +139,33 @@ func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 		s := &st.Sheets[i]
 		s.EdgeDistance = geom.FreeEdgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
 		if s.EdgeDistance < edgeLimit {
-			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part},
-				fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",
-					joints.MM(s.EdgeDistance), s.Part, joints.MM(edgeLimit), o.EdgeFactor)))
+			msg := fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",
+				joints.MM(s.EdgeDistance), s.Part, joints.MM(edgeLimit), o.EdgeFactor)
+			if off := offSheet(s, j.Point); off > 0 {
+				msg = fmt.Sprintf("weld centre off part %d: %s mm beyond its free edge (it should lie at least %s mm = %g nugget diameter(s) inside it)",
+					s.Part, joints.MM(off), joints.MM(edgeLimit), o.EdgeFactor)
+			}
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part}, msg))
 		}
 	}
 	return fs
+}
+
+// offSheet returns how far, in the plane of its host element, the weld
+// centre p lies beyond the free edge of sheet s: the weld's nearest
+// point on the sheet lies on a free edge and p is not over it. It
+// returns 0 when p lies over the sheet (its nearest point is the foot
+// of the normal through p) or less than half a micrometre off, below
+// what a message shows.
+func offSheet(s *joints.Sheet, p r3.Vec) float64 {
+	if s.EdgeDistance > 1e-6 {
+		return 0
+	}
+	v := r3.Sub(p, s.Proj.Point)
+	n := s.Proj.Normal
+	d := r3.Norm(r3.Sub(v, r3.Scale(r3.Dot(v, n), n)))
+	if d < 5e-4 {
+		return 0
+	}
+	return d
 }
