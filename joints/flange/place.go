@@ -533,7 +533,9 @@ func (p *placer) station(i, k int, s float64) weld {
 	// The stack: every sheet near-parallel to the axis over the point,
 	// chained from the flange's two sheets while consecutive sheets are
 	// in contact.
-	sheets := p.sheetsAt(w.point, w.axis)
+	// At the weld point as the joint list gives it to build (rounded), so
+	// that the stack and its attachments are those build will find.
+	sheets := p.sheetsAt(round6(w.point), w.axis)
 	hi := slices.IndexFunc(sheets, func(x sheetAt) bool { return x.part == host })
 	oi := slices.IndexFunc(sheets, func(x sheetAt) bool { return x.part == other })
 	if hi < 0 || oi < 0 || hi-oi != 1 && oi-hi != 1 {
@@ -594,19 +596,16 @@ func (p *placer) station(i, k int, s float64) weld {
 // sheetsAt returns, for every part with an element within reach of q
 // whose normal lies within the angle limit of the axis and whose closest
 // point lies near the axis line through q, that closest point, ordered
-// along the axis.
+// along the axis. The closest point is build's (geom.Index.ClosestPerPart:
+// ties within geom.TieDistance to the lowest element id), so that a weld
+// on an element edge has the host element, and the attachments, build
+// will give it.
 func (p *placer) sheetsAt(q, axis r3.Vec) []sheetAt {
 	m := p.m
 	cosLim := math.Cos(p.o.AngleLimit * math.Pi / 180)
-	best := map[int32]geom.Projection{}
-	for _, pr := range p.x.ProjectNear(q, p.o.Reach, nil) {
-		pi := m.ElemPart[pr.Elem]
-		if _, ok := best[pi]; !ok {
-			best[pi] = pr // sorted by distance, then element
-		}
-	}
 	var out []sheetAt
-	for pi, pr := range best {
+	for _, pr := range p.x.ClosestPerPart(q, p.o.Reach) {
+		pi := m.ElemPart[pr.Elem]
 		if math.Abs(r3.Dot(pr.Normal, axis)) < cosLim {
 			continue
 		}
