@@ -1,9 +1,7 @@
 package geom
 
 import (
-	"cmp"
 	"math"
-	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -39,21 +37,53 @@ func FreeEdgeDistance(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) floa
 			uses = append(uses, edgeUse{edgeKey(m.ElemEdge(int(e), k)), e, int32(k)})
 		}
 	}
-	slices.SortFunc(uses, func(a, b edgeUse) int { return cmp.Compare(a.key, b.key) })
-	best := math.Inf(1)
-	for i := 0; i < len(uses); {
-		j := i + 1
-		for j < len(uses) && uses[j].key == uses[i].key {
-			j++
-		}
-		if j == i+1 { // used by one element of the part only: free
-			if d := m.EdgeDistance(m.ElemEdge(int(uses[i].e), int(uses[i].k)), q); d <= r && d < best {
-				best = d
+	// Count the uses of each edge in an open-addressing table of at
+	// least twice as many slots as uses (key 0 marks an empty slot: a
+	// stored key is its own +1, and keys of node pairs below 2^32 each
+	// never reach the top value).
+	size := 16
+	for size < 2*len(uses) {
+		size *= 2
+	}
+	var tbuf [512]edgeCount
+	var table []edgeCount
+	if size <= len(tbuf) {
+		table = tbuf[:size]
+	} else {
+		table = make([]edgeCount, size)
+	}
+	mask := uint64(size - 1)
+	slot := func(key uint64) *edgeCount {
+		stored := key + 1
+		for h := (key * 0x9E3779B97F4A7C15) >> 32 & mask; ; h = (h + 1) & mask {
+			if c := &table[h]; c.key == stored || c.key == 0 {
+				c.key = stored
+				return c
 			}
 		}
-		i = j
+	}
+	for _, u := range uses {
+		slot(u.key).n++
+	}
+	// The nearest free edge: the minimum does not depend on the order
+	// the edges are met in.
+	best := math.Inf(1)
+	for _, u := range uses {
+		if slot(u.key).n != 1 { // used by one element of the part only: free
+			continue
+		}
+		if d := m.EdgeDistance(m.ElemEdge(int(u.e), int(u.k)), q); d <= r && d < best {
+			best = d
+		}
 	}
 	return best
+}
+
+// edgeCount is a slot of FreeEdgeDistance's table: an edge key plus one
+// (0 for an empty slot) and its number of uses.
+type edgeCount struct {
+	key uint64
+	n   int32
 }
 
 // edgeKey identifies an edge by its two nodes, in either direction.

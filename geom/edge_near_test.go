@@ -78,3 +78,30 @@ func TestFreeEdgeDistanceMatchesAllElements(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkFreeEdgeDistance measures the edge check of a spot weld: the
+// nearest free edge of a part within 12 mm of a point on a grid of
+// 2.5 mm elements of four parts, from the elements ElemsNear finds.
+func BenchmarkFreeEdgeDistance(b *testing.B) {
+	m := gridMesh(200, 200, 2.5, 1.5)
+	x := NewIndex(m)
+	rng := rand.New(rand.NewPCG(1, 2))
+	type query struct {
+		q    r3.Vec
+		near []int32
+		pi   int32
+	}
+	qs := make([]query, 256)
+	for i := range qs {
+		q := m.Coords[rng.IntN(len(m.Coords))]
+		near := x.ElemsNear(q, 12, nil)
+		qs[i] = query{q, near, m.ElemPart[near[0]]}
+	}
+	i := 0
+	defer cpuMetric(b)()
+	for b.Loop() {
+		q := &qs[i%len(qs)]
+		FreeEdgeDistance(m, q.near, q.q, q.pi, 12)
+		i++
+	}
+}

@@ -185,28 +185,41 @@ func newPointGrid(pts []r3.Vec, margin float64) *pointGrid {
 			}
 		}
 	}
-	for _, p := range pts {
-		ball(p, func(c int) { g.marked[c/64] |= 1 << (c % 64) })
+	// Each point's ball is walked once: its cells, point after point,
+	// are kept (cells[ends[i-1]:ends[i]] for point i) to mark them, then
+	// to count and list the points of each marked cell.
+	var cells []int32
+	ends := make([]int, len(pts))
+	for i, p := range pts {
+		ball(p, func(c int) {
+			g.marked[c/64] |= 1 << (c % 64)
+			cells = append(cells, int32(c))
+		})
+		ends[i] = len(cells)
 	}
 	g.wordRank = make([]int32, len(g.marked)+1)
 	for w, bits := range g.marked {
 		g.wordRank[w+1] = g.wordRank[w] + int32(mbits.OnesCount64(bits))
 	}
 	g.start = make([]int32, g.wordRank[len(g.marked)]+1)
-	for _, p := range pts {
-		ball(p, func(c int) { g.start[g.rank(c)+1]++ })
+	ranks := cells // each cell's rank in place of the cell
+	for k, c := range cells {
+		r := int32(g.rank(int(c)))
+		ranks[k] = r
+		g.start[r+1]++
 	}
 	for r := 1; r < len(g.start); r++ {
 		g.start[r] += g.start[r-1]
 	}
 	g.list = make([]int32, g.start[len(g.start)-1])
 	fill := slices.Clone(g.start[:len(g.start)-1])
-	for i, p := range pts {
-		ball(p, func(c int) {
-			r := g.rank(c)
+	from := 0
+	for i := range pts {
+		for _, r := range ranks[from:ends[i]] {
 			g.list[fill[r]] = int32(i)
 			fill[r]++
-		})
+		}
+		from = ends[i]
 	}
 	return g
 }

@@ -142,3 +142,17 @@ func TestCandidatesNearHoldsElemsNear(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkPointGrid builds the grid of NewIndexNear for 6,000 points
+// spread over 8 m x 6 m, margin 18 mm (the synthetic body's welds).
+func BenchmarkPointGrid(b *testing.B) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	pts := make([]r3.Vec, 6000)
+	for i := range pts {
+		pts[i] = r3.Vec{X: 8000 * rng.Float64(), Y: 6000 * rng.Float64(), Z: 100 * rng.Float64()}
+	}
+	defer cpuMetric(b)()
+	for b.Loop() {
+		newPointGrid(pts, 18)
+	}
+}
