@@ -101,6 +101,7 @@ const (
 	CodeWasherSmall = "washer-small" // washer smaller than ISO 7089's for the size
 	CodeWasherHole  = "washer-hole"  // washer does not cover the measured hole
 	CodeNoAxis      = "no-axis"      // no sheet near the bolt gives an axis direction
+	CodeShankShort  = "shank-short"  // a beam shank between centres that (nearly) coincide
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -170,6 +170,12 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	var lfs []joints.Finding
 	c.Links, lfs = shank(m, j, &c.Stack, c.Ends, o)
 	c.Findings = append(c.Findings, lfs...)
+	if joints.HasError(lfs) {
+		// A shank Joinery will not write (shank-short): no links at all.
+		c.Links = nil
+		c.Status = joints.NotBuilt
+		return c
+	}
 	if j.Ground {
 		c.Bolt.Support, c.Bolt.SupportDOFs = len(c.Ends)-1, c.DOFs
 	}

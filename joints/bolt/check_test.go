@@ -1,6 +1,7 @@
 package bolt
 
 import (
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -8,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/stiffness"
 )
 
 // TestSizes checks bolts against the published sizes and their holes as
@@ -112,6 +114,38 @@ func TestSheetsFound(t *testing.T) {
 		// the faying face z = 0.75; the shank between them has no length.
 		if !near(b.Links[0].Length, 0.75, 1e-9) || !near(b.Links[1].Length, 1.5, 1e-9) || !near(b.Links[2].Length, 0, 1e-9) {
 			t.Errorf("lengths %g %g %g, want 0.75 1.5 0", b.Links[0].Length, b.Links[1].Length, b.Links[2].Length)
+		}
+	})
+	t.Run("offset-links-beam", func(t *testing.T) {
+		// A beam shank spans the grip whatever the link form: from the
+		// centre of sheet 1 (z = 0) to that of sheet 2 (z = 2.25), no
+		// offset links; the faying points (both at z = 0.75) would give a
+		// beam of no length.
+		m := mesh(t, rotation{}, holed(11)...)
+		b := build(t, m, joints.BuildOptions{Links: joints.OffsetLinks, Shank: joints.BeamShank}, m10("B1", r3.Vec{Z: 1.125}))[0]
+		if b.Status != joints.Built || len(b.Links) != 1 || b.Links[0].Kind != joints.ShankLink || !near(b.Links[0].Length, 2.25, 1e-9) ||
+			b.Links[0].StartAt != joints.SheetEnd(0) || b.Links[0].EndAt != joints.SheetEnd(1) {
+			t.Fatalf("state %s %v, links %+v; want one shank of 2.25 mm between the centres", b.Status, codes(b.Findings), b.Links)
+		}
+		// The sweep's stiffness summary takes the same length: axial
+		// EA/L with E = 210,000 N/mm^2, A = pi 10^2/4, L = 2.25 mm
+		// (closed form).
+		sp, _ := stiffness.Springs(&b, func(int64) stiffness.Material { return stiffness.Steel() })
+		if want := 210000 * math.Pi * 100 / 4 / 2.25; len(sp) != 1 || !near(sp[0].Axial, want, 1e-6*want) {
+			t.Errorf("springs %+v, want axial %g", sp, want)
+		}
+	})
+	t.Run("beam-short", func(t *testing.T) {
+		// Both sheets meshed at z = 0: the centres coincide, a beam there
+		// would have no length: shank-short, not built, no links.
+		ss := holed(11)
+		ss[1].Z = 0
+		m := mesh(t, rotation{}, ss...)
+		for _, lf := range []joints.LinkForm{joints.GapLinks, joints.OffsetLinks} {
+			b := build(t, m, joints.BuildOptions{Links: lf, Shank: joints.BeamShank}, m10("B1", r3.Vec{Z: 0.5}))[0]
+			if got := codes(b.Findings); !slices.Contains(got, joints.CodeShankShort) || b.Status != joints.NotBuilt || len(b.Links) != 0 {
+				t.Errorf("%s: findings %v, state %s, %d links; want shank-short, not built, none", lf, got, b.Status, len(b.Links))
+			}
 		}
 	})
 	t.Run("beam", func(t *testing.T) {
