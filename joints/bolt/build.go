@@ -198,6 +198,13 @@ func boltAxis(x *geom.Index, j *joints.Joint, o *joints.BuildOptions, keep func(
 	return r3.Vec{}, false
 }
 
+// ringSlack, mm, widens the washer's radius when ring nodes are chosen,
+// so that nodes meshed exactly on it count whatever the rounding of
+// their coordinates (a node at 10 mm may lie at 10.000000000000002):
+// symmetric rings stay symmetric (our choice: far above the rounding of
+// coordinates in double precision, far below any element).
+const ringSlack = 1e-4
+
 // ringOf returns the nodes a sheet's centre couples, their weights and
 // the kind of ring: with a hole, its edge nodes weighted by the arc
 // length each stands for (half of each edge beside it), or, with
@@ -205,7 +212,8 @@ func boltAxis(x *geom.Index, j *joints.Joint, o *joints.BuildOptions, keep func(
 // radius, weighted alike; without a hole, the nodes of the part within
 // the washer's radius and the host element's nodes, weighted alike.
 // Nodes of the part count when within the washer's radius of the axis
-// and of the centre along it. Nodes come in increasing index order.
+// and of the centre along it, ringSlack included. Nodes come in
+// increasing index order.
 func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, ring joints.BoltRing) ([]int32, []float64, string) {
 	if cr.loop != nil && ring == joints.HoleRing {
 		n := len(cr.loop)
@@ -237,7 +245,7 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 			set[n] = true
 		}
 	}
-	r := washer / 2
+	r := washer/2 + ringSlack
 	for _, e := range near {
 		if m.ElemPart[e] != cr.part {
 			continue

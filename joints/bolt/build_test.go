@@ -152,6 +152,28 @@ func TestWasherRing(t *testing.T) {
 	}
 }
 
+// TestWasherRingEdge: nodes exactly at the washer's radius belong to the
+// ring whatever the rounding of their coordinates: four rings of 16
+// nodes at 5.5, 7, 8.5 and 10 mm with a 20 mm washer give all 64 nodes
+// (4 x 16, counted), straight and with the model turned.
+func TestWasherRingEdge(t *testing.T) {
+	for _, rot := range []rotation{{}, {u: r3.Unit(r3.Vec{X: 1, Y: 2, Z: 0.5}), a: 0.7}, {u: r3.Unit(r3.Vec{X: -1, Y: 0.3, Z: 2}), a: 1.1}} {
+		ss := holed(11)
+		for i := range ss {
+			ss[i].Outer, ss[i].Rings, ss[i].Seg = 10, 3, 16
+		}
+		m := mesh(t, rot, ss...)
+		j := m10("B1", rot.apply(r3.Vec{Z: 1.125}))
+		j.Axis = rot.apply(r3.Vec{Z: 1})
+		cs := build(t, m, joints.BuildOptions{BoltRing: joints.WasherRing}, j)
+		for i, e := range cs[0].Ends {
+			if len(e.Nodes) != 64 {
+				t.Errorf("rotation %v: sheet %d: %d nodes, want 64", rot, i, len(e.Nodes))
+			}
+		}
+	}
+}
+
 // TestReferenceSurfaces: centres lie where the axis meets each sheet's
 // meshed surface; positions along the axis are the mid-surfaces' (sheet
 // 1 from z = -0.75 to 0.75, sheet 2 from 0.75 to 3.75), whichever
