@@ -82,6 +82,34 @@ func TestSheetsFound(t *testing.T) {
 			t.Errorf("findings %v, want gap-open", got)
 		}
 	})
+	t.Run("thin-sheets", func(t *testing.T) {
+		// 0.8 and 1 mm sheets: the default reach, 4.5 x 1 mm, is less
+		// than the 5.5 mm from the axis to the edge of an M10's 11 mm
+		// hole (ISO 273 medium), yet the bolt finds its axis and both
+		// sheets: the axis search reaches the washer's diameter across.
+		ss := holed(11)
+		ss[0].T, ss[1].T, ss[1].Z = 0.8, 1, 0.9
+		m := mesh(t, rotation{}, ss...)
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 0.45}))[0]
+		if b.Status != joints.Built || len(b.Stack.Sheets) != 2 {
+			t.Errorf("state %s, findings %v, %d sheets; want built on 2", b.Status, codes(b.Findings), len(b.Stack.Sheets))
+		}
+	})
+	t.Run("no-sheet", func(t *testing.T) {
+		// 40 mm above the sheets: nothing within the search radius,
+		// hypot(reach 4.5 x 3 = 13.5, washer 20) = 24.13 mm; the message
+		// says what was searched, not that the point is off the stack
+		// in general.
+		m := mesh(t, rotation{}, holed(11)...)
+		j := m10("B1", r3.Vec{Z: 40})
+		j.Parts = []int64{1, 2}
+		b := build(t, m, joints.BuildOptions{}, j)[0]
+		if len(b.Findings) != 1 || b.Findings[0].Code != joints.CodeNoSheet || b.Status != joints.NotBuilt ||
+			!strings.Contains(b.Findings[0].Message, "within "+joints.MM(math.Hypot(13.5, 20))+" mm of the bolt's point") ||
+			!strings.Contains(b.Findings[0].Message, "listed parts (1, 2)") {
+			t.Errorf("state %s, findings %v", b.Status, b.Findings)
+		}
+	})
 	t.Run("listed-missing", func(t *testing.T) {
 		m := mesh(t, rotation{}, holed(11)...)
 		j := m10("B1", r3.Vec{Z: 1.125})
