@@ -103,6 +103,7 @@ const (
 	CodeNoAxis        = "no-axis"         // no sheet near the bolt gives an axis direction
 	CodeShankShort    = "shank-short"     // a beam shank between centres that (nearly) coincide
 	CodeHoleOffCentre = "hole-off-centre" // the bolt's point off the centre of a meshed hole
+	CodeFixtureSide   = "fixture-side"    // a grounded bolt's support side taken from an element normal
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

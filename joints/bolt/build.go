@@ -122,7 +122,7 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	keep := func(pi int32) bool { return len(j.Parts) == 0 || listed[pi] }
 	l := searchFactor * j.Washer
 	radius := math.Hypot(o.Reach, l)
-	axis, ok := boltAxis(x, j, radius, keep)
+	axis, from, ok := boltAxis(x, j, radius, keep)
 	if !ok {
 		which := "of any part"
 		if len(j.Parts) > 0 {
@@ -202,6 +202,12 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	}
 	if j.Ground {
 		c.Bolt.Support, c.Bolt.SupportDOFs = len(c.Ends)-1, c.DOFs
+		if from >= 0 {
+			p := c.Stack.Sheets[len(c.Stack.Sheets)-1].Part
+			c.Findings = append(c.Findings, j.Finding(joints.Info, joints.CodeFixtureSide, []int64{p},
+				fmt.Sprintf("the bolt is supported at its centre on part %d, the last along the axis, which is the element normal of part %d at the bolt (%s, %s, %s): the normals' direction chose the fixture's side; give nx,ny,nz pointing toward the fixture to fix it",
+					p, m.Parts[from].ID, joints.MM(axis.X), joints.MM(axis.Y), joints.MM(axis.Z))))
+		}
 	}
 	c.SetStatus()
 	return c
@@ -214,17 +220,18 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 // a meshed hole the nearest element lies at least the hole's radius
 // away, more than the reach of a stack of thin sheets (0.8 and 1 mm
 // sheets: 4.5 mm, against 5.5 mm for an M10's 11 mm hole).
-func boltAxis(x *geom.Index, j *joints.Joint, radius float64, keep func(pi int32) bool) (r3.Vec, bool) {
+// The part index is that of the element, -1 for a listed axis.
+func boltAxis(x *geom.Index, j *joints.Joint, radius float64, keep func(pi int32) bool) (r3.Vec, int32, bool) {
 	if r3.Norm2(j.Axis) > 0 {
-		return r3.Unit(j.Axis), true
+		return r3.Unit(j.Axis), -1, true
 	}
 	m := x.Mesh()
 	for _, pr := range x.ClosestPerPart(j.Point, radius) {
-		if keep(m.ElemPart[pr.Elem]) && r3.Norm2(pr.Normal) > 0 && !m.ElemQuality(pr.Elem).Degenerate {
-			return pr.Normal, true
+		if pi := m.ElemPart[pr.Elem]; keep(pi) && r3.Norm2(pr.Normal) > 0 && !m.ElemQuality(pr.Elem).Degenerate {
+			return pr.Normal, pi, true
 		}
 	}
-	return r3.Vec{}, false
+	return r3.Vec{}, -1, false
 }
 
 // offCentreTolerance, mm: a hole's centre (the circle fitted to its

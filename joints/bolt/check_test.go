@@ -131,6 +131,16 @@ func TestSheetsFound(t *testing.T) {
 		if b.Status != joints.Built || b.Bolt.Support != 0 || b.Bolt.SupportDOFs != joints.Translations {
 			t.Errorf("grounded single sheet: %s %v, support %d %s", b.Status, codes(b.Findings), b.Bolt.Support, b.Bolt.SupportDOFs)
 		}
+		// The axis came from part 1's element normal, which chose the
+		// fixture's side: said (info), and not when the list gives it.
+		if len(b.Findings) != 1 || b.Findings[0].Code != joints.CodeFixtureSide || b.Findings[0].Severity != joints.Info ||
+			!strings.Contains(b.Findings[0].Message, "element normal of part 1") || !strings.Contains(b.Findings[0].Message, "nx,ny,nz") {
+			t.Errorf("grounded without axis: findings %v, want one fixture-side info", b.Findings)
+		}
+		j.Axis = r3.Vec{Z: -1}
+		if b = build(t, m, joints.BuildOptions{}, j)[0]; len(b.Findings) != 0 {
+			t.Errorf("grounded with its axis: findings %v, want none", codes(b.Findings))
+		}
 	})
 	t.Run("offset-links", func(t *testing.T) {
 		m := mesh(t, rotation{}, holed(11)...)
