@@ -185,8 +185,8 @@ func (k *Constraints) AddConnector(m *geom.Mesh, c *Connector) {
 // every translation and the ring spans a plane: the same constraint); in the averaging form one tie at the centre on the
 // same DOFs; the shank between consecutive centres on all six (a rigid
 // link, or a beam, which resists every relative motion; with offset
-// links the chain centre, offset link, shank, offset link, centre is
-// rigid the same way); a support of the grounded centre on the
+// links the chain centre, offset link, rigid shank, offset link, centre
+// is rigid the same way; a beam shank joins the centres directly); a support of the grounded centre on the
 // supported DOFs.
 func (k *Constraints) AddBolt(m *geom.Mesh, c *Connector) {
 	if c.Bolt == nil || len(c.Ends) != len(c.Stack.Sheets) {

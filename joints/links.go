@@ -149,6 +149,12 @@ func ParseLinkForm(s string) (LinkForm, error) {
 // coarsely meshed curved flange).
 const OffsetMismatchFactor = 0.1
 
+// MinBeamShank, mm, is the shortest beam shank a bolt gets: a beam of
+// no length has no stiffness matrix (EA/L, 12EI/L^3), so a shorter one
+// is an error, shank-short (our choice: a hundredth of a millimetre,
+// far below any sheet's thickness, far above rounding).
+const MinBeamShank = 0.01
+
 // FayingSide returns the side of a sheet, relative to its normal, on
 // which a neighbour lies in direction toward: +1 when the neighbour lies
 // on the side the normal points to, -1 when opposite. A normal square

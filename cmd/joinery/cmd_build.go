@@ -50,7 +50,7 @@ func (o *buildOptions) AddFlags(fs *pflag.FlagSet) {
 	fs.StringVar(&o.links, "links", joints.DefaultLinks.String(), fmt.Sprintf("how links bridge a stack: %s (one link between the ends of consecutive sheets, across the gap) or %s (per sheet an offset link to its faying face, joined by zero-length faying joints)", joints.GapLinks, joints.OffsetLinks))
 	fs.StringVar(&o.boltDOFs, "bolt-dofs", joints.DefaultBoltDOFs.String(), "degrees of freedom a bolt's rings couple, and its support to ground holds (from tx,ty,tz,rx,ry,rz)")
 	fs.StringVar(&o.boltCoupling, "bolt-coupling", joints.DefaultBoltCoupling.String(), fmt.Sprintf("how a bolt's centre couples its ring: %s (the ring follows the centre's rigid motion) or %s (the centre follows the ring's weighted mean)", joints.RigidCoupling, joints.AveragingCoupling))
-	fs.StringVar(&o.shank, "shank", joints.DefaultShank.String(), fmt.Sprintf("a bolt's shank between its centres: %s (a rigid link) or %s (a beam of the bolt's diameter, steel unless --shank-modulus)", joints.RigidShank, joints.BeamShank))
+	fs.StringVar(&o.shank, "shank", joints.DefaultShank.String(), fmt.Sprintf("a bolt's shank between its centres: %s (a rigid link) or %s (a beam of the bolt's diameter between the sheets' centres, whatever --links, steel unless --shank-modulus)", joints.RigidShank, joints.BeamShank))
 	fs.StringVar(&o.boltRing, "bolt-ring", joints.DefaultBoltRing.String(), fmt.Sprintf("the ring of a meshed hole: %s (its edge nodes) or %s (every node within the washer's radius)", joints.HoleRing, joints.WasherRing))
 	fs.Float64Var(&o.shankModulus, "shank-modulus", 0, fmt.Sprintf("N/mm^2; Young's modulus of a beam shank (0: %g, steel)", joints.DefaultShankModulus))
 	fs.Float64Var(&o.holeTol, "hole-tolerance", 0, fmt.Sprintf("mm; measured hole against declared before hole-size (0: %g)", joints.DefaultHoleTolerance))
@@ -137,10 +137,13 @@ A bolt gets a centre node per sheet on its axis, coupled to the ring of nodes
 round its hole (the hole's edge nodes; without a meshed hole, the nodes within
 the washer's radius) on --bolt-dofs (default translations only: coupling a
 shell's rotations at a hole over-stiffens the joint), rigidly or by averaging
-(--bolt-coupling), and a shank between consecutive centres (--shank); a bolt
-listed with ground yes is supported at its last centre. Sizes are checked
-against ISO 7089 washers and ISO 273 clearance holes, and meshed holes against
-the declared diameter (hole-size).
+(--bolt-coupling), and a shank between consecutive centres (--shank; with
+--links offset a rigid shank joins the faying points, while a beam always runs
+between the two sheets' centres, so that it spans the grip: a beam shorter than
+` + fmt.Sprint(joints.MinBeamShank) + ` mm is shank-short, an error); a bolt listed with ground yes is
+supported at its last centre. Sizes are checked against ISO 7089 washers and
+ISO 273 clearance holes, and meshed holes against the declared diameter
+(hole-size).
 Inputs and settings come from a job file, from flags, or both (flags win).
 
 ` + document.Caution + `

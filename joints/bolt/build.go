@@ -7,6 +7,8 @@ import (
 	"math"
 	"runtime"
 	"slices"
+	"strconv"
+	"strings"
 	"sync"
 	"sync/atomic"
 
@@ -118,17 +120,27 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		}
 	}
 	keep := func(pi int32) bool { return len(j.Parts) == 0 || listed[pi] }
-	axis, ok := boltAxis(x, j, o, keep)
+	l := searchFactor * j.Washer
+	radius := math.Hypot(o.Reach, l)
+	axis, from, ok := boltAxis(x, j, radius, keep)
 	if !ok {
+		which := "of any part"
+		if len(j.Parts) > 0 {
+			ids := make([]string, len(j.Parts))
+			for i, id := range j.Parts {
+				ids[i] = strconv.FormatInt(id, 10)
+			}
+			which = "of the listed parts (" + strings.Join(ids, ", ") + ")"
+		}
 		c.Findings = append(c.Findings, j.Finding(joints.Error, joints.CodeNoSheet, j.Parts,
-			fmt.Sprintf("no sheet within %s mm of the bolt gives its axis: give the axis (nx, ny, nz) or move the point onto the stack", joints.MM(o.Reach))))
+			fmt.Sprintf("no element %s with a normal (a sheet, or the edge of a hole) lies within %s mm of the bolt's point (the reach, %s mm, along the axis and the washer's diameter, %s mm, across it), so none gives the bolt's axis: give the axis (nx, ny, nz), or a point nearer the sheets",
+				which, joints.MM(radius), joints.MM(o.Reach), joints.MM(l))))
 		c.Status = joints.NotBuilt
 		return c
 	}
 	f := newFrame(j.Point, axis)
-	l := searchFactor * j.Washer
 	var nbuf [512]int32
-	near := x.ElemsNear(j.Point, math.Hypot(o.Reach, l), nbuf[:0])
+	near := x.ElemsNear(j.Point, radius, nbuf[:0])
 	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
 	xs := crossings(m, &f, near, o.Reach, l, cosTol, keep)
 	c.Stack.Axis = axis
@@ -161,6 +173,18 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		ring, weights, kind := ringOf(m, &f, near, &xs[i], j.Washer, o.BoltRing)
 		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
 		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Ring: kind})
+		if xs[i].loop == nil {
+			continue
+		}
+		part := c.Stack.Sheets[i].Part
+		switch off, clear := f.lateral(xs[i].point), (xs[i].hole-j.Diameter)/2; {
+		case off > clear && off > offCentreTolerance:
+			c.Findings = append(c.Findings, j.Finding(joints.Warning, joints.CodeHoleOffCentre, []int64{part},
+				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d, more than the %s mm between shank and hole: the listed point or axis is off the hole; the centre is put on the hole's axis", joints.MM(off), part, joints.MM(max(clear, 0)))))
+		case off > offCentreTolerance:
+			c.Findings = append(c.Findings, j.Finding(joints.Info, joints.CodeHoleOffCentre, []int64{part},
+				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d (tolerance %s mm); the centre is put on the hole's axis", joints.MM(off), part, joints.MM(offCentreTolerance))))
+		}
 	}
 	c.Findings = append(c.Findings, checkSizes(j, &c.Stack, c.Bolt.Holes, o)...)
 	if joints.HasError(c.Findings) {
@@ -170,36 +194,73 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	var lfs []joints.Finding
 	c.Links, lfs = shank(m, j, &c.Stack, c.Ends, o)
 	c.Findings = append(c.Findings, lfs...)
+	if joints.HasError(lfs) {
+		// A shank Joinery will not write (shank-short): no links at all.
+		c.Links = nil
+		c.Status = joints.NotBuilt
+		return c
+	}
 	if j.Ground {
 		c.Bolt.Support, c.Bolt.SupportDOFs = len(c.Ends)-1, c.DOFs
+		if from >= 0 {
+			p := c.Stack.Sheets[len(c.Stack.Sheets)-1].Part
+			c.Findings = append(c.Findings, j.Finding(joints.Info, joints.CodeFixtureSide, []int64{p},
+				fmt.Sprintf("the bolt is supported at its centre on part %d, the last along the axis, which is the element normal of part %d at the bolt (%s, %s, %s): the normals' direction chose the fixture's side; give nx,ny,nz pointing toward the fixture to fix it",
+					p, m.Parts[from].ID, joints.MM(axis.X), joints.MM(axis.Y), joints.MM(axis.Z))))
+		}
 	}
 	c.SetStatus()
 	return c
 }
 
 // boltAxis returns the bolt's axis: the one listed, else the normal of
-// the nearest sound element of a part keep accepts within reach.
-func boltAxis(x *geom.Index, j *joints.Joint, o *joints.BuildOptions, keep func(pi int32) bool) (r3.Vec, bool) {
+// the nearest sound element of a part keep accepts within radius of
+// the point. The radius is the bolt's search radius, the reach along
+// the axis and the washer's diameter across it, not the reach alone: in
+// a meshed hole the nearest element lies at least the hole's radius
+// away, more than the reach of a stack of thin sheets (0.8 and 1 mm
+// sheets: 4.5 mm, against 5.5 mm for an M10's 11 mm hole).
+// The part index is that of the element, -1 for a listed axis.
+func boltAxis(x *geom.Index, j *joints.Joint, radius float64, keep func(pi int32) bool) (r3.Vec, int32, bool) {
 	if r3.Norm2(j.Axis) > 0 {
-		return r3.Unit(j.Axis), true
+		return r3.Unit(j.Axis), -1, true
 	}
 	m := x.Mesh()
-	for _, pr := range x.ClosestPerPart(j.Point, o.Reach) {
-		if keep(m.ElemPart[pr.Elem]) && r3.Norm2(pr.Normal) > 0 && !m.ElemQuality(pr.Elem).Degenerate {
-			return pr.Normal, true
+	for _, pr := range x.ClosestPerPart(j.Point, radius) {
+		if pi := m.ElemPart[pr.Elem]; keep(pi) && r3.Norm2(pr.Normal) > 0 && !m.ElemQuality(pr.Elem).Degenerate {
+			return pr.Normal, pi, true
 		}
 	}
-	return r3.Vec{}, false
+	return r3.Vec{}, -1, false
 }
+
+// offCentreTolerance, mm: a hole's centre (the circle fitted to its
+// edge nodes) farther than this from the bolt's listed axis is reported,
+// hole-off-centre (our choice: above points rounded to 0.01 mm, far
+// below the half millimetre between an M10's shank and its ISO 273
+// fine hole).
+const offCentreTolerance = 0.01
+
+// ringSlack, mm, widens the washer's radius when ring nodes are chosen,
+// so that nodes meshed exactly on it count whatever the rounding of
+// their coordinates (a node at 10 mm may lie at 10.000000000000002):
+// symmetric rings stay symmetric (our choice: far above the rounding of
+// coordinates in double precision, far below any element).
+const ringSlack = 1e-4
 
 // ringOf returns the nodes a sheet's centre couples, their weights and
 // the kind of ring: with a hole, its edge nodes weighted by the arc
 // length each stands for (half of each edge beside it), or, with
 // WasherRing, those and every node of the part within the washer's
-// radius, weighted alike; without a hole, the nodes of the part within
-// the washer's radius and the host element's nodes, weighted alike.
+// radius of the centre; without a hole, the nodes of the part within
+// the washer's radius and the host element's nodes. The weights sum to
+// 1 and their weighted mean of the nodes is the centre in the sheet's
+// plane: the arc-length weights corrected as little as that takes, the
+// others the most uniform such weights (joints.EvenWeights); where the
+// nodes do not span the plane, the arc-length or equal weights.
 // Nodes of the part count when within the washer's radius of the axis
-// and of the centre along it. Nodes come in increasing index order.
+// and of the centre along it, ringSlack included. Nodes come in
+// increasing index order.
 func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, ring joints.BoltRing) ([]int32, []float64, string) {
 	if cr.loop != nil && ring == joints.HoleRing {
 		n := len(cr.loop)
@@ -220,6 +281,9 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 			nodes[k] = cr.loop[i]
 			ws[k] = (lens[i] + lens[(i+n-1)%n]) / (2 * total)
 		}
+		if w, ok := joints.EvenWeights(m, nodes, cr.point, cr.normal, ws); ok {
+			ws = w
+		}
 		return nodes, ws, "hole"
 	}
 	set := map[int32]bool{}
@@ -231,14 +295,15 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 			set[n] = true
 		}
 	}
-	r := washer / 2
+	r := washer/2 + ringSlack
+	at := newFrame(cr.point, f.A) // about the centre, on a hole's axis
 	for _, e := range near {
 		if m.ElemPart[e] != cr.part {
 			continue
 		}
 		for _, n := range m.ElemNodes(int(e)) {
 			q := m.Coords[n]
-			if f.lateral(q) <= r && math.Abs(f.along(q)-cr.t) <= r {
+			if at.lateral(q) <= r && math.Abs(at.along(q)) <= r {
 				set[n] = true
 			}
 		}
@@ -248,9 +313,12 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 		nodes = append(nodes, n)
 	}
 	slices.Sort(nodes)
-	ws := make([]float64, len(nodes))
-	for i := range ws {
-		ws[i] = 1 / float64(len(nodes))
+	ws, ok := joints.EvenWeights(m, nodes, cr.point, cr.normal, nil)
+	if !ok {
+		ws = make([]float64, len(nodes))
+		for i := range ws {
+			ws[i] = 1 / float64(len(nodes))
+		}
 	}
 	kind := "patch"
 	if cr.loop != nil {

@@ -23,7 +23,7 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 	switch n := len(st.Sheets); {
 	case n == 0 && len(fs) == 0:
 		fs = append(fs, j.Finding(joints.Error, joints.CodeNoSheet, nil,
-			fmt.Sprintf("the bolt's axis crosses no sheet within %s mm (no element on it, no hole round it)", joints.MM(o.Reach))))
+			fmt.Sprintf("the bolt's axis crosses no sheet within %s mm of the point along it (no element on it, no closed hole edge round it within %s mm of it)", joints.MM(o.Reach), joints.MM(searchFactor*j.Washer))))
 	case n == 1 && !j.Ground && len(fs) == 0:
 		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
 			fmt.Sprintf("the bolt's axis crosses only part %d within %s mm: nothing to fasten it to (a bolt to a fixture outside the model says ground yes)", st.Sheets[0].Part, joints.MM(o.Reach))))

@@ -1,6 +1,7 @@
 package bolt
 
 import (
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -8,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/joints"
+	"github.com/joinery-cae/joinery/joints/stiffness"
 )
 
 // TestSizes checks bolts against the published sizes and their holes as
@@ -80,6 +82,34 @@ func TestSheetsFound(t *testing.T) {
 			t.Errorf("findings %v, want gap-open", got)
 		}
 	})
+	t.Run("thin-sheets", func(t *testing.T) {
+		// 0.8 and 1 mm sheets: the default reach, 4.5 x 1 mm, is less
+		// than the 5.5 mm from the axis to the edge of an M10's 11 mm
+		// hole (ISO 273 medium), yet the bolt finds its axis and both
+		// sheets: the axis search reaches the washer's diameter across.
+		ss := holed(11)
+		ss[0].T, ss[1].T, ss[1].Z = 0.8, 1, 0.9
+		m := mesh(t, rotation{}, ss...)
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 0.45}))[0]
+		if b.Status != joints.Built || len(b.Stack.Sheets) != 2 {
+			t.Errorf("state %s, findings %v, %d sheets; want built on 2", b.Status, codes(b.Findings), len(b.Stack.Sheets))
+		}
+	})
+	t.Run("no-sheet", func(t *testing.T) {
+		// 40 mm above the sheets: nothing within the search radius,
+		// hypot(reach 4.5 x 3 = 13.5, washer 20) = 24.13 mm; the message
+		// says what was searched, not that the point is off the stack
+		// in general.
+		m := mesh(t, rotation{}, holed(11)...)
+		j := m10("B1", r3.Vec{Z: 40})
+		j.Parts = []int64{1, 2}
+		b := build(t, m, joints.BuildOptions{}, j)[0]
+		if len(b.Findings) != 1 || b.Findings[0].Code != joints.CodeNoSheet || b.Status != joints.NotBuilt ||
+			!strings.Contains(b.Findings[0].Message, "within "+joints.MM(math.Hypot(13.5, 20))+" mm of the bolt's point") ||
+			!strings.Contains(b.Findings[0].Message, "listed parts (1, 2)") {
+			t.Errorf("state %s, findings %v", b.Status, b.Findings)
+		}
+	})
 	t.Run("listed-missing", func(t *testing.T) {
 		m := mesh(t, rotation{}, holed(11)...)
 		j := m10("B1", r3.Vec{Z: 1.125})
@@ -101,6 +131,16 @@ func TestSheetsFound(t *testing.T) {
 		if b.Status != joints.Built || b.Bolt.Support != 0 || b.Bolt.SupportDOFs != joints.Translations {
 			t.Errorf("grounded single sheet: %s %v, support %d %s", b.Status, codes(b.Findings), b.Bolt.Support, b.Bolt.SupportDOFs)
 		}
+		// The axis came from part 1's element normal, which chose the
+		// fixture's side: said (info), and not when the list gives it.
+		if len(b.Findings) != 1 || b.Findings[0].Code != joints.CodeFixtureSide || b.Findings[0].Severity != joints.Info ||
+			!strings.Contains(b.Findings[0].Message, "element normal of part 1") || !strings.Contains(b.Findings[0].Message, "nx,ny,nz") {
+			t.Errorf("grounded without axis: findings %v, want one fixture-side info", b.Findings)
+		}
+		j.Axis = r3.Vec{Z: -1}
+		if b = build(t, m, joints.BuildOptions{}, j)[0]; len(b.Findings) != 0 {
+			t.Errorf("grounded with its axis: findings %v, want none", codes(b.Findings))
+		}
 	})
 	t.Run("offset-links", func(t *testing.T) {
 		m := mesh(t, rotation{}, holed(11)...)
@@ -112,6 +152,38 @@ func TestSheetsFound(t *testing.T) {
 		// the faying face z = 0.75; the shank between them has no length.
 		if !near(b.Links[0].Length, 0.75, 1e-9) || !near(b.Links[1].Length, 1.5, 1e-9) || !near(b.Links[2].Length, 0, 1e-9) {
 			t.Errorf("lengths %g %g %g, want 0.75 1.5 0", b.Links[0].Length, b.Links[1].Length, b.Links[2].Length)
+		}
+	})
+	t.Run("offset-links-beam", func(t *testing.T) {
+		// A beam shank spans the grip whatever the link form: from the
+		// centre of sheet 1 (z = 0) to that of sheet 2 (z = 2.25), no
+		// offset links; the faying points (both at z = 0.75) would give a
+		// beam of no length.
+		m := mesh(t, rotation{}, holed(11)...)
+		b := build(t, m, joints.BuildOptions{Links: joints.OffsetLinks, Shank: joints.BeamShank}, m10("B1", r3.Vec{Z: 1.125}))[0]
+		if b.Status != joints.Built || len(b.Links) != 1 || b.Links[0].Kind != joints.ShankLink || !near(b.Links[0].Length, 2.25, 1e-9) ||
+			b.Links[0].StartAt != joints.SheetEnd(0) || b.Links[0].EndAt != joints.SheetEnd(1) {
+			t.Fatalf("state %s %v, links %+v; want one shank of 2.25 mm between the centres", b.Status, codes(b.Findings), b.Links)
+		}
+		// The sweep's stiffness summary takes the same length: axial
+		// EA/L with E = 210,000 N/mm^2, A = pi 10^2/4, L = 2.25 mm
+		// (closed form).
+		sp, _ := stiffness.Springs(&b, func(int64) stiffness.Material { return stiffness.Steel() })
+		if want := 210000 * math.Pi * 100 / 4 / 2.25; len(sp) != 1 || !near(sp[0].Axial, want, 1e-6*want) {
+			t.Errorf("springs %+v, want axial %g", sp, want)
+		}
+	})
+	t.Run("beam-short", func(t *testing.T) {
+		// Both sheets meshed at z = 0: the centres coincide, a beam there
+		// would have no length: shank-short, not built, no links.
+		ss := holed(11)
+		ss[1].Z = 0
+		m := mesh(t, rotation{}, ss...)
+		for _, lf := range []joints.LinkForm{joints.GapLinks, joints.OffsetLinks} {
+			b := build(t, m, joints.BuildOptions{Links: lf, Shank: joints.BeamShank}, m10("B1", r3.Vec{Z: 0.5}))[0]
+			if got := codes(b.Findings); !slices.Contains(got, joints.CodeShankShort) || b.Status != joints.NotBuilt || len(b.Links) != 0 {
+				t.Errorf("%s: findings %v, state %s, %d links; want shank-short, not built, none", lf, got, b.Status, len(b.Links))
+			}
 		}
 	})
 	t.Run("beam", func(t *testing.T) {

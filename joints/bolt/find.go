@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -271,19 +272,26 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		if !closed || len(loop) < 3 || !winds(m, f, loop) {
 			continue
 		}
-		var t, r float64
-		for _, n := range loop {
-			t += f.along(m.Coords[n])
-			r += f.lateral(m.Coords[n])
-		}
-		t /= float64(len(loop))
-		r /= float64(len(loop))
 		host := slices.MinFunc(hosts, func(a, b int32) int { return cmp.Compare(m.ElemIDs[a], m.ElemIDs[b]) })
 		n := m.Normal(int(host))
 		if math.Abs(r3.Dot(n, f.A)) < cosTol {
 			continue
 		}
-		c := crossing{part: pi, elem: int(host), t: t, point: f.at(t), normal: n, loop: loop, hole: 2 * r}
+		centre, r, ok := fitCircle(m, loop, n)
+		if !ok {
+			// Edge nodes on a line or fewer than three: the mean
+			// distance from the axis, where it crosses their mean plane.
+			var t float64
+			for _, nd := range loop {
+				t += f.along(m.Coords[nd])
+				r += f.lateral(m.Coords[nd])
+			}
+			t /= float64(len(loop))
+			r /= float64(len(loop))
+			centre = f.at(t)
+		}
+		t := f.along(centre)
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.
@@ -313,4 +321,47 @@ func winds(m *geom.Mesh, f *frame, loop []int32) bool {
 		x0, y0 = x1, y1
 	}
 	return math.Abs(sum) > math.Pi
+}
+
+// fitCircle returns the circle that fits a hole's edge nodes best in
+// the plane through their mean square to normal: the algebraic least
+// squares fit x^2 + y^2 + D x + E y + F = 0 (I. Kasa, A circle fitting
+// procedure and its error analysis, IEEE Trans. Instrum. Meas. 25,
+// 1976), exact for nodes on a circle, centre (-D/2, -E/2), radius
+// sqrt(D^2/4 + E^2/4 - F). False when the nodes do not span the plane.
+func fitCircle(m *geom.Mesh, loop []int32, normal r3.Vec) (r3.Vec, float64, bool) {
+	if len(loop) < 3 || r3.Norm2(normal) == 0 {
+		return r3.Vec{}, 0, false
+	}
+	var mean r3.Vec
+	for _, n := range loop {
+		mean = r3.Add(mean, m.Coords[n])
+	}
+	mean = r3.Scale(1/float64(len(loop)), mean)
+	pl := newFrame(mean, r3.Unit(normal))
+	a := mat.NewDense(len(loop), 3, nil)
+	b := mat.NewVecDense(len(loop), nil)
+	for i, n := range loop {
+		x, y := pl.plane(m.Coords[n])
+		a.Set(i, 0, x)
+		a.Set(i, 1, y)
+		a.Set(i, 2, 1)
+		b.SetVec(i, -(x*x + y*y))
+	}
+	var qr mat.QR
+	qr.Factorize(a)
+	if c := qr.Cond(); math.IsInf(c, 1) || c > 1e12 {
+		return r3.Vec{}, 0, false
+	}
+	var s mat.VecDense
+	if err := qr.SolveVecTo(&s, false, b); err != nil {
+		return r3.Vec{}, 0, false
+	}
+	d, e, f := s.AtVec(0), s.AtVec(1), s.AtVec(2)
+	r2 := (d*d+e*e)/4 - f
+	if !(r2 > 0) {
+		return r3.Vec{}, 0, false
+	}
+	centre := r3.Add(mean, r3.Add(r3.Scale(-d/2, pl.U), r3.Scale(-e/2, pl.V)))
+	return centre, math.Sqrt(r2), true
 }

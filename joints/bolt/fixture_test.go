@@ -26,6 +26,9 @@ type sheet struct {
 	Rings   int
 	X0, H   float64
 	N       int
+	// Warp spaces the annulus's nodes unevenly round it, still on their
+	// circles: node k at angle a + Warp sin(a), a = 2 pi k / Seg.
+	Warp float64
 }
 
 // rotation turns a point about the unit axis u by angle a (Rodrigues'
@@ -69,6 +72,7 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 				rad := s.Hole/2 + (s.Outer-s.Hole/2)*float64(r)/float64(s.Rings)
 				for k := range s.Seg {
 					a := 2 * math.Pi * float64(k) / float64(s.Seg)
+					a += s.Warp * math.Sin(a)
 					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
 				}
 			}

@@ -13,8 +13,12 @@ import (
 // with gap links one shank link between the centres; with offset links,
 // as for spot welds, an offset link from each centre along its sheet's
 // normal to its faying face and the shank between the two faying points
-// (offset-mismatch reported alike). Shank links couple all six degrees
-// of freedom whatever the bolt's ring DOFs.
+// (offset-mismatch reported alike). A beam shank always runs between
+// the two centres, whatever the link form, so that it spans the grip
+// (with offset links the faying points of sheets in contact coincide,
+// and a beam between them would have no length); a beam shorter than
+// joints.MinBeamShank is an error (shank-short). Shank links couple all six
+// degrees of freedom whatever the bolt's ring DOFs.
 func shank(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, o *joints.BuildOptions) ([]joints.Link, []joints.Finding) {
 	var (
 		links []joints.Link
@@ -24,11 +28,16 @@ func shank(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, o
 		a, b := &st.Sheets[i], &st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
 		gap := b.Position - a.Position
-		if o.Links != joints.OffsetLinks {
+		if o.Links != joints.OffsetLinks || o.Shank == joints.BeamShank {
 			l := joints.Link{Kind: joints.ShankLink, From: i, To: i + 1, Contact: contact, MidGap: gap,
 				StartAt: joints.SheetEnd(i), EndAt: joints.SheetEnd(i + 1), DOFs: joints.AllDOFs}
 			setSpan(&l, ends[i].Point, ends[i+1].Point)
 			links = append(links, l)
+			if o.Shank == joints.BeamShank && l.Length < joints.MinBeamShank {
+				fs = append(fs, j.Finding(joints.Error, joints.CodeShankShort, []int64{a.Part, b.Part},
+					fmt.Sprintf("the beam shank between parts %d and %d would be %s mm long, less than the %s mm a beam needs: the two sheets' centres coincide (mid-surfaces %s mm apart, contact at %s mm); correct the gap in the mesh or use --shank rigid",
+						a.Part, b.Part, joints.MM(l.Length), joints.MM(joints.MinBeamShank), joints.MM(gap), joints.MM(contact))))
+			}
 			continue
 		}
 		la := joints.NewOffsetLink(ends[i].Point, a.Proj.Normal, a.Thickness, m.Part(a.Proj.Elem).Surface,

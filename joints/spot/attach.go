@@ -6,7 +6,6 @@ import (
 	"math"
 	"slices"
 
-	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -135,65 +134,11 @@ func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) (joints.End, in
 		nodes = nodes[:joints.MaxPatchNodes]
 	}
 	slices.SortFunc(nodes, byID)
-	w, ok := patchWeights(m, nodes, q, s.Proj.Normal)
+	w, ok := joints.EvenWeights(m, nodes, q, s.Proj.Normal, nil)
 	if !ok {
 		return host, within
 	}
 	return joints.End{Point: q, NodeIndex: -1, Nodes: nodes, Weights: w}, within
-}
-
-// patchWeights solves for the weights described at attachPatch.
-func patchWeights(m *geom.Mesh, nodes []int32, q, normal r3.Vec) ([]float64, bool) {
-	n := len(nodes)
-	t1, t2, ok := tangents(normal)
-	if !ok || n < 3 {
-		return nil, false
-	}
-	A := mat.NewDense(3, n, nil)
-	w0 := mat.NewVecDense(n, nil)
-	for i, nd := range nodes {
-		d := r3.Sub(m.Coords[nd], q)
-		A.Set(0, i, 1)
-		A.Set(1, i, r3.Dot(d, t1))
-		A.Set(2, i, r3.Dot(d, t2))
-		w0.SetVec(i, 1/float64(n))
-	}
-	// residual = b - A w0, with b = (1, 0, 0).
-	var aw mat.VecDense
-	aw.MulVec(A, w0)
-	res := mat.NewVecDense(3, []float64{1 - aw.AtVec(0), -aw.AtVec(1), -aw.AtVec(2)})
-	var aat mat.Dense
-	aat.Mul(A, A.T())
-	var lu mat.LU
-	lu.Factorize(&aat)
-	if c := lu.Cond(); math.IsInf(c, 1) || c > 1e12 {
-		return nil, false
-	}
-	var y mat.VecDense
-	if err := lu.SolveVecTo(&y, false, res); err != nil {
-		return nil, false
-	}
-	var corr mat.VecDense
-	corr.MulVec(A.T(), &y)
-	w := make([]float64, n)
-	for i := range w {
-		w[i] = w0.AtVec(i) + corr.AtVec(i)
-	}
-	return w, true
-}
-
-// tangents returns two unit vectors perpendicular to n and to each other.
-func tangents(n r3.Vec) (r3.Vec, r3.Vec, bool) {
-	if r3.Norm2(n) == 0 {
-		return r3.Vec{}, r3.Vec{}, false
-	}
-	ref := r3.Vec{X: 1}
-	if math.Abs(n.X) > 0.9 {
-		ref = r3.Vec{Y: 1}
-	}
-	t1 := r3.Unit(r3.Cross(n, ref))
-	t2 := r3.Unit(r3.Cross(n, t1))
-	return t1, t2, true
 }
 
 // checkFacing reports node-pair ends that stray from the weld: a node
