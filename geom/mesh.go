@@ -203,6 +203,17 @@ func (m *Mesh) PartIndex(id int64) (int32, bool) {
 	return i, ok
 }
 
+// PartsInUse reports, aligned with Parts, whether any element belongs to
+// each part: a part a mesh file or a parts table declares without
+// elements is in Parts but not in use.
+func (m *Mesh) PartsInUse() []bool {
+	used := make([]bool, len(m.Parts))
+	for _, pi := range m.ElemPart {
+		used[pi] = true
+	}
+	return used
+}
+
 // MaxNodeID returns the largest node id, 0 for an empty mesh.
 func (m *Mesh) MaxNodeID() int64 { return maxID(m.NodeIDs) }
 

@@ -185,27 +185,24 @@ type BuildOptions struct {
 	// DefaultIDStart).
 	IDStart int64
 	// Links is the form of the links that bridge a stack (DefaultLinks,
-	// the zero value; left out of the run id's options when it is, so
-	// that gap-form runs keep the ids they had before link forms).
-	Links LinkForm `json:",omitempty"`
+	// the zero value).
+	Links LinkForm
 	// BoltDOFs are the degrees of freedom a bolt's rings couple, and its
 	// support to ground holds (0: DefaultBoltDOFs; see BoltDOFsOrDefault).
-	// The bolt fields are left out of the run id's options when zero, so
-	// that runs without bolt settings keep the ids they had before bolts.
-	BoltDOFs DOFs `json:",omitempty"`
+	BoltDOFs DOFs
 	// BoltCoupling is the coupling of a bolt's centres to their rings
 	// (DefaultBoltCoupling, the zero value).
-	BoltCoupling BoltCoupling `json:",omitempty"`
+	BoltCoupling BoltCoupling
 	// Shank is what stands for a bolt's shank (DefaultShank, the zero
 	// value).
-	Shank ShankForm `json:",omitempty"`
+	Shank ShankForm
 	// BoltRing says which nodes of a holed sheet a bolt couples
 	// (DefaultBoltRing, the zero value).
-	BoltRing BoltRing `json:",omitempty"`
+	BoltRing BoltRing
 	// ShankModulus, N/mm^2, of a beam shank (0: DefaultShankModulus).
-	ShankModulus float64 `json:",omitempty"`
+	ShankModulus float64
 	// HoleTolerance, mm (0: DefaultHoleTolerance).
-	HoleTolerance float64 `json:",omitempty"`
+	HoleTolerance float64
 }
 
 // BoltDOFsOrDefault returns the degrees of freedom a bolt couples.

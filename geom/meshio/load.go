@@ -255,7 +255,8 @@ func checkPartConflicts(meshes []*geom.Mesh) error {
 }
 
 // applyTable copies the table's data into the parts of m and returns the
-// ids of table parts m does not use.
+// ids of table parts no element of m belongs to (not in m, or declared by
+// a mesh file without elements).
 func applyTable(m *geom.Mesh, table []geom.Part, tableFile string) ([]int64, error) {
 	byID := make(map[int64]int, len(table))
 	for i, p := range table {
@@ -274,8 +275,9 @@ func applyTable(m *geom.Mesh, table []geom.Part, tableFile string) ([]int64, err
 		p.Mesh = table[t].Mesh
 	}
 	var unused []int64
+	inUse := m.PartsInUse()
 	for _, p := range table {
-		if _, ok := m.PartIndex(p.ID); !ok {
+		if i, ok := m.PartIndex(p.ID); !ok || !inUse[i] { // a part a mesh file declares without elements too
 			unused = append(unused, p.ID)
 		}
 	}

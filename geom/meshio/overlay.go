@@ -23,11 +23,13 @@ import (
 //   - mesh may not be given: it decides how files are read, which only
 //     the first table does.
 //
-// Entries for parts the model does not have are added to UnusedParts.
+// Entries for parts the model does not have, or has without elements,
+// are added to UnusedParts.
 // digest, when not nil, gives the writer each table's bytes go to as it
 // is read (as LoadOptions.Digest).
 func (md *Model) Overlay(paths []string, digest func(path string) io.Writer, scale float64) error {
 	m := md.Mesh
+	inUse := m.PartsInUse()
 	for _, path := range paths {
 		var dw io.Writer
 		if digest != nil {
@@ -39,11 +41,13 @@ func (md *Model) Overlay(paths []string, digest func(path string) io.Writer, sca
 		}
 		for _, t := range table {
 			i, ok := m.PartIndex(t.ID)
-			if !ok {
+			if !ok || !inUse[i] {
 				if !slices.Contains(md.UnusedParts, t.ID) {
 					md.UnusedParts = append(md.UnusedParts, t.ID)
 				}
-				continue
+				if !ok {
+					continue
+				}
 			}
 			p := &m.Parts[i]
 			switch {

@@ -65,6 +65,7 @@ func TestOverlay(t *testing.T) {
 	if err := m.Index(); err != nil {
 		t.Fatal(err)
 	}
+	m.ElemPart = []int32{0, 1} // one element in each part: a part without elements counts as unused
 	md := &Model{Mesh: m}
 	s := write("surfaces.yaml", "parts:\n- {id: 1, thickness: 0.8, surface: bottom, offset: 0.4}\n- {id: 9, thickness: 1, surface: top}\n")
 	if err := md.Overlay([]string{s}, nil, 1); err != nil {

@@ -124,9 +124,15 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	}
 	ch := make(chan assembly, 1)
 	go func() {
-		parts := make([]int64, len(m.Parts))
+		// A part without elements (a mesh file may declare one) is not a
+		// body: nothing of it can move, so it is never free nor a group
+		// of its own.
+		parts := make([]int64, 0, len(m.Parts))
+		inUse := m.PartsInUse()
 		for i, p := range m.Parts {
-			parts[i] = p.ID
+			if inUse[i] {
+				parts = append(parts, p.ID)
+			}
 		}
 		slices.Sort(parts)
 		k := joints.NewConstraints(parts)

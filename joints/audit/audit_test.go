@@ -9,6 +9,7 @@ import (
 
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
 
@@ -239,6 +240,32 @@ func TestFreeParts(t *testing.T) {
 	}
 	if rep.Kinematics.Groups != 3 || rep.Kinematics.RigidBodyModes != 18 {
 		t.Errorf("%+v, want 3 groups, 18 rigid-body modes", rep.Kinematics)
+	}
+}
+
+// A part without elements (declared by a mesh file, listed by a parts
+// table) has nothing that can move: it is no free part, no group of its
+// own and adds no rigid-body modes (6 for the one welded group: a free
+// rigid body has six, from memory of rigid-body kinematics).
+func TestPartWithoutElementsIsNotFree(t *testing.T) {
+	m := plates(
+		plate{Part: 1, T: 1, NX: 20, NY: 10, H: 5},
+		plate{Part: 2, T: 1, Z: 1, NX: 20, NY: 10, H: 5},
+	)
+	m.Parts = append(m.Parts, geom.Part{ID: 9, Name: "declared, no elements", Thickness: 1})
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	if _, ok := m.PartIndex(9); !ok {
+		t.Fatal("part 9 is not in the mesh's parts")
+	}
+	conns := build(t, m, weldsAt(r3.Vec{X: 20, Y: 25, Z: 0.5}, r3.Vec{X: 60, Y: 25, Z: 0.5}), joints.BuildOptions{})
+	rep := audit(t, m, conns, nil, joints.BuildOptions{})
+	if free := ofCode(rep.Findings, joints.CodeFreePart); len(free) != 0 {
+		t.Errorf("free parts %v", summary(free))
+	}
+	if k := rep.Kinematics; k.Groups != 1 || k.RigidBodyModes != 6 || k.Mechanisms != 0 {
+		t.Errorf("%+v, want 1 group, 6 rigid-body modes", k)
 	}
 }
 

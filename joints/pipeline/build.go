@@ -103,7 +103,7 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 			return nil, err
 		}
 	}
-	info, err := in.RunInfo(env.Generator, res)
+	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "build", NoCheck: s.NoCheck, NoPage: s.NoPage})
 	if err != nil {
 		return nil, err
 	}
@@ -236,8 +236,8 @@ func (in *Inputs) checkIDStart(start int64) error {
 
 // RunInfo returns the record of a run's inputs for its documents: the
 // input paths as recorded (Job.RecordedPath) and the run id of the run
-// that made res (inputs loaded with LoadForSet).
-func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInfo, error) {
+// that made res with the settings rs (inputs loaded with LoadForSet).
+func (in *Inputs) RunInfo(generator string, res *joints.Result, rs RunSettings) (document.RunInfo, error) {
 	job := in.Job
 	info := document.RunInfo{Generator: generator, Unit: in.Unit, PartNames: map[int64]string{}}
 	for _, p := range in.Model.Mesh.Parts {
@@ -264,7 +264,7 @@ func (in *Inputs) RunInfo(generator string, res *joints.Result) (document.RunInf
 		info.Tags = append(info.Tags, document.TagColumns{File: job.RecordedPath(t.File), Columns: t.Columns})
 	}
 	var err error
-	info.RunID, err = in.runID(generator, res)
+	info.RunID, err = in.runID(generator, res, rs)
 	return info, err
 }
 

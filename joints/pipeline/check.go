@@ -103,7 +103,7 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	}
 	res.Findings = append(res.Findings, rep.Findings...)
 	res.Kinematics = &rep.Kinematics
-	info, err := in.RunInfo(env.Generator, res)
+	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "check"})
 	if err != nil {
 		return nil, err
 	}

@@ -153,7 +153,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 			return nil, err
 		}
 	}
-	info, err := in.RunInfo(env.Generator, res)
+	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "flanges", Flanges: &fo})
 	if err != nil {
 		return nil, err
 	}

@@ -1,7 +1,6 @@
 package pipeline
 
 import (
-	"crypto/sha256"
 	"errors"
 	"fmt"
 	"io"
@@ -70,28 +69,24 @@ type Job struct {
 	// PartsOverlays are further parts tables laid over Parts in order
 	// (meshio.Model.Overlay): the job's parts list after its first
 	// entry, or --parts given more than once.
-	PartsOverlays []string `yaml:"-" json:"-"`
+	PartsOverlays []string `yaml:"-"`
 	Joints        []string `yaml:"joints,omitempty"`
 	Out           string   `yaml:"out,omitempty"`
 	Renumber      *bool    `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").
-	PartArray string `yaml:"part_array,omitempty" json:",omitempty"` // omitted when empty, so that run ids of jobs without it keep their value
+	PartArray string `yaml:"part_array,omitempty"`
 	// Units is the unit of every length in the inputs: meshes, parts
 	// table, joint lists ("mm", "m" or "in"; "" is mm). Build settings
 	// (reach, gap allowance) are in mm whatever it is.
 	Units string   `yaml:"units,omitempty"`
 	Build JobBuild `yaml:"build,omitempty"`
 	// Flanges holds the settings of joinery flanges (see JobFlanges).
-	Flanges JobFlanges `yaml:"flanges,omitempty" json:",omitzero"`
-	// Sweep holds the settings of joinery sweep (see JobSweep); not part
-	// of a run's settings: each variant is the build its settings make.
-	Sweep JobSweep `yaml:"sweep,omitempty" json:"-"`
+	Flanges JobFlanges `yaml:"flanges,omitempty"`
+	// Sweep holds the settings of joinery sweep (see JobSweep).
+	Sweep JobSweep `yaml:"sweep,omitempty"`
 	// File is the path the job was read from.
 	File string `yaml:"-"`
-	// Sum is the SHA-256 of the job file's bytes as ReadJob read them,
-	// for the run id; nil for a job not read from a file.
-	Sum []byte `yaml:"-"`
 
 	// written maps each path of the job file, as resolved, to the path
 	// as the file wrote it (see RecordedPath).
@@ -106,16 +101,16 @@ type JobBuild struct {
 	Attach       string   `yaml:"attach,omitempty"`
 	SpotDOFs     []string `yaml:"spot_dofs,omitempty"`
 	IDStart      *int64   `yaml:"id_start,omitempty"` // 0 = above every id in the mesh
-	IDStartLine  int      `yaml:"-" json:"-"`         // line of id_start in the job file; 0 when not from it
+	IDStartLine  int      `yaml:"-"`                  // line of id_start in the job file; 0 when not from it
 	NuggetRule   string   `yaml:"nugget_rule,omitempty"`
-	Links        string   `yaml:"links,omitempty" json:",omitempty"`
-	// Bolt settings; left out of the run id's settings when not given.
-	BoltDOFs      []string            `yaml:"bolt_dofs,omitempty" json:",omitempty"`
-	BoltCoupling  string              `yaml:"bolt_coupling,omitempty" json:",omitempty"`
-	Shank         string              `yaml:"shank,omitempty" json:",omitempty"`
-	BoltRing      string              `yaml:"bolt_ring,omitempty" json:",omitempty"`
-	ShankModulus  *float64            `yaml:"shank_modulus,omitempty" json:",omitempty"`  // N/mm^2, 0 = steel
-	HoleTolerance *float64            `yaml:"hole_tolerance,omitempty" json:",omitempty"` // mm, 0 = default
+	Links        string   `yaml:"links,omitempty"`
+	// Bolt settings.
+	BoltDOFs      []string            `yaml:"bolt_dofs,omitempty"`
+	BoltCoupling  string              `yaml:"bolt_coupling,omitempty"`
+	Shank         string              `yaml:"shank,omitempty"`
+	BoltRing      string              `yaml:"bolt_ring,omitempty"`
+	ShankModulus  *float64            `yaml:"shank_modulus,omitempty"`  // N/mm^2, 0 = steel
+	HoleTolerance *float64            `yaml:"hole_tolerance,omitempty"` // mm, 0 = default
 	FailOn        string              `yaml:"fail_on,omitempty"`
 	Groups        map[string]JobGroup `yaml:"groups,omitempty"`
 }
@@ -257,8 +252,6 @@ func LoadJob(path string) (*Job, error) {
 // and to resolve relative paths (against filepath.Dir(name)).
 func ReadJob(r io.Reader, name string) (*Job, error) {
 	y := tabular.YAML{File: name}
-	h := sha256.New()
-	r = io.TeeReader(r, h)
 	root, err := y.Parse(r)
 	if err != nil {
 		return nil, err
@@ -266,11 +259,7 @@ func ReadJob(r io.Reader, name string) (*Job, error) {
 	if root == nil {
 		return nil, y.Errorf(nil, "empty job file: want at least version and meshes")
 	}
-	// The sum covers the whole file, whatever the parser left unread.
-	if _, err := io.Copy(io.Discard, r); err != nil {
-		return nil, geom.FileError(name, "job file: %w", err)
-	}
-	job := &Job{File: name, Sum: h.Sum(nil), written: map[string]string{}}
+	job := &Job{File: name, written: map[string]string{}}
 	dir := filepath.Dir(name)
 	path := func(v *yaml.Node, what string) (string, error) {
 		s, err := y.String(v, what)

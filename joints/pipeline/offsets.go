@@ -81,7 +81,7 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 		return nil, err
 	}
 	// The run id covers the options as the inference resolved them.
-	info, err := in.RunInfo(env.Generator, &joints.Result{Options: res.Options})
+	info, err := in.RunInfo(env.Generator, &joints.Result{Options: res.Options}, RunSettings{Command: "offsets"})
 	if err != nil {
 		return nil, err
 	}

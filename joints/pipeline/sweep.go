@@ -260,7 +260,9 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 		vr = append(vr, r.run)
 		outcome.Reached = outcome.Reached || r.reached
 	}
-	info, err := in.RunInfo(env.Generator, runs[0].run.Result)
+	// The sweep's record of its inputs is its first variant's; its run id
+	// is its own.
+	info, err := in.RunInfo(env.Generator, runs[0].run.Result, RunSettings{Command: "build", NoPage: s.Build.NoPage})
 	if err != nil {
 		return nil, err
 	}
@@ -312,7 +314,7 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 	if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
 		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
-	info, err := in.RunInfo(env.Generator, res)
+	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "build", NoPage: v.Build.NoPage})
 	if err != nil {
 		return variantRun{}, nil, err
 	}
@@ -450,7 +452,10 @@ const sweepRunIDVersion = "joinery sweep run id 1"
 // sweepRunID returns the run id of a sweep: the first 16 bytes, in hex,
 // of a SHA-256 over the recipe's version, the generator, the varied
 // settings and every variant's name and run id (which covers its inputs
-// and settings).
+// and its settings as resolved, by runID's rule). The varied keys and
+// values enter as given, since they name the variants' folders and the
+// manifest records them; the bound on the variants' number
+// (max_variants) does not, as it changes no output.
 func sweepRunID(generator string, s SweepSettings, runs []document.VariantRun) string {
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\ngenerator %q\n", sweepRunIDVersion, generator)
