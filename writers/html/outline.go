@@ -146,9 +146,7 @@ func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
 	}
 	// Number the part's nodes locally, through a table over the range
 	// of node indices the part uses (meshes number a part's nodes
-	// together, so the range is short); keep each element's local
-	// corners, and count the edges filed under each lower node (for
-	// freeEdges), in one pass over the part's elements.
+	// together, so the range is short).
 	lo, hi := int32(math.MaxInt32), int32(-1)
 	for _, e := range es {
 		for _, n := range m.Conn[m.ElemStart[e]:m.ElemStart[e+1]] {
@@ -165,8 +163,9 @@ func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
 		clear(t.local)
 	}
 	local := t.local[:hi-lo+1] // node - lo -> 1 + its local number, else 0
+	// Number the nodes in the order they come (t.global), keeping each
+	// element's local corners.
 	t.global = t.global[:0]
-	t.start = append(t.start[:0], 0)
 	t.corners = grow(t.corners, 4*len(es))
 	for i, e := range es {
 		nodes := m.Conn[m.ElemStart[e]:m.ElemStart[e+1]]
@@ -177,10 +176,46 @@ func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
 			l := &local[n-lo]
 			if *l == 0 {
 				t.global = append(t.global, n)
-				t.start = append(t.start, 0)
 				*l = int32(len(t.global))
 			}
 			c[k] = *l - 1
+		}
+	}
+	// Then renumber them by node id, so that nothing after depends on
+	// the order of the elements (or nodes) in the file: t.rank takes a
+	// first-come number to the node's rank by id. The scan of the range
+	// gives them by node index, which is by id where the file lists its
+	// nodes by id (the common case); else they are sorted.
+	nn := len(t.global)
+	t.rank = grow(t.rank, nn)
+	t.order = t.order[:0]
+	for i, l := range local {
+		if l != 0 {
+			t.rank[l-1] = int32(len(t.order))
+			t.order = append(t.order, lo+int32(i))
+			local[i] = 0
+		}
+	}
+	if !idsIncrease(m.NodeIDs, t.order) {
+		slices.SortFunc(t.order, func(a, b int32) int { return cmp.Compare(m.NodeIDs[a], m.NodeIDs[b]) })
+		for k, n := range t.order {
+			local[n-lo] = int32(k)
+		}
+		for k, n := range t.global {
+			t.rank[k] = local[n-lo]
+			local[n-lo] = 0
+		}
+	}
+	t.global, t.order = t.order, t.global
+	// Renumber the corners, and count the edges filed under each lower
+	// node (for freeEdges).
+	t.start = grow(t.start, nn+1)
+	clear(t.start)
+	for i := 0; i < len(t.corners); i += 4 {
+		c := t.corners[i : i+4]
+		nc := 4 - int(c[3]>>31&1)
+		for k := range c[:nc] {
+			c[k] = t.rank[c[k]]
 		}
 		prev := c[nc-1]
 		for _, n := range c[:nc] {
@@ -190,9 +225,6 @@ func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
 			prev = n
 		}
 	}
-	for _, n := range t.global {
-		local[n-lo] = 0
-	}
 	t.freeEdges()
 	return t.chains()
 }
@@ -201,7 +233,9 @@ func (t *partTables) nodeChains(m *geom.Mesh, es []int32) [][]int32 {
 // they are reused from part to part.
 type partTables struct {
 	local   []int32 // node index - the part's lowest -> 1 + local node, else 0
-	global  []int32 // local node -> node index
+	global  []int32 // local node -> node index, by node id
+	order   []int32 // scratch for global
+	rank    []int32 // first-come local node -> local node
 	corners []int32 // 4 local corner nodes per element; the 4th is -1 for triangles
 	start   []int32 // edge buckets by lower node, then free-edge incidences by node
 	filed   []int32 // higher nodes of the edges, by bucket
@@ -213,13 +247,24 @@ type partTables struct {
 
 func grow(s []int32, n int) []int32 { return slices.Grow(s[:0], n)[:n] }
 
+// idsIncrease reports whether the ids of nodes rise along nodes.
+func idsIncrease(ids []int64, nodes []int32) bool {
+	for k := 1; k < len(nodes); k++ {
+		if ids[nodes[k]] <= ids[nodes[k-1]] {
+			return false
+		}
+	}
+	return true
+}
+
 // freeEdges sets t.free to the part's free edges, from the bucket sizes
-// partChains counted: every element edge is filed under its lower node, and an edge is free when its higher node
-// appears once in its lower node's bucket. Free edges come by lower
-// node, then in element order.
+// nodeChains counted: every element edge is filed under its lower node,
+// and an edge is free when its higher node appears once in its lower
+// node's bucket. Free edges come by lower node, then by higher node:
+// in the order of their nodes' ids.
 func (t *partTables) freeEdges() {
 	nn := len(t.global)
-	// t.start[lo+1] counts the edges of lo's bucket (see partChains); file
+	// t.start[lo+1] counts the edges of lo's bucket (see nodeChains); file
 	// them.
 	for i := 1; i <= nn; i++ {
 		t.start[i] += t.start[i-1]
@@ -250,9 +295,15 @@ func (t *partTables) freeEdges() {
 		for _, hi := range bucket {
 			t.seen[hi]++
 		}
+		at := len(t.free)
 		for _, hi := range bucket {
 			if t.seen[hi] == 1 {
 				t.free = append(t.free, lo, hi)
+				// By higher node: the bucket is filed in element
+				// order, and holds a few edges.
+				for k := len(t.free) - 2; k > at && t.free[k-1] > hi; k -= 2 {
+					t.free[k+1], t.free[k-1] = t.free[k-1], hi
+				}
 			}
 		}
 		for _, hi := range bucket {
@@ -265,7 +316,10 @@ func (t *partTables) freeEdges() {
 // regardless of direction; closed chains repeat their first node. Where
 // more than two free edges meet at a node the unused edge of lowest
 // index is taken, and chains start at the unused edge of lowest index,
-// so the result depends only on the order of t.free.
+// so the result depends only on the order of t.free, which is by node
+// id (see freeEdges): a closed chain starts at its node of lowest id
+// and goes on to the lower of its two neighbours, and chains come by
+// the lowest id of their nodes.
 func (t *partTables) chains() [][]int32 {
 	nn := len(t.global)
 	ne := len(t.free) / 2

@@ -149,6 +149,54 @@ func TestOutlineChains(t *testing.T) {
 	}
 }
 
+// TestOutlineFileOrder checks that the outline depends on the mesh's
+// ids only: the same meshes with their elements, their nodes and their
+// parts in other orders (every element keeping its id, part and nodes,
+// a few seeds) give the same chains, point for point.
+func TestOutlineFileOrder(t *testing.T) {
+	for name, m := range outlineMeshes(t) {
+		t.Run(name, func(t *testing.T) {
+			want := NewOutline(m)
+			for seed := range uint64(4) {
+				rng := rand.New(rand.NewPCG(seed, 7))
+				got := NewOutline(shuffleMesh(rng, m))
+				if !slices.EqualFunc(got.Parts, want.Parts, func(x, y PartOutline) bool {
+					return x.ID == y.ID && slices.EqualFunc(x.Chains, y.Chains, func(p, q Chain) bool { return slices.Equal(p, q) })
+				}) {
+					t.Fatalf("seed %d: the outline of the shuffled mesh differs", seed)
+				}
+			}
+		})
+	}
+}
+
+// shuffleMesh returns m with its elements, nodes and parts in random
+// order; every element keeps its id, part, thickness and nodes (by id).
+func shuffleMesh(rng *rand.Rand, m *geom.Mesh) *geom.Mesh {
+	np, nn, ne := len(m.Parts), len(m.NodeIDs), len(m.ElemIDs)
+	pp, nperm, eperm := rng.Perm(np), rng.Perm(nn), rng.Perm(ne)
+	out := &geom.Mesh{Parts: make([]geom.Part, np), NodeIDs: make([]int64, nn), Coords: make([]r3.Vec, nn), ElemStart: []int32{0}}
+	partAt, nodeAt := make([]int32, np), make([]int32, nn) // old index -> new
+	for k, i := range pp {
+		out.Parts[k], partAt[i] = m.Parts[i], int32(k)
+	}
+	for k, i := range nperm {
+		out.NodeIDs[k], out.Coords[k], nodeAt[i] = m.NodeIDs[i], m.Coords[i], int32(k)
+	}
+	for _, e := range eperm {
+		out.ElemIDs = append(out.ElemIDs, m.ElemIDs[e])
+		out.ElemPart = append(out.ElemPart, partAt[m.ElemPart[e]])
+		for _, n := range m.ElemNodes(e) {
+			out.Conn = append(out.Conn, nodeAt[n])
+		}
+		out.ElemStart = append(out.ElemStart, int32(len(out.Conn)))
+		if m.ElemThickness != nil {
+			out.ElemThickness = append(out.ElemThickness, m.ElemThickness[e])
+		}
+	}
+	return out
+}
+
 // TestSimplify3 checks the 3-D Douglas-Peucker simplification against
 // its definition on random polylines (seeded): ends kept, points kept in
 // order, every dropped point within the tolerance of the segment that
