@@ -59,9 +59,11 @@ func runChromium(t *testing.T, bin string, args ...string) (stdout, log string) 
 	// Headless Chromium itself now and then dies of a signal on a loaded
 	// machine before it has loaded anything (seen as a segmentation
 	// fault in its start-up); such a run says nothing about the page, so
-	// it is tried again, up to chromiumTries times in all. Any other
-	// failure, and a crash on every try, fails the test.
-	const chromiumTries = 3
+	// it is tried again, after a pause that grows with each try (the
+	// crashes come in bursts while other test binaries load both cores),
+	// up to chromiumTries times in all. Any other failure, and a crash on
+	// every try, fails the test.
+	const chromiumTries = 6
 	for try := 1; ; try++ {
 		ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
 		all := append(chromiumFlags(), "--user-data-dir="+t.TempDir())
@@ -77,6 +79,7 @@ func runChromium(t *testing.T, bin string, args ...string) (stdout, log string) 
 		if errors.As(err, &exit) && ctx.Err() == nil && try < chromiumTries {
 			if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
 				t.Logf("chromium %v died of %v (try %d of %d); trying again", args, ws.Signal(), try, chromiumTries)
+				time.Sleep(time.Duration(try) * time.Second)
 				continue
 			}
 		}
