@@ -3,6 +3,7 @@ package spot
 import (
 	"context"
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -96,6 +97,69 @@ func TestPatchCapped(t *testing.T) {
 		// sqrt(100/π) ≈ 5.6 mm of the point.
 		if far > 7 {
 			t.Errorf("end %d ties a node %g mm away: not the nearest", i, far)
+		}
+	}
+}
+
+// A weld found its sheets by itself is held to the same lateral limit as
+// one that lists them: LateralFactor (0.5, DefaultLateralFactor) radii of
+// the nugget the weld is built with, the rule's (5*sqrt(t), common
+// practice) for the stack's governing thickness (AWS D8.1M: the thinner
+// of two sheets, the second thickest of three). The sheets end at x = 0;
+// a weld at x = -d lies d mm off each. Three sheets 1.0, 1.5 and 1.2 mm:
+// governing 1.2 mm, limit 0.25*5*sqrt(1.2) = 1.369 mm. Two sheets 1.0
+// and 1.5 mm: governing 1.0 mm, limit 1.25 mm. Before, an automatic stack
+// took the limit of the sheet whose normal gave the axis (1.531 mm for
+// the 1.5 mm sheet), so welds at 1.3 and 1.5 mm were built unless listed.
+func TestAutomaticStackHeldToGoverningNugget(t *testing.T) {
+	three := plates(
+		plate{Part: 1, T: 1.0, NX: 10, NY: 10, H: 5},
+		plate{Part: 2, T: 1.5, Z: 1.25, NX: 10, NY: 10, H: 5},
+		plate{Part: 3, T: 1.2, Z: 2.6, NX: 10, NY: 10, H: 5},
+	)
+	two := plates(
+		plate{Part: 1, T: 1.0, NX: 10, NY: 10, H: 5},
+		plate{Part: 2, T: 1.5, Z: 1.25, NX: 10, NY: 10, H: 5},
+	)
+	cases := []struct {
+		name  string
+		m     *geom.Mesh
+		parts []int64
+		off   float64 // mm beyond the sheets' edge
+		built bool
+	}{
+		{"three, 1.0 mm", three, []int64{1, 2, 3}, 1.0, true},
+		{"three, 1.3 mm", three, []int64{1, 2, 3}, 1.3, true},
+		{"three, 1.36 mm", three, []int64{1, 2, 3}, 1.36, true},
+		{"three, 1.38 mm", three, []int64{1, 2, 3}, 1.38, false},
+		{"three, 1.5 mm", three, []int64{1, 2, 3}, 1.5, false},
+		{"two, 1.2 mm", two, []int64{1, 2}, 1.2, true},
+		{"two, 1.3 mm", two, []int64{1, 2}, 1.3, false},
+		{"two, 1.5 mm", two, []int64{1, 2}, 1.5, false},
+	}
+	for _, tc := range cases {
+		for _, listed := range []bool{false, true} {
+			j := joints.Joint{ID: "1", Point: r3.Vec{X: -tc.off, Y: 22.5, Z: 1.3}}
+			if listed {
+				j.Parts = tc.parts
+			}
+			c := buildOne1(t, tc.m, j, joints.BuildOptions{})
+			// Built or flagged (the weld is beyond the edges: edge-close).
+			if got := c.Status != joints.NotBuilt; got != tc.built {
+				t.Errorf("%s, parts listed %v: status %v %v, want built or flagged %v", tc.name, listed, c.Status, codes(c), tc.built)
+			}
+			if !tc.built && !listed {
+				// The message gives one limit, the stack's, for every sheet.
+				want := "limit 1.369 mm"
+				if len(tc.parts) == 2 {
+					want = "limit 1.25 mm"
+				}
+				for _, f := range c.Findings {
+					if f.Code == joints.CodeNoSheet && strings.Count(f.Message, "limit ") != strings.Count(f.Message, want) {
+						t.Errorf("%s: %s: want every %q", tc.name, f.Message, want)
+					}
+				}
+			}
 		}
 	}
 }

@@ -35,11 +35,21 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 				fmt.Sprintf("listed part %d has no element within %s mm of the weld", id, joints.MM(o.Reach))))
 		}
 	} else {
-		var latTol float64
+		var (
+			latTol  float64
+			dropped []joints.Sheet
+		)
 		st, latTol = autoStack(m, cands, j.Point, o, j.Diameter)
-		rejs = rejected(m, cands, &st, j.Point, latTol, j.Diameter, o)
-		var dropped []joints.Sheet
 		st, dropped = splitStack(&st)
+		// The sheets kept in contact may have another governing
+		// thickness than the whole stack: hold them to its nugget again.
+		latTol = holdToNugget(&st, latTol, j.Diameter, o)
+		if len(st.Sheets) == 0 {
+			latTol = groupLimit(m, cands, j.Diameter, o)
+		}
+		// Sheets split off as apart are reported as such, not rejected.
+		seen := joints.Stack{Axis: st.Axis, Sheets: append(slices.Clone(st.Sheets), dropped...)}
+		rejs = rejected(m, cands, &seen, j.Point, latTol, o)
 		for _, s := range dropped {
 			fs = append(fs, j.Finding(joints.Info, joints.CodeSheetApart, []int64{s.Part},
 				fmt.Sprintf("part %d lies parallel %s mm from the weld, apart from the sheets in contact: not joined", s.Part, joints.MM(math.Abs(s.Position)))))
@@ -138,8 +148,9 @@ type rejection struct {
 // does not hold, with the test each failed against st's axis through p:
 // a degenerate host, a normal beyond the angle limit, a nearest point
 // farther than latTol from the axis. With no stack, each sheet is held
-// against its own normal and the lateral limit of its own thickness.
-func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, latTol, diameter float64, o *joints.BuildOptions) []rejection {
+// against its own normal (and latTol, the limit of the candidates as one
+// stack: groupLimit).
+func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, latTol float64, o *joints.BuildOptions) []rejection {
 	var out []rejection
 	for _, s := range cands {
 		if slices.ContainsFunc(st.Sheets, func(t joints.Sheet) bool { return t.Part == s.Part }) {
@@ -147,7 +158,7 @@ func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, la
 		}
 		axis, limit := st.Axis, latTol
 		if len(st.Sheets) == 0 {
-			axis, limit = s.Proj.Normal, lateralLimit(diameter, s.Thickness, o)
+			axis = s.Proj.Normal
 		}
 		r := rejection{sheet: s}
 		if degenerateHost(m, &s) {
@@ -215,6 +226,52 @@ func lateralLimit(diameter, t float64, o *joints.BuildOptions) float64 {
 	return o.LateralFactor * diameter / 2
 }
 
+// stackLimit returns how far from the axis the nearest point of each
+// sheet of a stack of two or more may lie, mm: LateralFactor radii of the
+// stack's nugget, the listed diameter or the rule's for the stack's
+// governing thickness (joints.GoverningThickness), as the nugget the weld
+// is built with.
+func stackLimit(ts []float64, diameter float64, o *joints.BuildOptions) float64 {
+	if diameter <= 0 {
+		diameter = o.Rule.Diameter(joints.GoverningThickness(ts))
+	}
+	return o.LateralFactor * diameter / 2
+}
+
+// holdToNugget drops from a stack of two or more sheets those farther
+// from its axis than its own nugget allows (stackLimit), and again for
+// the sheets left, whose governing thickness may be another, until every
+// sheet kept lies within the limit of the stack it is in: the limit a
+// stack of listed parts is held to (checkSheets). It returns that limit,
+// or limit for a stack of fewer than two sheets.
+func holdToNugget(st *joints.Stack, limit, diameter float64, o *joints.BuildOptions) float64 {
+	for len(st.Sheets) >= 2 {
+		limit = stackLimit(st.Thicknesses(), diameter, o)
+		kept := slices.DeleteFunc(slices.Clone(st.Sheets), func(s joints.Sheet) bool { return s.Lateral > limit })
+		if len(kept) == len(st.Sheets) {
+			break
+		}
+		st.Sheets = kept
+	}
+	return limit
+}
+
+// groupLimit returns the lateral limit the candidates of a weld with no
+// stack are judged against: that of all sound ones as one stack, or of
+// the one alone.
+func groupLimit(m *geom.Mesh, cands []joints.Sheet, diameter float64, o *joints.BuildOptions) float64 {
+	var ts []float64
+	for i := range cands {
+		if !degenerateHost(m, &cands[i]) {
+			ts = append(ts, cands[i].Thickness)
+		}
+	}
+	if len(ts) == 1 {
+		return lateralLimit(diameter, ts[0], o)
+	}
+	return stackLimit(ts, diameter, o)
+}
+
 // place sets a sheet's Position and Lateral for a stack axis through p.
 // The position is where the axis meets the plane tangent to the sheet at
 // its projection point (moved to the mid-surface for outer-surface
@@ -251,8 +308,10 @@ func parallel(a, b r3.Vec, cosTol float64) bool { return math.Abs(r3.Dot(a, b)) 
 // set whose normals are near-parallel to an axis taken from one of them
 // and whose projections lie near that axis through p. Ties go to the
 // axis of the closer candidate. Sheets on degenerate host elements give
-// no axis and join no stack. It returns the stack and the lateral limit
-// of its axis, mm.
+// no axis and join no stack. The sheets near an axis are first those
+// within the limit of the axis sheet's own nugget, then those within the
+// limit of the nugget of the stack they form (holdToNugget). It returns
+// the stack and its lateral limit, mm.
 func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOptions, diameter float64) (joints.Stack, float64) {
 	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
 	var (
@@ -280,6 +339,7 @@ func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOpti
 				st.Sheets = append(st.Sheets, s)
 			}
 		}
+		latTol = holdToNugget(&st, latTol, diameter, o)
 		if len(st.Sheets) > len(best.Sheets) {
 			best, bestTol = st, latTol
 		}
