@@ -71,12 +71,13 @@ func runChromium(t *testing.T, bin string, args ...string) (stdout, log string) 
 		var out, errb bytes.Buffer
 		cmd.Stdout, cmd.Stderr = &out, &errb
 		err := cmd.Run()
+		timedOut := ctx.Err() != nil // before cancel, which sets it
 		cancel()
 		if err == nil {
 			return out.String(), errb.String()
 		}
 		var exit *exec.ExitError
-		if errors.As(err, &exit) && ctx.Err() == nil && try < chromiumTries {
+		if errors.As(err, &exit) && !timedOut && try < chromiumTries {
 			if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
 				t.Logf("chromium %v died of %v (try %d of %d); trying again", args, ws.Signal(), try, chromiumTries)
 				time.Sleep(time.Duration(try) * time.Second)
