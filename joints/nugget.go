@@ -68,6 +68,11 @@ const (
 	ISOMaxSheets    = 3
 )
 
+// ratioRoundoff is the relative rounding allowed when a thickness ratio
+// is compared with ISOMaxRatio (our choice: far above float64 rounding,
+// far below any thickness step a sheet gauge has).
+const ratioRoundoff = 1e-9
+
 // OutsideISO14373 says why a stack lies outside the scope of ISO 14373,
 // or returns "" when it lies inside.
 func OutsideISO14373(ts []float64) string {
@@ -81,7 +86,10 @@ func OutsideISO14373(ts []float64) string {
 	if lo < ISOMinThickness || hi > ISOMaxThickness {
 		return fmt.Sprintf("sheet thickness %g..%g mm outside 0.4..3.0 mm", lo, hi)
 	}
-	if hi > ISOMaxRatio*lo {
+	// A ratio of exactly 3:1 is inside the scope: 2.1/0.7 is
+	// 3.0000000000000004 in float64, so the ratio is compared with a
+	// relative rounding allowance (ratioRoundoff).
+	if hi > ISOMaxRatio*lo*(1+ratioRoundoff) {
 		return fmt.Sprintf("thickness ratio %.2f:1 above 3:1", hi/lo)
 	}
 	return ""

@@ -65,6 +65,13 @@ func TestOutsideISO14373(t *testing.T) {
 		{[]float64{3.2, 2.0}, true},   // too thick
 		{[]float64{1, 1, 1, 1}, true}, // four sheets
 		{[]float64{0.8, 1.2, 1.5}, false},
+		// Exactly 3:1 where the float64 quotient is not 3
+		// (2.1/0.7 = 3.0000000000000004, 1.5/0.5 = 3): inside.
+		{[]float64{0.7, 2.1}, false},
+		{[]float64{0.5, 1.5}, false},
+		{[]float64{1.0, 3.0}, false},
+		{[]float64{0.7, 2.1001}, true},
+		{[]float64{1.0, 3.01}, true}, // too thick
 	}
 	for _, c := range cases {
 		if got := OutsideISO14373(c.ts) != ""; got != c.outside {

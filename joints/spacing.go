@@ -34,6 +34,17 @@ func spacingTable() []SpacingRow {
 // three-sheet stacks: 30 per cent more spacing (secondary copy).
 const ThreeSheetSpacingFactor = 1.3
 
+// LengthRoundoff is how far, mm, a length computed from coordinates may
+// pass a limit and still meet it: the rounding of float64 arithmetic on
+// body coordinates (about 1e-12 mm at 5 m from the origin) lies far
+// below it, and no length a plan gives or a test can measure comes near
+// it (our choice). Without it, welds placed at exactly the minimum
+// spacing (20.024 mm for 1.1 mm sheets) come out 20.023999999999994 mm
+// apart and are reported too close, and a gap at exactly the allowance
+// off contact is reported open while its mirror case is not. It applies
+// to the spacing of welds and the gaps between sheets.
+const LengthRoundoff = 1e-6
+
 // MinSpacing returns the minimum centre-to-centre spacing of spot welds,
 // mm, for governing thickness t (mm) and a stack of the given number of
 // sheets, from the resistance welding manufacturers' table (see

@@ -135,7 +135,7 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 				d, _ := sheetDist(a, b, key[:])
 				lim := math.Max(a.spacing, b.spacing)
 				pj := pairOf(i, j)
-				if !(d < lim) || dups[pj] || reported[pj] || chain[i] >= 0 && chain[i] == chain[j] {
+				if !(d < lim-joints.LengthRoundoff) || dups[pj] || reported[pj] || chain[i] >= 0 && chain[i] == chain[j] {
 					continue
 				}
 				if !consecutive(ws, buf, i, j, d, key[:]) {

@@ -39,12 +39,13 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 		gap := b.Position - a.Position
 		want := (a.Thickness + b.Thickness) / 2
 		tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
+		lim := tol + joints.LengthRoundoff
 		switch dev := gap - want; {
-		case dev > tol:
+		case dev > lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
 				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
 					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))))
-		case dev < -tol:
+		case dev < -lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
 				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
 					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))))

@@ -239,7 +239,7 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 			placed++
 		}
 	}
-	if worst != nil && placed > 1 && used < need*(1-1e-9) {
+	if worst != nil && placed > 1 && used < need-joints.LengthRoundoff {
 		fs = append(fs, flangeFinding(f, joints.Warning, joints.CodePitchShort,
 			fmt.Sprintf("flange %s: welds %s mm apart, below the minimum spacing of %s mm for %d sheets of governing thickness %s mm (resistance welding manufacturers' table, interpolated linearly%s)",
 				f.ID, joints.MM(used), joints.MM(need), len(worst.parts), joints.MM(joints.GoverningThickness(worst.thick)),
@@ -544,7 +544,7 @@ func (p *placer) station(i, k int, s float64) weld {
 	}
 	lo, up := min(hi, oi), max(hi, oi)
 	inContact := func(a, b sheetAt) bool {
-		return math.Abs(b.pos-a.pos-(a.thick+b.thick)/2) <= p.o.GapAllowanceFor(a.thick, b.thick)
+		return math.Abs(b.pos-a.pos-(a.thick+b.thick)/2) <= p.o.GapAllowanceFor(a.thick, b.thick)+joints.LengthRoundoff
 	}
 	for lo > 0 && inContact(sheets[lo-1], sheets[lo]) {
 		lo--

@@ -106,6 +106,27 @@ func TestStacks(t *testing.T) {
 			status: joints.Flagged, parts: []int64{1, 2}, codes: []string{joints.CodeGapOpen},
 		},
 		{
+			// Two 0.7 mm sheets 0.875 mm apart: 0.175 mm off contact, exactly
+			// the allowance 0.25*(0.7+0.7)/2 (0.875-0.7 is 0.17500000000000004
+			// in float64), as the mirror case 0.525 mm below.
+			name:   "gap open by exactly the allowance",
+			plates: []plate{{Part: 1, T: 0.7, NX: 10, NY: 10, H: 5}, {Part: 2, T: 0.7, Z: 0.875, NX: 10, NY: 10, H: 5}},
+			joint:  joints.Joint{ID: "W6d", Point: r3.Vec{X: 25, Y: 25, Z: 0.4}},
+			status: joints.Built, parts: []int64{1, 2},
+		},
+		{
+			name:   "gap closed by exactly the allowance",
+			plates: []plate{{Part: 1, T: 0.7, NX: 10, NY: 10, H: 5}, {Part: 2, T: 0.7, Z: 0.525, NX: 10, NY: 10, H: 5}},
+			joint:  joints.Joint{ID: "W6e", Point: r3.Vec{X: 25, Y: 25, Z: 0.25}},
+			status: joints.Built, parts: []int64{1, 2},
+		},
+		{
+			name:   "gap open by a micrometre more than the allowance",
+			plates: []plate{{Part: 1, T: 0.7, NX: 10, NY: 10, H: 5}, {Part: 2, T: 0.7, Z: 0.87501, NX: 10, NY: 10, H: 5}},
+			joint:  joints.Joint{ID: "W6f", Point: r3.Vec{X: 25, Y: 25, Z: 0.4}},
+			status: joints.Flagged, parts: []int64{1, 2}, codes: []string{joints.CodeGapOpen},
+		},
+		{
 			name:   "gap within an explicit tolerance",
 			plates: []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1.3, NX: 10, NY: 10, H: 5}},
 			joint:  joints.Joint{ID: "W6c", Point: r3.Vec{X: 25, Y: 25, Z: 0.65}},

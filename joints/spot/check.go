@@ -89,7 +89,7 @@ func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOp
 		} else {
 			pb += shift
 		}
-		if math.Abs(math.Abs(pb-pa)-want) <= tol {
+		if math.Abs(math.Abs(pb-pa)-want) <= tol+joints.LengthRoundoff {
 			return fmt.Sprintf("; part %d is meshed on its %s face, and the sheets would touch if the normal of its element %d under the weld pointed the other way: check its normals (inspect --deep reports normals-flipped; joinery offsets infers each part's surface)",
 				s.Part, p.Surface, m.ElemIDs[s.Proj.Elem])
 		}
@@ -106,12 +106,13 @@ func GapFinding(j *joints.Joint, a, b joints.Sheet, o *joints.BuildOptions) (joi
 	want := (a.Thickness + b.Thickness) / 2
 	tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
 	dev := gap - want
+	lim := tol + joints.LengthRoundoff
 	switch {
-	case dev > tol:
+	case dev > lim:
 		return j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
 			fmt.Sprintf("parts %d and %d do not touch: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the weld would bridge %s mm of air",
 				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))), true
-	case dev < -tol:
+	case dev < -lim:
 		return j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
 			fmt.Sprintf("parts %d and %d overlap: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
 				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))), true
