@@ -8,6 +8,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/joints/inspect"
 )
 
@@ -126,7 +127,10 @@ func vec(v *[3]float64) string {
 	if v == nil {
 		return "-"
 	}
-	return num(v[0], 1) + "," + num(v[1], 1) + "," + num(v[2], 1)
+	// To the micrometre, trailing zeros cut (joints.MM): at a tenth of a
+	// millimetre a corner on a half-tenth (1.25) rounds to an even
+	// neighbour and the box seems not to hold the part.
+	return joints.MM(v[0]) + "," + joints.MM(v[1]) + "," + joints.MM(v[2])
 }
 
 func dash(s string) string {
