@@ -62,6 +62,17 @@ func TestSeams(t *testing.T) {
 			chains: [][]string{{"W1", "W2", "W3", "W4", "W5", "W6", "W7"}}, parts: [][]int64{{1, 2}}, length: []float64{30},
 		},
 		{
+			// The same welds given at heights alternating through the
+			// stack (0.1 and 0.9 mm): the seam is 30 mm long on the sheet,
+			// not the 30.011 mm between the end points.
+			name: "every facing pair, points at two heights", plates: flangeMesh(), o: nodePair,
+			welds: []r3.Vec{
+				{X: 50, Y: 25, Z: 0.1}, {X: 55, Y: 25, Z: 0.9}, {X: 60, Y: 25, Z: 0.1}, {X: 65, Y: 25, Z: 0.9},
+				{X: 70, Y: 25, Z: 0.1}, {X: 75, Y: 25, Z: 0.9}, {X: 80, Y: 25, Z: 0.9},
+			},
+			chains: [][]string{{"W1", "W2", "W3", "W4", "W5", "W6", "W7"}}, parts: [][]int64{{1, 2}}, length: []float64{30},
+		},
+		{
 			// The smallest case: two welds on mesh-adjacent nodes.
 			name: "two welds on adjacent nodes", plates: flangeMesh(), welds: along(100, 105), o: nodePair,
 			chains: [][]string{{"W1", "W2"}}, parts: [][]int64{{1, 2}}, length: []float64{5},

@@ -185,7 +185,9 @@ func seamFinding(ws []weld, list []int32, touched []int64) joints.Finding {
 		ids[k] = ws[i].id
 	}
 	a, b := farthest(ws, list)
-	length := r3.Norm(r3.Sub(ws[a].point, ws[b].point))
+	// Measured on the sheet, as pitch and duplicates are: welds given at
+	// different heights through the stack are no farther apart for it.
+	length, _ := sheetDist(&ws[a], &ws[b], ws[a].parts)
 	mid := r3.Scale(0.5, r3.Add(ws[a].point, ws[b].point))
 	loc, best := list[0], math.Inf(1)
 	for _, i := range list {
