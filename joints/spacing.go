@@ -42,7 +42,10 @@ const ThreeSheetSpacingFactor = 1.3
 // spacing (20.024 mm for 1.1 mm sheets) come out 20.023999999999994 mm
 // apart and are reported too close, and a gap at exactly the allowance
 // off contact is reported open while its mirror case is not. It applies
-// to the spacing of welds and the gaps between sheets.
+// to the spacing of welds, the gaps between sheets, and a meshed bolt
+// hole's fitted diameter and centre (a hole meshed at the shank's
+// diameter, or at the declared hole's tolerance, or a point off the
+// centre by exactly the clearance).
 const LengthRoundoff = 1e-6
 
 // MinSpacing returns the minimum centre-to-centre spacing of spot welds,

@@ -178,7 +178,7 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		}
 		part := c.Stack.Sheets[i].Part
 		switch off, clear := f.lateral(xs[i].point), (xs[i].hole-j.Diameter)/2; {
-		case off > clear && off > offCentreTolerance:
+		case off > clear+joints.LengthRoundoff && off > offCentreTolerance:
 			c.Findings = append(c.Findings, j.Finding(joints.Warning, joints.CodeHoleOffCentre, []int64{part},
 				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d, more than the %s mm between shank and hole: the listed point or axis is off the hole; the centre is put on the hole's axis", joints.MM(off), part, joints.MM(max(clear, 0)))))
 		case off > offCentreTolerance:

@@ -87,10 +87,10 @@ func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *j
 		}
 		part := st.Sheets[i].Part
 		switch d := h.Diameter; {
-		case d < j.Diameter:
+		case d < j.Diameter-joints.LengthRoundoff:
 			fs = append(fs, j.Finding(joints.Error, joints.CodeHoleSize, []int64{part},
 				fmt.Sprintf("the hole in part %d measures %s mm, less than the bolt's %s mm: the shank does not pass", part, joints.MM(d), joints.MM(j.Diameter))))
-		case d > j.Hole+tol || d < j.Hole-tol:
+		case d > j.Hole+tol+joints.LengthRoundoff || d < j.Hole-tol-joints.LengthRoundoff:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeHoleSize, []int64{part},
 				fmt.Sprintf("the hole in part %d measures %s mm, the list declares %s mm (tolerance %s mm)", part, joints.MM(d), joints.MM(j.Hole), joints.MM(tol))))
 		}

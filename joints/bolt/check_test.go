@@ -212,3 +212,48 @@ func TestDeterministic(t *testing.T) {
 		}
 	}
 }
+
+// TestSizesAtLimits holds a meshed hole exactly at a limit to meet it,
+// whatever the rounding of its fitted circle (Kasa fit on 20 nodes gives
+// 7.999999999999771 mm for a hole meshed 8 mm across): a hole meshed at
+// the shank's diameter lets the shank pass (line-to-line, as for a
+// fitted bolt), one meshed at the declared hole plus or minus the
+// tolerance is within it, and a point off the centre by exactly the
+// clearance between shank and hole is info, not a warning (the project's
+// rule: a value exactly at a limit meets it, joints.LengthRoundoff).
+func TestSizesAtLimits(t *testing.T) {
+	for _, c := range []struct {
+		name               string
+		d, hole, mesh, off float64
+		seg                int
+		rot                float64 // turn of the mesh about z, radians
+		want               []string
+		state              joints.Status
+	}{
+		{"M8 hole meshed at the shank, 20 nodes", 8, 8, 8, 0, 20, 0, nil, joints.Built},
+		{"M8 hole meshed at the shank, 12 nodes turned", 8, 8, 8, 0, 12, 0.1, nil, joints.Built},
+		{"M8 medium at +tolerance", 8, 9, 9.25, 0, 20, 0.37, nil, joints.Built}, // 9 + 0.25 (DefaultHoleTolerance)
+		{"M8 medium at -tolerance", 8, 9, 8.75, 0, 20, 0.37, nil, joints.Built},
+		{"M8 off by the clearance", 8, 9, 9, 0.5, 20, 0.1, []string{joints.CodeHoleOffCentre}, joints.Built}, // (9-8)/2: info
+		{"M8 off beyond the clearance", 8, 9, 9, 0.51, 20, 0.1, []string{joints.CodeHoleOffCentre}, joints.Flagged},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			ss := []sheet{
+				{Part: 1, T: 2, Z: 0, Hole: c.mesh, Outer: 20, Seg: c.seg, Rings: 4},
+				{Part: 2, T: 2, Z: 2, Hole: c.mesh, Outer: 20, Seg: c.seg, Rings: 4},
+			}
+			m := mesh(t, rotation{u: r3.Vec{Z: 1}, a: c.rot}, ss...)
+			j := joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{X: c.off, Z: 1}, Diameter: c.d, Washer: 16, Hole: c.hole}
+			b := build(t, m, joints.BuildOptions{}, j)[0]
+			var uniq []string
+			for _, g := range codes(b.Findings) {
+				if !slices.Contains(uniq, g) {
+					uniq = append(uniq, g)
+				}
+			}
+			if !slices.Equal(uniq, c.want) || b.Status != c.state {
+				t.Errorf("findings %v, state %s; want %v, %s (holes %v)", b.Findings, b.Status, c.want, c.state, b.Bolt.Holes)
+			}
+		})
+	}
+}
