@@ -181,8 +181,10 @@ type nodeInfo struct {
 // connectors run with the same rules (CheckFacing: nodes-apart; GapFinding
 // on each link: gap-open, gap-closed) and set each connector's state.
 //
-// A node id that is not in the mesh or belongs to no element, and a link
-// whose two nodes lie on one part, are input errors naming file and line.
+// A node id that is not in the mesh or belongs to no element, a link
+// whose two nodes lie on one part, two nodes of one part in a weld and
+// rows of a weld that share no node with its others are input errors
+// naming file and line.
 // A node that several parts share is taken on the part that the weld's
 // other nodes do not use (the lowest id among them when that leaves a
 // choice).
@@ -262,6 +264,34 @@ func nodeInfos(m *geom.Mesh, welds []NodePairWeld) (map[int32]*nodeInfo, error) 
 	return info, nil
 }
 
+// chained returns an input error, at the first row that stands apart,
+// when the links of w do not join all its nodes into one piece.
+func chained(m *geom.Mesh, w *NodePairWeld) error {
+	root := map[int64]int64{}
+	find := func(id int64) int64 {
+		for {
+			r, ok := root[id]
+			if !ok || r == id {
+				return id
+			}
+			root[id] = root[r]
+			id = r
+		}
+	}
+	for _, l := range w.Links {
+		a, b := find(l.A), find(l.B)
+		root[a], root[b] = a, a
+	}
+	first := find(w.Links[0].A)
+	for _, l := range w.Links[1:] {
+		if find(l.A) != first {
+			return geom.LineError(w.File, l.Line, "weld %q: link %d-%d shares no node with the weld's other rows: the rows of one weld chain its sheets (a-b then b-c); give each weld its own id",
+				excerpt(w.ID), l.A, l.B)
+		}
+	}
+	return nil
+}
+
 // nodePairConnector builds the connector of one weld.
 func nodePairConnector(m *geom.Mesh, w *NodePairWeld, info map[int32]*nodeInfo, o *joints.BuildOptions) (joints.Connector, error) {
 	// The weld's distinct nodes in order of appearance, with the line
@@ -300,6 +330,31 @@ func nodePairConnector(m *geom.Mesh, w *NodePairWeld, info map[int32]*nodeInfo, 
 			}
 		}
 		partOf[n] = pick
+	}
+	// One node per sheet: a second node of a part in one weld is another
+	// weld under the same id (or two links on one sheet), and its rows
+	// must chain the sheets (a-b, b-c), not stand apart.
+	partIdx := func(id int64) int32 {
+		n, _ := m.NodeIndex(id)
+		return info[n].parts[partOf[n]]
+	}
+	for _, l := range w.Links {
+		if p := partIdx(l.A); p == partIdx(l.B) {
+			return joints.Connector{}, geom.LineError(w.File, l.Line, "weld %q: link %d-%d joins two nodes of part %d", excerpt(w.ID), l.A, l.B, m.Parts[p].ID)
+		}
+	}
+	nodeOnPart := map[int32]int32{}
+	for _, n := range nodes {
+		p := info[n].parts[partOf[n]]
+		if first, ok := nodeOnPart[p]; ok {
+			return joints.Connector{}, geom.LineError(w.File, lineOf[n],
+				"weld %q: nodes %d and %d both lie on part %d: a weld has one node per sheet (the rows of a three-sheet weld chain its sheets, a-b then b-c); give each weld its own id",
+				excerpt(w.ID), m.NodeIDs[first], m.NodeIDs[n], m.Parts[p].ID)
+		}
+		nodeOnPart[p] = n
+	}
+	if err := chained(m, w); err != nil {
+		return joints.Connector{}, err
 	}
 	j := joints.Joint{ID: w.ID, Kind: joints.Spot, Point: w.Point, Group: w.Group, File: w.File, Line: w.Line}
 	if !w.HasPoint {
@@ -356,10 +411,7 @@ func nodePairConnector(m *geom.Mesh, w *NodePairWeld, info map[int32]*nodeInfo, 
 	for _, l := range w.Links {
 		na, _ := m.NodeIndex(l.A)
 		nb, _ := m.NodeIndex(l.B)
-		from, to := sheetOf[na], sheetOf[nb]
-		if c.Stack.Sheets[from].Part == c.Stack.Sheets[to].Part {
-			return joints.Connector{}, geom.LineError(w.File, l.Line, "weld %q: link %d-%d joins two nodes of part %d", excerpt(w.ID), l.A, l.B, c.Stack.Sheets[from].Part)
-		}
+		from, to := sheetOf[na], sheetOf[nb] // on two parts: checked above
 		if from > to {
 			from, to = to, from
 		}

@@ -59,10 +59,14 @@ func TestReadNodePairsErrors(t *testing.T) {
 func TestNodePairConnectorsErrors(t *testing.T) {
 	m := plates(flangeMesh()...)
 	a, b := itoa(nodeAt(m, 1, 50, 25)), itoa(nodeAt(m, 2, 50, 25))
-	a2 := itoa(nodeAt(m, 1, 55, 25))
+	a2, b2 := itoa(nodeAt(m, 1, 55, 25)), itoa(nodeAt(m, 2, 55, 25))
 	for _, tc := range []struct{ in, want string }{
 		{"id,node_a,node_b\nW1," + a + "," + b + "\nW2," + a + ",999\n", `w.csv:3: weld "W2": node 999 is not in the mesh`},
 		{"id,node_a,node_b\nW1," + a + "," + a2 + "\n", `w.csv:2: weld "W1": link ` + a + "-" + a2 + " joins two nodes of part 1"},
+		// One id on welds at neighbouring nodes (as some exports reuse
+		// them): a weld has one node per sheet.
+		{"id,node_a,node_b\nW1," + a + "," + b + "\nW1," + a2 + "," + b2 + "\n", `w.csv:3: weld "W1": nodes ` + a + " and " + a2 + " both lie on part 1"},
+		{"id,node_a,node_b\nW1," + a + "," + b + "\nW1," + b2 + "," + a2 + "\n", `w.csv:3: weld "W1": nodes ` + b + " and " + b2 + " both lie on part 2"},
 	} {
 		welds, _, err := ReadNodePairs(strings.NewReader(tc.in), "w.csv")
 		if err != nil {
@@ -70,6 +74,38 @@ func TestNodePairConnectorsErrors(t *testing.T) {
 		}
 		_, err = NodePairConnectors(m, welds, joints.BuildOptions{})
 		if err == nil || !strings.HasPrefix(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput) {
+			t.Errorf("%v, want an input error starting %q", err, tc.want)
+		}
+	}
+}
+
+// The rows of one weld chain its sheets: two links on four sheets that
+// share no node are two welds under one id.
+func TestNodePairRowsChain(t *testing.T) {
+	m := plates(
+		plate{Part: 1, T: 1, NX: 20, NY: 10, H: 5},
+		plate{Part: 2, T: 1, Z: 1, NX: 20, NY: 10, H: 5},
+		plate{Part: 3, T: 1, Z: 2, NX: 20, NY: 10, H: 5},
+		plate{Part: 4, T: 1, Z: 3, NX: 20, NY: 10, H: 5},
+	)
+	n := func(p int64) string { return itoa(nodeAt(m, p, 50, 25)) }
+	for _, tc := range []struct{ in, want string }{
+		{"id,node_a,node_b\nW1," + n(1) + "," + n(2) + "\nW1," + n(3) + "," + n(4) + "\n",
+			`w.csv:3: weld "W1": link ` + n(3) + "-" + n(4) + " shares no node with the weld's other rows"},
+		{"id,node_a,node_b\nW1," + n(1) + "," + n(2) + "\nW1," + n(3) + "," + n(4) + "\nW1," + n(2) + "," + n(3) + "\n", ""},
+		{"id,node_a,node_b\nW1," + n(2) + "," + n(3) + "\nW1," + n(1) + "," + n(2) + "\n", ""},
+	} {
+		welds, _, err := ReadNodePairs(strings.NewReader(tc.in), "w.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		conns, err := NodePairConnectors(m, welds, joints.BuildOptions{})
+		switch {
+		case tc.want == "" && err != nil:
+			t.Errorf("%q: %v", tc.in, err)
+		case tc.want == "" && len(conns[0].Stack.Sheets) != len(welds[0].Links)+1:
+			t.Errorf("%q: stack %v", tc.in, conns[0].Stack.Parts())
+		case tc.want != "" && (err == nil || !strings.HasPrefix(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput)):
 			t.Errorf("%v, want an input error starting %q", err, tc.want)
 		}
 	}
