@@ -374,3 +374,30 @@ func TestDistancesOnTheSharedSheet(t *testing.T) {
 		})
 	}
 }
+
+// A weld placed exactly on a node ties that node alone: interpolated,
+// its host element lists its other nodes with weight 0, which tie
+// nothing and so close no flange. Welds on nodes 10 and 15 mm apart on a
+// 5 mm mesh leave untied nodes between them (no seam, common practice:
+// one free node between welds lets the sheets open), and are judged
+// against the table's spacing (12.974 mm at 0.8 mm, joints.MinSpacing:
+// 10 mm too close, 15 mm not) alike interpolated and node-pair; 5 mm
+// apart they are a seam either way.
+func TestWeldsOnNodes(t *testing.T) {
+	for _, tc := range []struct {
+		step  float64
+		seams int
+	}{{5, 1}, {10, 0}, {15, 0}} {
+		got := map[joints.Attach][2]int{}
+		for _, at := range []joints.Attach{joints.Interpolated, joints.NodePair} {
+			m := plates(flangeMesh()...)
+			o := joints.BuildOptions{Attach: at}
+			conns := build(t, m, weldsAt(along(steps(50, tc.step, 7)...)...), o)
+			rep := audit(t, m, conns, nil, o)
+			got[at] = [2]int{len(ofCode(rep.Findings, joints.CodeSeam)), len(ofCode(rep.Findings, joints.CodePitchShort))}
+		}
+		if got[joints.Interpolated] != got[joints.NodePair] || got[joints.NodePair][0] != tc.seams {
+			t.Errorf("welds on nodes %g mm apart: (seams, pitch-short) interpolated %v, node-pair %v; want %d seams both", tc.step, got[joints.Interpolated], got[joints.NodePair], tc.seams)
+		}
+	}
+}
