@@ -401,3 +401,37 @@ func TestWeldsOnNodes(t *testing.T) {
 		}
 	}
 }
+
+// A row of welds whose nuggets overlap one by one (5 mm apart on 1.02 mm
+// sheets, nugget 5*sqrt(1.02) = 5.05 mm, common practice) is a seam, not
+// only a run of duplicates; three definitions of one spot, or two welds
+// 1 mm apart, are duplicates and no seam: they reach no farther than a
+// nugget.
+func TestOverlappingRowIsSeam(t *testing.T) {
+	two := []plate{{Part: 1, T: 1.02, NX: 60, NY: 10, H: 5}, {Part: 2, T: 1.02, Z: 1.02, NX: 60, NY: 10, H: 5}}
+	at := func(xs ...float64) []r3.Vec {
+		var pts []r3.Vec
+		for _, x := range xs {
+			pts = append(pts, r3.Vec{X: x, Y: 25, Z: 0.51})
+		}
+		return pts
+	}
+	for _, tc := range []struct {
+		name        string
+		xs          []float64
+		seams, dups int
+	}{
+		{"row at 5 mm", steps(50, 5, 9), 1, 8},
+		{"one spot three times", []float64{120, 120, 120}, 0, 3},
+		{"two welds 1 mm apart", []float64{120, 121}, 0, 1},
+	} {
+		for _, o := range []joints.BuildOptions{{Attach: joints.NodePair}, {}} {
+			m := plates(two...)
+			conns := build(t, m, weldsAt(at(tc.xs...)...), o)
+			rep := audit(t, m, conns, nil, o)
+			if s, d := len(ofCode(rep.Findings, joints.CodeSeam)), len(ofCode(rep.Findings, joints.CodeDuplicate)); s != tc.seams || d != tc.dups {
+				t.Errorf("%s, %v: %d seams, %d duplicates; want %d, %d (%v)", tc.name, o.Attach, s, d, tc.seams, tc.dups, summary(rep.Findings))
+			}
+		}
+	}
+}

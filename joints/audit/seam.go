@@ -38,7 +38,9 @@ const tiedWeight = 1e-9
 // of that sheet's part holds a tied node of each (the smallest case: node-pair welds on mesh-adjacent
 // nodes; interpolated welds in neighbouring elements). Within a chain the
 // flange cannot open between its welds: the model welds it shut. Pairs
-// of duplicates are left out (reported as such). One pass over the
+// of duplicates join chains too (a row of overlapping nuggets is a
+// seam), but a group held by duplicates alone and no longer than a
+// nugget is one spot defined several times, left to the duplicates. One pass over the
 // elements finds every touch, so the cost is linear in the mesh.
 //
 // It returns, per weld, the index of its chain (-1 for none) and one
@@ -136,12 +138,14 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 		return int(x.part - y.part)
 	})
 	touches = slices.Compact(touches)
-	// Chains: connected groups of welds through touches.
+	// Chains: connected groups of welds through touches, duplicates
+	// included: a row of welds whose nuggets overlap one by one is a seam
+	// too. A group joined by duplicates alone is one seam only when it
+	// reaches farther than a nugget; shorter, it is one spot defined
+	// several times (reported as duplicates).
 	uf := newUnionFind(len(ws))
 	for _, t := range touches {
-		if !dups[[2]int32{t.a, t.b}] {
-			uf.union(int(t.a), int(t.b))
-		}
+		uf.union(int(t.a), int(t.b))
 	}
 	members := map[int][]int32{}
 	var roots []int
@@ -154,21 +158,35 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 		}
 	}
 	touched := map[int][]int64{}
+	plain := map[int]bool{} // the group has a touch that is no duplicate
 	for _, t := range touches {
-		if dups[[2]int32{t.a, t.b}] {
-			continue
-		}
 		r := uf.find(int(t.a))
+		if !dups[[2]int32{t.a, t.b}] {
+			plain[r] = true
+		}
 		if p := m.Parts[t.part].ID; !slices.Contains(touched[r], p) {
 			touched[r] = append(touched[r], p)
 		}
 	}
 	var fs []joints.Finding
-	for ci, r := range roots {
+	ci := int32(0)
+	for _, r := range roots {
 		list := members[r] // in weld (id) order
-		for _, i := range list {
-			chain[i] = int32(ci)
+		if !plain[r] {
+			a, b := farthest(ws, list)
+			reach, _ := sheetDist(&ws[a], &ws[b], ws[a].parts)
+			widest := 0.0
+			for _, i := range list {
+				widest = math.Max(widest, ws[i].diameter)
+			}
+			if !(reach >= widest) {
+				continue
+			}
 		}
+		for _, i := range list {
+			chain[i] = ci
+		}
+		ci++
 		fs = append(fs, seamFinding(ws, list, touched[r]))
 	}
 	sortFindings(fs)

@@ -44,7 +44,7 @@ func duplicates(m *geom.Mesh, ws []weld) (map[[2]int32]bool, []joints.Finding) {
 				continue
 			}
 			pairs[pairOf(int32(i), j)] = true
-			fs = append(fs, duplicateFinding(a, b, fmt.Sprintf("welds %s and %s are %s mm apart, less than their nugget diameter (%s mm): their nuggets overlap on %s; one weld is defined twice",
+			fs = append(fs, duplicateFinding(a, b, fmt.Sprintf("welds %s and %s are %s mm apart, less than their nugget diameter (%s mm): their nuggets overlap on %s: one weld defined twice, or two that merge into one",
 				a.id, b.id, joints.MM(d), joints.MM(lim), partsWord(shared))))
 		}
 	}
