@@ -64,6 +64,7 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 		}
 		return strings.Compare(a, b)
 	})
+	lu := unitOf(doc.Units.Length)
 	byCode := map[string][]*document.FindingDoc{}
 	for i := range doc.Findings {
 		f := &doc.Findings[i]
@@ -73,11 +74,11 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 		fs := byCode[code]
 		ew.printf("\n%s (%s)\n", code, severityCounts(fs))
 		if len(fs) > groupAbove && !slices.Contains(fullCodes, code) {
-			groupedFindings(ew, fs, names)
+			groupedFindings(ew, fs, names, lu)
 			continue
 		}
 		for _, f := range fs {
-			fullFinding(ew, f, names)
+			fullFinding(ew, f, names, lu)
 		}
 	}
 
@@ -118,7 +119,7 @@ func severityCounts(fs []*document.FindingDoc) string {
 
 // fullFinding writes one finding: its joints, then its parts with their
 // names and its location, then its motion, then its message.
-func fullFinding(ew *errWriter, f *document.FindingDoc, names map[int64]string) {
+func fullFinding(ew *errWriter, f *document.FindingDoc, names map[int64]string, lu lengthUnit) {
 	ids := f.Joints
 	if len(ids) == 0 && f.Joint != nil {
 		ids = []string{*f.Joint}
@@ -136,13 +137,13 @@ func fullFinding(ew *errWriter, f *document.FindingDoc, names map[int64]string) 
 		where = append(where, partsText(f.Parts, names))
 	}
 	if f.Location != nil {
-		where = append(where, "at "+point(*f.Location))
+		where = append(where, "at "+lu.point(*f.Location))
 	}
 	if len(where) > 0 {
 		ew.printf("          %s\n", strings.Join(where, "; "))
 	}
 	if m := f.Motion; m != nil {
-		ew.printf("          motion: %s\n", motionText(m))
+		ew.printf("          motion: %s\n", motionText(m, lu))
 	}
 	ew.printf("          %s\n", f.Message)
 }
@@ -150,7 +151,7 @@ func fullFinding(ew *errWriter, f *document.FindingDoc, names map[int64]string) 
 // groupedFindings writes the findings of one code grouped by the parts
 // they concern: per group the count, the joints (the first few) and the
 // first finding's location and message.
-func groupedFindings(ew *errWriter, fs []*document.FindingDoc, names map[int64]string) {
+func groupedFindings(ew *errWriter, fs []*document.FindingDoc, names map[int64]string, lu lengthUnit) {
 	type group struct {
 		parts []int64
 		fs    []*document.FindingDoc
@@ -196,7 +197,7 @@ func groupedFindings(ew *errWriter, fs []*document.FindingDoc, names map[int64]s
 		first := g.fs[0]
 		loc := ""
 		if first.Location != nil {
-			loc = "at " + point(*first.Location) + ": "
+			loc = "at " + lu.point(*first.Location) + ": "
 		}
 		ew.printf("          first: %s%s\n", loc, first.Message)
 	}
@@ -218,13 +219,33 @@ func partsText(ps []int64, names map[int64]string) string {
 	return "parts " + strings.Join(items, ", ")
 }
 
-// point formats a location with at most three decimals.
-func point(v document.Vec) string {
-	return "(" + mm(v[0]) + ", " + mm(v[1]) + ", " + mm(v[2]) + ")"
+// lengthUnit formats lengths in the unit of the documents (the
+// meshes'): to the micrometre whatever the unit, trailing zeros cut.
+type lengthUnit struct {
+	name     string
+	decimals int
 }
 
-func mm(v float64) string {
-	s := strconv.FormatFloat(v, 'f', 3, 64)
+// unitOf returns the format of lengths in unit ("mm", "m" or "in"; any
+// other is taken as mm): 3 decimals in mm, 6 in m, 5 in inches (0.25
+// micrometre).
+func unitOf(unit string) lengthUnit {
+	switch unit {
+	case "m":
+		return lengthUnit{"m", 6}
+	case "in":
+		return lengthUnit{"in", 5}
+	}
+	return lengthUnit{"mm", 3}
+}
+
+// point formats a location.
+func (lu lengthUnit) point(v document.Vec) string {
+	return "(" + lu.num(v[0]) + ", " + lu.num(v[1]) + ", " + lu.num(v[2]) + ")"
+}
+
+func (lu lengthUnit) num(v float64) string {
+	s := strconv.FormatFloat(v, 'f', lu.decimals, 64)
 	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
 	if s == "-0" || s == "" {
 		return "0"
@@ -233,17 +254,17 @@ func mm(v float64) string {
 }
 
 // motionText describes a free motion on one line.
-func motionText(m *document.MotionDoc) string {
+func motionText(m *document.MotionDoc, lu lengthUnit) string {
 	s := fmt.Sprintf("%s x %d", m.Kind, m.Count)
 	if m.Point != nil {
-		s += ", point " + point(*m.Point)
+		s += ", point " + lu.point(*m.Point)
 	}
 	if m.Direction != nil {
 		d := *m.Direction
 		s += fmt.Sprintf(", direction (%s, %s, %s)", unitText(d[0]), unitText(d[1]), unitText(d[2]))
 	}
 	if m.Pitch != nil {
-		s += ", pitch " + mm(*m.Pitch) + " mm/rad"
+		s += ", pitch " + lu.num(*m.Pitch) + " " + lu.name + "/rad"
 	}
 	return s
 }
