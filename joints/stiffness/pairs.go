@@ -12,13 +12,16 @@ import (
 // Pair is the stiffness summary of the connectors joining two parts
 // directly (as consecutive sheets of a stack).
 type Pair struct {
-	A, B     int64 // part ids, A < B
-	Springs  int   // springs assembled: one per connector and sheet pair
-	Centroid r3.Vec
+	A, B     int64  // part ids, A < B
+	Springs  int    // springs assembled: one per connector and sheet pair
+	Centroid r3.Vec // the plain mean of the springs' points, where the stiffness is assembled
 	Material string // "steel", "aluminium" or "mixed"
 	// Translational and Rotational are the principal stiffnesses of the
-	// two blocks of the pair's 6 x 6 stiffness about Centroid,
-	// ascending: N/mm and N mm/rad.
+	// pair's 6 x 6 stiffness (see Principal), ascending: N/mm of its
+	// translational block, and N mm/rad of its rotational block with the
+	// translations condensed out, the rotational stiffness about the
+	// pair's elastic centre. Neither depends on the point the stiffness
+	// is assembled about.
 	Translational, Rotational [3]float64
 }
 
