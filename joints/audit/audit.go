@@ -144,13 +144,14 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 		kin, kinFs := Kinematic(k, groups)
 		ch <- assembly{append(fs, kinFs...), kin}
 	}()
-	welds := collectWelds(m, conns, extra, &o)
+	welds, planFs := collectWelds(m, conns, extra, &o)
 	rep := &Report{}
 	dups, dupFs := duplicates(m, welds)
 	seams, seamFs := findSeams(m, welds, dups)
 	rep.Findings = append(rep.Findings, seamFs...)
 	rep.Findings = append(rep.Findings, dupFs...)
 	rep.Findings = append(rep.Findings, pitchShort(welds, dups, seams)...)
+	rep.Findings = append(rep.Findings, planFs...)
 	asm := <-ch
 	rep.Findings = append(rep.Findings, asm.fs...)
 	rep.Kinematics = asm.kin
@@ -158,8 +159,9 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 }
 
 // collectWelds returns the welds to check, sorted by id: the built spot
-// connectors and the extra points whose ids no connector has.
-func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, o *joints.BuildOptions) []weld {
+// connectors and the extra points whose ids no connector has, with the
+// findings of extra points that lie on fewer than two sheets.
+func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, o *joints.BuildOptions) ([]weld, []joints.Finding) {
 	ws := make([]weld, 0, len(conns)+len(extra))
 	ids := make(map[string]bool, len(conns))
 	for i := range conns {
@@ -189,23 +191,29 @@ func collectWelds(m *geom.Mesh, conns []joints.Connector, extra []joints.Joint, 
 			pts = append(pts, j)
 		}
 	}
+	var fs []joints.Finding
 	if len(pts) > 0 {
-		ws = append(ws, extraWelds(m, pts, o)...)
+		var more []weld
+		more, fs = extraWelds(m, pts, o)
+		ws = append(ws, more...)
 	}
 	slices.SortStableFunc(ws, func(a, b weld) int { return joints.CompareIDs(a.id, b.id) })
-	return ws
+	return ws, fs
 }
 
 // extraWelds makes the welds of extra joint points: the parts they list,
 // else the parts with an element within reach of the point; with the
-// point's nearest point on each of those parts within reach.
-func extraWelds(m *geom.Mesh, js []*joints.Joint, o *joints.BuildOptions) []weld {
+// point's nearest point on each of those parts within reach. A point
+// with fewer than two of them would join nothing: a no-sheet or
+// single-sheet error, as its build would give.
+func extraWelds(m *geom.Mesh, js []*joints.Joint, o *joints.BuildOptions) ([]weld, []joints.Finding) {
 	pts := make([]r3.Vec, len(js))
 	for i, j := range js {
 		pts[i] = j.Point
 	}
 	x := geom.NewIndexNear(m, pts, 1.01*o.Reach, false)
 	out := make([]weld, 0, len(js))
+	var fs []joints.Finding
 	var buf []int32
 	for _, j := range js {
 		w := weld{id: j.ID, point: j.Point, parts: slices.Clone(j.Parts)}
@@ -236,6 +244,9 @@ func extraWelds(m *geom.Mesh, js []*joints.Joint, o *joints.BuildOptions) []weld
 		for _, pr := range near {
 			w.off = math.Max(w.off, pr.Dist)
 		}
+		if n := len(w.on); n < 2 {
+			fs = append(fs, planFinding(j, w.on, o.Reach))
+		}
 		slices.Sort(w.parts)
 		var ts []float64
 		for _, p := range w.parts {
@@ -259,7 +270,22 @@ func extraWelds(m *geom.Mesh, js []*joints.Joint, o *joints.BuildOptions) []weld
 		}
 		out = append(out, w)
 	}
-	return out
+	return out, fs
+}
+
+// planFinding is the error of a planned point that lies on fewer than
+// two sheets (those it lists, else any) within reach.
+func planFinding(j *joints.Joint, on []sheetPoint, reach float64) joints.Finding {
+	which := "sheet"
+	if len(j.Parts) > 0 {
+		which = "listed part"
+	}
+	if len(on) == 0 {
+		return j.Finding(joints.Error, joints.CodeNoSheet, slices.Clone(j.Parts),
+			fmt.Sprintf("planned point %s: no %s within %s mm: it would join nothing, and its spacing is judged against no sheet", j.ID, which, joints.MM(reach)))
+	}
+	return j.Finding(joints.Error, joints.CodeSingleSheet, []int64{on[0].part},
+		fmt.Sprintf("planned point %s: only part %d among the %ss within %s mm: nothing to join", j.ID, on[0].part, which, joints.MM(reach)))
 }
 
 func appendPair(ps [][2]int64, p [2]int64) [][2]int64 {

@@ -435,3 +435,21 @@ func TestOverlappingRowIsSeam(t *testing.T) {
 		}
 	}
 }
+
+// A planned point (a joint list checked, not built) on fewer than two
+// sheets within reach would join nothing: no-sheet or single-sheet, as
+// its build would say, instead of being passed over.
+func TestPlannedPointOffTheSheets(t *testing.T) {
+	m := plates(flangeMesh()...) // 200 x 50 mm, two 0.8 mm sheets
+	conns := build(t, m, weldsAt(along(20)...), joints.BuildOptions{})
+	extra := []joints.Joint{
+		{ID: "P1", Kind: joints.Spot, Point: r3.Vec{X: 400, Y: 25, Z: 0.4}},                       // 200 mm off the sheets
+		{ID: "P2", Kind: joints.Spot, Point: r3.Vec{X: 400, Y: 25, Z: 0.4}, Parts: []int64{1, 2}}, // the same, listing its parts
+		{ID: "P3", Kind: joints.Spot, Point: r3.Vec{X: 100, Y: 25, Z: 0.4}},                       // on both sheets
+	}
+	rep := audit(t, m, conns, extra, joints.BuildOptions{})
+	got := summary(append(ofCode(rep.Findings, joints.CodeNoSheet), ofCode(rep.Findings, joints.CodeSingleSheet)...))
+	if want := []string{"no-sheet [P1] []", "no-sheet [P2] [1 2]"}; !slices.Equal(got, want) {
+		t.Errorf("%v, want %v", got, want)
+	}
+}
