@@ -62,7 +62,11 @@ func WriteInspectText(w io.Writer, in *inspect.Inspection) error {
 			}
 			ew.printf(", worst aspect %s, shortest edge %s mm\n", num(d.MaxAspect, 2), num(d.MinEdge, 3))
 			for _, q := range d.Listed {
-				ew.printf("  element %d %s: warp %s°, aspect %s, shortest edge %s mm\n", q.Element, q.Problem, num(q.Warp, 2), num(q.Aspect, 2), num(q.MinEdge, 3))
+				aspect := num(q.Aspect, 2)
+				if q.Aspect < 0 { // inspect's -1: a zero-length edge, the ratio is infinite
+					aspect = "infinite"
+				}
+				ew.printf("  element %d %s: warp %s°, aspect %s, shortest edge %s mm\n", q.Element, q.Problem, num(q.Warp, 2), aspect, num(q.MinEdge, 3))
 			}
 			writeFlipped(ew, d)
 		}

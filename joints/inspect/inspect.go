@@ -164,7 +164,7 @@ type ElemQuality struct {
 	Element int64   `json:"element"`
 	Problem string  `json:"problem"` // "warped" or "degenerate"
 	Warp    float64 `json:"warp_deg"`
-	Aspect  float64 `json:"aspect"`
+	Aspect  float64 `json:"aspect"` // longest over shortest edge; -1 for a zero-length edge (infinite)
 	MinEdge float64 `json:"shortest_edge_mm"`
 }
 
