@@ -163,7 +163,7 @@ func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, er
 			continue
 		}
 		if err := geom.CheckCoordinates(p.X, p.Y, p.Z, r.scale); err != nil { // nil at the limit's rounding
-			return nil, geom.LineError(name, r.recordLine('n', i), "node %d: %v", r.m.NodeIDs[i], err)
+			return nil, r.lineError(r.recordLine('n', i), "node %d: %v", r.m.NodeIDs[i], err)
 		}
 	}
 	r.mergeThickness(chunks)
@@ -180,7 +180,7 @@ func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, er
 	parallel(len(chunks), func(i int) { r.resolveConn(&chunks[i]) })
 	for i := range chunks {
 		if e := chunks[i].missing; e >= 0 {
-			return nil, geom.LineError(name, r.recordLine('s', e), "shell %d: node %d is not defined in the file", m.ElemIDs[e], chunks[i].missingID)
+			return nil, r.lineError(r.recordLine('s', e), "shell %d: node %d is not defined in the file", m.ElemIDs[e], chunks[i].missingID)
 		}
 	}
 	r.partIDs, r.connIDs = nil, nil
@@ -732,7 +732,7 @@ func (r *reader) resolveParts(chunks []chunk) error {
 	for i := range chunks {
 		for _, pr := range chunks[i].parts {
 			if first, dup := lines[pr.part.ID]; dup {
-				return geom.LineError(r.name, pr.line, "part %d already defined on line %d", pr.part.ID, first)
+				return r.lineError(pr.line, "part %d already defined on line %d", pr.part.ID, first)
 			}
 			lines[pr.part.ID] = pr.line
 			index[pr.part.ID] = int32(len(m.Parts))
@@ -837,15 +837,27 @@ func (r *reader) recordLine(kind byte, k int) int {
 	return 0
 }
 
+// lineError is an input error at a line found after the records were
+// parsed (a node not defined, an id defined twice), with the hint that
+// the file may be truncated when that line is its last and has no
+// newline, as parseChunk gives for errors within a line.
+func (r *reader) lineError(line int, format string, args ...any) error {
+	err := fmt.Errorf(format, args...)
+	if n := len(r.data); n > 0 && r.data[n-1] != '\n' && line == bytes.Count(r.data, []byte{'\n'})+1 {
+		err = fmt.Errorf("%w (the last line has no newline: is the file truncated?)", err)
+	}
+	return geom.LineError(r.name, line, "%w", err)
+}
+
 // duplicateError turns a failed Mesh.Index into an error that names both
 // lines of the duplicate id.
 func (r *reader) duplicateError(err error) error {
 	m := r.m
 	if _, d, ok := geom.NewIDIndex(m.NodeIDs); !ok {
-		return geom.LineError(r.name, r.recordLine('n', d.Second), "node %d already defined on line %d", d.ID, r.recordLine('n', d.First))
+		return r.lineError(r.recordLine('n', d.Second), "node %d already defined on line %d", d.ID, r.recordLine('n', d.First))
 	}
 	if _, d, ok := geom.NewIDIndex(m.ElemIDs); !ok {
-		return geom.LineError(r.name, r.recordLine('s', d.Second), "shell %d already defined on line %d", d.ID, r.recordLine('s', d.First))
+		return r.lineError(r.recordLine('s', d.Second), "shell %d already defined on line %d", d.ID, r.recordLine('s', d.First))
 	}
 	var ie *geom.InputError
 	if errors.As(err, &ie) {

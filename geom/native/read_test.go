@@ -189,6 +189,11 @@ func TestReadErrors(t *testing.T) {
 		{"duplicate part", h + "part 1\npart 2\npart 1 thickness=1\n", `t.jmesh:4: part 1 already defined on line 2`},
 		{"truncated last line", h + "node 1 0 0", `t.jmesh:2: node record needs an id and 3 coordinates, has 3 fields (the last line has no newline: is the file truncated?)`},
 		{"truncated number", h + "node 1 0 0 1e", `t.jmesh:2: node 1: z coordinate "1e" is not a finite decimal number (the last line has no newline: is the file truncated?)`},
+		// Errors found once every record is read get the hint too.
+		{"truncated node id", h + "node 1 0 0 0\nnode 2 1 0 0\nnode 3 1 1 0\nshell 1 5 1 2 9", `t.jmesh:5: shell 1: node 9 is not defined in the file (the last line has no newline: is the file truncated?)`},
+		{"duplicate on a truncated line", h + "node 1 0 0 0\nnode 2 1 0 0\nnode 3 1 1 0\nshell 1 5 1 2 3\nshell 1 5 1 3 2", `t.jmesh:6: shell 1 already defined on line 5 (the last line has no newline: is the file truncated?)`},
+		{"duplicate part, truncated", h + "part 1\npart 1", `t.jmesh:3: part 1 already defined on line 2 (the last line has no newline: is the file truncated?)`},
+		{"undefined node, not last", h + "node 1 0 0 0\nnode 2 1 0 0\nshell 1 5 1 2 9\nnode 3 1 1 0", `t.jmesh:4: shell 1: node 9 is not defined in the file`},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
