@@ -189,8 +189,9 @@ func newPackedTree(items treeItems) packedTree {
 
 // sortItems finishes a tree made by newLevels whose item boxes have been
 // filled in item order (boxes[i] is item i's): it puts them in curve
-// order in place, as newPackedTree would order the same boxes, and makes
-// the levels above.
+// order, as newPackedTree would order the same boxes, and makes the
+// levels above. It holds a second array of boxes while it sorts (a
+// gather by blocks runs on every core; the permutation in place did not).
 func (t *packedTree) sortItems() {
 	n := t.level[1]
 	if n == 0 {
