@@ -174,7 +174,7 @@ func newPackedTree(items treeItems) packedTree {
 	// for the codes, each written to its rank on the curve (reading the
 	// items in curve order instead would chase one cache miss after
 	// another through the mesh); then the unions.
-	rank := make([]int32, n)
+	rank := MakeLarge[int32](n)
 	for i, id := range t.ids {
 		rank[id] = int32(i)
 	}
@@ -211,7 +211,7 @@ func (t *packedTree) sortItems() {
 	// Level 0 in curve order: box k becomes the box of item ids[k],
 	// gathered by blocks concurrently into a new array (the old one,
 	// in item order, is garbage then).
-	sorted := make([]box32, len(t.boxes))
+	sorted := MakeLarge[box32](len(t.boxes))
 	parallelBlocks(n, func(from, to int) {
 		for k := from; k < to; k++ {
 			sorted[k] = boxes[t.ids[k]]
@@ -233,7 +233,7 @@ func newLevels(n int) packedTree {
 			break
 		}
 	}
-	t.boxes = make([]box32, total)
+	t.boxes = MakeLarge[box32](total)
 	return t
 }
 
@@ -284,8 +284,8 @@ func curveOrder(boxes []box32, c *centreBounds) []int32 {
 	if d := max(c.hi[0]-c.lo[0], c.hi[1]-c.lo[1], c.hi[2]-c.lo[2]); d > 0 && !math.IsInf(d, 0) {
 		scale = float64(top) / d
 	}
-	codes := make([]uint64, n)
-	ids := make([]int32, n)
+	codes := MakeLarge[uint64](n)
+	ids := MakeLarge[int32](n)
 	parallelBlocks(n, func(from, to int) {
 		for i := from; i < to; i++ {
 			b := &boxes[i]
@@ -537,8 +537,8 @@ func radixSort(keys []uint64, ids []int32, keyBits int) {
 		}
 	}
 	origK, origI := keys, ids
-	tk := make([]uint64, n)
-	ti := make([]int32, n)
+	tk := MakeLarge[uint64](n)
+	ti := MakeLarge[int32](n)
 	for p := range counts {
 		count := &counts[p]
 		shift := p * digit
