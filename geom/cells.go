@@ -174,7 +174,7 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 			}
 		}
 	} else {
-		m.NodeIDs = make([]int64, len(cs.Points))
+		m.NodeIDs = MakeLarge[int64](len(cs.Points))
 		for i := range m.NodeIDs {
 			m.NodeIDs[i] = int64(i) + 1
 		}
@@ -198,20 +198,20 @@ func MeshFromCells(cs *CellSet, opt ReadOptions) (*Mesh, error) {
 	if takeConn {
 		m.Conn, m.ElemStart = cs.Conn32, cs.Offsets32
 	} else {
-		m.Conn = make([]int32, 0, nconn)
-		m.ElemStart = make([]int32, 1, kept+1)
+		m.Conn = MakeLargeCap[int32](0, nconn)
+		m.ElemStart = MakeLargeCap[int32](1, kept+1)
 	}
 	if take && cs.ElemIDs != nil {
 		m.ElemIDs = cs.ElemIDs
 	} else {
-		m.ElemIDs = make([]int64, 0, kept)
+		m.ElemIDs = MakeLargeCap[int64](0, kept)
 	}
-	m.ElemPart = make([]int32, 0, kept)
+	m.ElemPart = MakeLargeCap[int32](0, kept)
 	if cs.Thickness != nil {
 		if take {
 			m.ElemThickness = cs.Thickness
 		} else {
-			m.ElemThickness = make([]float64, 0, kept)
+			m.ElemThickness = MakeLargeCap[float64](0, kept)
 		}
 	}
 	var (

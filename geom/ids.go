@@ -60,7 +60,7 @@ func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
 	}
 	span := hi - lo + 1
 	if span > 0 && span <= 4*int64(len(ids))+1024 {
-		x.table = make([]int32, span)
+		x.table = MakeLarge[int32](int(span))
 		for i, id := range ids {
 			k := id - lo
 			if prev := x.table[k]; prev != 0 {
@@ -76,7 +76,7 @@ func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
 		x.buildBuckets(hi)
 		return x, Duplicate{}, true
 	}
-	x.perm = make([]int32, len(ids))
+	x.perm = MakeLarge[int32](len(ids))
 	for i := range x.perm {
 		x.perm[i] = int32(i)
 	}
@@ -89,7 +89,7 @@ func NewIDIndex(ids []int64) (IDIndex, Duplicate, bool) {
 		}
 		return int(a - b)
 	})
-	x.sorted = make([]int64, len(ids))
+	x.sorted = MakeLarge[int64](len(ids))
 	for i, p := range x.perm {
 		x.sorted[i] = ids[p]
 		if i > 0 && x.sorted[i] == x.sorted[i-1] {
@@ -107,7 +107,7 @@ func (x *IDIndex) buildBuckets(hi int64) {
 	for x.shift = 0; span>>x.shift >= uint64(len(x.sorted)); x.shift++ {
 	}
 	nb := int(span>>x.shift) + 1
-	x.bucket = make([]int32, nb+1)
+	x.bucket = MakeLarge[int32](nb + 1)
 	for _, id := range x.sorted {
 		x.bucket[uint64(id-x.base)>>x.shift+1]++
 	}

@@ -90,7 +90,7 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, packedTree) {
 	// copying them), so the selection comes out in increasing element
 	// order, in arrays of their exact size.
 	ne := m.NumElems()
-	chosen := make([]uint64, (ne+63)/64)
+	chosen := MakeLarge[uint64]((ne + 63) / 64)
 	counts := make([]int, (ne+parallelBlock-1)/parallelBlock+1)
 	parallelBlocks(ne, func(from, to int) {
 		n := 0
@@ -105,7 +105,7 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, packedTree) {
 	for b := 1; b < len(counts); b++ {
 		counts[b] += counts[b-1]
 	}
-	sel := make([]int32, counts[len(counts)-1])
+	sel := MakeLarge[int32](counts[len(counts)-1])
 	if len(sel) == 0 {
 		return nil, packedTree{level: []int{0, 0}}
 	}

@@ -75,7 +75,9 @@ func TestIndexNearWithoutNodes(t *testing.T) {
 // nearElements selects exactly the elements whose box comes within the
 // margin of a point (brute force over every element and point is the
 // reference), with their float32 boxes, whatever the margin: small
-// against the elements, large, or so large that the grid coarsens.
+// against the elements, large, or so large that the grid coarsens; and
+// the tree sortItems makes of them is the one newPackedTree builds over
+// the selected elements (the same ids, boxes and unions).
 func TestNearElementsExact(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	meshes := []*Mesh{gridMesh(60, 40, 2.5, 1.5), soupMesh(rng, 3000)}
@@ -97,7 +99,6 @@ func TestNearElementsExact(t *testing.T) {
 				pts[i] = r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
 			}
 			sel, tree := nearElements(m, pts, tc.margin)
-			boxes := tree.boxes[:len(sel)]
 			var want []int32
 			for e := range m.NumElems() {
 				lo, hi := elemBox(m, e)
@@ -113,9 +114,16 @@ func TestNearElementsExact(t *testing.T) {
 				continue
 			}
 			for i, e := range sel {
-				if boxes[i] != box32Of(elemBox(m, int(e))) {
+				if tree.boxes[i] != box32Of(elemBox(m, int(e))) {
 					t.Fatalf("mesh %d, %s: box of element %d differs", mi, tc.name, e)
 				}
+			}
+			tree.sortItems()
+			tree.remap(sel)
+			ref := newPackedTree(subsetItems{elemItems{m}, sel})
+			ref.remap(sel)
+			if !slices.Equal(tree.ids, ref.ids) || !slices.Equal(tree.boxes, ref.boxes) || !slices.Equal(tree.level, ref.level) {
+				t.Errorf("mesh %d, %s: tree differs from newPackedTree's over the same elements", mi, tc.name)
 			}
 		}
 	}

@@ -29,35 +29,31 @@ func emptyBox32() box32 {
 // down32 and up32 round x to a float32 not above (below) it. When the
 // nearest float32 is on the wrong side, the next one is one step of its
 // bits away (math.Nextafter32, inlined: it runs for every box of the
-// index).
+// index). The step is taken without a branch, which the processor could
+// not predict (the nearest float32 lies on either side about as often):
+// towards -Inf the bits go down for a positive float32 and up for a
+// negative one (-0 included: its next is the smallest negative); +0,
+// which only a positive x rounds to, never steps down. up32 mirrors it.
 func down32(x float64) float32 {
 	f := float32(x)
+	b := math.Float32bits(f)
+	var step uint32
 	if float64(f) > x {
-		switch b := math.Float32bits(f); {
-		case f == 0:
-			f = -math.SmallestNonzeroFloat32
-		case f > 0:
-			f = math.Float32frombits(b - 1)
-		default:
-			f = math.Float32frombits(b + 1)
-		}
+		step = 1
 	}
-	return f
+	neg := b >> 31
+	return math.Float32frombits(b + step*(2*neg-1)) // 2*neg-1 wraps to -1 for a positive f
 }
 
 func up32(x float64) float32 {
 	f := float32(x)
+	b := math.Float32bits(f)
+	var step uint32
 	if float64(f) < x {
-		switch b := math.Float32bits(f); {
-		case f == 0:
-			f = math.SmallestNonzeroFloat32
-		case f > 0:
-			f = math.Float32frombits(b + 1)
-		default:
-			f = math.Float32frombits(b - 1)
-		}
+		step = 1
 	}
-	return f
+	neg := b >> 31
+	return math.Float32frombits(b + step*(1-2*neg)) // 1-2*neg wraps to -1 for a negative f
 }
 
 // box32Of returns the float32 box around a double-precision box.
@@ -178,7 +174,7 @@ func newPackedTree(items treeItems) packedTree {
 	// for the codes, each written to its rank on the curve (reading the
 	// items in curve order instead would chase one cache miss after
 	// another through the mesh); then the unions.
-	rank := make([]int32, n)
+	rank := MakeLarge[int32](n)
 	for i, id := range t.ids {
 		rank[id] = int32(i)
 	}
@@ -193,8 +189,9 @@ func newPackedTree(items treeItems) packedTree {
 
 // sortItems finishes a tree made by newLevels whose item boxes have been
 // filled in item order (boxes[i] is item i's): it puts them in curve
-// order in place, as newPackedTree would order the same boxes, and makes
-// the levels above.
+// order, as newPackedTree would order the same boxes, and makes the
+// levels above. It holds a second array of boxes while it sorts (a
+// gather by blocks runs on every core; the permutation in place did not).
 func (t *packedTree) sortItems() {
 	n := t.level[1]
 	if n == 0 {
@@ -211,26 +208,16 @@ func (t *packedTree) sortItems() {
 		c.merge(&b)
 	})
 	t.ids = curveOrder(boxes, &c)
-	// Level 0 in place: box k becomes the box of item ids[k], cycle by
-	// cycle of the permutation, without a second array of boxes.
-	done := make([]uint64, (n+63)/64)
-	for k := range n {
-		if done[k/64]&(1<<(k%64)) != 0 {
-			continue
+	// Level 0 in curve order: box k becomes the box of item ids[k],
+	// gathered by blocks concurrently into a new array (the old one,
+	// in item order, is garbage then).
+	sorted := MakeLarge[box32](len(t.boxes))
+	parallelBlocks(n, func(from, to int) {
+		for k := from; k < to; k++ {
+			sorted[k] = boxes[t.ids[k]]
 		}
-		first := boxes[k]
-		j := k
-		for {
-			done[j/64] |= 1 << (j % 64)
-			src := int(t.ids[j])
-			if src == k {
-				boxes[j] = first
-				break
-			}
-			boxes[j] = boxes[src]
-			j = src
-		}
-	}
+	})
+	t.boxes = sorted
 	t.unions()
 }
 
@@ -246,7 +233,7 @@ func newLevels(n int) packedTree {
 			break
 		}
 	}
-	t.boxes = make([]box32, total)
+	t.boxes = MakeLarge[box32](total)
 	return t
 }
 
@@ -297,8 +284,8 @@ func curveOrder(boxes []box32, c *centreBounds) []int32 {
 	if d := max(c.hi[0]-c.lo[0], c.hi[1]-c.lo[1], c.hi[2]-c.lo[2]); d > 0 && !math.IsInf(d, 0) {
 		scale = float64(top) / d
 	}
-	codes := make([]uint64, n)
-	ids := make([]int32, n)
+	codes := MakeLarge[uint64](n)
+	ids := MakeLarge[int32](n)
 	parallelBlocks(n, func(from, to int) {
 		for i := from; i < to; i++ {
 			b := &boxes[i]
@@ -550,8 +537,8 @@ func radixSort(keys []uint64, ids []int32, keyBits int) {
 		}
 	}
 	origK, origI := keys, ids
-	tk := make([]uint64, n)
-	ti := make([]int32, n)
+	tk := MakeLarge[uint64](n)
+	ti := MakeLarge[int32](n)
 	for p := range counts {
 		count := &counts[p]
 		shift := p * digit

@@ -33,19 +33,19 @@ func Merge(meshes []*Mesh, renumber bool) (*Mesh, []Renumbering, error) {
 		nc += len(m.Conn)
 	}
 	out := &Mesh{
-		NodeIDs:   make([]int64, 0, nn),
-		Coords:    make([]r3.Vec, 0, nn),
-		ElemIDs:   make([]int64, 0, ne),
-		ElemPart:  make([]int32, 0, ne),
-		ElemStart: make([]int32, 1, ne+1),
-		Conn:      make([]int32, 0, nc),
+		NodeIDs:   MakeLargeCap[int64](0, nn),
+		Coords:    MakeLargeCap[r3.Vec](0, nn),
+		ElemIDs:   MakeLargeCap[int64](0, ne),
+		ElemPart:  MakeLargeCap[int32](0, ne),
+		ElemStart: MakeLargeCap[int32](1, ne+1),
+		Conn:      MakeLargeCap[int32](0, nc),
 	}
 	anyThick := false
 	for _, m := range meshes {
 		anyThick = anyThick || m.ElemThickness != nil
 	}
 	if anyThick {
-		out.ElemThickness = make([]float64, 0, ne)
+		out.ElemThickness = MakeLargeCap[float64](0, ne)
 	}
 	partIdx := map[int64]int32{}
 	var (

@@ -139,15 +139,15 @@ func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, er
 		return nil, geom.FileError(name, "%d nodes and %d elements are more than one mesh holds", nodes, elems)
 	}
 	r.m = &geom.Mesh{
-		NodeIDs:   make([]int64, nodes),
-		Coords:    make([]r3.Vec, nodes),
-		ElemIDs:   make([]int64, elems),
-		ElemPart:  make([]int32, elems),
-		ElemStart: make([]int32, elems+1),
+		NodeIDs:   geom.MakeLarge[int64](nodes),
+		Coords:    geom.MakeLarge[r3.Vec](nodes),
+		ElemIDs:   geom.MakeLarge[int64](elems),
+		ElemPart:  geom.MakeLarge[int32](elems),
+		ElemStart: geom.MakeLarge[int32](elems + 1),
 		Sources:   []geom.Source{{File: name}},
 	}
-	r.partIDs = make([]int64, elems)
-	r.connIDs = make([]int64, 4*elems)
+	r.partIDs = geom.MakeLarge[int64](elems)
+	r.connIDs = geom.MakeLarge[int64](4 * elems)
 	parallel(len(chunks), func(i int) { r.parseChunk(&chunks[i]) })
 	for i := range chunks {
 		if chunks[i].err != nil {
@@ -176,7 +176,7 @@ func parseScaled(data []byte, name string, n int, scale float64) (*geom.Mesh, er
 		chunks[i].connBase = nconn
 		nconn += chunks[i].nconn
 	}
-	m.Conn = make([]int32, nconn)
+	m.Conn = geom.MakeLarge[int32](nconn)
 	parallel(len(chunks), func(i int) { r.resolveConn(&chunks[i]) })
 	for i := range chunks {
 		if e := chunks[i].missing; e >= 0 {
@@ -513,7 +513,7 @@ func (r *reader) parseChunk(c *chunk) {
 // n more, and for second-order shells of all elems shells: the 4 per
 // shell the reader's connIDs holds do not suffice for them.
 func growConn(conn []int64, nc, n, elems int) []int64 {
-	w := make([]int64, max(nc+n, geom.MaxElemNodes*elems))
+	w := geom.MakeLarge[int64](max(nc+n, geom.MaxElemNodes*elems))
 	copy(w, conn[:nc])
 	return w
 }

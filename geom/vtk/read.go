@@ -462,7 +462,7 @@ func (p *parser) readInts(off int, n int, t dtype, what string) ([]int64, error)
 	if err := p.need(off, what, int64(n), t); err != nil {
 		return nil, err
 	}
-	dst := make([]int64, n)
+	dst := geom.MakeLarge[int64](n)
 	start := p.pos
 	if p.binary {
 		bad := p.decodeChunks(n, func(lo, hi int) int {
@@ -498,7 +498,7 @@ func (p *parser) readFloats(off int, n int, t dtype, what string) ([]float64, er
 	if err := p.need(off, what, int64(n), t); err != nil {
 		return nil, err
 	}
-	dst := make([]float64, n)
+	dst := geom.MakeLarge[float64](n)
 	if p.binary {
 		start := p.pos
 		p.decodeChunks(n, func(lo, hi int) int {
@@ -549,7 +549,7 @@ func (p *parser) points(off int) error {
 	if err := p.need(off, "POINTS", 3*int64(n), t); err != nil {
 		return err
 	}
-	pts := make([]r3.Vec, n)
+	pts := geom.MakeLarge[r3.Vec](n)
 	start := p.pos
 	p.spans[geom.ArrayPoints] = span{start, t, true}
 	if p.binary {
@@ -622,8 +622,8 @@ func (p *parser) readCells(off int) error {
 	if size-n > math.MaxInt32 {
 		return p.errAt(off, "CELLS: %d connectivity entries are more than a mesh can hold (%d)", size-n, math.MaxInt32)
 	}
-	p.cs.Offsets32 = make([]int32, n+1)
-	p.cs.Conn32 = make([]int32, size-n)
+	p.cs.Offsets32 = geom.MakeLarge[int32](n + 1)
+	p.cs.Conn32 = geom.MakeLarge[int32](size - n)
 	p.spans[geom.ArrayConn] = span{p.pos, dtypes[6], true}
 	p.classic = true
 	if p.binary {
@@ -854,7 +854,7 @@ func (p *parser) cellTypes(off int) error {
 	if err := p.need(off, "CELL_TYPES", int64(n), t); err != nil {
 		return err
 	}
-	types := make([]uint8, n)
+	types := geom.MakeLarge[uint8](n)
 	b, i := p.data, p.pos
 	p.spans[geom.ArrayTypes] = span{i, t, true}
 	for c := range types {
@@ -1092,7 +1092,7 @@ func (p *parser) finish() error {
 // connectivity size, and point indices stay below a point count, both
 // at most math.MaxInt32) into int32.
 func narrow(v []int64) []int32 {
-	out := make([]int32, len(v))
+	out := geom.MakeLarge[int32](len(v))
 	for i, x := range v {
 		out[i] = int32(x)
 	}

@@ -71,22 +71,22 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 	if np > math.MaxInt32 || nconn > math.MaxInt32 {
 		return nil, geom.FileError(p.file, "%d points and %d connectivity entries are more than a mesh can hold", np, nconn)
 	}
-	cs.Points = make([]r3.Vec, 0, np)
-	cs.Conn = make([]int64, 0, nconn)
-	cs.Offsets = make([]int64, 1, nc+1)
-	cs.Types = make([]uint8, 0, nc)
+	cs.Points = geom.MakeLargeCap[r3.Vec](0, np)
+	cs.Conn = geom.MakeLargeCap[int64](0, nconn)
+	cs.Offsets = geom.MakeLargeCap[int64](1, nc+1)
+	cs.Types = geom.MakeLargeCap[uint8](0, nc)
 	first := datas[0]
 	if first.nodeID != nil {
-		cs.NodeIDs = make([]int64, 0, np)
+		cs.NodeIDs = geom.MakeLargeCap[int64](0, np)
 	}
 	if first.elemID != nil {
-		cs.ElemIDs = make([]int64, 0, nc)
+		cs.ElemIDs = geom.MakeLargeCap[int64](0, nc)
 	}
 	if first.part != nil {
-		cs.Part = make([]int64, 0, nc)
+		cs.Part = geom.MakeLargeCap[int64](0, nc)
 	}
 	if first.thick != nil {
-		cs.Thickness = make([]float64, 0, nc)
+		cs.Thickness = geom.MakeLargeCap[float64](0, nc)
 	}
 	for _, d := range datas {
 		pbase, cbase := int64(len(cs.Points)), int64(len(cs.Conn))

@@ -108,6 +108,7 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 	reported := map[[2]int32]bool{}
 	var fs []joints.Finding
 	var buf []int32
+	off := maxOff(ws) // of all the welds: once, not once per pair
 	for _, key := range keys {
 		list := byPair[key]
 		smax := 0.0
@@ -117,7 +118,7 @@ func pitchShort(ws []weld, dups map[[2]int32]bool, chain []int32) []joints.Findi
 		if len(list) < 2 || !(smax > 0) {
 			continue
 		}
-		g := newGrid(smax+maxOff(ws), len(list))
+		g := newGrid(smax+off, len(list))
 		for _, i := range list {
 			g.add(i, ws[i].point)
 		}

@@ -1,0 +1,5 @@
+//go:build !linux
+
+package geom
+
+func adviseHuge(p, size uintptr) {}
