@@ -56,7 +56,9 @@ type Flange struct {
 	Closed bool
 	Area   float64 // mm²
 	// Length is the length of the centreline, mm; Width the overlap's
-	// width across it (Mean is Area / Length).
+	// width across it: Mean is Area / Length, Min and Max the shortest
+	// and longest cross-section square to the centreline at stations
+	// away from the ends, widened to take in Mean.
 	Length float64
 	Width  Span
 	// Centreline runs along the middle of the overlap on the faying

@@ -12,13 +12,15 @@ import (
 
 // sheet describes a part meshed as a structured patch: node (i, j) at
 // At(i, j) for 0 <= i <= NU, 0 <= j <= NV; quads, or each quad split
-// into two triangles when Tri is set.
+// into two triangles when Tri is set (along the diagonal from node
+// (i, j) to (i+1, j+1), or from (i+1, j) to (i, j+1) when Diag is set).
 type sheet struct {
 	Part    int64
 	T       float64 // thickness, mm
 	NU, NV  int
 	At      func(i, j int) r3.Vec
 	Tri     bool
+	Diag    bool
 	Surface geom.Surface
 	Flip    bool // reverse the node order: normals the other way
 	// Skip leaves quad (i, j) out (a hole).
@@ -78,10 +80,14 @@ func mesh(ss ...sheet) *geom.Mesh {
 					continue
 				}
 				n0, n1, n2, n3 := node(i, j), node(i+1, j), node(i+1, j+1), node(i, j+1)
-				if s.Tri {
+				switch {
+				case s.Tri && s.Diag:
+					add(n0, n1, n3)
+					add(n1, n2, n3)
+				case s.Tri:
 					add(n0, n1, n2)
 					add(n0, n2, n3)
-				} else {
+				default:
 					add(n0, n1, n2, n3)
 				}
 			}
