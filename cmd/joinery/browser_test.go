@@ -257,7 +257,7 @@ func TestPagesInBrowser(t *testing.T) {
 			dir := t.TempDir()
 			runPage(t, dir, r.cmd, r.args...)
 			path := filepath.Join(dir, "report.html")
-			attrs, _ := checkRendered(t, bin, path, readReport(t, dir))
+			attrs, _ := checkRendered(t, bin, path, reportOf(t, dir))
 			shot := filepath.Join(dir, "report.png")
 			runChromium(t, bin, "--window-size=1200,2600", "--force-device-scale-factor=0.75", "--screenshot="+shot, "file://"+path)
 			t.Logf("screenshot: %s; load took %s ms", shot, attrs["load-ms"])

@@ -1,9 +1,6 @@
 package main
 
 import (
-	"encoding/json"
-	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -17,22 +14,10 @@ func TestPartWithoutElementsIsNotFree(t *testing.T) {
 	dir := t.TempDir()
 	// Two 1 mm plates of 20 x 10 elements of 5 mm, in contact (mid-surfaces
 	// 1 mm apart), and part 9 declared with no element.
-	var b strings.Builder
-	b.WriteString("joinery-mesh 1\npart 1 thickness=1\npart 2 thickness=1\npart 9 thickness=1 name=declared\n")
-	for p := int64(1); p <= 2; p++ {
-		for j := range 11 {
-			for i := range 21 {
-				fmt.Fprintf(&b, "node %d %d %d %d\n", p*1000+int64(j*21+i)+1, 5*i, 5*j, p-1)
-			}
-		}
-		for j := range 10 {
-			for i := range 20 {
-				n := p*1000 + int64(j*21+i) + 1
-				fmt.Fprintf(&b, "shell %d %d %d %d %d %d\n", p*1000+int64(j*20+i)+1, p, n, n+1, n+22, n+21)
-			}
-		}
-	}
-	write(t, filepath.Join(dir, "plates.jmesh"), b.String())
+	writeLines(t, filepath.Join(dir, "plates.jmesh"), jmesh([]sheet{
+		{part: 1, t: 1, nx: 20, ny: 10, h: 5, base: 1000},
+		{part: 2, t: 1, z: 1, nx: 20, ny: 10, h: 5, base: 2000},
+	}, "part 9 thickness=1 name=declared"))
 	write(t, filepath.Join(dir, "parts.yaml"), `parts:
   - {id: 1, thickness: 1}
   - {id: 2, thickness: 1}
@@ -45,25 +30,10 @@ func TestPartWithoutElementsIsNotFree(t *testing.T) {
 	if code, _, errs := runCLI(t, append(append([]string{"build"}, in...), "-o", out, "--quiet", "--fail-on", "never")...); code != exitOK {
 		t.Fatalf("build: exit %d: %s", code, errs)
 	}
-	data, err := os.ReadFile(filepath.Join(out, "report.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var rep struct {
-		Summary struct {
-			ByCode   map[string]int `json:"by_code"`
-			Assembly struct {
-				Groups         int `json:"groups"`
-				RigidBodyModes int `json:"rigid_body_modes"`
-			} `json:"assembly"`
-		} `json:"summary"`
-	}
-	if err := json.Unmarshal(data, &rep); err != nil {
-		t.Fatal(err)
-	}
 	// One welded group: 6 rigid-body modes (a free rigid body's six, from
 	// memory of rigid-body kinematics).
-	if s := rep.Summary; s.ByCode["free-part"] != 0 || s.Assembly.Groups != 1 || s.Assembly.RigidBodyModes != 6 {
+	s := reportOf(t, out).Summary
+	if s.ByCode["free-part"] != 0 || s.Assembly == nil || s.Assembly.Groups != 1 || s.Assembly.RigidBodyModes != 6 {
 		t.Errorf("findings by code %v, assembly %+v: want no free-part, 1 group, 6 rigid-body modes", s.ByCode, s.Assembly)
 	}
 	code, text, errs := runCLI(t, append([]string{"inspect"}, in...)...)

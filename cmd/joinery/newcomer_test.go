@@ -28,7 +28,7 @@ import (
 type sheet struct {
 	part   int64
 	t, z   float64
-	x0     float64
+	x0, y0 float64
 	nx, ny int
 	h      float64
 	tri    bool
@@ -45,7 +45,7 @@ func jmesh(sheets []sheet, extra ...string) []string {
 	for _, s := range sheets {
 		for j := 0; j <= s.ny; j++ {
 			for i := 0; i <= s.nx; i++ {
-				lines = append(lines, fmt.Sprintf("node %d %g %g %g", s.base+int64(j*(s.nx+1)+i)+1, s.x0+float64(i)*s.h, float64(j)*s.h, s.z))
+				lines = append(lines, fmt.Sprintf("node %d %g %g %g", s.base+int64(j*(s.nx+1)+i)+1, s.x0+float64(i)*s.h, s.y0+float64(j)*s.h, s.z))
 			}
 		}
 	}
@@ -93,16 +93,6 @@ func readFile(t *testing.T, path string) []byte {
 		t.Fatal(err)
 	}
 	return b
-}
-
-// readReport decodes a build's report.json.
-func readReport(t *testing.T, dir string) *document.ReportDoc {
-	t.Helper()
-	var rep document.ReportDoc
-	if err := json.Unmarshal(readFile(t, filepath.Join(dir, "report.json")), &rep); err != nil {
-		t.Fatal(err)
-	}
-	return &rep
 }
 
 // exampleWelds returns the header and rows of the example's joint list.
@@ -198,7 +188,7 @@ func TestBuildTagColumnsListed(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	want := []document.TagColumns{{File: list, Columns: []string{"robot", "Station"}}}
-	if got := readReport(t, out).Inputs.TagColumns; !reflect.DeepEqual(got, want) {
+	if got := reportOf(t, out).Inputs.TagColumns; !reflect.DeepEqual(got, want) {
 		t.Errorf("report.json tag_columns %v, want %v", got, want)
 	}
 	var conn document.ConnectorsDoc
@@ -274,7 +264,7 @@ func TestBuildNamesRejectedSheets(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	got := map[string]string{}
-	for _, f := range readReport(t, out).Findings {
+	for _, f := range reportOf(t, out).Findings {
 		if f.Joint != nil {
 			got[*f.Joint+" "+f.Code] = f.Message
 		}
@@ -348,7 +338,7 @@ func TestBuildWarnsOfIDRange(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	var found []string
-	for _, f := range readReport(t, out).Findings {
+	for _, f := range reportOf(t, out).Findings {
 		if f.Code == "id-range" {
 			found = append(found, f.Severity+": "+f.Message)
 		}
@@ -416,7 +406,7 @@ func TestBuildShowsRenumbering(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	// b's ids move above a's (geom.Merge decides by how much).
-	rep := readReport(t, out)
+	rep := reportOf(t, out)
 	if len(rep.Inputs.Renumbered) != 1 || rep.Inputs.Renumbered[0].File != b {
 		t.Fatalf("report.json renumbered %+v", rep.Inputs.Renumbered)
 	}
