@@ -31,7 +31,7 @@ func (o *checkOptions) AddFlags(fs *pflag.FlagSet) {
 	o.in.AddFlags(fs)
 	fs.Lookup("joints").Usage = "joint list (.csv or .yaml) of planned welds to check against, not built; repeat for several"
 	fs.StringArrayVarP(&o.connectors, "connectors", "c", nil, "connectors to check: a connectors.json (or the output directory of a build), or a node-pair list (.csv: id,node_a,node_b[,dofs]); repeat for several")
-	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./"+pipeline.DefaultOut+")")
+	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out with "+pipeline.CheckSuffix+" appended, else ./"+pipeline.DefaultOut+pipeline.CheckSuffix+": beside a build's set, not in it)")
 	fs.Float64Var(&o.reach, "reach", 0, fmt.Sprintf("mm; for points of --joints: sheets farther are not theirs (0: %g x the largest thickness)", joints.DefaultReachFactor))
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; node pairs: allowed deviation of a gap from contact (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
 	fs.StringVar(&o.spotDOFs, "spot-dofs", joints.DefaultSpotDOFs.String(), "degrees of freedom of node-pair links whose list gives none (from tx,ty,tz,rx,ry,rz)")
@@ -119,6 +119,9 @@ func runCheck(c *cobra.Command, o *checkOptions, g *globalOptions, args []string
 	s, err := job.CheckSettings(o.connectors)
 	if err != nil {
 		return err
+	}
+	if !c.Flags().Changed("out") {
+		s.Out = pipeline.Beside(s.Out, pipeline.CheckSuffix)
 	}
 	out, err := pipeline.Check(c.Context(), job, s, g.env())
 	if err != nil {

@@ -30,7 +30,7 @@ type flangesOptions struct {
 func (o *flangesOptions) AddFlags(fs *pflag.FlagSet) {
 	o.flags = fs
 	o.in.AddModelFlags(fs)
-	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out, else ./"+pipeline.DefaultOut+")")
+	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out with "+pipeline.FlangesSuffix+" appended, else ./"+pipeline.DefaultOut+pipeline.FlangesSuffix+": beside a build's set, not in it)")
 	fs.StringArrayVar(&o.pairs, "pair", nil, "part pair A,B to find flanges of; repeat for several (default: every pair of parts in contact)")
 	fs.StringVar(&o.pitch, "pitch", "", "place spot welds every MM along each flange, or 'table' for the minimum spacing of the spacing table (default: place none)")
 	fs.Float64Var(&o.endMargin, "end-margin", 0, "mm from each end of a flange to its first weld (0: one nugget diameter)")
@@ -132,6 +132,9 @@ func runFlanges(c *cobra.Command, o *flangesOptions, g *globalOptions, args []st
 	s, err := job.FlangeSettings()
 	if err != nil {
 		return err
+	}
+	if !c.Flags().Changed("out") {
+		s.Out = pipeline.Beside(s.Out, pipeline.FlangesSuffix)
 	}
 	out, err := pipeline.Flanges(c.Context(), job, s, g.env())
 	if err != nil {

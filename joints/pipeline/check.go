@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -43,6 +44,18 @@ func (job *Job) CheckSettings(connectors []string) (CheckSettings, error) {
 	return CheckSettings{Options: b.Options, Connectors: connectors, FailOn: b.FailOn, Fail: b.Fail, Out: b.Out}, nil
 }
 
+// within reports whether path is dir or lies inside it (as written,
+// made absolute; links are not followed).
+func within(path, dir string) bool {
+	p, err1 := filepath.Abs(path)
+	d, err2 := filepath.Abs(dir)
+	if err1 != nil || err2 != nil {
+		return false
+	}
+	rel, err := filepath.Rel(d, p)
+	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+}
+
 // CheckFiles are the names of the files a check writes, in order.
 func CheckFiles() []string { return []string{"report.json", "report.txt", PageFile} }
 
@@ -52,6 +65,11 @@ func CheckFiles() []string { return []string{"report.json", "report.txt", PageFi
 func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, error) {
 	if len(s.Connectors) == 0 {
 		return nil, UsageError(errors.New("no connectors given: name a connectors.json or a node-pair list (.csv) with --connectors"))
+	}
+	for _, c := range s.Connectors {
+		if within(c, s.Out) {
+			return nil, UsageError(fmt.Errorf("connectors %s lie in the output directory %s, which the check's report set would replace: write the check elsewhere (--out; by default it goes beside the build's set, to the job's out with %s appended)", c, s.Out, CheckSuffix))
+		}
 	}
 	out, err := OpenOutput(s.Out)
 	if err != nil {

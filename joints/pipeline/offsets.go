@@ -19,9 +19,22 @@ import (
 // that its report does not replace the build's.
 const OffsetsSuffix = "-offsets"
 
+// CheckSuffix and FlangesSuffix name, as OffsetsSuffix does, the
+// directories joinery check and joinery flanges write to when none is
+// named: beside a build's set, so that a check of a build's connectors
+// does not replace the set it reads, nor flanges the build's outputs.
+const (
+	CheckSuffix   = "-check"
+	FlangesSuffix = "-flanges"
+)
+
+// Beside returns the default output directory of a command that writes
+// beside the build output directory out: out with suffix appended.
+func Beside(out, suffix string) string { return filepath.Clean(out) + suffix }
+
 // OffsetsOut returns the default output directory of joinery offsets
 // for the build output directory out: out with OffsetsSuffix appended.
-func OffsetsOut(out string) string { return filepath.Clean(out) + OffsetsSuffix }
+func OffsetsOut(out string) string { return Beside(out, OffsetsSuffix) }
 
 // OffsetsFiles are the names of the files joinery offsets writes, in
 // order.
