@@ -453,3 +453,32 @@ func TestPlannedPointOffTheSheets(t *testing.T) {
 		t.Errorf("%v, want %v", got, want)
 	}
 }
+
+// A node a weld ties with a negative weight is tied all the same: patch
+// weights may be negative near an edge (the least-norm weights that
+// reproduce the point, joints.EvenWeights), and such a node moves with
+// the weld. Two welds 15 mm apart on a 5 mm mesh leave two free
+// elements between them (no seam); give the first a node of the
+// second's host element, at weight -0.01, and they touch.
+func TestNegativeWeightTies(t *testing.T) {
+	for _, w := range []float64{0, -0.01} {
+		m := plates(flangeMesh()...)
+		pts := []r3.Vec{{X: 52.5, Y: 27.5, Z: 0.4}, {X: 67.5, Y: 27.5, Z: 0.4}}
+		conns := build(t, m, weldsAt(pts...), joints.BuildOptions{})
+		c := &conns[0]
+		k := slices.IndexFunc(c.Stack.Sheets, func(s joints.Sheet) bool { return s.Part == 1 })
+		n, _ := m.NodeIndex(nodeAt(m, 1, 65, 30))
+		e := &c.Ends[k]
+		e.Nodes = append(e.Nodes, n)
+		e.Weights = append(e.Weights, w)
+		e.Weights[0] -= w
+		rep := audit(t, m, conns, nil, joints.BuildOptions{})
+		want := 0
+		if w != 0 {
+			want = 1
+		}
+		if got := len(ofCode(rep.Findings, joints.CodeSeam)); got != want {
+			t.Errorf("extra node at weight %g: %d seams, want %d (%v)", w, got, want, summary(rep.Findings))
+		}
+	}
+}

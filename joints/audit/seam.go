@@ -27,14 +27,16 @@ type touch struct {
 	part int32 // part index
 }
 
-// tiedWeight is the weight above which a node of an attachment counts
-// as tied (our choice: a weld on a node or an edge of its host element
-// gives the element's other nodes weights of 0, or of rounding noise
-// near 1e-16; they tie nothing, so they cannot close the flange).
+// tiedWeight is the weight, in magnitude, above which a node of an
+// attachment counts as tied (our choice: a weld on a node or an edge of
+// its host element gives the element's other nodes weights of 0, or of
+// rounding noise near 1e-16 of either sign; they tie nothing, so they
+// cannot close the flange). A patch node of negative weight (near an
+// edge, joints.EvenWeights) is tied as much as one of positive weight.
 const tiedWeight = 1e-9
 
 // findSeams finds the chains of welds whose attachments on a sheet
-// touch: they share a tied node (weight above tiedWeight), or one element
+// touch: they share a tied node (weight above tiedWeight in magnitude), or one element
 // of that sheet's part holds a tied node of each (the smallest case: node-pair welds on mesh-adjacent
 // nodes; interpolated welds in neighbouring elements). Within a chain the
 // flange cannot open between its welds: the model welds it shut. Pairs
@@ -73,7 +75,7 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 				continue
 			}
 			for k, n := range e.Nodes {
-				if k < len(e.Weights) && !(e.Weights[k] > tiedWeight) {
+				if k < len(e.Weights) && !(math.Abs(e.Weights[k]) > tiedWeight) {
 					continue // listed with the host element but not tied
 				}
 				att = append(att, attachment{weld: int32(i), part: pi, next: head[n] - 1})

@@ -223,3 +223,19 @@ func TestSliverBesideSoundElement(t *testing.T) {
 		t.Errorf("degenerate-host: %v", got)
 	}
 }
+
+// A weld whose every sheet within reach lies on a degenerate element (a
+// quad 10 mm long and 1e-6 mm wide: area under 1e-6 times its longest
+// edge squared, geom.DegenerateAreaRatio, yet with a normal) 0.5 mm
+// beside it is stopped by degenerate-host, as when a sound sheet is
+// there too: the lateral limit is then that of all the sheets as one
+// stack (1 mm sheets: 0.25*5*sqrt(1) = 1.25 mm, common practice), not 0.
+func TestOnlyDegenerateHosts(t *testing.T) {
+	m := plates(plate{Part: 1, T: 1, X0: 100, NX: 1, NY: 1, H: 5}, plate{Part: 2, T: 1, Z: 1, X0: 200, NX: 1, NY: 1, H: 5})
+	m = withElem(t, m, 0, 100009, r3.Vec{X: 20, Y: 25}, r3.Vec{X: 30, Y: 25}, r3.Vec{X: 30, Y: 25 + 1e-6}, r3.Vec{X: 20, Y: 25 + 1e-6})
+	m = withElem(t, m, 1, 200009, r3.Vec{X: 20, Y: 25, Z: 1}, r3.Vec{X: 30, Y: 25, Z: 1}, r3.Vec{X: 30, Y: 25 + 1e-6, Z: 1}, r3.Vec{X: 20, Y: 25 + 1e-6, Z: 1})
+	c := buildOne1(t, m, joints.Joint{ID: "W1", Point: r3.Vec{X: 25, Y: 25.5, Z: 0.5}}, joints.BuildOptions{})
+	if got := len(messages(c, joints.CodeDegenerate)); got != 2 || c.Status != joints.NotBuilt {
+		t.Errorf("state %v, %d degenerate-host findings, want not-built and 2: %v", c.Status, got, c.Findings)
+	}
+}

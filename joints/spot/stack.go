@@ -258,11 +258,17 @@ func holdToNugget(st *joints.Stack, limit, diameter float64, o *joints.BuildOpti
 
 // groupLimit returns the lateral limit the candidates of a weld with no
 // stack are judged against: that of all sound ones as one stack, or of
-// the one alone.
+// the one alone; with none sound, that of all of them (a degenerate host
+// is still under the weld within it: degenerate-host).
 func groupLimit(m *geom.Mesh, cands []joints.Sheet, diameter float64, o *joints.BuildOptions) float64 {
 	var ts []float64
 	for i := range cands {
 		if !degenerateHost(m, &cands[i]) {
+			ts = append(ts, cands[i].Thickness)
+		}
+	}
+	if len(ts) == 0 {
+		for i := range cands {
 			ts = append(ts, cands[i].Thickness)
 		}
 	}
