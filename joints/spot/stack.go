@@ -40,10 +40,20 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 			dropped []joints.Sheet
 		)
 		st, latTol = autoStack(m, cands, j.Point, o, j.Diameter)
-		st, dropped = splitStack(&st)
 		// The sheets kept in contact may have another governing
-		// thickness than the whole stack: hold them to its nugget again.
-		latTol = holdToNugget(&st, latTol, j.Diameter, o)
+		// thickness than the whole stack: hold them to its nugget again,
+		// and split again what that leaves (a middle sheet dropped opens
+		// a gap), until neither changes the stack.
+		for {
+			n := len(st.Sheets)
+			var apart []joints.Sheet
+			st, apart = splitStack(&st)
+			dropped = append(dropped, apart...)
+			latTol = holdToNugget(&st, latTol, j.Diameter, o)
+			if len(st.Sheets) == n || len(st.Sheets) < 2 {
+				break
+			}
+		}
 		if len(st.Sheets) == 0 {
 			latTol = groupLimit(m, cands, j.Diameter, o)
 		}
@@ -242,8 +252,10 @@ func stackLimit(ts []float64, diameter float64, o *joints.BuildOptions) float64 
 // from its axis than its own nugget allows (stackLimit), and again for
 // the sheets left, whose governing thickness may be another, until every
 // sheet kept lies within the limit of the stack it is in: the limit a
-// stack of listed parts is held to (checkSheets). It returns that limit,
-// or limit for a stack of fewer than two sheets.
+// stack of listed parts is held to (checkSheets). It returns that limit;
+// for a stack it cut to fewer than two sheets, the limit of the last
+// stack of two or more, which the sheets it dropped lie beyond; for a
+// stack of fewer than two sheets to begin with, limit.
 func holdToNugget(st *joints.Stack, limit, diameter float64, o *joints.BuildOptions) float64 {
 	for len(st.Sheets) >= 2 {
 		limit = stackLimit(st.Thicknesses(), diameter, o)
@@ -325,15 +337,24 @@ func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOpti
 		bestTol float64
 	)
 	bad := make([]bool, len(cands))
+	maxT := 0.0
 	for i := range cands {
 		bad[i] = degenerateHost(m, &cands[i])
+		if !bad[i] {
+			maxT = math.Max(maxT, cands[i].Thickness)
+		}
 	}
 	for i, c := range cands {
 		if bad[i] {
 			continue
 		}
 		axis := c.Proj.Normal
-		latTol := lateralLimit(diameter, c.Thickness, o)
+		// First the limit no stack of these sheets can exceed (the nugget
+		// of the thickest as governing thickness), then that of the stack
+		// they form: holdToNugget only drops sheets, and a stack's
+		// governing thickness never grows as sheets go, so every sheet
+		// within the final limit is kept.
+		latTol := lateralLimit(diameter, maxT, o)
 		var st joints.Stack
 		st.Axis = axis
 		for k, s := range cands {
