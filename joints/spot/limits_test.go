@@ -154,10 +154,17 @@ func TestAutomaticStackHeldToGoverningNugget(t *testing.T) {
 				if len(tc.parts) == 2 {
 					want = "limit 1.25 mm"
 				}
+				seen := 0
 				for _, f := range c.Findings {
-					if f.Code == joints.CodeNoSheet && strings.Count(f.Message, "limit ") != strings.Count(f.Message, want) {
-						t.Errorf("%s: %s: want every %q", tc.name, f.Message, want)
+					if f.Code == joints.CodeNoSheet {
+						seen++
+						if strings.Count(f.Message, "limit ") != strings.Count(f.Message, want) {
+							t.Errorf("%s: %s: want every %q", tc.name, f.Message, want)
+						}
 					}
+				}
+				if seen != 1 {
+					t.Errorf("%s: findings %v, want one no-sheet", tc.name, codes(c))
 				}
 			}
 		}
