@@ -91,6 +91,17 @@ func SameFiles(paths []string) (i, j int, ok bool) {
 	return 0, 0, false
 }
 
+// StatRegular returns the error OpenRegular would give for path before
+// opening it (no such file, no permission, not a regular file), or nil:
+// for a caller that must refuse a path before it knows how to read it.
+func StatRegular(path string) error {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return openError(path, err)
+	}
+	return checkRegular(path, fi)
+}
+
 // checkRegular refuses anything but a regular file.
 func checkRegular(path string, fi fs.FileInfo) error {
 	m := fi.Mode()

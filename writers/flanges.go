@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -158,7 +159,7 @@ func WriteFlangesSummary(w io.Writer, doc *document.FlangesDoc, rep *document.Re
 	if len(s.ByCode) > 0 {
 		ew.printf("by code     %s\n", countList(s.ByCode))
 	}
-	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("written     %s/{%s}\n", filepath.ToSlash(filepath.Clean(outDir)), strings.Join(files, ","))
 	ew.printf("run id      %s\n", doc.RunID)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err

@@ -3,6 +3,7 @@ package writers
 import (
 	"fmt"
 	"io"
+	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -283,7 +284,7 @@ func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, file
 	ew := &errWriter{w: w}
 	summaryLines(ew, doc)
 	inputLines(ew, doc.Inputs)
-	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("written     %s/{%s}\n", filepath.ToSlash(filepath.Clean(outDir)), strings.Join(files, ","))
 	ew.printf("run id      %s\n", doc.RunID)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err

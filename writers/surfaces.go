@@ -3,6 +3,7 @@ package writers
 import (
 	"fmt"
 	"io"
+	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -99,7 +100,7 @@ func WriteSurfacesText(w io.Writer, rep *document.ReportDoc, doc *document.Surfa
 func WriteSurfacesSummary(w io.Writer, rep *document.ReportDoc, doc *document.SurfacesDoc, outDir string, files []string) error {
 	ew := &errWriter{w: w}
 	surfacesSummary(ew, rep, doc)
-	ew.printf("written     %s/{%s}\n", outDir, strings.Join(files, ","))
+	ew.printf("written     %s/{%s}\n", filepath.ToSlash(filepath.Clean(outDir)), strings.Join(files, ","))
 	ew.printf("run id      %s\n", doc.RunID)
 	ew.printf("CAUTION: %s\n", doc.Caution)
 	return ew.err

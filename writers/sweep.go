@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
+	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -300,7 +301,7 @@ func WriteSweepSummary(w io.Writer, m *document.ManifestDoc, outDir string, file
 	if m.Moving > 0 {
 		ew.printf("moving      %d variant(s) leave a mechanism or an unrestrained freedom\n", m.Moving)
 	}
-	ew.printf("written     %s/{%s} and a folder per variant\n", outDir, strings.Join(files, ","))
+	ew.printf("written     %s/{%s} and a folder per variant\n", filepath.ToSlash(filepath.Clean(outDir)), strings.Join(files, ","))
 	ew.printf("run id      %s\n", m.RunID)
 	ew.printf("CAUTION: %s\n", m.Caution)
 	return ew.err

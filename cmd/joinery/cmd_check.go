@@ -92,6 +92,9 @@ mesh and parts table, and reports what a person would have to look for by hand:
 spacing) without building them. It writes, in the output directory:
   report.json   summary and findings (schema joinery/report, version 2)
   report.txt    the same for a person
+  report.html   the same as one page to open in a browser
+By default the output directory is the job's out with -check appended,
+beside the build's set: a check never replaces the connectors it reads.
 Inputs come from a job file, from flags, or both (flags win); build runs the
 same checks on what it builds.
 

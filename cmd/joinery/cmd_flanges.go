@@ -103,6 +103,9 @@ writes, in the output directory:
   flanges.vtk   centrelines, facing pairs and welds, for viewing beside the mesh
   report.json   summary and findings (schema joinery/report, version 2)
   report.txt    the same for a person
+  report.html   the same as one page to open in a browser
+By default the output directory is the job's out with -flanges appended,
+beside a build's set.
 Inputs and settings come from a job file (its build and flanges sections),
 from flags, or both (flags win).
 
@@ -111,7 +114,7 @@ from flags, or both (flags win).
 ` + exitStatusHelp,
 		Example: `  joinery flanges examples/van-rear-crossmember/job.yaml --out flanges/
   joinery flanges --mesh body.vtk --parts parts.yaml --pair 100,200 --pitch 30 --out flanges/
-  joinery flanges job.yaml --pitch table --attach node-pair && joinery build --mesh body.vtk --parts parts.yaml --joints flanges/joints.csv`,
+  joinery flanges job.yaml --pitch table --attach node-pair --out flanges/ && joinery build job.yaml --joints flanges/joints.csv --attach node-pair`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(c *cobra.Command, args []string) error {
 			return runFlanges(c, o, g, args)

@@ -29,11 +29,13 @@ func newInspectCommand(g *globalOptions) *cobra.Command {
 		Long: `inspect reads everything a connector build would read and prints a summary:
 parts with element counts, thickness, area and bounding box; node and element
 counts; cells skipped for their type; joints per kind and joints outside every
-part's bounding box. --deep adds free-edge loops per part and warped or
-degenerate elements with their worst values.
+part's bounding box. --deep adds free-edge loops per part, warped or
+degenerate elements with their worst values, and elements whose normals
+disagree with their neighbours' (normals-flipped, with the elements to
+flip). It writes no files; --quiet leaves out only the progress bars.
 Inputs come from a job file, from flags, or both (flags win).
 
-` + exitStatusHelp,
+` + inspectExitHelp,
 		Example: `  joinery inspect examples/van-rear-crossmember/job.yaml
   joinery inspect --mesh floor.vtk --mesh beam.vtu --parts parts.yaml --joints welds.csv --deep
   joinery inspect job.yaml --json > summary.json`,

@@ -71,6 +71,7 @@ elements to flip (normals-flipped). It writes, in the output directory:
                   the elements to flip; every contact (schema joinery/surfaces, version 1)
   report.json     the findings (schema joinery/report, version 2)
   report.txt      the same for a person
+  report.html     the same as one page to open in a browser
 Findings: normals-flipped, surface-differs (found differs from the table),
 surface-unsure (confidence below ` + fmt.Sprint(offset.UnsureConfidence) + `, or no evidence), contact-disagrees
 (a place where the parts stand off or penetrate whatever their surfaces).

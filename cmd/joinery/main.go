@@ -13,6 +13,7 @@ import (
 	"os"
 	"os/signal"
 	"runtime/debug"
+	"strings"
 
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
@@ -40,6 +41,15 @@ const exitStatusHelp = `EXIT STATUS
        a full disk, a lock held by another run, an output directory holding files
        Joinery did not write beside its set, an internal error; the message says
        what is left in the output directory (the old set, untouched, or nothing)
+  130  interrupted (Ctrl-C)`
+
+// inspectExitHelp ends inspect's long help: it writes no outputs and
+// has no failure level.
+const inspectExitHelp = `EXIT STATUS
+  0    read and summarised (what --deep finds, normals-flipped among it, is
+       reported, not failed on)
+  2    bad usage or bad input (the message names the file and line)
+  3    a failure that is not the input's fault (an internal error)
   130  interrupted (Ctrl-C)`
 
 // version is set at build time with -ldflags "-X main.version=...".
@@ -71,9 +81,24 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer, stderrIsT
 	g := &globalOptions{stdout: stdout, stderr: stderr, terminal: stderrIsTerminal}
 	root := newRootCommand(g)
 	root.SetArgs(args)
-	root.PersistentPreRunE = func(*cobra.Command, []string) error { return g.startProfile() }
+	// An error before any command starts (an unknown command, too many
+	// arguments) is the command line's: bad usage.
+	started := false
+	root.PersistentPreRunE = func(*cobra.Command, []string) error {
+		started = true
+		return g.startProfile()
+	}
 	err := root.ExecuteContext(ctx)
 	g.stopProfile()
+	if err != nil && !started && !errors.Is(err, pipeline.ErrUsage) {
+		msg := strings.TrimRight(err.Error(), "\n")
+		if strings.Contains(msg, "\n") {
+			msg += "\n" // a suggestion on lines of its own
+		} else {
+			msg += " "
+		}
+		err = pipeline.UsageError(errors.New(msg + "(see 'joinery --help')"))
+	}
 	if err == nil {
 		return exitOK
 	}

@@ -67,7 +67,7 @@ and a connectivity report in joinery's own documented formats.
 	root.SetOut(g.stdout)
 	root.SetErr(g.stderr)
 	pf := root.PersistentFlags()
-	pf.BoolVarP(&g.quiet, "quiet", "q", false, "print nothing on stderr but errors")
+	pf.BoolVarP(&g.quiet, "quiet", "q", false, "print no summary and no progress, only errors and why the exit status is not 0 (inspect still prints its summary: it is its result)")
 	pf.BoolVar(&g.json, "json", false, "print results on stdout as JSON")
 	pf.StringVar(&g.cpuProf, "cpu-profile", "", "write a CPU profile of the run to this file (for developers)")
 	pf.MarkHidden("cpu-profile")

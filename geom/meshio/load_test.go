@@ -215,6 +215,11 @@ func TestLoadErrors(t *testing.T) {
 func TestReadMeshExtension(t *testing.T) {
 	_, err := ReadMesh("model.stl", geom.ReadOptions{})
 	checkErr(t, err, `model.stl: unknown mesh file type ".stl" (want .vtk, .vtu or .jmesh)`)
+	// A directory named without an extension is refused as a directory,
+	// not as a file of an unknown type.
+	dir := t.TempDir()
+	_, err = ReadMesh(dir, geom.ReadOptions{})
+	checkErr(t, err, dir+": a directory, not a regular file")
 }
 
 // TestLoadFixture loads the shared "small" fixture in every format present

@@ -1,6 +1,8 @@
 package meshio
 
 import (
+	"errors"
+	"io/fs"
 	"path/filepath"
 	"strings"
 
@@ -22,6 +24,9 @@ func ReadMesh(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 	case ".jmesh":
 		return native.ReadFile(path, opt)
 	default:
+		if err := geom.StatRegular(path); err != nil && !errors.Is(err, fs.ErrNotExist) {
+			return nil, err // a directory says so first
+		}
 		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu or .jmesh)", geom.Excerpt(ext))
 	}
 }
