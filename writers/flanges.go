@@ -146,8 +146,12 @@ func WriteFlangesSummary(w io.Writer, doc *document.FlangesDoc, rep *document.Re
 		facing += len(f.Facing)
 		welds += len(f.Welds)
 	}
-	ew.printf("flanges     %d of %d part pairs (%d open, %d closed; %d congruent, %d projected)\n",
-		len(doc.Flanges), len(pairs), open, closed, congruent, len(doc.Flanges)-congruent)
+	asked := ""
+	if n := len(doc.Options.Pairs); n > 0 {
+		asked = fmt.Sprintf(" of the %d asked for", n)
+	}
+	ew.printf("flanges     %d on %d part pairs%s (%d open, %d closed; %d congruent, %d projected)\n",
+		len(doc.Flanges), len(pairs), asked, open, closed, congruent, len(doc.Flanges)-congruent)
 	ew.printf("facing      %d node pairs\n", facing)
 	if doc.Options.Pitch != nil || doc.Options.PitchFromTable {
 		s := rep.Summary
