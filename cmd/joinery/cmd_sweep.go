@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -92,6 +93,9 @@ func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string
 			return err
 		}
 		vary = append(vary, v)
+		if note := singleDOFNote(v); note != "" && !g.quiet && !g.json {
+			fmt.Fprintln(g.stderr, "joinery: note:", note)
+		}
 	}
 	job, err := loadJob(args)
 	if err != nil {
@@ -124,4 +128,20 @@ type sweepJSON struct {
 	Moving   int                   `json:"moving_variants"`
 	Variants []document.VariantDoc `json:"variants"`
 	Caution  string                `json:"caution"`
+}
+
+// singleDOFNote returns a note when every value of a degrees-of-freedom
+// key is one degree of freedom (spot-dofs=tx,ty,tz): most likely the set
+// tx+ty+tz was meant, which build's --spot-dofs writes tx,ty,tz.
+func singleDOFNote(v pipeline.Vary) string {
+	if !strings.HasSuffix(v.Key, "-dofs") || len(v.Values) < 2 {
+		return ""
+	}
+	for _, val := range v.Values {
+		if !slices.Contains([]string{"tx", "ty", "tz", "rx", "ry", "rz"}, val) {
+			return ""
+		}
+	}
+	return fmt.Sprintf("--vary %s=%s makes %d variants, each coupling one degree of freedom; a set of them is written with + (%s=%s)",
+		v.Key, strings.Join(v.Values, ","), len(v.Values), v.Key, strings.Join(v.Values, "+"))
 }

@@ -5,6 +5,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/joinery-cae/joinery/joints/pipeline"
 )
 
 // Mistakes on the command line are bad usage, exit 2, whatever stage
@@ -63,5 +65,18 @@ func TestCheckLeavesTheBuildsSet(t *testing.T) {
 		if _, err := os.Stat(filepath.Join(ex, f)); err != nil {
 			t.Errorf("%s: %v", f, err)
 		}
+	}
+}
+
+// A sweep over single degrees of freedom (spot-dofs=tx,ty,tz) is most
+// likely the set tx+ty+tz mistyped: it runs, with a note saying so.
+func TestSweepSingleDOFNote(t *testing.T) {
+	skipWithoutExample(t)
+	code, _, errs := runCLI(t, "sweep", exampleJob, "--vary", "spot-dofs=tx,ty,tz", "-o", filepath.Join(t.TempDir(), "sw"))
+	if code == exitBadInput || !strings.Contains(errs, "note: --vary spot-dofs=tx,ty,tz makes 3 variants, each coupling one degree of freedom") {
+		t.Errorf("exit %d, %s", code, errs)
+	}
+	if note := singleDOFNote(pipeline.Vary{Key: "spot-dofs", Values: []string{"tx+ty+tz", "tx+ty+tz+rx+ry+rz"}}); note != "" {
+		t.Errorf("a note for sets: %s", note)
 	}
 }
