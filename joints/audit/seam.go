@@ -174,9 +174,12 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 	ci := int32(0)
 	for _, r := range roots {
 		list := members[r] // in weld (id) order
+		// The two farthest welds, and their distance measured on the
+		// sheet, as pitch and duplicates are: welds given at different
+		// heights through the stack are no farther apart for it.
+		a, b := farthest(ws, list)
+		reach, _ := sheetDist(&ws[a], &ws[b], ws[a].parts)
 		if !plain[r] {
-			a, b := farthest(ws, list)
-			reach, _ := sheetDist(&ws[a], &ws[b], ws[a].parts)
 			widest := 0.0
 			for _, i := range list {
 				widest = math.Max(widest, ws[i].diameter)
@@ -189,14 +192,15 @@ func findSeams(m *geom.Mesh, ws []weld, dups map[[2]int32]bool) ([]int32, []join
 			chain[i] = ci
 		}
 		ci++
-		fs = append(fs, seamFinding(ws, list, touched[r]))
+		fs = append(fs, seamFinding(ws, list, touched[r], a, b, reach))
 	}
 	sortFindings(fs)
 	return chain, fs
 }
 
-// seamFinding describes one chain.
-func seamFinding(ws []weld, list []int32, touched []int64) joints.Finding {
+// seamFinding describes one chain, whose farthest welds are a and b,
+// length apart.
+func seamFinding(ws []weld, list []int32, touched []int64, a, b int32, length float64) joints.Finding {
 	slices.Sort(touched)
 	parts := slices.Clone(touched)
 	var rest []int64
@@ -213,10 +217,6 @@ func seamFinding(ws []weld, list []int32, touched []int64) joints.Finding {
 	for k, i := range list {
 		ids[k] = ws[i].id
 	}
-	a, b := farthest(ws, list)
-	// Measured on the sheet, as pitch and duplicates are: welds given at
-	// different heights through the stack are no farther apart for it.
-	length, _ := sheetDist(&ws[a], &ws[b], ws[a].parts)
 	mid := r3.Scale(0.5, r3.Add(ws[a].point, ws[b].point))
 	loc, best := list[0], math.Inf(1)
 	for _, i := range list {
