@@ -2,8 +2,10 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"runtime/pprof"
+	"time"
 )
 
 // startProfile starts a CPU profile when --cpu-profile names a file.
@@ -30,4 +32,28 @@ func (g *globalOptions) stopProfile() {
 		g.profFile.Close()
 		g.profFile = nil
 	}
+}
+
+// stepClock is a geom.Progress that prints, when each step ends, its
+// label, when it started (seconds since the clock was made) and its wall
+// time: the --step-times view of where a run's time goes.
+type stepClock struct {
+	w      io.Writer
+	origin time.Time
+	label  string
+	start  time.Time
+}
+
+func newStepClock(w io.Writer) *stepClock { return &stepClock{w: w, origin: time.Now()} }
+
+// Start begins a step.
+func (c *stepClock) Start(label string, _ int64) { c.label, c.start = label, time.Now() }
+
+// Add does nothing.
+func (c *stepClock) Add(int64) {}
+
+// Done prints the step's times.
+func (c *stepClock) Done() {
+	now := time.Now()
+	fmt.Fprintf(c.w, "step %-28s at %7.3f s  took %7.3f s\n", c.label, c.start.Sub(c.origin).Seconds(), now.Sub(c.start).Seconds())
 }

@@ -18,6 +18,7 @@ type globalOptions struct {
 	quiet    bool
 	json     bool
 	cpuProf  string // file for a CPU profile of the run; hidden flag
+	steps    bool   // print each step's wall time on stderr; hidden flag
 	profFile *os.File
 	stdout   io.Writer
 	stderr   io.Writer
@@ -27,6 +28,9 @@ type globalOptions struct {
 // progress returns a terminal bar when stderr is a terminal and output is
 // neither quiet nor JSON, else a no-op.
 func (g *globalOptions) progress() geom.Progress {
+	if g.steps {
+		return newStepClock(g.stderr)
+	}
 	if g.terminal && !g.quiet && !g.json {
 		return &bar{w: g.stderr}
 	}
@@ -71,6 +75,8 @@ and a connectivity report in joinery's own documented formats.
 	pf.BoolVar(&g.json, "json", false, "print results on stdout as JSON")
 	pf.StringVar(&g.cpuProf, "cpu-profile", "", "write a CPU profile of the run to this file (for developers)")
 	pf.MarkHidden("cpu-profile")
+	pf.BoolVar(&g.steps, "step-times", false, "print each step's start and wall time on stderr (for developers)")
+	pf.MarkHidden("step-times")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return pipeline.UsageError(fmt.Errorf("%w (see '%s --help')", err, c.CommandPath()))
 	})

@@ -115,11 +115,7 @@ func Build(ctx context.Context, job *Job, s BuildSettings, env Env) (*Outcome, e
 		// outline.
 		files = append(files, page.file(func(o *html.Outline) *html.Page { return html.ForBuild(rep, conn, o) }))
 	}
-	rendered, err := writers.Render(files)
-	if err != nil {
-		return nil, err
-	}
-	if err := out.Write(writers.Set{Job: "build", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
+	if err := writeSet(env.progress(), out, writers.Set{Job: "build", Generator: env.Generator, RunID: info.RunID}, files); err != nil {
 		return nil, err
 	}
 	names := BuildFiles()
@@ -142,6 +138,21 @@ func OpenOutput(dir string) (*writers.OutputDir, error) {
 		return nil, UsageError(err)
 	}
 	return out, err
+}
+
+// writeSet renders files and writes them with set's header as one set
+// into out, each step reported to prog.
+func writeSet(prog geom.Progress, out *writers.OutputDir, set writers.Set, files []writers.File) error {
+	prog.Start("rendering outputs", 0)
+	rendered, err := writers.Render(files)
+	prog.Done()
+	if err != nil {
+		return err
+	}
+	set.Files = rendered
+	prog.Start("writing outputs", 0)
+	defer prog.Done()
+	return out.Write(set)
 }
 
 // buildFiles lists the files of a build's output set but the page, in

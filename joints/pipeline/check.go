@@ -130,7 +130,7 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	}
 	doc := document.NewReport(res, info)
 	doc.Command = "check"
-	rendered, err := writers.Render([]writers.File{
+	err = writeSet(env.progress(), out, writers.Set{Job: "check", Generator: env.Generator, RunID: info.RunID}, []writers.File{
 		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, doc) }},
 		{Name: "report.txt", Render: func(w io.Writer) error { return writers.WriteReportText(w, doc) }},
 		page.file(func(o *html.Outline) *html.Page {
@@ -138,9 +138,6 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 		}),
 	})
 	if err != nil {
-		return nil, err
-	}
-	if err := out.Write(writers.Set{Job: "check", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
 		return nil, err
 	}
 	return &Outcome{Out: s.Out, Files: CheckFiles(), RunID: info.RunID, Report: doc, Result: res, Reached: s.Fail && res.Reached(s.FailOn)}, nil

@@ -177,11 +177,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 			return html.ForFlanges(rep, fl, document.NewConnectors(m, res, info), o, node)
 		}),
 	}
-	rendered, err := writers.Render(files)
-	if err != nil {
-		return nil, err
-	}
-	if err := dir.Write(writers.Set{Job: "flanges", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
+	if err := writeSet(prog, dir, writers.Set{Job: "flanges", Generator: env.Generator, RunID: info.RunID}, files); err != nil {
 		return nil, err
 	}
 	return &FlangesOutcome{

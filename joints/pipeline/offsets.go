@@ -100,7 +100,7 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 	}
 	doc := document.NewSurfaces(res, info)
 	rep := document.NewSurfacesReport(res, info)
-	rendered, err := writers.Render([]writers.File{
+	err = writeSet(env.progress(), out, writers.Set{Job: "offsets", Generator: env.Generator, RunID: info.RunID}, []writers.File{
 		{Name: "surfaces.yaml", Render: func(w io.Writer) error { return writers.WriteSurfacesYAML(w, doc) }},
 		{Name: "surfaces.json", Render: func(w io.Writer) error { return document.EncodeSurfaces(w, doc) }},
 		{Name: "report.json", Render: func(w io.Writer) error { return document.EncodeReport(w, rep) }},
@@ -108,9 +108,6 @@ func Offsets(ctx context.Context, job *Job, s BuildSettings, env Env) (*OffsetsO
 		page.file(func(o *html.Outline) *html.Page { return html.ForOffsets(rep, doc, o) }),
 	})
 	if err != nil {
-		return nil, err
-	}
-	if err := out.Write(writers.Set{Job: "offsets", Generator: env.Generator, RunID: info.RunID, Files: rendered}); err != nil {
 		return nil, err
 	}
 	return &OffsetsOutcome{Out: s.Out, Files: OffsetsFiles(), RunID: info.RunID, Report: rep, Surfaces: doc, Result: res,

@@ -287,11 +287,8 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	} else {
 		outcome.Files = outcome.Files[:len(outcome.Files)-1]
 	}
-	if set.Files, err = writers.Render(files); err != nil {
-		return nil, err
-	}
 	set.RunID = info.RunID
-	if err := out.Write(set); err != nil {
+	if err := writeSet(env.progress(), out, set, files); err != nil {
 		return nil, err
 	}
 	outcome.RunID, outcome.Manifest, outcome.Compare = info.RunID, man, cmpDoc
