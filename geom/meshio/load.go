@@ -190,6 +190,13 @@ func readAll(opts LoadOptions, defaults map[string]int64) ([]*geom.Mesh, error) 
 				if errs[i] == nil && meshes[i] == nil {
 					errs[i] = fmt.Errorf("meshio: reading %s returned no mesh", path)
 				}
+				if errs[i] == nil {
+					// Id order, not line order, from here on: no result
+					// may depend on how a file's lines are arranged.
+					if _, err := meshes[i].SortByID(); err != nil {
+						errs[i] = geom.FileError(path, "%w", err)
+					}
+				}
 				progMu.Lock()
 				prog.Add(sizes[i])
 				progMu.Unlock()

@@ -1,0 +1,78 @@
+package geom
+
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// TestSortByID: nodes and elements come out in id order within each
+// source file's range, every element keeping its nodes (by id), part and
+// thickness; a mesh already in order is left as it is.
+func TestSortByID(t *testing.T) {
+	nan := math.NaN()
+	m := &Mesh{
+		Parts:   []Part{{ID: 1, Thickness: 1}, {ID: 2, Thickness: 2}},
+		NodeIDs: []int64{30, 10, 20, 40, 5, 7},
+		Coords: []r3.Vec{{X: 3}, {X: 1}, {X: 2}, {X: 4}, {X: 0.5}, {X: 0.7}},
+		// file a: nodes 0-3, elements 0-1; file b: nodes 4-5, element 2
+		ElemIDs:       []int64{200, 100, 50},
+		ElemPart:      []int32{0, 1, 1},
+		ElemStart:     []int32{0, 3, 6, 9},
+		Conn:          []int32{0, 1, 2, 1, 2, 3, 4, 5, 3},
+		ElemThickness: []float64{nan, 2.5, nan},
+		Sources:       []Source{{File: "a", NodeStart: 0, ElemStart: 0}, {File: "b", NodeStart: 4, ElemStart: 2}},
+	}
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	type elem struct {
+		id    int64
+		part  int32
+		t     float64
+		nodes []int64
+	}
+	elems := func() map[int64]elem {
+		out := map[int64]elem{}
+		for e := range m.NumElems() {
+			var ns []int64
+			for _, n := range m.ElemNodes(e) {
+				ns = append(ns, m.NodeIDs[n])
+			}
+			out[m.ElemIDs[e]] = elem{m.ElemIDs[e], m.ElemPart[e], m.Thickness(e), ns}
+		}
+		return out
+	}
+	before := elems()
+	moved, err := m.SortByID()
+	if err != nil || !moved {
+		t.Fatalf("SortByID = %v, %v; want true, nil", moved, err)
+	}
+	if want := []int64{10, 20, 30, 40, 5, 7}; !slices.Equal(m.NodeIDs, want) {
+		t.Errorf("node ids %v, want %v (each file's range sorted on its own)", m.NodeIDs, want)
+	}
+	for i, id := range m.NodeIDs {
+		want := map[int64]float64{10: 1, 20: 2, 30: 3, 40: 4, 5: 0.5, 7: 0.7}[id]
+		if m.Coords[i].X != want {
+			t.Errorf("node %d at x %g, want %g", id, m.Coords[i].X, want)
+		}
+	}
+	if want := []int64{100, 200, 50}; !slices.Equal(m.ElemIDs, want) {
+		t.Errorf("element ids %v, want %v", m.ElemIDs, want)
+	}
+	after := elems()
+	for id, b := range before {
+		a := after[id]
+		if a.part != b.part || a.t != b.t || !slices.Equal(a.nodes, b.nodes) {
+			t.Errorf("element %d: %+v after, %+v before", id, a, b)
+		}
+	}
+	if e, ok := m.ElemIndex(100); !ok || e != 0 {
+		t.Errorf("ElemIndex(100) = %d, %v; want 0, true (lookups rebuilt)", e, ok)
+	}
+	if moved, err := m.SortByID(); moved || err != nil {
+		t.Errorf("second SortByID = %v, %v; want false, nil", moved, err)
+	}
+}
