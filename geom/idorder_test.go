@@ -16,7 +16,7 @@ func TestSortByID(t *testing.T) {
 	m := &Mesh{
 		Parts:   []Part{{ID: 1, Thickness: 1}, {ID: 2, Thickness: 2}},
 		NodeIDs: []int64{30, 10, 20, 40, 5, 7},
-		Coords: []r3.Vec{{X: 3}, {X: 1}, {X: 2}, {X: 4}, {X: 0.5}, {X: 0.7}},
+		Coords:  []r3.Vec{{X: 3}, {X: 1}, {X: 2}, {X: 4}, {X: 0.5}, {X: 0.7}},
 		// file a: nodes 0-3, elements 0-1; file b: nodes 4-5, element 2
 		ElemIDs:       []int64{200, 100, 50},
 		ElemPart:      []int32{0, 1, 1},
