@@ -67,7 +67,7 @@ func (o *buildOptions) apply(job *pipeline.Job) {
 	b := &job.Build
 	set := o.flags.Changed
 	if set("out") {
-		job.Out = o.out
+		job.Out, job.OutGiven = o.out, true
 	}
 	if set("reach") {
 		b.Reach = &o.reach

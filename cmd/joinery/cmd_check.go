@@ -45,7 +45,7 @@ func (o *checkOptions) apply(job *pipeline.Job) {
 	b := &job.Build
 	set := o.flags.Changed
 	if set("out") {
-		job.Out = o.out
+		job.Out, job.OutGiven = o.out, true
 	}
 	if set("reach") {
 		b.Reach = &o.reach
@@ -122,9 +122,6 @@ func runCheck(c *cobra.Command, o *checkOptions, g *globalOptions, args []string
 	s, err := job.CheckSettings(o.connectors)
 	if err != nil {
 		return err
-	}
-	if !c.Flags().Changed("out") {
-		s.Out = pipeline.Beside(s.Out, pipeline.CheckSuffix)
 	}
 	out, err := pipeline.Check(c.Context(), job, s, g.env())
 	if err != nil {

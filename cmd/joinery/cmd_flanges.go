@@ -46,7 +46,7 @@ func (o *flangesOptions) apply(job *pipeline.Job) error {
 	set := o.flags.Changed
 	b, f := &job.Build, &job.Flanges
 	if set("out") {
-		job.Out = o.out
+		job.Out, job.OutGiven = o.out, true
 	}
 	if set("pair") {
 		f.Pairs = [][2]int64{}
@@ -135,9 +135,6 @@ func runFlanges(c *cobra.Command, o *flangesOptions, g *globalOptions, args []st
 	s, err := job.FlangeSettings()
 	if err != nil {
 		return err
-	}
-	if !c.Flags().Changed("out") {
-		s.Out = pipeline.Beside(s.Out, pipeline.FlangesSuffix)
 	}
 	out, err := pipeline.Flanges(c.Context(), job, s, g.env())
 	if err != nil {

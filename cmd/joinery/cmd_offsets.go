@@ -38,7 +38,7 @@ func (o *offsetsOptions) apply(job *pipeline.Job) {
 	o.in.apply(job)
 	set := o.flags.Changed
 	if set("out") {
-		job.Out = o.out
+		job.Out, job.OutGiven = o.out, true
 	}
 	if set("reach") {
 		job.Build.Reach = &o.reach
@@ -98,12 +98,9 @@ func runOffsets(c *cobra.Command, o *offsetsOptions, g *globalOptions, args []st
 		return err
 	}
 	o.apply(job)
-	s, err := job.BuildSettings()
+	s, err := job.OffsetsSettings()
 	if err != nil {
 		return err
-	}
-	if !o.flags.Changed("out") {
-		s.Out = pipeline.OffsetsOut(s.Out)
 	}
 	out, err := pipeline.Offsets(c.Context(), job, s, g.env())
 	if err != nil {

@@ -102,9 +102,6 @@ func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string
 		return err
 	}
 	o.build.apply(job)
-	if !o.build.flags.Changed("out") {
-		job.Out = pipeline.SweepOut(job)
-	}
 	s, err := job.SweepSettings(vary, o.maxVariants)
 	if err != nil {
 		return err

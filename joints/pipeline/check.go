@@ -35,13 +35,14 @@ type CheckSettings struct {
 }
 
 // CheckSettings reads and checks the job's settings for a check of the
-// given connector files. Errors are usage errors.
+// given connector files, written beside the build's set (CheckSuffix
+// appended to the job's out unless OutGiven). Errors are usage errors.
 func (job *Job) CheckSettings(connectors []string) (CheckSettings, error) {
 	b, err := job.BuildSettings()
 	if err != nil {
 		return CheckSettings{}, err
 	}
-	return CheckSettings{Options: b.Options, Connectors: connectors, FailOn: b.FailOn, Fail: b.Fail, Out: b.Out}, nil
+	return CheckSettings{Options: b.Options, Connectors: connectors, FailOn: b.FailOn, Fail: b.Fail, Out: job.besideOut(b.Out, CheckSuffix)}, nil
 }
 
 // within reports whether path is dir or lies inside it (as written,

@@ -22,8 +22,9 @@ type FlangeSettings struct {
 	Flanges joints.FlangeOptions
 }
 
-// FlangeSettings reads and checks the job's flanges and build settings.
-// Errors are usage errors.
+// FlangeSettings reads and checks the job's flanges and build settings;
+// the set goes beside the build's (FlangesSuffix appended to the job's
+// out unless OutGiven). Errors are usage errors.
 func (job *Job) FlangeSettings() (FlangeSettings, error) {
 	var s FlangeSettings
 	var err error
@@ -36,6 +37,7 @@ func (job *Job) FlangeSettings() (FlangeSettings, error) {
 	if err := s.Flanges.Validate(); err != nil {
 		return s, UsageError(err)
 	}
+	s.Out = job.besideOut(s.Out, FlangesSuffix)
 	return s, nil
 }
 

@@ -72,6 +72,11 @@ type Job struct {
 	PartsOverlays []string `yaml:"-"`
 	Joints        []string `yaml:"joints,omitempty"`
 	Out           string   `yaml:"out,omitempty"`
+	// OutGiven is set when Out was named on the command line: the
+	// commands that write beside a build's set (check, flanges, offsets,
+	// sweep) then write into Out as given instead of Out with their
+	// suffix appended (their Settings functions resolve it).
+	OutGiven bool `yaml:"-"`
 	Renumber      *bool    `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").

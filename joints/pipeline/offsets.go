@@ -32,9 +32,24 @@ const (
 // beside the build output directory out: out with suffix appended.
 func Beside(out, suffix string) string { return filepath.Clean(out) + suffix }
 
-// OffsetsOut returns the default output directory of joinery offsets
-// for the build output directory out: out with OffsetsSuffix appended.
-func OffsetsOut(out string) string { return Beside(out, OffsetsSuffix) }
+// besideOut returns the output directory of a command that writes beside
+// the build's set out: out with suffix appended, or out itself when it
+// was named on the command line (OutGiven).
+func (job *Job) besideOut(out, suffix string) string {
+	if job.OutGiven {
+		return out
+	}
+	return Beside(out, suffix)
+}
+
+// OffsetsSettings reads and checks a job's settings for joinery offsets:
+// its build settings, written beside the build's set (OffsetsSuffix).
+// Errors are usage errors.
+func (job *Job) OffsetsSettings() (BuildSettings, error) {
+	s, err := job.BuildSettings()
+	s.Out = job.besideOut(s.Out, OffsetsSuffix)
+	return s, err
+}
 
 // OffsetsFiles are the names of the files joinery offsets writes, in
 // order.

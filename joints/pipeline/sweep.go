@@ -32,13 +32,17 @@ type SweepSettings struct {
 
 // SweepSettings reads and checks the job's sweep settings. vary, when
 // not empty, replaces the job's sweep vary list (flags win), and
-// maxVariants, when above 0, its max_variants. Errors are usage errors.
+// maxVariants, when above 0, its max_variants. The sweep writes into
+// SweepOut(job) unless OutGiven. Errors are usage errors.
 func (job *Job) SweepSettings(vary []Vary, maxVariants int) (SweepSettings, error) {
 	b, err := job.BuildSettings()
 	if err != nil {
 		return SweepSettings{}, err
 	}
 	s := SweepSettings{Build: b, Vary: job.Sweep.Vary, MaxVariants: DefaultMaxVariants, Out: b.Out}
+	if !job.OutGiven {
+		s.Out = SweepOut(job)
+	}
 	if len(vary) > 0 {
 		s.Vary = vary
 	}
