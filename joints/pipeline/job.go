@@ -76,8 +76,8 @@ type Job struct {
 	// commands that write beside a build's set (check, flanges, offsets,
 	// sweep) then write into Out as given instead of Out with their
 	// suffix appended (their Settings functions resolve it).
-	OutGiven bool `yaml:"-"`
-	Renumber      *bool    `yaml:"renumber,omitempty"`
+	OutGiven bool  `yaml:"-"`
+	Renumber *bool `yaml:"renumber,omitempty"`
 	// PartArray names the cell array of VTK files that holds part ids;
 	// "" means geom.DefaultPartArray ("part").
 	PartArray string `yaml:"part_array,omitempty"`
