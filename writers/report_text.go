@@ -85,7 +85,11 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 
 	ew.printf("\npart pairs joined\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "part\tpart\tconnectors\tflagged\t\n")
+	flagged := "flagged"
+	if doc.Command == "check" {
+		flagged = "flagged by build"
+	}
+	fmt.Fprintf(tw, "part\tpart\tconnectors\t%s\t\n", flagged)
 	for _, p := range s.PartPairs {
 		fmt.Fprintf(tw, "%d\t%d\t%d\t%d\t\n", p.A, p.B, p.Count, p.Flagged)
 	}
@@ -292,9 +296,17 @@ func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, file
 
 func summaryLines(ew *errWriter, doc *document.ReportDoc) {
 	s := doc.Summary
-	ew.printf("joints      %d (%s)\n", s.Joints, countList(s.ByKind))
-	ew.printf("built       %d (%d flagged)\n", s.ByState["built"]+s.ByState["flagged"], s.ByState["flagged"])
-	ew.printf("not built   %d\n", s.ByState["not-built"])
+	if doc.Command == "check" {
+		// A check reads the states its connectors were written with; its
+		// own findings are counted below.
+		ew.printf("connectors  %d (%s)\n", s.Joints, countList(s.ByKind))
+		ew.printf("as written  %d built (%d flagged by their build), %d not built\n",
+			s.ByState["built"]+s.ByState["flagged"], s.ByState["flagged"], s.ByState["not-built"])
+	} else {
+		ew.printf("joints      %d (%s)\n", s.Joints, countList(s.ByKind))
+		ew.printf("built       %d (%d flagged)\n", s.ByState["built"]+s.ByState["flagged"], s.ByState["flagged"])
+		ew.printf("not built   %d\n", s.ByState["not-built"])
+	}
 	ew.printf("stacks      %s\n", stackList(s.ByStack))
 	ew.printf("findings    %d error, %d warning, %d info\n", s.BySev["error"], s.BySev["warning"], s.BySev["info"])
 	if len(s.ByCode) > 0 {
