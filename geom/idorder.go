@@ -1,7 +1,7 @@
 package geom
 
 import (
-	"cmp"
+	"math/bits"
 	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -60,11 +60,19 @@ func idOrder(ids []int64, ranges func(fn func(from, to int))) []int32 {
 		return nil
 	}
 	order := MakeLarge[int32](len(ids))
+	keys := MakeLarge[uint64](len(ids))
 	for i := range order {
 		order[i] = int32(i)
 	}
 	ranges(func(from, to int) {
-		slices.SortStableFunc(order[from:to], func(a, b int32) int { return cmp.Compare(ids[a], ids[b]) })
+		if from >= to {
+			return
+		}
+		lo, hi := slices.Min(ids[from:to]), slices.Max(ids[from:to])
+		for i := from; i < to; i++ {
+			keys[i] = uint64(ids[i]) - uint64(lo) // below 2^64 whatever the ids' signs
+		}
+		radixSort(keys[from:to], order[from:to], bits.Len64(uint64(hi)-uint64(lo)))
 	})
 	return order
 }
