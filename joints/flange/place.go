@@ -654,12 +654,14 @@ func (p *placer) attachNodes(sh sheetAt, a joints.Attach, d float64) []int32 {
 		return []int32{best}
 	case joints.Patch:
 		out := slices.Clone(host)
-		for _, e := range p.x.ElemsNear(q, d/2, nil) {
+		// As build's patch: a node exactly at the radius is within it.
+		reach := d/2 + joints.LengthRoundoff
+		for _, e := range p.x.ElemsNear(q, reach, nil) {
 			if m.ElemPart[e] != sh.part {
 				continue
 			}
 			for _, n := range m.ElemNodes(int(e)) {
-				if r3.Norm(r3.Sub(m.Coords[n], q)) <= d/2 {
+				if r3.Norm(r3.Sub(m.Coords[n], q)) <= reach {
 					out = append(out, n)
 				}
 			}

@@ -1,0 +1,121 @@
+package spot
+
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
+	"github.com/joinery-cae/joinery/joints"
+)
+
+// drawn is a way of drawing the same model: in another unit (the mesh and
+// the joint list written in metres or inches, scaled to mm once read, as
+// the pipeline does with geom.Mesh.Scale and joints.ScaleJoints) and
+// moved away from the origin, as a body's parts lie. Each gives the same
+// lengths as the model in mm up to the rounding of float64 arithmetic.
+type drawn struct {
+	name  string
+	unit  joints.Unit
+	shift r3.Vec // mm
+}
+
+var drawings = []drawn{
+	{"mm", joints.Millimetre, r3.Vec{}},
+	{"m", joints.Metre, r3.Vec{}},
+	{"in", joints.Inch, r3.Vec{}},
+	{"mm, moved", joints.Millimetre, r3.Vec{X: 1234.1, Y: -987.3, Z: 412.7}},
+	{"in, moved", joints.Inch, r3.Vec{X: 1234.1, Y: -987.3, Z: 412.7}},
+}
+
+// model returns the plates drawn as d says (their lengths given in mm)
+// and the joint's point there, both scaled back to mm.
+func (d drawn) model(p r3.Vec, ps ...plate) (*geom.Mesh, r3.Vec) {
+	f := d.unit.MM()
+	for i := range ps {
+		q := &ps[i]
+		q.T, q.H = q.T/f, q.H/f
+		q.X0, q.Y0, q.Z = (q.X0+d.shift.X)/f, (q.Y0+d.shift.Y)/f, (q.Z+d.shift.Z)/f
+	}
+	m := plates(ps...)
+	m.Scale(f)
+	js := []joints.Joint{{Point: r3.Scale(1/f, r3.Add(p, d.shift))}}
+	joints.ScaleJoints(js, f)
+	return m, js[0].Point
+}
+
+// A value exactly at a limit meets it, whatever the unit the model is
+// drawn in or where it lies (README: lengths computed from coordinates
+// are compared with joints.LengthRoundoff allowed). Two 1.0 mm sheets in
+// contact, meshed on their mid-surfaces 1.0 mm apart, ending at x = 50:
+// nugget 5*sqrt(1.0) = 5 mm (common practice), so the lateral limit is
+// 0.5 * 2.5 = 1.25 mm (joints.DefaultLateralFactor nugget radii) and the
+// edge limit one nugget diameter, 5 mm (joints.DefaultEdgeFactor, common
+// practice); hand calculation. Before, in inches or moved, a weld
+// 1.25 mm beyond the edge found no sheet (the lateral distance came out
+// 1.2500000000000002 mm) and one 5 mm inside it was edge-close.
+func TestLimitsMetWhateverTheUnit(t *testing.T) {
+	ps := func() []plate {
+		return []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, {Part: 2, T: 1, Z: 1, NX: 10, NY: 10, H: 5}}
+	}
+	cases := []struct {
+		name  string
+		at    r3.Vec
+		parts []int64
+		state joints.Status
+		codes []string
+	}{
+		// 1.25 mm beyond the edge: at the lateral limit, built, the
+		// weld off the sheets by less than the limit (edge-close).
+		{"at the lateral limit", r3.Vec{X: 51.25, Y: 22.5, Z: 0.5}, nil, joints.Flagged, []string{joints.CodeEdgeClose, joints.CodeEdgeClose}},
+		{"at the lateral limit, listed", r3.Vec{X: 51.25, Y: 22.5, Z: 0.5}, []int64{1, 2}, joints.Flagged, []string{joints.CodeEdgeClose, joints.CodeEdgeClose}},
+		{"at the lateral limit, other edge", r3.Vec{X: 22.5, Y: -1.25, Z: 0.5}, nil, joints.Flagged, []string{joints.CodeEdgeClose, joints.CodeEdgeClose}},
+		// 5 mm inside the edge: at the edge limit, no finding.
+		{"at the edge limit", r3.Vec{X: 45, Y: 22.5, Z: 0.5}, nil, joints.Built, nil},
+		{"at the edge limit, other edge", r3.Vec{X: 22.5, Y: 5, Z: 0.5}, nil, joints.Built, nil},
+		{"at the edge limit, corner", r3.Vec{X: 45, Y: 45, Z: 0.5}, nil, joints.Built, nil},
+	}
+	for _, d := range drawings {
+		for _, tc := range cases {
+			m, p := d.model(tc.at, ps()...)
+			c := buildOne1(t, m, joints.Joint{ID: "W", Point: p, Parts: tc.parts}, joints.BuildOptions{})
+			if c.Status != tc.state || !slices.Equal(codes(c), tc.codes) {
+				t.Errorf("%s, %s: %v %v, want %v %v", d.name, tc.name, c.Status, codes(c), tc.state, tc.codes)
+			}
+		}
+	}
+}
+
+// A patch ties every node within the nugget radius, a node exactly at it
+// included, in every unit. A 2.5 mm grid and a weld on a node: the node,
+// its four neighbours exactly 2.5 mm away (the radius of a 5*sqrt(1.0) =
+// 5 mm nugget, common practice), and the host element's far corner
+// (3.54 mm) that the patch always holds: 6 nodes (hand calculation).
+// Before, in inches the neighbours came out 2.5000000000000004 mm away and
+// were left out (3 or 4 nodes).
+func TestPatchRadiusWhateverTheUnit(t *testing.T) {
+	for _, d := range drawings {
+		m, p := d.model(r3.Vec{X: 25, Y: 25, Z: 0.5},
+			plate{Part: 1, T: 1, NX: 20, NY: 20, H: 2.5}, plate{Part: 2, T: 1, Z: 1, NX: 20, NY: 20, H: 2.5})
+		c := buildOne1(t, m, joints.Joint{ID: "W", Point: p}, joints.BuildOptions{Attach: joints.Patch})
+		if len(c.Ends) != 2 {
+			t.Fatalf("%s: %d ends, %v", d.name, len(c.Ends), codes(c))
+		}
+		for i, e := range c.Ends {
+			if len(e.Nodes) != 6 {
+				t.Errorf("%s: end %d ties %d nodes, want 6", d.name, i, len(e.Nodes))
+			}
+			var sum float64
+			var at r3.Vec
+			for k, n := range e.Nodes {
+				sum += e.Weights[k]
+				at = r3.Add(at, r3.Scale(e.Weights[k], m.Coords[n]))
+			}
+			if math.Abs(sum-1) > 1e-9 || r3.Norm(r3.Sub(at, e.Point)) > 1e-9 {
+				t.Errorf("%s: end %d: weights sum to %g and give %v, want 1 and %v", d.name, i, sum, at, e.Point)
+			}
+		}
+	}
+}
