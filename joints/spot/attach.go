@@ -50,7 +50,7 @@ func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 }
 
 // attachNodePair puts the end on the sheet's node nearest to the
-// projection point (ties to the lower node id).
+// projection point (ties, within geom.TieDistance, to the lower node id).
 func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 	m := x.Mesh()
 	q := s.Proj.Point
@@ -62,16 +62,31 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 		r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
 	}
 	pi := m.ElemPart[s.Proj.Elem]
-	best, bestD := int32(-1), math.Inf(1)
 	var buf [64]int32
-	for _, e := range x.ElemsNear(q, r, buf[:0]) {
+	near := x.ElemsNear(q, r, buf[:0])
+	// Nodes whose distances differ by geom.TieDistance or less are tied
+	// (the corners round the centre of a square element, a weld midway
+	// between two nodes): the lowest node id among them wins, so that the
+	// rounding of coordinates (another unit, the model moved) does not
+	// pick another node. The least distance is found first, then the
+	// lowest id within the tie of it.
+	bestD := math.Inf(1)
+	for _, e := range near {
 		if m.ElemPart[e] != pi {
 			continue
 		}
 		for _, n := range m.ElemNodes(int(e)) {
-			d := r3.Norm(r3.Sub(m.Coords[n], q))
-			if d < bestD || d == bestD && m.NodeIDs[n] < m.NodeIDs[best] {
-				best, bestD = n, d
+			bestD = math.Min(bestD, r3.Norm(r3.Sub(m.Coords[n], q)))
+		}
+	}
+	best := int32(-1)
+	for _, e := range near {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for _, n := range m.ElemNodes(int(e)) {
+			if r3.Norm(r3.Sub(m.Coords[n], q)) <= bestD+geom.TieDistance && (best < 0 || m.NodeIDs[n] < m.NodeIDs[best]) {
+				best = n
 			}
 		}
 	}

@@ -119,3 +119,42 @@ func TestPatchRadiusWhateverTheUnit(t *testing.T) {
 		}
 	}
 }
+
+// Node-pair ends: nodes equally near the weld (within geom.TieDistance)
+// are tied, and the lowest node id wins, in every unit and wherever the
+// model lies. On a 10 mm grid a weld at an element's centre is 7.07 mm
+// from its four corners, one midway along an edge 5 mm from its two ends
+// (hand calculation); the lowest id of plates' numbering is the corner
+// with the least y, then the least x. Every element centre and edge
+// midpoint of the grid is tried. Before, the rounding of the distances
+// picked another corner for some of them in inches or once moved.
+func TestNodePairTiesWhateverTheUnit(t *testing.T) {
+	type tie struct{ at, on r3.Vec } // weld point; the node both ends sit on (mm, before the shift)
+	var cases []tie
+	for i := 1; i < 5; i++ {
+		for j := 1; j < 5; j++ {
+			x, y := 10*float64(i), 10*float64(j)
+			cases = append(cases,
+				tie{r3.Vec{X: x + 5, Y: y + 5, Z: 0.5}, r3.Vec{X: x, Y: y}}, // element centre
+				tie{r3.Vec{X: x + 5, Y: y, Z: 0.5}, r3.Vec{X: x, Y: y}},     // edge along x
+				tie{r3.Vec{X: x, Y: y + 5, Z: 0.5}, r3.Vec{X: x, Y: y}})     // edge along y
+		}
+	}
+	failed := 0
+	for _, d := range drawings {
+		for _, tc := range cases {
+			m, p := d.model(tc.at, plate{Part: 1, T: 1, NX: 6, NY: 6, H: 10}, plate{Part: 2, T: 1, Z: 1, NX: 6, NY: 6, H: 10})
+			c := buildOne1(t, m, joints.Joint{ID: "W", Point: p}, joints.BuildOptions{Attach: joints.NodePair})
+			if len(c.Ends) != 2 {
+				t.Fatalf("%s, weld at %v: %d ends, %v", d.name, tc.at, len(c.Ends), codes(c))
+			}
+			for i, e := range c.Ends {
+				if got := r3.Sub(e.Point, d.shift); math.Hypot(got.X-tc.on.X, got.Y-tc.on.Y) > 1e-6 {
+					if failed++; failed <= 10 {
+						t.Errorf("%s, weld at %v: end %d on %v, want %v (the lowest node id of the tie)", d.name, tc.at, i, got, tc.on)
+					}
+				}
+			}
+		}
+	}
+}
