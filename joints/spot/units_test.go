@@ -158,3 +158,60 @@ func TestNodePairTiesWhateverTheUnit(t *testing.T) {
 		}
 	}
 }
+
+// A link whose ends coincide is a zero-length link: length 0 and the zero
+// direction (connectors.schema.json: "[0,0,0] for a zero-length link"),
+// in every unit and wherever the model lies. Mid-surface sheets of 0.8,
+// 2.0 and 1.2 mm at z = 0, 1.4 and 3.0 (contact, (t1+t2)/2) have their
+// faying faces at z = 0.4 and 2.4, reached by offsets of t/2 from either
+// side (shell geometry, hand calculation), so both faying joints have no
+// length; a 1.0 mm sheet meshed on its top face and a 2.0 mm sheet meshed
+// on its bottom face at the same z meet on that face, so the gap link
+// between the meshes has no length either. Before, the rounding of
+// 0.4 against 1.4 - 1.0 left a faying joint 1.1e-16 mm long along
+// (0, 0, -1), its direction turning with the unit.
+func TestZeroLengthLinksHaveNoDirection(t *testing.T) {
+	stacked := func() []plate {
+		return []plate{{Part: 1, T: 0.8, NX: 10, NY: 10, H: 5}, {Part: 2, T: 2, Z: 1.4, NX: 10, NY: 10, H: 5},
+			{Part: 3, T: 1.2, Z: 3, NX: 10, NY: 10, H: 5}}
+	}
+	faces := func() []plate {
+		return []plate{{Part: 1, T: 1, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceTop},
+			{Part: 2, T: 2, NX: 10, NY: 10, H: 5, Surface: geom.SurfaceBottom}}
+	}
+	cases := []struct {
+		name  string
+		ps    func() []plate
+		at    r3.Vec
+		links joints.LinkForm
+		kind  joints.LinkKind // the links that must have no length
+		n     int             // how many
+	}{
+		{"faying joints, mid-surfaces", stacked, r3.Vec{X: 21.5, Y: 26.5, Z: 1.4}, joints.OffsetLinks, joints.FayingJoint, 2},
+		{"faying joints, other point", stacked, r3.Vec{X: 13.3, Y: 31.7, Z: 0}, joints.OffsetLinks, joints.FayingJoint, 2},
+		{"gap link, faying-face meshes", faces, r3.Vec{X: 21.5, Y: 26.5, Z: 0}, joints.GapLinks, joints.GapLink, 1},
+		{"faying joint, faying-face meshes", faces, r3.Vec{X: 21.5, Y: 26.5, Z: 0}, joints.OffsetLinks, joints.FayingJoint, 1},
+	}
+	for _, d := range drawings {
+		for _, tc := range cases {
+			m, p := d.model(tc.at, tc.ps()...)
+			c := buildOne1(t, m, joints.Joint{ID: "W", Point: p}, joints.BuildOptions{Links: tc.links})
+			if c.Status != joints.Built {
+				t.Fatalf("%s, %s: %v %v", d.name, tc.name, c.Status, codes(c))
+			}
+			n := 0
+			for _, l := range c.Links {
+				if l.Kind != tc.kind {
+					continue
+				}
+				n++
+				if l.Length != 0 || l.Direction != (r3.Vec{}) {
+					t.Errorf("%s, %s: %v link %d-%d: length %g, direction %v; want 0 and (0, 0, 0)", d.name, tc.name, l.Kind, l.From, l.To, l.Length, l.Direction)
+				}
+			}
+			if n != tc.n {
+				t.Errorf("%s, %s: %d links of kind %v, want %d", d.name, tc.name, n, tc.kind, tc.n)
+			}
+		}
+	}
+}
