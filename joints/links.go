@@ -191,5 +191,20 @@ func NewOffsetLink(at, normal r3.Vec, t float64, s geom.Surface, side int) Link 
 	return l
 }
 
+// LinkSpan returns the length and unit direction of a link from a to b. Ends
+// within LengthRoundoff of each other are one point: the link has length
+// 0 and the zero direction (a zero-length link, as the documents define
+// it), so that the rounding of coordinates (1e-16 mm between faying
+// points that coincide) gives a faying joint neither a length nor a
+// direction, whatever the unit or the model's position.
+func LinkSpan(a, b r3.Vec) (float64, r3.Vec) {
+	d := r3.Sub(b, a)
+	l := r3.Norm(d)
+	if !(l > LengthRoundoff) {
+		return 0, r3.Vec{}
+	}
+	return l, r3.Scale(1/l, d)
+}
+
 // Across returns the length of v's component square to the unit axis.
 func Across(v, axis r3.Vec) float64 { return r3.Norm(r3.Sub(v, r3.Scale(r3.Dot(v, axis), axis))) }

@@ -53,8 +53,9 @@ func (md *Model) Overlay(paths []string, digest func(path string) io.Writer, sca
 			switch {
 			case t.Mesh != "":
 				return geom.FileError(path, "part %d: mesh %q: only the first parts table may assign mesh files to parts", t.ID, t.Mesh)
-			case p.Thickness > 0 && math.Abs(t.Thickness-p.Thickness) > geom.OffsetTolerance:
-				return geom.FileError(path, "part %d has thickness %g mm here and %g mm in the tables before it: this table was made for other thicknesses (rerun joinery offsets)", t.ID, t.Thickness, p.Thickness)
+			case p.Thickness > 0 && math.Abs(t.Thickness-p.Thickness)*scale > geom.OffsetTolerance:
+				// Both in the inputs' unit, compared in mm (the tolerance's).
+				return geom.FileError(path, "part %d has thickness %g mm here and %g mm in the tables before it: this table was made for other thicknesses (rerun joinery offsets)", t.ID, t.Thickness*scale, p.Thickness*scale)
 			}
 			p.Surface = t.Surface
 			if t.Name != "" {

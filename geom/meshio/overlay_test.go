@@ -2,6 +2,7 @@ package meshio
 
 import (
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -85,5 +86,72 @@ func TestOverlay(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput) {
 			t.Errorf("err %v, want %q", err, tc.want)
 		}
+	}
+}
+
+// Offsets and overlay thicknesses are judged in mm whatever the job's
+// unit: the tables hold values in that unit, and geom.OffsetTolerance,
+// 0.0005 mm, is a length in mm (README: "other offsets (beyond 0.0005 mm
+// of these) are an input error"). A 1 mm sheet: its offsets are 0, -0.5
+// and +0.5 mm (mid, top, bottom: half the thickness, shell geometry);
+// -0.3 mm is none of them in any unit. Before, in metres the tolerance
+// became 0.0005 m = 0.5 mm: -0.0003 m was read as mid, silently, and an
+// overlay made for 1.4 mm passed over a 1.0 mm part.
+func TestOffsetToleranceInMM(t *testing.T) {
+	units := []struct {
+		name  string
+		scale float64 // mm per unit
+	}{{"mm", 1}, {"m", 1000}, {"in", 25.4}}
+	cases := []struct {
+		name      string
+		off       float64 // mm
+		want      geom.Surface
+		wantError bool
+	}{
+		{"top", -0.5, geom.SurfaceTop, false},
+		{"bottom", 0.5, geom.SurfaceBottom, false},
+		{"mid", 0, geom.SurfaceMid, false},
+		{"top within 0.0004 mm", -0.5004, geom.SurfaceTop, false},
+		{"-0.3 mm", -0.3, 0, true},
+		{"-0.1 mm", -0.1, 0, true},
+		{"0.0008 mm off mid", 0.0008, 0, true},
+	}
+	for _, u := range units {
+		for _, tc := range cases {
+			th, off := 1/u.scale, tc.off/u.scale
+			y, err := readPartsYAML(strings.NewReader(fmt.Sprintf("parts:\n- {id: 1, thickness: %v, offset: %v}\n", th, off)), "p.yaml", u.scale)
+			c, cerr := readPartsCSV(strings.NewReader(fmt.Sprintf("id,thickness,offset\n1,%v,%v\n", th, off)), "p.csv", u.scale)
+			for form, got := range map[string]struct {
+				ps  []geom.Part
+				err error
+			}{"yaml": {y, err}, "csv": {c, cerr}} {
+				switch {
+				case tc.wantError && (got.err == nil || !errors.Is(got.err, geom.ErrInput)):
+					t.Errorf("%s, %s, %s: %v, %v; want an input error", u.name, form, tc.name, got.ps, got.err)
+				case !tc.wantError && (got.err != nil || got.ps[0].Surface != tc.want):
+					t.Errorf("%s, %s, %s: %v, %v; want %s", u.name, form, tc.name, got.ps, got.err, tc.want)
+				}
+			}
+		}
+	}
+	// The message names mm values.
+	_, err := readPartsYAML(strings.NewReader("parts:\n- {id: 1, thickness: 0.001, offset: -0.0003}\n"), "p.yaml", 1000)
+	if want := "p.yaml:2: offset: -0.3 mm for thickness 1 mm is none of 0 (mid), -0.5 (top) or 0.5 (bottom)"; err == nil || !strings.HasPrefix(err.Error(), want) {
+		t.Errorf("metres: %v, want %q", err, want)
+	}
+	// An overlay for other thicknesses is refused in metres as in mm:
+	// 1.4 mm against 1.0 mm.
+	dir := t.TempDir()
+	p := filepath.Join(dir, "over.yaml")
+	if err := os.WriteFile(p, []byte("parts:\n- {id: 1, thickness: 0.0014, surface: top}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	m := &geom.Mesh{Parts: []geom.Part{{ID: 1, Thickness: 0.001}}, ElemPart: []int32{0}}
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	err = (&Model{Mesh: m}).Overlay([]string{p}, nil, 1000)
+	if want := "part 1 has thickness 1.4 mm here and 1 mm in the tables before it"; err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("metres overlay: %v, want %q", err, want)
 	}
 }

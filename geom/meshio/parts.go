@@ -137,7 +137,7 @@ func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error)
 			return nil, y.Errorf(it, "part %d has no thickness", p.ID)
 		}
 		if hasOff {
-			if err := combineOffset(&p, hasSurf, off); err != nil {
+			if err := combineOffset(&p, hasSurf, off, scale); err != nil {
 				return nil, y.Errorf(offNode, "%w", err)
 			}
 		}
@@ -223,7 +223,7 @@ func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) 
 			if err != nil {
 				return nil, err
 			}
-			if err := combineOffset(&p, at[kSurface] >= 0 && rec[at[kSurface]] != "", off); err != nil {
+			if err := combineOffset(&p, at[kSurface] >= 0 && rec[at[kSurface]] != "", off, scale); err != nil {
 				return nil, c.Errorf(col, "%w", err)
 			}
 		}
@@ -271,16 +271,21 @@ func parseSurface(s string) (geom.Surface, error) {
 // signed distance, mm, from the meshed surface to the mid-surface along
 // the element normals, which must be that of mid (0), top (-t/2) or
 // bottom (+t/2) to within geom.OffsetTolerance. Alone it sets the
-// surface; given with a surface, the two must agree.
-func combineOffset(p *geom.Part, hasSurface bool, off float64) error {
-	s, ok := geom.SurfaceForOffset(off, p.Thickness)
+// surface; given with a surface, the two must agree. The table's values
+// are in units of scale mm (the job's unit, not yet scaled): they are
+// compared, and named in messages, in mm, so that the tolerance is
+// 0.0005 mm whatever the unit (in metres it would otherwise be 0.5 mm,
+// taking an offset of -0.3 mm on a 1 mm sheet for mid).
+func combineOffset(p *geom.Part, hasSurface bool, off, scale float64) error {
+	offMM, t := off*scale, p.Thickness*scale
+	s, ok := geom.SurfaceForOffset(offMM, t)
 	switch {
 	case !ok:
 		return fmt.Errorf("offset: %g mm for thickness %g mm is none of 0 (mid), %g (top) or %g (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
-			off, p.Thickness, geom.SurfaceTop.MidOffset(p.Thickness), geom.SurfaceBottom.MidOffset(p.Thickness))
+			offMM, t, geom.SurfaceTop.MidOffset(t), geom.SurfaceBottom.MidOffset(t))
 	case hasSurface && s != p.Surface:
 		return fmt.Errorf("offset: %g mm is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %g mm)",
-			off, s, p.Surface, p.Surface.MidOffset(p.Thickness), p.Thickness)
+			offMM, s, p.Surface, p.Surface.MidOffset(t), t)
 	}
 	p.Surface = s
 	return nil

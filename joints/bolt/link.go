@@ -63,9 +63,6 @@ func shank(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, o
 
 // setSpan sets a link's ends, length and direction.
 func setSpan(l *joints.Link, a, b r3.Vec) {
-	d := r3.Sub(b, a)
-	l.Start, l.End, l.Length = a, b, r3.Norm(d)
-	if l.Length > 0 {
-		l.Direction = r3.Scale(1/l.Length, d)
-	}
+	l.Start, l.End = a, b
+	l.Length, l.Direction = joints.LinkSpan(a, b)
 }

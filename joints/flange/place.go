@@ -639,27 +639,40 @@ func (p *placer) attachNodes(sh sheetAt, a joints.Attach, d float64) []int32 {
 		for _, n := range host {
 			r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
 		}
-		best, bestD := int32(-1), math.Inf(1)
-		for _, e := range p.x.ElemsNear(q, r, nil) {
+		// As build's node-pair attachment: the least distance, then the
+		// lowest node id within geom.TieDistance of it.
+		near := p.x.ElemsNear(q, r, nil)
+		bestD := math.Inf(1)
+		for _, e := range near {
 			if m.ElemPart[e] != sh.part {
 				continue
 			}
 			for _, n := range m.ElemNodes(int(e)) {
-				dd := r3.Norm(r3.Sub(m.Coords[n], q))
-				if dd < bestD || dd == bestD && m.NodeIDs[n] < m.NodeIDs[best] {
-					best, bestD = n, dd
+				bestD = math.Min(bestD, r3.Norm(r3.Sub(m.Coords[n], q)))
+			}
+		}
+		best := int32(-1)
+		for _, e := range near {
+			if m.ElemPart[e] != sh.part {
+				continue
+			}
+			for _, n := range m.ElemNodes(int(e)) {
+				if r3.Norm(r3.Sub(m.Coords[n], q)) <= bestD+geom.TieDistance && (best < 0 || m.NodeIDs[n] < m.NodeIDs[best]) {
+					best = n
 				}
 			}
 		}
 		return []int32{best}
 	case joints.Patch:
 		out := slices.Clone(host)
-		for _, e := range p.x.ElemsNear(q, d/2, nil) {
+		// As build's patch: a node exactly at the radius is within it.
+		reach := d/2 + joints.LengthRoundoff
+		for _, e := range p.x.ElemsNear(q, reach, nil) {
 			if m.ElemPart[e] != sh.part {
 				continue
 			}
 			for _, n := range m.ElemNodes(int(e)) {
-				if r3.Norm(r3.Sub(m.Coords[n], q)) <= d/2 {
+				if r3.Norm(r3.Sub(m.Coords[n], q)) <= reach {
 					out = append(out, n)
 				}
 			}

@@ -50,7 +50,7 @@ func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 }
 
 // attachNodePair puts the end on the sheet's node nearest to the
-// projection point (ties to the lower node id).
+// projection point (ties, within geom.TieDistance, to the lower node id).
 func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 	m := x.Mesh()
 	q := s.Proj.Point
@@ -62,16 +62,31 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 		r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
 	}
 	pi := m.ElemPart[s.Proj.Elem]
-	best, bestD := int32(-1), math.Inf(1)
 	var buf [64]int32
-	for _, e := range x.ElemsNear(q, r, buf[:0]) {
+	near := x.ElemsNear(q, r, buf[:0])
+	// Nodes whose distances differ by geom.TieDistance or less are tied
+	// (the corners round the centre of a square element, a weld midway
+	// between two nodes): the lowest node id among them wins, so that the
+	// rounding of coordinates (another unit, the model moved) does not
+	// pick another node. The least distance is found first, then the
+	// lowest id within the tie of it.
+	bestD := math.Inf(1)
+	for _, e := range near {
 		if m.ElemPart[e] != pi {
 			continue
 		}
 		for _, n := range m.ElemNodes(int(e)) {
-			d := r3.Norm(r3.Sub(m.Coords[n], q))
-			if d < bestD || d == bestD && m.NodeIDs[n] < m.NodeIDs[best] {
-				best, bestD = n, d
+			bestD = math.Min(bestD, r3.Norm(r3.Sub(m.Coords[n], q)))
+		}
+	}
+	best := int32(-1)
+	for _, e := range near {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for _, n := range m.ElemNodes(int(e)) {
+			if r3.Norm(r3.Sub(m.Coords[n], q)) <= bestD+geom.TieDistance && (best < 0 || m.NodeIDs[n] < m.NodeIDs[best]) {
+				best = n
 			}
 		}
 	}
@@ -79,7 +94,9 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 }
 
 // attachPatch ties the end to every node of the sheet within radius of
-// the projection point (midside nodes of second-order elements too), plus
+// the projection point (midside nodes of second-order elements too;
+// a node exactly at the radius is within it, joints.LengthRoundoff
+// allowed, so the same model in any unit ties the same nodes), plus
 // the host element's nodes. The weights are
 // the most uniform ones (least sum of squared deviations from 1/N) that
 // sum to 1 and reproduce the projection point's position in the sheet's
@@ -102,12 +119,13 @@ func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) (joints.End, in
 		set[n] = true
 	}
 	var buf [64]int32
-	for _, e := range x.ElemsNear(q, radius, buf[:0]) {
+	reach := radius + joints.LengthRoundoff
+	for _, e := range x.ElemsNear(q, reach, buf[:0]) {
 		if m.ElemPart[e] != pi {
 			continue
 		}
 		for _, n := range m.ElemNodes(int(e)) {
-			if r3.Norm(r3.Sub(m.Coords[n], q)) <= radius {
+			if r3.Norm(r3.Sub(m.Coords[n], q)) <= reach {
 				set[n] = true
 			}
 		}
@@ -149,14 +167,14 @@ func checkFacing(st *joints.Stack, ends []joints.End, radius, tol float64, j *jo
 	across := func(d r3.Vec) float64 { return r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, st.Axis), st.Axis))) }
 	var out []joints.Finding
 	for i, e := range ends {
-		if lat := across(r3.Sub(e.Point, j.Point)); lat > radius {
+		if lat := across(r3.Sub(e.Point, j.Point)); lat > radius+joints.LengthRoundoff {
 			p := st.Sheets[i].Part
 			out = append(out, j.Finding(joints.Warning, joints.CodeNodesApart, []int64{p},
 				fmt.Sprintf("nearest node of part %d lies %s mm from the weld axis, outside the nugget (radius %s mm): the connector moves off the weld", p, joints.MM(lat), joints.MM(radius))))
 		}
 	}
 	for i := 0; i+1 < len(ends); i++ {
-		if lat := across(r3.Sub(ends[i+1].Point, ends[i].Point)); lat > tol {
+		if lat := across(r3.Sub(ends[i+1].Point, ends[i].Point)); lat > tol+joints.LengthRoundoff {
 			a, b := st.Sheets[i].Part, st.Sheets[i+1].Part
 			out = append(out, j.Finding(joints.Warning, joints.CodeNodesApart, []int64{a, b},
 				fmt.Sprintf("nearest nodes of parts %d and %d are %s mm apart across the stack (limit %s mm): the meshes do not face each other here", a, b, joints.MM(lat), joints.MM(tol))))

@@ -25,7 +25,7 @@ func checkSheets(m *geom.Mesh, j *joints.Joint, st *joints.Stack, diameter float
 		switch {
 		case degenerateHost(m, &s):
 			fs = append(fs, j.Finding(joints.Error, joints.CodeDegenerate, []int64{s.Part}, degenerateMessage(m, &s)))
-		case len(j.Parts) > 0 && s.Lateral > o.LateralFactor*diameter/2:
+		case len(j.Parts) > 0 && offAxis(s.Lateral, o.LateralFactor*diameter/2):
 			// Automatic stacks only hold sheets near the axis; listed ones
 			// are held to the same limit here: the weld must lie over them.
 			fs = append(fs, j.Finding(joints.Error, joints.CodeOffSheet, []int64{s.Part},
@@ -139,7 +139,9 @@ func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 	for i := range st.Sheets {
 		s := &st.Sheets[i]
 		s.EdgeDistance = geom.FreeEdgeDistance(m, near, s.Proj.Point, m.ElemPart[s.Proj.Elem], 2*edgeLimit)
-		if s.EdgeDistance < edgeLimit {
+		// A weld exactly at the edge limit meets it (joints.LengthRoundoff:
+		// the distance is computed from coordinates).
+		if s.EdgeDistance < edgeLimit-joints.LengthRoundoff {
 			msg := fmt.Sprintf("weld centre %s mm from a free edge of part %d (minimum %s mm = %g nugget diameter(s))",
 				joints.MM(s.EdgeDistance), s.Part, joints.MM(edgeLimit), o.EdgeFactor)
 			if off := offSheet(s, j.Point); off > 0 {

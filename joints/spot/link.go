@@ -25,12 +25,7 @@ func gapLinks(st *joints.Stack, ends []joints.End, dofs joints.DOFs) []joints.Li
 	var links []joints.Link
 	for i := 0; i+1 < len(ends); i++ {
 		a, b := ends[i].Point, ends[i+1].Point
-		d := r3.Sub(b, a)
-		l := r3.Norm(d)
-		dir := r3.Vec{}
-		if l > 0 {
-			dir = r3.Scale(1/l, d)
-		}
+		l, dir := joints.LinkSpan(a, b)
 		s, t := st.Sheets[i], st.Sheets[i+1]
 		links = append(links, joints.Link{Kind: joints.GapLink, From: i, To: i + 1, Start: a, End: b, Length: l, Direction: dir,
 			Contact: (s.Thickness + t.Thickness) / 2, MidGap: t.Position - s.Position,
@@ -68,11 +63,7 @@ func offsetLinks(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.
 		lb.From, lb.To, lb.StartAt, lb.EndAt = i+1, i, joints.SheetEnd(i+1), joints.LinkNode(len(links)+1)
 		la.Contact, la.MidGap, lb.Contact, lb.MidGap = contact, gap, contact, gap
 		d := r3.Sub(lb.End, la.End)
-		l := r3.Norm(d)
-		dir := r3.Vec{}
-		if l > 0 {
-			dir = r3.Scale(1/l, d)
-		}
+		l, dir := joints.LinkSpan(la.End, lb.End)
 		fj := joints.Link{Kind: joints.FayingJoint, From: i, To: i + 1, Start: la.End, End: lb.End, Length: l, Direction: dir,
 			Contact: contact, MidGap: gap, StartAt: joints.LinkNode(len(links)), EndAt: joints.LinkNode(len(links) + 1),
 			DOFs: dofs, Mismatch: joints.Across(d, st.Axis)}

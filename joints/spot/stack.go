@@ -177,7 +177,7 @@ func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, la
 			r.underWeld = true
 			if r3.Norm2(axis) > 0 {
 				place(m, &s, p, axis)
-				r.underWeld = s.Lateral <= limit
+				r.underWeld = !offAxis(s.Lateral, limit)
 			}
 			out = append(out, r)
 			continue
@@ -191,7 +191,7 @@ func rejected(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, p r3.Vec, la
 			continue
 		}
 		place(m, &s, p, axis)
-		if s.Lateral > limit {
+		if offAxis(s.Lateral, limit) {
 			r.why = fmt.Sprintf("%s mm off the weld axis (limit %s mm)", joints.MM(s.Lateral), joints.MM(limit))
 			out = append(out, r)
 		}
@@ -236,6 +236,13 @@ func lateralLimit(diameter, t float64, o *joints.BuildOptions) float64 {
 	return o.LateralFactor * diameter / 2
 }
 
+// offAxis reports whether a sheet whose nearest point lies lat mm from
+// the weld axis lies beyond the lateral limit, mm. A sheet exactly at the
+// limit meets it: lat is computed from coordinates, so it is compared
+// with joints.LengthRoundoff allowed, and the same model in mm, m or
+// inches (scaled to mm on reading) keeps or drops the same sheets.
+func offAxis(lat, limit float64) bool { return lat > limit+joints.LengthRoundoff }
+
 // stackLimit returns how far from the axis the nearest point of each
 // sheet of a stack of two or more may lie, mm: LateralFactor radii of the
 // stack's nugget, the listed diameter or the rule's for the stack's
@@ -259,7 +266,7 @@ func stackLimit(ts []float64, diameter float64, o *joints.BuildOptions) float64 
 func holdToNugget(st *joints.Stack, limit, diameter float64, o *joints.BuildOptions) float64 {
 	for len(st.Sheets) >= 2 {
 		limit = stackLimit(st.Thicknesses(), diameter, o)
-		kept := slices.DeleteFunc(slices.Clone(st.Sheets), func(s joints.Sheet) bool { return s.Lateral > limit })
+		kept := slices.DeleteFunc(slices.Clone(st.Sheets), func(s joints.Sheet) bool { return offAxis(s.Lateral, limit) })
 		if len(kept) == len(st.Sheets) {
 			break
 		}
@@ -362,7 +369,7 @@ func autoStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, o *joints.BuildOpti
 				continue
 			}
 			place(m, &s, p, axis)
-			if s.Lateral <= latTol {
+			if !offAxis(s.Lateral, latTol) {
 				st.Sheets = append(st.Sheets, s)
 			}
 		}
