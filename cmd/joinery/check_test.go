@@ -335,3 +335,76 @@ func TestCheckReadsOutputSets(t *testing.T) {
 		t.Errorf("changed set: exit %d, %q", code, errs)
 	}
 }
+
+// check judges the edge distance of the welds it reads as build does:
+// a weld centre closer than one nugget diameter to a sheet's free edge
+// is edge-close (common practice; README, build's codes). The strip of
+// benchModel (part 2) spans y = 40 to 60; its welds join 1 mm sheets,
+// nugget 5 sqrt(1) = 5 mm. Edge distances by hand calculation: a weld at
+// y = 40 lies on the strip's edge (0 mm), at y = 45 5 mm from it (at the
+// limit: it meets it), at y = 50 10 mm. The base plate (part 1, y = 0 to
+// 100) is 40 mm or more from its edges everywhere here.
+func TestCheckEdgeClose(t *testing.T) {
+	dir := t.TempDir()
+	m, mesh, parts := benchModel(t, dir)
+	cases := []struct {
+		name string
+		y    float64
+		want []string // edge-close findings, "code joints parts"
+	}{
+		{"on the strip's free edge (0 mm)", 40, []string{"edge-close [E1] [2]"}},
+		{"one nugget diameter inside (5 mm, at the limit)", 45, nil},
+		{"two nugget diameters inside (10 mm)", 50, nil},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			// Node pairs exported from a model; three welds 80 mm apart,
+			// one row of six-dof welds.
+			var csv strings.Builder
+			csv.WriteString("id,node_a,node_b\n")
+			for i, x := range []float64{100, 20, 180} {
+				y := 50.0
+				if i == 0 {
+					y = tc.y
+				}
+				fmt.Fprintf(&csv, "E%d,%d,%d\n", i+1, nodeID(t, m, 1, x, y), nodeID(t, m, 2, x, y))
+			}
+			list := filepath.Join(dir, "pairs.csv")
+			write(t, list, csv.String())
+			// The same welds built with interpolated ends and read back
+			// from connectors.json.
+			var jl strings.Builder
+			jl.WriteString("id,x,y,z\n")
+			fmt.Fprintf(&jl, "E1,100,%g,0.5\nE2,20,50,0.5\nE3,180,50,0.5\n", tc.y)
+			joints := filepath.Join(dir, "welds.csv")
+			write(t, joints, jl.String())
+			built := filepath.Join(dir, "built")
+			if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", joints, "--out", built, "--quiet", "--fail-on", "never"); code != exitOK {
+				t.Fatalf("build: exit %d: %s", code, errs)
+			}
+			for _, in := range []string{list, filepath.Join(built, "connectors.json")} {
+				out := filepath.Join(dir, "check")
+				if code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", in, "--out", out, "--quiet", "--fail-on", "never"); code != exitOK {
+					t.Fatalf("check %s: exit %d: %s", in, code, errs)
+				}
+				doc := reportOf(t, out)
+				var got []string
+				for _, f := range findingSet(doc) {
+					if strings.HasPrefix(f, "edge-close") {
+						got = append(got, f)
+					}
+				}
+				if !slices.Equal(got, tc.want) {
+					t.Errorf("check %s: edge-close findings %v, want %v", filepath.Base(in), got, tc.want)
+				}
+				flagged := 0
+				if len(tc.want) > 0 {
+					flagged = 1
+				}
+				if s := doc.Summary.ByState; s["flagged"] != flagged {
+					t.Errorf("check %s: %d flagged, want %d (states %v)", filepath.Base(in), s["flagged"], flagged, s)
+				}
+			}
+		})
+	}
+}

@@ -83,6 +83,8 @@ mesh and parts table, and reports what a person would have to look for by hand:
   nodes-apart, gap-open, gap-closed
                 node pairs that do not face each other or do not touch, by the
                 rules build applies
+  edge-close    weld centres closer than one nugget diameter to a sheet's
+                free edge, as build judges them
   free-part     parts joined by no connector to the largest group
   mechanism     parts the connectors do not hold against every rigid-body
                 motion, with the free motion (a turn about the line of a row

@@ -89,10 +89,11 @@ func TestFacingPairsNonCongruent(t *testing.T) {
 		width, centre float64
 	}{
 		// Every node lies 2.5 mm (half an element) from the plate's
-		// nodes in x and y: none faces one. The overlap, 95 x 15 mm, is
-		// traced on the plate, whose elements the strip's corners cut
-		// diagonally: each corner loses half of a 2.5 mm square.
-		{"shifted grid", shifted, joints.Projected, 0, 95*15 - 4*2.5*2.5/2, 95, (95*15 - 4*2.5*2.5/2) / 95, 20},
+		// nodes in x and y: none faces one. The overlap is the strip,
+		// 95 x 15 mm (hand calculation), traced on the plate, whose
+		// elements the strip's corners fall inside: each corner is put
+		// back (it was cut diagonally, half a 2.5 mm square short).
+		{"shifted grid", shifted, joints.Projected, 0, 95 * 15, 95, 15, 20},
 		{"triangles against quads", tri, joints.Projected, -1, 94.3 * 20.5, 94.3, 20.5, 20.95},
 		// Triangles on the quads' grid keep the nodes: they all face.
 		{"triangles on the same grid", aligned, joints.Congruent, 105, 2000, 100, 20, 20},
@@ -103,7 +104,7 @@ func TestFacingPairsNonCongruent(t *testing.T) {
 			if f.Match != tc.match || tc.facing >= 0 && len(f.Facing) != tc.facing {
 				t.Errorf("%v with %d facing pairs, want %v with %d", f.Match, len(f.Facing), tc.match, tc.facing)
 			}
-			if !near(f.Area, tc.area, 1e-6*tc.area) || !near(f.Length, tc.length, 0.05) || !near(f.Width.Mean, tc.width, 0.05) {
+			if !near(f.Area, tc.area, 1e-5*tc.area) || !near(f.Length, tc.length, 0.05) || !near(f.Width.Mean, tc.width, 0.05) {
 				t.Errorf("area %g, length %g, width %+v; want %g, %g, %g", f.Area, f.Length, f.Width, tc.area, tc.length, tc.width)
 			}
 			for _, p := range f.Centreline {

@@ -134,7 +134,15 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 	if p, ok := w.cross[key]; ok {
 		return p
 	}
-	a, b := w.m.Coords[u], w.m.Coords[v]
+	p := w.boundary(e, w.m.Coords[u], w.m.Coords[v], w.bisect, crossingTol)
+	w.cross[key] = p
+	return p
+}
+
+// boundary returns the last point in contact on the segment from a (in
+// contact, on element e) to b (out of it), where the overlap ends, found
+// in at most steps probes to a bracket of tol, mm.
+func (w *pairWork) boundary(e int32, a, b r3.Vec, steps int, tol float64) r3.Vec {
 	at := func(t float64) r3.Vec { return r3.Add(a, r3.Scale(t, r3.Sub(b, a))) }
 	l := r3.Norm(r3.Sub(b, a))
 	// The contact margin (not above 0 in contact) grows about linearly
@@ -148,8 +156,8 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 	rh, _ := w.c.ProbeWith(&w.probe, b, e, w.other)
 	fh := rh.Margin
 	t0, f0 := -1.0, 0.0 // a second point beyond the edge, for the secant
-	for range w.bisect {
-		if (hi-lo)*l < crossingTol {
+	for range steps {
+		if (hi-lo)*l < tol {
 			break
 		}
 		t := (lo + hi) / 2
@@ -169,9 +177,7 @@ func (w *pairWork) crossing(e, u, v int32) r3.Vec {
 		t0, f0 = hi, fh
 		hi, fh = t, r.Margin
 	}
-	p := r3.Add(a, r3.Scale(lo, r3.Sub(b, a))) // the last point found in contact
-	w.cross[key] = p
-	return p
+	return at(lo) // the last point found in contact
 }
 
 // sample is a piece of the overlap: the covered part of one host
@@ -204,8 +210,11 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		p    r3.Vec
 		edge int // the element edge the vertex lies on (crossings), or -1 for corners
 		k    int // corner index for corners
+		// corner: a vertex put back into a cut (edge cornerVertex) that
+		// stands in the outline.
+		corner bool
 	}
-	var verts []vert
+	var verts, lineBuf []vert
 	// How many elements of the component use each element edge: an edge
 	// used once bounds the overlap (an edge with a node in contact is
 	// shared only with elements of the same component).
@@ -247,13 +256,60 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		if len(verts) < 3 {
 			continue
 		}
+		// The polygon's normal, from the corners and crossings (it keeps
+		// its direction as corners are put back below).
+		var nrm r3.Vec
+		for i := 1; i+1 < len(verts); i++ {
+			nrm = r3.Add(nrm, r3.Cross(r3.Sub(verts[i].p, verts[0].p), r3.Sub(verts[i+1].p, verts[0].p)))
+		}
+		// A cut between two crossings is straight; where the overlap's
+		// edge turns inside the element (the other sheet's corner, or
+		// the inner corner of an L-shaped overlap) the corner is put
+		// back between them. A polygon without area (an element that
+		// touches the overlap along an edge) is left as it is.
+		flat := r3.Norm2(nrm) == 0
+		if !flat {
+			nrm = r3.Unit(nrm)
+		}
+		for i := 0; i < len(verts) && !flat; i++ {
+			a, b := verts[i], verts[(i+1)%len(verts)]
+			if a.edge < 0 || b.edge < 0 {
+				continue
+			}
+			pts := w.refineCut(e, nodes[:nc], cov[:nc], nrm, a.p, b.p, cutDepth, nil)
+			if len(pts) == 0 {
+				continue
+			}
+			// A corner stands in the outline when it lies well off the
+			// cut; points a little off it (where a crossing, located to
+			// a bracket, lies a little inside the edge) only mend the
+			// area.
+			off, left := 0.0, r3.Unit(r3.Cross(nrm, r3.Sub(b.p, a.p)))
+			for _, q := range pts {
+				off = math.Max(off, math.Abs(r3.Dot(r3.Sub(q, a.p), left)))
+			}
+			corner := off > cornerOff*m.ElemSize(int(e))
+			ins := make([]vert, len(pts))
+			for k, q := range pts {
+				ins[k] = vert{key: vkey{-3 - e, int32(i*cutPoints + k)}, p: q, edge: cornerVertex, k: -1, corner: corner}
+			}
+			verts = slices.Insert(verts, i+1, ins...)
+			i += len(ins)
+		}
 		// Outline: cuts through the element, and the element's edges
 		// that no other region element shares.
-		for i := range verts {
-			a, b := verts[i], verts[(i+1)%len(verts)]
+		line := lineBuf[:0]
+		for _, v := range verts {
+			if v.edge != cornerVertex || v.corner {
+				line = append(line, v)
+			}
+		}
+		lineBuf = line
+		for i := range line {
+			a, b := line[i], line[(i+1)%len(line)]
 			onEdge := -1
 			switch {
-			case a.edge >= 0 && b.edge >= 0:
+			case a.edge >= 0 && b.edge >= 0, a.edge == cornerVertex || b.edge == cornerVertex:
 				segs = append(segs, segment{a.key, b.key, a.p, b.p, e}) // a cut
 				continue
 			case a.edge < 0 && b.edge < 0:
@@ -267,18 +323,20 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 				segs = append(segs, segment{a.key, b.key, a.p, b.p, e})
 			}
 		}
-		// Area and centroid by a fan from the first vertex.
+		// Area and centroid by a fan from the first vertex, signed
+		// along the polygon's normal: a corner put back may make the
+		// polygon concave.
 		var (
 			area float64
 			cen  r3.Vec
 		)
 		for i := 1; i+1 < len(verts); i++ {
 			t := r3.Cross(r3.Sub(verts[i].p, verts[0].p), r3.Sub(verts[i+1].p, verts[0].p))
-			ta := math.Sqrt(r3.Norm2(t)) / 2
+			ta := r3.Dot(t, nrm) / 2
 			area += ta
 			cen = r3.Add(cen, r3.Scale(ta/3, r3.Add(verts[0].p, r3.Add(verts[i].p, verts[i+1].p))))
 		}
-		if !(area > 0) {
+		if !(area > 1e-9*m.Area(int(e))) {
 			continue
 		}
 		cen = r3.Scale(1/area, cen)
@@ -300,6 +358,95 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		samples = append(samples, sample{elem: e, pos: cen, area: area, normal: w.c.Normal(e), nodes: in})
 	}
 	return samples, segs
+}
+
+// Corners put back into cuts (refineCut): a vertex so put back has edge
+// cornerVertex; a cut is split at most cutDepth times over, so that it
+// gains at most cutPoints vertices.
+const (
+	cornerVertex = -2
+	cutDepth     = 4
+	cutPoints    = 1<<cutDepth - 1
+	// cornerSteps bounds the probes that find a corner put back: the
+	// contact margin does not grow linearly round a corner, so the
+	// secant steps of boundary do not close in as on a straight edge.
+	cornerSteps = 40
+	// cornerOff, times the element size, is how far off its cut a
+	// corner put back must lie to stand in the outline.
+	cornerOff = 0.1
+)
+
+// refineCut returns the points to put between crossings a and b of
+// element e (its corner nodes and whether each is in contact, the
+// polygon's normal nrm; the overlap lies to the left of a->b) where the
+// overlap's edge does not run straight from a to b: when the mid-point of
+// the cut is out of contact the edge turns into the overlap (its corner
+// lies between the mid-point and a node in contact), when a point just
+// beyond it is in contact the edge bulges out (towards a node out of
+// contact). The corner found is put in, and each half refined again, at
+// most depth times; on a straight edge it takes two probes.
+func (w *pairWork) refineCut(e int32, nodes []int32, cov []bool, nrm, a, b r3.Vec, depth int, out []r3.Vec) []r3.Vec {
+	if depth == 0 {
+		return out
+	}
+	d := r3.Sub(b, a)
+	l := math.Sqrt(r3.Norm2(d))
+	if l < 4*crossingTol {
+		return out
+	}
+	left := r3.Unit(r3.Cross(nrm, d))
+	mid := r3.Add(a, r3.Scale(0.5, d))
+	probe := func(q r3.Vec) bool {
+		_, in := w.c.ProbeWith(&w.probe, q, e, w.other)
+		return in
+	}
+	// The node, in contact (toward the overlap) or not, seen from mid
+	// most nearly along dir.
+	towards := func(dir r3.Vec, in bool) (r3.Vec, bool) {
+		best, bc := r3.Vec{}, 0.0
+		for k, n := range nodes {
+			if cov[k] != in {
+				continue
+			}
+			v := r3.Sub(w.m.Coords[n], mid)
+			if nv := math.Sqrt(r3.Norm2(v)); nv > 0 {
+				if c := r3.Dot(v, dir) / nv; c > bc {
+					best, bc = w.m.Coords[n], c
+				}
+			}
+		}
+		return best, bc > 0
+	}
+	step := 2 * crossingTol
+	var inside, outside r3.Vec
+	if probe(mid) {
+		if !probe(r3.Sub(mid, r3.Scale(step, left))) {
+			return out // the edge runs along the cut
+		}
+		u, ok := towards(r3.Scale(-1, left), false)
+		if !ok {
+			return out
+		}
+		inside, outside = mid, u
+	} else {
+		if probe(r3.Add(mid, r3.Scale(step, left))) {
+			return out
+		}
+		v, ok := towards(left, true)
+		if !ok {
+			return out
+		}
+		inside, outside = v, mid
+	}
+	c := w.boundary(e, inside, outside, cornerSteps, crossingTol/100)
+	// Off the cut by less than the crossings' own bracket: nothing to
+	// put back.
+	if off := math.Abs(r3.Dot(r3.Sub(c, a), left)); off < step {
+		return out
+	}
+	out = w.refineCut(e, nodes, cov, nrm, a, c, depth-1, out)
+	out = append(out, c)
+	return w.refineCut(e, nodes, cov, nrm, c, b, depth-1, out)
 }
 
 // edgeKey identifies the edge between nodes u and v, in either

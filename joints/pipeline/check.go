@@ -6,14 +6,18 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/joints/audit"
+	"github.com/joinery-cae/joinery/joints/spot"
 	"github.com/joinery-cae/joinery/writers"
 	"github.com/joinery-cae/joinery/writers/document"
 	"github.com/joinery-cae/joinery/writers/html"
@@ -112,6 +116,7 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	if err != nil {
 		return nil, err
 	}
+	edgeClose(m, conns, &o)
 	res := &joints.Result{Connectors: conns, Options: o}
 	for _, c := range conns {
 		res.Findings = append(res.Findings, c.Findings...)
@@ -142,6 +147,43 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 		return nil, err
 	}
 	return &Outcome{Out: s.Out, Files: CheckFiles(), RunID: info.RunID, Report: doc, Result: res, Reached: s.Fail && res.Reached(s.FailOn)}, nil
+}
+
+// edgeClose judges the edge distance of the spot welds read (conns, the
+// built ones) as build judges those it makes: each sheet's distance to
+// its part's free edge is measured on the mesh (a document's recorded
+// edge distances are not trusted: the mesh may have changed), and a
+// weld centre closer than the edge limit gets build's edge-close
+// warning; a weld so found that was built is flagged.
+func edgeClose(m *geom.Mesh, conns []joints.Connector, o *joints.BuildOptions) {
+	var pts []r3.Vec
+	margin := 0.0
+	for i := range conns {
+		if c := &conns[i]; weldToJudge(c) {
+			pts = append(pts, c.Joint.Point)
+			margin = math.Max(margin, spot.EdgeReach(c, o))
+		}
+	}
+	if len(pts) == 0 {
+		return
+	}
+	x := geom.NewIndexNear(m, pts, 1.01*margin, false)
+	for i := range conns {
+		c := &conns[i]
+		if !weldToJudge(c) {
+			continue
+		}
+		fs := spot.EdgeFindings(x, c, o)
+		c.Findings = append(c.Findings, fs...)
+		if len(fs) > 0 && c.Status == joints.Built {
+			c.Status = joints.Flagged
+		}
+	}
+}
+
+// weldToJudge reports whether c is a built spot weld with a stack.
+func weldToJudge(c *joints.Connector) bool {
+	return c.Joint.Kind == joints.Spot && c.Status != joints.NotBuilt && len(c.Stack.Sheets) >= 2
 }
 
 // connectorFile is a connector file read, not yet resolved against a

@@ -120,6 +120,26 @@ func GapFinding(j *joints.Joint, a, b joints.Sheet, o *joints.BuildOptions) (joi
 	return joints.Finding{}, false
 }
 
+// EdgeFindings sets the edge distance of every sheet of connector c, a
+// spot weld read from elsewhere (a node-pair list, a connectors.json),
+// from the mesh of x and returns the edge-close warnings build would
+// give it: a weld centre closer than o.EdgeFactor nugget diameters to
+// a sheet's free edge, or beyond it. x must index the elements within
+// EdgeReach(c, o) of the weld point.
+func EdgeFindings(x *geom.Index, c *joints.Connector, o *joints.BuildOptions) []joints.Finding {
+	return checkEdges(x, &c.Joint, &c.Stack, c.Diameter, o)
+}
+
+// EdgeReach returns how far from connector c's weld point EdgeFindings
+// looks for elements, mm.
+func EdgeReach(c *joints.Connector, o *joints.BuildOptions) float64 {
+	reach := 0.0
+	for _, s := range c.Stack.Sheets {
+		reach = math.Max(reach, s.Proj.Dist)
+	}
+	return reach + 2*o.EdgeFactor*c.Diameter
+}
+
 // checkEdges sets each sheet's distance to its part's nearest free edge
 // and reports welds closer than the edge limit (EdgeFactor nugget
 // diameters). One element query around the weld serves every sheet: it
