@@ -85,11 +85,7 @@ func WriteReportText(w io.Writer, doc *document.ReportDoc) error {
 
 	ew.printf("\npart pairs joined\n")
 	tw := tabwriter.NewWriter(ew, 0, 0, 2, ' ', tabwriter.AlignRight)
-	flagged := "flagged"
-	if doc.Command == "check" {
-		flagged = "flagged by build"
-	}
-	fmt.Fprintf(tw, "part\tpart\tconnectors\t%s\t\n", flagged)
+	fmt.Fprintf(tw, "part\tpart\tconnectors\tflagged\t\n")
 	for _, p := range s.PartPairs {
 		fmt.Fprintf(tw, "%d\t%d\t%d\t%d\t\n", p.A, p.B, p.Count, p.Flagged)
 	}
@@ -297,10 +293,11 @@ func WriteBuildSummary(w io.Writer, doc *document.ReportDoc, outDir string, file
 func summaryLines(ew *errWriter, doc *document.ReportDoc) {
 	s := doc.Summary
 	if doc.Command == "check" {
-		// A check reads the states its connectors were written with; its
-		// own findings are counted below.
+		// A check keeps the states its connectors were written with,
+		// flagging those it finds at fault itself: a connector flagged
+		// by its build may have no finding here.
 		ew.printf("connectors  %d (%s)\n", s.Joints, countList(s.ByKind))
-		ew.printf("as written  %d built (%d flagged by their build), %d not built\n",
+		ew.printf("states      %d built (%d flagged, by their build or this check), %d not built\n",
 			s.ByState["built"]+s.ByState["flagged"], s.ByState["flagged"], s.ByState["not-built"])
 	} else {
 		ew.printf("joints      %d (%s)\n", s.Joints, countList(s.ByKind))
