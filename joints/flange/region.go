@@ -152,30 +152,60 @@ func (w *pairWork) boundary(e int32, a, b r3.Vec, steps int, tol float64) r3.Vec
 	// probes; bisection takes over when they do not close in (the margin
 	// jumps where the normals stop being near-parallel). u is in
 	// contact: its margin is taken as 0.
+	// Without the probe just beyond a prediction that landed in contact,
+	// the bracket would shrink from inside by the clamp's 1/64 a step,
+	// and the edge be found up to a few tenths of a mm short.
 	lo, hi := 0.0, 1.0
 	rh, _ := w.c.ProbeWith(&w.probe, b, e, w.other)
 	fh := rh.Margin
 	t0, f0 := -1.0, 0.0 // a second point beyond the edge, for the secant
+	const (
+		predict  = iota // a secant or linear step from beyond the edge
+		overstep        // just beyond a predicted step that landed in contact
+		halve           // bisection
+	)
+	mode := predict
+	// Predictions aim a quarter of the bracket inside the edge, and the
+	// probe after one half of it further: both land well clear of the
+	// edge itself, where rounding would decide in or out (and the result
+	// would differ between units or with the model's position).
+	aim := tol / 4
 	for range steps {
 		if (hi-lo)*l < tol {
 			break
 		}
-		t := (lo + hi) / 2
+		var t float64
 		switch {
-		case fh >= 1:
+		case mode == overstep:
+			t = min(lo+tol/(2*l), (lo+hi)/2)
+		case mode == halve || fh >= 1:
+			t = (lo + hi) / 2
 		case t0 > hi && f0 > fh:
-			t = hi - fh*(t0-hi)/(f0-fh) // secant through two points beyond
+			t = hi - (fh+aim)*(t0-hi)/(f0-fh) // secant through two points beyond
 		default:
-			t = hi - fh/l // as if the margin grew one for one
+			t = hi - (fh+aim)/l // as if the margin grew one for one
 		}
-		t = min(max(t, lo+(hi-lo)/64), hi-(hi-lo)/64)
+		if mode == predict {
+			t = min(max(t, lo+(hi-lo)/64), hi-(hi-lo)/64)
+		}
 		r, in := w.c.ProbeWith(&w.probe, at(t), e, w.other)
 		if in {
 			lo = t
+			// A prediction that landed in contact found the edge to its
+			// own accuracy: the next probe goes just beyond, which
+			// closes the bracket when it was good. When that one lands in
+			// contact too, the prediction fell short: bisect.
+			switch mode {
+			case predict:
+				mode = overstep
+			case overstep:
+				mode = halve
+			}
 			continue
 		}
 		t0, f0 = hi, fh
 		hi, fh = t, r.Margin
+		mode = predict
 	}
 	return at(lo) // the last point found in contact
 }
