@@ -38,6 +38,11 @@ type Span struct {
 	Min, Mean, Max float64
 }
 
+// MinMeanNormal is the shortest area-weighted mean of a flange's unit
+// normals that gives it a Normal (our choice: the normals of its host
+// elements spread over less than about 60 degrees either way).
+const MinMeanNormal = 0.5
+
 // Flange is one connected region where the sheets of two parts lie in
 // contact, traced on the mesh of one of them (the host).
 type Flange struct {
@@ -65,6 +70,12 @@ type Flange struct {
 	// surface between the sheets; a closed flange's does not repeat its
 	// first point.
 	Centreline []r3.Vec
+	// Normal is the host sheet's mean unit normal over the overlap
+	// (area-weighted), signed so that its largest component is
+	// positive: the direction a plan view of the flange looks along. It
+	// is zero where the sheet turns so far that no mean stands for it
+	// (the mean's length below MinMeanNormal, as on a band round a pipe).
+	Normal r3.Vec
 	// Nodes counts the host's nodes in contact.
 	Nodes int
 	// Facing lists the facing node pairs of the flange (A on Parts[0]),

@@ -37,6 +37,11 @@ func TestProjectedStripEdges(t *testing.T) {
 			if !near(f.Area, 100*w, tol*2*(100+w)) {
 				t.Errorf("area %.3f, want %g within %g", f.Area, 100*w, tol*2*(100+w))
 			}
+			// Flat sheets in the plane z = const: the plan view looks
+			// along +z.
+			if !near(f.Normal.Z, 1, 1e-12) {
+				t.Errorf("normal %v, want (0, 0, 1)", f.Normal)
+			}
 			for _, p := range f.Centreline {
 				if !near(p.Y, (y0+40)/2, tol) {
 					t.Errorf("centreline point %v off the mid-line y %g", p, (y0+40)/2)

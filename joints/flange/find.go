@@ -211,7 +211,7 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 		f := joints.Flange{
 			Parts: [2]int64{a, b}, Host: m.Parts[w.host].ID, Closed: o.closed, Area: area, Length: o.length,
 			Width:      joints.Span{Min: o.width[0], Mean: o.width[1], Max: o.width[2]},
-			Centreline: o.centre,
+			Centreline: o.centre, Normal: meanNormal(samples),
 		}
 		// Thicknesses and nodes in contact.
 		var th, to []float64
@@ -271,6 +271,34 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 	}
 	w.outlines = outlines
 	return fs
+}
+
+// meanNormal returns the area-weighted mean of the samples' unit
+// normals, made a unit vector whose largest component is positive, or
+// zero when its length is below joints.MinMeanNormal of the area.
+func meanNormal(samples []sample) r3.Vec {
+	var sum r3.Vec
+	area := 0.0
+	for _, s := range samples {
+		sum = r3.Add(sum, r3.Scale(s.area, s.normal))
+		area += s.area
+	}
+	l := r3.Norm(sum)
+	if !(area > 0) || l < joints.MinMeanNormal*area {
+		return r3.Vec{}
+	}
+	n := r3.Scale(1/l, sum)
+	big := n.X
+	if math.Abs(n.Y) > math.Abs(big) {
+		big = n.Y
+	}
+	if math.Abs(n.Z) > math.Abs(big) {
+		big = n.Z
+	}
+	if big < 0 {
+		n = r3.Scale(-1, n)
+	}
+	return n
 }
 
 // median returns the median of xs (the lower middle for an even count),

@@ -3,6 +3,8 @@ package document
 import (
 	"io"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -76,6 +78,7 @@ type FlangeDoc struct {
 	Width           SpanDoc         `json:"width"`
 	Nodes           int             `json:"nodes_in_contact"`
 	Centreline      []Vec           `json:"centreline"`
+	Normal          *Vec            `json:"normal"`
 	FacingTolerance *SpanDoc        `json:"facing_tolerance"`
 	Facing          [][4]float64    `json:"facing"`
 	Pitch           *float64        `json:"pitch"`
@@ -141,6 +144,10 @@ func flangeDoc(m *geom.Mesh, f *joints.Flange) FlangeDoc {
 	}
 	for i, p := range f.Centreline {
 		d.Centreline[i] = vecOf(p)
+	}
+	if f.Normal != (r3.Vec{}) {
+		v := vecOf(f.Normal)
+		d.Normal = &v
 	}
 	if len(f.Facing) > 0 {
 		t := f.FacingTolerance

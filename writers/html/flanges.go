@@ -272,13 +272,25 @@ func (s *Flanges) writePlan(w *Writer, p *Page, f *document.FlangeDoc, oa, ob *P
 	if len(cl) < 2 {
 		major, _ = principal(all, c)
 	}
-	_, minor := principal(all, c)
-	e1 := signed(major)
-	n := r3.Sub(minor, r3.Scale(r3.Dot(minor, e1), e1))
-	if r3.Norm(n) < 1e-6 {
-		n = perpendicular(e1)
+	var e1, n r3.Vec
+	if f.Normal != nil {
+		// Seen along the sheets' own mean normal: a straight flange's
+		// points lie on a line and leave the plane to rounding.
+		n = vec(*f.Normal)
+		e1 = r3.Sub(major, r3.Scale(r3.Dot(major, n), n))
+		if r3.Norm(e1) < 1e-6 {
+			e1 = perpendicular(n)
+		}
+		e1 = signed(r3.Unit(e1))
+	} else {
+		_, minor := principal(all, c)
+		e1 = signed(major)
+		n = r3.Sub(minor, r3.Scale(r3.Dot(minor, e1), e1))
+		if r3.Norm(n) < 1e-6 {
+			n = perpendicular(e1)
+		}
+		n = signed(r3.Unit(n))
 	}
-	n = signed(r3.Unit(n))
 	e2 := r3.Cross(n, e1)
 	f0 := &frame{origin: c, right: e1, up: e2}
 	b := emptyBox()
