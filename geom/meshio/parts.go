@@ -137,7 +137,7 @@ func readPartsYAML(r io.Reader, name string, scale float64) ([]geom.Part, error)
 			return nil, y.Errorf(it, "part %d has no thickness", p.ID)
 		}
 		if hasOff {
-			if err := combineOffset(&p, hasSurf, off); err != nil {
+			if err := combineOffset(&p, hasSurf, off, scale); err != nil {
 				return nil, y.Errorf(offNode, "%w", err)
 			}
 		}
@@ -223,7 +223,7 @@ func readPartsCSV(r io.Reader, name string, scale float64) ([]geom.Part, error) 
 			if err != nil {
 				return nil, err
 			}
-			if err := combineOffset(&p, at[kSurface] >= 0 && rec[at[kSurface]] != "", off); err != nil {
+			if err := combineOffset(&p, at[kSurface] >= 0 && rec[at[kSurface]] != "", off, scale); err != nil {
 				return nil, c.Errorf(col, "%w", err)
 			}
 		}
@@ -268,19 +268,24 @@ func parseSurface(s string) (geom.Surface, error) {
 }
 
 // combineOffset applies the offset an entry gives to its part: the
-// signed distance, mm, from the meshed surface to the mid-surface along
-// the element normals, which must be that of mid (0), top (-t/2) or
-// bottom (+t/2) to within geom.OffsetTolerance. Alone it sets the
-// surface; given with a surface, the two must agree.
-func combineOffset(p *geom.Part, hasSurface bool, off float64) error {
-	s, ok := geom.SurfaceForOffset(off, p.Thickness)
+// signed distance from the meshed surface to the mid-surface along the
+// element normals, in the table's unit of scale mm like the thickness,
+// which must be that of mid (0), top (-t/2) or bottom (+t/2) to within
+// geom.OffsetTolerance, compared in mm whatever the unit. Alone it sets
+// the surface; given with a surface, the two must agree.
+func combineOffset(p *geom.Part, hasSurface bool, off, scale float64) error {
+	if scale <= 0 {
+		scale = 1
+	}
+	t := p.Thickness * scale
+	s, ok := geom.SurfaceForOffset(off*scale, t)
 	switch {
 	case !ok:
-		return fmt.Errorf("offset: %g mm for thickness %g mm is none of 0 (mid), %g (top) or %g (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
-			off, p.Thickness, geom.SurfaceTop.MidOffset(p.Thickness), geom.SurfaceBottom.MidOffset(p.Thickness))
+		return fmt.Errorf("offset: %s for thickness %s is none of 0 (mid), %g mm (top) or %g mm (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
+			geom.InMM(off, scale), geom.InMM(p.Thickness, scale), geom.SurfaceTop.MidOffset(t), geom.SurfaceBottom.MidOffset(t))
 	case hasSurface && s != p.Surface:
-		return fmt.Errorf("offset: %g mm is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %g mm)",
-			off, s, p.Surface, p.Surface.MidOffset(p.Thickness), p.Thickness)
+		return fmt.Errorf("offset: %s is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %s)",
+			geom.InMM(off, scale), s, p.Surface, p.Surface.MidOffset(t), geom.InMM(p.Thickness, scale))
 	}
 	p.Surface = s
 	return nil
