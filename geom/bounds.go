@@ -44,7 +44,7 @@ func CheckThickness(t, scale float64) error {
 	case !(t > 0) || math.IsInf(t, 0):
 		return fmt.Errorf("thickness %g is not a positive number", t)
 	case t*scale > MaxThickness:
-		return fmt.Errorf("thickness %s is more than %g mm, thicker than any sheet", inMM(t, scale), float64(MaxThickness))
+		return fmt.Errorf("thickness %s is more than %g mm, thicker than any sheet", InMM(t, scale), float64(MaxThickness))
 	}
 	return nil
 }
@@ -76,15 +76,15 @@ func CheckCoordinates(x, y, z, scale float64) error {
 		case math.IsNaN(v) || math.IsInf(v, 0):
 			return fmt.Errorf("non-finite coordinate (%g, %g, %g)", x, y, z)
 		case math.Abs(v)*scale > MaxCoordinate:
-			return fmt.Errorf("coordinate %s lies more than %g km from the origin (%g, %g, %g): no vehicle is that large", inMM(v, scale), float64(MaxCoordinate/1e6), x, y, z)
+			return fmt.Errorf("coordinate %s lies more than %g km from the origin (%g, %g, %g): no vehicle is that large", InMM(v, scale), float64(MaxCoordinate/1e6), x, y, z)
 		}
 	}
 	return nil
 }
 
-// inMM formats a value in a unit of scale mm for messages: "120 mm",
+// InMM formats a value in a unit of scale mm for messages: "120 mm",
 // "0.2 m (200 mm)", "5 in (127 mm)".
-func inMM(v, scale float64) string {
+func InMM(v, scale float64) string {
 	switch scale {
 	case 1:
 		return fmt.Sprintf("%g mm", v)

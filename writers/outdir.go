@@ -199,6 +199,9 @@ func (d *OutputDir) resolve() error {
 	if parent == abs {
 		return &notOwned{fmt.Errorf("output directory %s is the root of the file system; choose a directory of its own", d.name)}
 	}
+	if err := insideSet(d.name, parent); err != nil {
+		return err
+	}
 	for p := parent; ; p = filepath.Dir(p) {
 		if _, err := os.Lstat(p); err == nil || filepath.Dir(p) == p {
 			break
@@ -221,6 +224,29 @@ func (d *OutputDir) resolve() error {
 	}
 	d.dir, d.parent, d.base = dir, parent, filepath.Base(dir)
 	return nil
+}
+
+// insideSet refuses an output directory (name, whose parent is the
+// absolute path parent) that would lie inside the directory of another
+// set: that set's marker does not list it, so the next run into the
+// outer directory would refuse the whole (a set's directory holds that
+// set alone). Nested sets (a sweep's variants) are written by the outer
+// set's own run, not through OpenSet.
+func insideSet(name, parent string) error {
+	for p := parent; ; p = filepath.Dir(p) {
+		if fi, err := os.Lstat(filepath.Join(p, document.SetMarker)); err == nil && fi.Mode().IsRegular() {
+			run := "unknown"
+			if doc, err := readMarker(p); err == nil {
+				run = doc.RunID
+			}
+			return &notOwned{fmt.Errorf("output directory %s lies inside the output set of run %s in %s; a set's directory holds that set alone "+
+				"(the next run into %s would refuse what is added to it): choose a directory beside it, such as %s-%s",
+				name, run, p, p, p, filepath.Base(name))}
+		}
+		if filepath.Dir(p) == p {
+			return nil
+		}
+	}
 }
 
 // leftovers matches the names a run leaves beside the output directory

@@ -679,3 +679,41 @@ func TestReadSetWhileReplaced(t *testing.T) {
 		}
 	}
 }
+
+// An output directory inside another set's directory is refused before
+// anything is written (ErrNotOwned: the command line's mistake): the new
+// set would be a folder the outer set does not list, so that the next run
+// into the outer directory refuses it (exit 3), as the example's
+// flanges --out out/flanges followed by build did. A set whose parent
+// holds no marker is written as before.
+func TestSetInsideAnotherSet(t *testing.T) {
+	base := t.TempDir()
+	outer := filepath.Join(base, "out")
+	if err := WriteSet(outer, testSet(runA, 1)); err != nil {
+		t.Fatal(err)
+	}
+	before, _ := snapshot(t, outer)
+	for _, inner := range []string{filepath.Join(outer, "flanges"), filepath.Join(outer, "a", "b")} {
+		err := WriteSet(inner, testSet(runB, 1))
+		if want := "lies inside the output set of run " + runA; !errors.Is(err, ErrNotOwned) || !strings.Contains(err.Error(), want) {
+			t.Errorf("%s: err %v, want ErrNotOwned containing %q", inner, err, want)
+		}
+	}
+	if after, _ := snapshot(t, outer); fmt.Sprint(before) != fmt.Sprint(after) {
+		t.Errorf("the outer set changed: %v", keys(after))
+	}
+	if _, err := CheckSet(outer); err != nil {
+		t.Errorf("the outer set after the refusals: %v", err)
+	}
+	if err := WriteSet(outer, testSet(runB, 1)); err != nil {
+		t.Errorf("the next run into the outer directory: %v", err)
+	}
+	beside := filepath.Join(base, "out-flanges")
+	if err := WriteSet(beside, testSet(runB, 1)); err != nil {
+		t.Errorf("a set beside another: %v", err)
+	}
+	plain := filepath.Join(base, "work", "out")
+	if err := WriteSet(plain, testSet(runB, 1)); err != nil {
+		t.Errorf("a set in a plain directory: %v", err)
+	}
+}

@@ -55,8 +55,8 @@ variants are built in parallel. DIR holds, written as one set:
                       each variant's own page
 Keys (--vary, or the job's sweep: vary: with the job keys): ` + strings.Join(keys, ", ") + `.
 Values are separated by ','; values take the form their build flag takes, a set
-of degrees of freedom written with '+'. The bolt keys need a Joinery that
-builds bolts. A variant whose connectors leave a mechanism or an unrestrained
+of degrees of freedom written with '+'. The bolt keys change the bolts'
+connectors only. A variant whose connectors leave a mechanism or an unrestrained
 freedom is flagged (MOVES) in the manifest and the summary. Other build flags
 apply to every variant; --vary wins over them and over the job's build settings.
 

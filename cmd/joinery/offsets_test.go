@@ -273,3 +273,87 @@ func abs(v float64) float64 {
 }
 
 func geom3(x, y, z float64) r3.Vec { return r3.Vec{X: x, Y: y, Z: z} }
+
+// The planted model in metres and in inches, end to end: offsets finds
+// the same surfaces as in mm, and its surfaces.yaml, laid over the parts
+// table in the same unit, reads back as those surfaces and gives a build
+// without gap findings. Part 30 (0.8 mm, meshed on its bottom face) has
+// the offset +0.4 mm: +0.0004 m, within 0.0005 of 0, which a tolerance
+// taken in the table's unit instead of mm reads as mid (hand
+// calculation; 1 in = 25.4 mm).
+func TestOffsetsPlantedModelInOtherUnits(t *testing.T) {
+	plates := offsettest.Planted()
+	for _, u := range []joints.Unit{joints.Metre, joints.Inch} {
+		t.Run(u.String(), func(t *testing.T) {
+			dir := t.TempDir()
+			s := u.MM()
+			m, err := offsettest.Mesh(plates, offsettest.H)
+			if err != nil {
+				t.Fatal(err)
+			}
+			m.Scale(1 / s)
+			mesh := filepath.Join(dir, "model.jmesh")
+			var mb strings.Builder
+			if err := native.Write(&mb, m); err != nil {
+				t.Fatal(err)
+			}
+			var pt, wl strings.Builder
+			pt.WriteString("parts:\n")
+			for _, p := range plates {
+				fmt.Fprintf(&pt, "  - {id: %d, thickness: %v, surface: mid}\n", p.ID, p.Thickness/s)
+			}
+			wl.WriteString("id,x,y,z\n")
+			for _, w := range offsettest.PlantedWelds() {
+				fmt.Fprintf(&wl, "%s,%v,%v,%v\n", w.ID, w.Point.X/s, w.Point.Y/s, w.Point.Z/s)
+			}
+			parts, welds := filepath.Join(dir, "parts.yaml"), filepath.Join(dir, "welds.csv")
+			for name, text := range map[string]string{mesh: mb.String(), parts: pt.String(), welds: wl.String()} {
+				if err := os.WriteFile(name, []byte(text), 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			in := []string{"--mesh", mesh, "--joints", welds, "--units", u.String(), "--parts", parts}
+			out := filepath.Join(dir, "offsets")
+			if code, _, errs := runCLI(t, append([]string{"offsets", "--out", out, "--quiet"}, in...)...); code != exitOK {
+				t.Fatalf("offsets: exit %d: %s", code, errs)
+			}
+			surfaces := filepath.Join(out, "surfaces.yaml")
+			bo := filepath.Join(dir, "build")
+			code, _, errs := runCLI(t, append(append([]string{"build", "--out", bo, "--quiet", "--fail-on", "never"}, in...), "--parts", surfaces)...)
+			if code != exitOK {
+				t.Fatalf("build with surfaces.yaml: exit %d: %s", code, errs)
+			}
+			fs := findingCodes(t, filepath.Join(bo, "report.json"))
+			if n := len(fs[joints.CodeGapOpen]) + len(fs[joints.CodeGapClosed]); n != 0 {
+				t.Errorf("build with the surfaces found: %d gap finding(s), want none: %+v", n, fs)
+			}
+			f, err := os.Open(filepath.Join(bo, "connectors.json"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			doc, err := document.DecodeConnectors(f, "connectors.json")
+			f.Close()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(doc.Connectors) != 3 {
+				t.Fatalf("%d connectors, want 3", len(doc.Connectors))
+			}
+			// The surfaces the build used, read back from the overlay in the
+			// unit: those planted.
+			lo := meshio.LoadOptions{Meshes: []string{mesh}, Parts: parts, Scale: s}
+			md, err := meshio.Load(lo)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := md.Overlay([]string{surfaces}, nil, s); err != nil {
+				t.Fatal(err)
+			}
+			for i, p := range plates {
+				if got := md.Mesh.Parts[i]; got.ID != p.ID || got.Surface != p.Surface {
+					t.Errorf("part %d: surface %s from surfaces.yaml, want %s", got.ID, got.Surface, p.Surface)
+				}
+			}
+		})
+	}
+}

@@ -32,11 +32,13 @@
 // Surface and offset say the same thing two ways: which surface of the
 // sheet its mesh was drawn on, relative to the element normals (top: the
 // face the normals point to), and the signed distance from that meshed
-// surface to the mid-surface along the normals, mm: 0 for mid, -t/2 for
-// top, +t/2 for bottom (geom.Surface.MidOffset). Give either or both:
+// surface to the mid-surface along the normals, in the inputs' unit like
+// the thickness: 0 for mid, -t/2 for top, +t/2 for bottom
+// (geom.Surface.MidOffset). Give either or both:
 // an offset alone sets the surface it stands for; given together they
 // must agree; an offset that is none of the three (to within
-// geom.OffsetTolerance) is an error. Neither means mid.
+// geom.OffsetTolerance, 0.0005 mm, compared in mm whatever the unit) is
+// an error. Neither means mid.
 //
 // Further tables may be laid over the first (Model.Overlay; on the
 // command line, --parts given again): each of their entries sets the

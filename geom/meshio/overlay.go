@@ -17,7 +17,8 @@ import (
 //     the entry gives neither; see the package documentation for how the
 //     two combine);
 //   - thickness, which every entry gives, must equal the part's (to
-//     within geom.OffsetTolerance): a table of surfaces inferred for
+//     within geom.OffsetTolerance, in mm: both are in the inputs' unit
+//     of scale mm): a table of surfaces inferred for
 //     other thicknesses is out of date;
 //   - name and material replace the part's where the entry gives them;
 //   - mesh may not be given: it decides how files are read, which only
@@ -54,8 +55,7 @@ func (md *Model) Overlay(paths []string, digest func(path string) io.Writer, sca
 			case t.Mesh != "":
 				return geom.FileError(path, "part %d: mesh %q: only the first parts table may assign mesh files to parts", t.ID, t.Mesh)
 			case p.Thickness > 0 && math.Abs(t.Thickness-p.Thickness)*scale > geom.OffsetTolerance:
-				// Both in the inputs' unit, compared in mm (the tolerance's).
-				return geom.FileError(path, "part %d has thickness %g mm here and %g mm in the tables before it: this table was made for other thicknesses (rerun joinery offsets)", t.ID, t.Thickness*scale, p.Thickness*scale)
+				return geom.FileError(path, "part %d has thickness %s here and %s in the tables before it: this table was made for other thicknesses (rerun joinery offsets)", t.ID, geom.InMM(t.Thickness, scale), geom.InMM(p.Thickness, scale))
 			}
 			p.Surface = t.Surface
 			if t.Name != "" {

@@ -36,7 +36,7 @@ func TestPartsOffsetColumn(t *testing.T) {
 		}
 	}
 	bad := []struct{ yaml, want string }{
-		{"{id: 1, thickness: 1, offset: -0.3}", "p.yaml:2: offset: -0.3 mm for thickness 1 mm is none of 0 (mid), -0.5 (top) or 0.5 (bottom)"},
+		{"{id: 1, thickness: 1, offset: -0.3}", "p.yaml:2: offset: -0.3 mm for thickness 1 mm is none of 0 (mid), -0.5 mm (top) or 0.5 mm (bottom)"},
 		{"{id: 1, thickness: 1, offset: 0.5, surface: top}", "p.yaml:2: offset: 0.5 mm is the offset of surface bottom, but the entry gives surface top"},
 		{"{id: 1, thickness: 1, offset: thin}", `p.yaml:2: offset: want a number`},
 	}
@@ -136,7 +136,7 @@ func TestOffsetToleranceInMM(t *testing.T) {
 	}
 	// The message names mm values.
 	_, err := readPartsYAML(strings.NewReader("parts:\n- {id: 1, thickness: 0.001, offset: -0.0003}\n"), "p.yaml", 1000)
-	if want := "p.yaml:2: offset: -0.3 mm for thickness 1 mm is none of 0 (mid), -0.5 (top) or 0.5 (bottom)"; err == nil || !strings.HasPrefix(err.Error(), want) {
+	if want := "p.yaml:2: offset: -0.0003 m (-0.3 mm) for thickness 0.001 m (1 mm) is none of 0 (mid), -0.5 mm (top) or 0.5 mm (bottom)"; err == nil || !strings.HasPrefix(err.Error(), want) {
 		t.Errorf("metres: %v, want %q", err, want)
 	}
 	// An overlay for other thicknesses is refused in metres as in mm:
@@ -151,7 +151,86 @@ func TestOffsetToleranceInMM(t *testing.T) {
 		t.Fatal(err)
 	}
 	err = (&Model{Mesh: m}).Overlay([]string{p}, nil, 1000)
-	if want := "part 1 has thickness 1.4 mm here and 1 mm in the tables before it"; err == nil || !strings.Contains(err.Error(), want) {
+	if want := "part 1 has thickness 0.0014 m (1.4 mm) here and 0.001 m (1 mm) in the tables before it"; err == nil || !strings.Contains(err.Error(), want) {
 		t.Errorf("metres overlay: %v, want %q", err, want)
+	}
+}
+
+// Offsets and thicknesses of a table in metres or inches are compared
+// with their surfaces and with the tables before them in mm: the
+// tolerance is geom.OffsetTolerance, 0.0005 mm, whatever the unit. In
+// metres, 0.0005 is half of a 1 mm sheet, so a tolerance taken in the
+// table's own unit reads the top face of such a sheet (offset -0.0005 m)
+// as its mid-surface. Reference values: hand calculation (offset of top
+// -t/2, of bottom +t/2; 1 in = 25.4 mm).
+func TestPartsOffsetInOtherUnits(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	for i, tc := range []struct {
+		scale float64 // mm per unit of the table
+		entry string
+		want  geom.Surface
+	}{
+		{1000, "{id: 1, thickness: 0.001, surface: top, offset: -0.0005}", geom.SurfaceTop}, // 1 mm sheet, top: -0.5 mm
+		{1000, "{id: 1, thickness: 0.001, offset: -0.0005}", geom.SurfaceTop},
+		{1000, "{id: 1, thickness: 0.0008, offset: 0.0004}", geom.SurfaceBottom}, // 0.8 mm sheet, bottom: +0.4 mm
+		{1000, "{id: 1, thickness: 0.0008, offset: 0}", geom.SurfaceMid},
+		{25.4, "{id: 1, thickness: 0.03, offset: -0.015}", geom.SurfaceTop}, // 0.762 mm sheet, top: -0.381 mm
+		{25.4, "{id: 1, thickness: 0.03, offset: 0.015, surface: bottom}", geom.SurfaceBottom},
+		{1, "{id: 1, thickness: 1, offset: -0.5}", geom.SurfaceTop},
+	} {
+		ps, err := readParts(write("p.yaml", "parts:\n- "+tc.entry+"\n"), nil, tc.scale)
+		if err != nil || ps[0].Surface != tc.want {
+			t.Errorf("%d: %s in a unit of %g mm: %v, %v; want %s", i, tc.entry, tc.scale, ps, err, tc.want)
+		}
+
+	}
+	// Offsets off every surface by more than 0.0005 mm are refused in any
+	// unit: 0.0004 m is 0.4 mm, far from 0 and from -0.5 mm.
+	for _, tc := range []struct {
+		scale       float64
+		entry, want string
+	}{
+		{1000, "{id: 1, thickness: 0.001, offset: -0.0004}", "offset: -0.0004 m (-0.4 mm) for thickness 0.001 m (1 mm) is none of 0 (mid), -0.5 mm (top) or 0.5 mm (bottom)"},
+		{1000, "{id: 1, thickness: 0.001, offset: -0.0005, surface: bottom}", "offset: -0.0005 m (-0.5 mm) is the offset of surface top, but the entry gives surface bottom (offset 0.5 mm for thickness 0.001 m (1 mm))"},
+	} {
+		_, err := readParts(write("p.yaml", "parts:\n- "+tc.entry+"\n"), nil, tc.scale)
+		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, geom.ErrInput) {
+			t.Errorf("%s in a unit of %g mm: err %v, want %q", tc.entry, tc.scale, err, tc.want)
+		}
+	}
+}
+
+// An overlay made for other thicknesses is refused in any unit: 1.2 mm
+// against 1.5 mm is 0.0003 apart in metres, below 0.0005 but 0.3 mm off.
+func TestOverlayThicknessInOtherUnits(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "surfaces.yaml")
+	if err := os.WriteFile(p, []byte("parts:\n- {id: 1, thickness: 0.0012, surface: top}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	m := &geom.Mesh{Parts: []geom.Part{{ID: 1, Thickness: 0.0015}}} // metres: not yet scaled
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	m.ElemPart = []int32{0}
+	err := (&Model{Mesh: m}).Overlay([]string{p}, nil, 1000)
+	if want := "part 1 has thickness 0.0012 m (1.2 mm) here and 0.0015 m (1.5 mm) in the tables before it"; err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("err %v, want %q", err, want)
+	}
+	// The same thickness written to other digits (1.2/25.4 in, as a
+	// surfaces.yaml in inches gives it back) is the same.
+	if err := os.WriteFile(p, []byte("parts:\n- {id: 1, thickness: 0.04724409999999999, surface: top}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	m.Parts[0] = geom.Part{ID: 1, Thickness: 0.0472441}
+	if err := (&Model{Mesh: m}).Overlay([]string{p}, nil, 25.4); err != nil || m.Parts[0].Surface != geom.SurfaceTop {
+		t.Errorf("inches: %v, surface %s", err, m.Parts[0].Surface)
 	}
 }

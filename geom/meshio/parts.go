@@ -268,24 +268,24 @@ func parseSurface(s string) (geom.Surface, error) {
 }
 
 // combineOffset applies the offset an entry gives to its part: the
-// signed distance, mm, from the meshed surface to the mid-surface along
-// the element normals, which must be that of mid (0), top (-t/2) or
-// bottom (+t/2) to within geom.OffsetTolerance. Alone it sets the
-// surface; given with a surface, the two must agree. The table's values
-// are in units of scale mm (the job's unit, not yet scaled): they are
-// compared, and named in messages, in mm, so that the tolerance is
-// 0.0005 mm whatever the unit (in metres it would otherwise be 0.5 mm,
-// taking an offset of -0.3 mm on a 1 mm sheet for mid).
+// signed distance from the meshed surface to the mid-surface along the
+// element normals, in the table's unit of scale mm like the thickness,
+// which must be that of mid (0), top (-t/2) or bottom (+t/2) to within
+// geom.OffsetTolerance, compared in mm whatever the unit. Alone it sets
+// the surface; given with a surface, the two must agree.
 func combineOffset(p *geom.Part, hasSurface bool, off, scale float64) error {
-	offMM, t := off*scale, p.Thickness*scale
-	s, ok := geom.SurfaceForOffset(offMM, t)
+	if scale <= 0 {
+		scale = 1
+	}
+	t := p.Thickness * scale
+	s, ok := geom.SurfaceForOffset(off*scale, t)
 	switch {
 	case !ok:
-		return fmt.Errorf("offset: %g mm for thickness %g mm is none of 0 (mid), %g (top) or %g (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
-			offMM, t, geom.SurfaceTop.MidOffset(t), geom.SurfaceBottom.MidOffset(t))
+		return fmt.Errorf("offset: %s for thickness %s is none of 0 (mid), %g mm (top) or %g mm (bottom): Joinery places a sheet's mid-surface on its meshed surface or half its thickness to either side",
+			geom.InMM(off, scale), geom.InMM(p.Thickness, scale), geom.SurfaceTop.MidOffset(t), geom.SurfaceBottom.MidOffset(t))
 	case hasSurface && s != p.Surface:
-		return fmt.Errorf("offset: %g mm is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %g mm)",
-			offMM, s, p.Surface, p.Surface.MidOffset(t), t)
+		return fmt.Errorf("offset: %s is the offset of surface %s, but the entry gives surface %s (offset %g mm for thickness %s)",
+			geom.InMM(off, scale), s, p.Surface, p.Surface.MidOffset(t), geom.InMM(p.Thickness, scale))
 	}
 	p.Surface = s
 	return nil
