@@ -631,55 +631,13 @@ func (p *placer) sheetsAt(q, axis r3.Vec) []sheetAt {
 // with attachment a and nugget diameter d.
 func (p *placer) attachNodes(sh sheetAt, a joints.Attach, d float64) []int32 {
 	m := p.m
-	host := m.ElemNodes(sh.proj.Elem)
-	q := sh.proj.Point
 	switch a {
 	case joints.NodePair:
-		r := 0.0
-		for _, n := range host {
-			r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
-		}
-		// As build's node-pair attachment: the least distance, then the
-		// lowest node id within geom.TieDistance of it.
-		near := p.x.ElemsNear(q, r, nil)
-		bestD := math.Inf(1)
-		for _, e := range near {
-			if m.ElemPart[e] != sh.part {
-				continue
-			}
-			for _, n := range m.ElemNodes(int(e)) {
-				bestD = math.Min(bestD, r3.Norm(r3.Sub(m.Coords[n], q)))
-			}
-		}
-		best := int32(-1)
-		for _, e := range near {
-			if m.ElemPart[e] != sh.part {
-				continue
-			}
-			for _, n := range m.ElemNodes(int(e)) {
-				if r3.Norm(r3.Sub(m.Coords[n], q)) <= bestD+geom.TieDistance && (best < 0 || m.NodeIDs[n] < m.NodeIDs[best]) {
-					best = n
-				}
-			}
-		}
-		return []int32{best}
+		return []int32{joints.NearestNode(p.x, sh.proj.Point, sh.part, sh.proj.Elem)}
 	case joints.Patch:
-		out := slices.Clone(host)
-		// As build's patch: a node exactly at the radius is within it.
-		reach := d/2 + joints.LengthRoundoff
-		for _, e := range p.x.ElemsNear(q, reach, nil) {
-			if m.ElemPart[e] != sh.part {
-				continue
-			}
-			for _, n := range m.ElemNodes(int(e)) {
-				if r3.Norm(r3.Sub(m.Coords[n], q)) <= reach {
-					out = append(out, n)
-				}
-			}
-		}
-		return out
+		return joints.PatchNodes(p.x, sh.proj.Point, sh.proj.Normal, sh.part, sh.proj.Elem, d/2)
 	}
-	return slices.Clone(host)
+	return slices.Clone(m.ElemNodes(sh.proj.Elem))
 }
 
 // resolve drops welds of different flanges that clash: attachments

@@ -3,7 +3,6 @@ package spot
 import (
 	"cmp"
 	"fmt"
-	"math"
 	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
@@ -50,46 +49,11 @@ func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 }
 
 // attachNodePair puts the end on the sheet's node nearest to the
-// projection point (ties, within geom.TieDistance, to the lower node id).
+// projection point (ties, within geom.TieDistance, to the lower node id;
+// joints.NearestNode).
 func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 	m := x.Mesh()
-	q := s.Proj.Point
-	// The nearest node of the part (corner or midside) is no farther
-	// than the host element's farthest node, so the elements within that
-	// radius hold it.
-	r := 0.0
-	for _, n := range m.ElemNodes(s.Proj.Elem) {
-		r = math.Max(r, r3.Norm(r3.Sub(m.Coords[n], q)))
-	}
-	pi := m.ElemPart[s.Proj.Elem]
-	var buf [64]int32
-	near := x.ElemsNear(q, r, buf[:0])
-	// Nodes whose distances differ by geom.TieDistance or less are tied
-	// (the corners round the centre of a square element, a weld midway
-	// between two nodes): the lowest node id among them wins, so that the
-	// rounding of coordinates (another unit, the model moved) does not
-	// pick another node. The least distance is found first, then the
-	// lowest id within the tie of it.
-	bestD := math.Inf(1)
-	for _, e := range near {
-		if m.ElemPart[e] != pi {
-			continue
-		}
-		for _, n := range m.ElemNodes(int(e)) {
-			bestD = math.Min(bestD, r3.Norm(r3.Sub(m.Coords[n], q)))
-		}
-	}
-	best := int32(-1)
-	for _, e := range near {
-		if m.ElemPart[e] != pi {
-			continue
-		}
-		for _, n := range m.ElemNodes(int(e)) {
-			if r3.Norm(r3.Sub(m.Coords[n], q)) <= bestD+geom.TieDistance && (best < 0 || m.NodeIDs[n] < m.NodeIDs[best]) {
-				best = n
-			}
-		}
-	}
+	best := joints.NearestNode(x, s.Proj.Point, m.ElemPart[s.Proj.Elem], s.Proj.Elem)
 	return joints.End{Point: m.Coords[best], NodeIndex: best, Nodes: []int32{best}, Weights: []float64{1}}
 }
 
@@ -97,7 +61,8 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 // the projection point (midside nodes of second-order elements too;
 // a node exactly at the radius is within it, joints.LengthRoundoff
 // allowed, so the same model in any unit ties the same nodes), plus
-// the host element's nodes. The weights are
+// the host element's nodes unless those within the radius surround the
+// point (joints.PatchNodes). The weights are
 // the most uniform ones (least sum of squared deviations from 1/N) that
 // sum to 1 and reproduce the projection point's position in the sheet's
 // tangent plane exactly: w = w0 + Aᵀ(AAᵀ)⁻¹(b − A w0), with w0 uniform and
@@ -112,28 +77,8 @@ func attachNodePair(x *geom.Index, s *joints.Sheet) joints.End {
 func attachPatch(x *geom.Index, s *joints.Sheet, radius float64) (joints.End, int) {
 	m := x.Mesh()
 	q := s.Proj.Point
-	pi := m.ElemPart[s.Proj.Elem]
 	host := attachInterpolated(m, s)
-	set := map[int32]bool{}
-	for _, n := range host.Nodes {
-		set[n] = true
-	}
-	var buf [64]int32
-	reach := radius + joints.LengthRoundoff
-	for _, e := range x.ElemsNear(q, reach, buf[:0]) {
-		if m.ElemPart[e] != pi {
-			continue
-		}
-		for _, n := range m.ElemNodes(int(e)) {
-			if r3.Norm(r3.Sub(m.Coords[n], q)) <= reach {
-				set[n] = true
-			}
-		}
-	}
-	nodes := make([]int32, 0, len(set))
-	for n := range set {
-		nodes = append(nodes, n)
-	}
+	nodes := joints.PatchNodes(x, q, s.Proj.Normal, m.ElemPart[s.Proj.Elem], s.Proj.Elem, radius)
 	within := len(nodes)
 	byID := func(a, b int32) int { return cmp.Compare(m.NodeIDs[a], m.NodeIDs[b]) }
 	if len(nodes) > joints.MaxPatchNodes {

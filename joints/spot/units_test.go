@@ -89,12 +89,15 @@ func TestLimitsMetWhateverTheUnit(t *testing.T) {
 }
 
 // A patch ties every node within the nugget radius, a node exactly at it
-// included, in every unit. A 2.5 mm grid and a weld on a node: the node,
-// its four neighbours exactly 2.5 mm away (the radius of a 5*sqrt(1.0) =
-// 5 mm nugget, common practice), and the host element's far corner
-// (3.54 mm) that the patch always holds: 6 nodes (hand calculation).
-// Before, in inches the neighbours came out 2.5000000000000004 mm away and
-// were left out (3 or 4 nodes).
+// included, in every unit. A 2.5 mm grid and a weld on a node: the node
+// and its four neighbours exactly 2.5 mm away (the radius of a
+// 5*sqrt(1.0) = 5 mm nugget, common practice), which surround the weld,
+// so no host element's far corner (3.54 mm, outside the nugget) is added:
+// 5 nodes, each weighted 1/5 by symmetry (hand calculation), whichever of
+// the four elements meeting at the node was taken as host. Before, in
+// inches the neighbours came out 2.5000000000000004 mm away and were left
+// out (3 or 4 nodes); and the patch always held the host's corners (6
+// nodes, weights 0.09 to 0.23, depending on the elements' ids).
 func TestPatchRadiusWhateverTheUnit(t *testing.T) {
 	for _, d := range drawings {
 		m, p := d.model(r3.Vec{X: 25, Y: 25, Z: 0.5},
@@ -104,8 +107,13 @@ func TestPatchRadiusWhateverTheUnit(t *testing.T) {
 			t.Fatalf("%s: %d ends, %v", d.name, len(c.Ends), codes(c))
 		}
 		for i, e := range c.Ends {
-			if len(e.Nodes) != 6 {
-				t.Errorf("%s: end %d ties %d nodes, want 6", d.name, i, len(e.Nodes))
+			if len(e.Nodes) != 5 {
+				t.Errorf("%s: end %d ties %d nodes, want 5", d.name, i, len(e.Nodes))
+			}
+			for k, w := range e.Weights {
+				if math.Abs(w-0.2) > 1e-12 {
+					t.Errorf("%s: end %d: node %d weight %g, want 0.2", d.name, i, m.NodeIDs[e.Nodes[k]], w)
+				}
 			}
 			var sum float64
 			var at r3.Vec
