@@ -251,7 +251,7 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 		if w.skip != "" {
 			continue
 		}
-		if lim := p.o.EdgeFactor * w.diameter; math.Min(w.outline, w.sheetEdge) < lim {
+		if lim := p.o.EdgeFactor * w.diameter; math.Min(w.outline, w.sheetEdge) < lim-joints.LengthRoundoff {
 			narrow++
 			least = math.Min(least, math.Min(w.outline, w.sheetEdge))
 		}
@@ -565,7 +565,7 @@ func (p *placer) station(i, k int, s float64) weld {
 	for _, sh := range stack {
 		ed := geom.FreeEdgeDistance(m, near, sh.proj.Point, sh.part, 2*edgeLimit)
 		if sh.part != host && sh.part != other {
-			if ed < edgeLimit {
+			if ed < edgeLimit-joints.LengthRoundoff {
 				w.skip = fmt.Sprintf("a free edge of part %d, which also lies in the stack here, is %s mm from the weld (less than %s mm)",
 					m.Parts[sh.part].ID, joints.MM(ed), joints.MM(edgeLimit))
 				return w
