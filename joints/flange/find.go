@@ -248,8 +248,12 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 			for _, fp := range f.Facing {
 				f.FacingTolerance.Min = math.Min(f.FacingTolerance.Min, fp.Tolerance)
 				f.FacingTolerance.Max = math.Max(f.FacingTolerance.Max, fp.Tolerance)
-				f.FacingTolerance.Mean += fp.Tolerance / float64(len(f.Facing))
+				f.FacingTolerance.Mean += fp.Tolerance
 			}
+			// Summed, then divided, and held between the extremes that
+			// rounding could cross: equal values give their value.
+			t := &f.FacingTolerance
+			t.Mean = min(max(t.Mean/float64(len(f.Facing)), t.Min), t.Max)
 		}
 		list = append(list, built{f, k})
 		w.outlines = append(w.outlines, o)
