@@ -35,7 +35,7 @@ func newSweepCommand(g *globalOptions) *cobra.Command {
 		keys = append(keys, k.Flag)
 	}
 	c := &cobra.Command{
-		Use:   "sweep [JOB.yaml] --vary KEY=V1,V2 [--vary ...] --out DIR",
+		Use:   "sweep [JOB.yaml] --vary KEY=V1,V2 [--vary ...] [--out DIR]",
 		Short: "Build the same model several ways and compare the variants side by side",
 		Long: `sweep builds one job several ways, one variant per combination of the varied
 settings (their Cartesian product, the last --vary varying fastest), and
