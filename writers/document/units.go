@@ -2,6 +2,7 @@ package document
 
 import (
 	"fmt"
+	"strconv"
 
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -11,12 +12,20 @@ import (
 // record it in units.length. Finding messages keep the millimetres they
 // were written in (they say "mm"); finding locations are converted.
 
-// lengthIn converts a length from mm to the unit whose size is mm.
+// lengthIn converts a length from mm to the unit whose size is mm,
+// rounded to 15 significant digits: a length read in that unit and
+// scaled to mm comes back as it was given (1.1 in is 27.94 mm, and
+// 27.94 / 25.4 is 1.1000000000000001 in binary), and computed lengths
+// move by less than 5e-16 of their size.
 func lengthIn(v, mm float64) float64 {
 	if mm == 1 {
 		return v
 	}
-	return clean(v / mm)
+	r, err := strconv.ParseFloat(strconv.FormatFloat(v/mm, 'g', 15, 64), 64)
+	if err != nil { // Inf or NaN: as it is
+		r = v / mm
+	}
+	return clean(r)
 }
 
 func vecIn(v Vec, mm float64) Vec {
