@@ -262,8 +262,8 @@ func findings(r *Result) []joints.Finding {
 			sev = joints.Warning
 		}
 		fs = append(fs, joints.Finding{Severity: sev, Code: joints.CodeContactDisagrees, Parts: []int64{c.A, c.B}, Point: c.Point, HasPoint: true,
-			Message: fmt.Sprintf("parts %d and %d face each other %s mm apart %s; with the surfaces found they would lie %s mm apart in contact (allowance %s mm): they %s by %s mm here",
-				c.A, c.B, joints.MM(c.Separation), where, joints.MM(c.Expected), joints.MM(c.Allowance), how, joints.MM(math.Abs(c.Separation-c.Expected)))})
+			Message: fmt.Sprintf("parts %d and %d face each other %s mm apart %s (signed, along part %d's element normals); with the surfaces found they would lie %s mm apart in contact (allowance %s mm): they %s by %s mm here",
+				c.A, c.B, joints.MM(c.Separation), where, c.A, joints.MM(c.Expected), joints.MM(c.Allowance), how, joints.MM(math.Abs(c.Separation-c.Expected)))})
 	}
 	return fs
 }
