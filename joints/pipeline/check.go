@@ -112,11 +112,16 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	}
 	page := startPage(m)
 	o := s.Options.Defaults(joints.MaxThickness(m))
+	prog := env.progress()
+	prog.Start("reading the connectors", 0)
 	conns, err := resolveConnectors(m, got.files, o, env)
+	prog.Done()
 	if err != nil {
 		return nil, err
 	}
+	prog.Start("measuring edge distances", 0)
 	edgeClose(m, conns, &o)
+	prog.Done()
 	res := &joints.Result{Connectors: conns, Options: o}
 	for _, c := range conns {
 		res.Findings = append(res.Findings, c.Findings...)
@@ -168,17 +173,19 @@ func edgeClose(m *geom.Mesh, conns []joints.Connector, o *joints.BuildOptions) {
 		return
 	}
 	x := geom.NewIndexNear(m, pts, 1.01*margin, false)
-	for i := range conns {
+	// Each connector's findings go to its own place: the result does not
+	// depend on the goroutines' schedule.
+	geom.ParallelEach(len(conns), func(i int) {
 		c := &conns[i]
 		if !weldToJudge(c) {
-			continue
+			return
 		}
 		fs := spot.EdgeFindings(x, c, o)
 		c.Findings = append(c.Findings, fs...)
 		if len(fs) > 0 && c.Status == joints.Built {
 			c.Status = joints.Flagged
 		}
-	}
+	})
 }
 
 // weldToJudge reports whether c is a built spot weld with a stack.
