@@ -138,6 +138,7 @@ type pointGrid struct {
 	pts        []r3.Vec
 	lo, hi     r3.Vec
 	size       float64
+	inv        float64 // 1 / size
 	nx, ny, nz int
 	lim2       float64 // margin squared, with slack against rounding
 	marked     []uint64
@@ -165,6 +166,7 @@ func newPointGrid(pts []r3.Vec, margin float64) *pointGrid {
 		}
 		g.size *= 2
 	}
+	g.inv = 1 / g.size
 	limit := margin * (1 + 1e-9)
 	g.lim2 = limit * limit
 	cellLimit := margin + 1e-6*g.size
@@ -226,7 +228,7 @@ func newPointGrid(pts []r3.Vec, margin float64) *pointGrid {
 
 // cell returns the cell along an axis starting at o with n cells that
 // holds v (the end cells for values beyond).
-func (g *pointGrid) cell(v, o float64, n int) int { return min(n-1, max(0, int((v-o)/g.size))) }
+func (g *pointGrid) cell(v, o float64, n int) int { return min(n-1, max(0, int((v-o)*g.inv))) }
 
 // gap is the distance along an axis from v to cell i of the axis
 // starting at o.
