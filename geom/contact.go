@@ -518,13 +518,17 @@ func (c *Contacts) evaluateLean(q r3.Vec, a int32, best *Projection, cands []int
 	na, nb := c.normal(a), best.Normal
 	offA, ta := c.midOffset(a)
 	offB, tb := c.midOffset(b)
-	d := r3.Sub(best.Point, q)
-	axis := na
-	if r3.Dot(d, na) < -1e-9*(ta+tb) {
-		axis = r3.Scale(-1, na)
-	}
 	midA := r3.Add(q, r3.Scale(offA, na))
 	midB := r3.Add(best.Point, r3.Scale(offB, nb))
+	// The axis points from this sheet's mid-surface towards the other's:
+	// meshed on their faces, the meshed surfaces of sheets in contact may
+	// coincide or cross (both meshed on the faying face), and which sheet
+	// lies on which side is said by the mid-surfaces alone. Where these
+	// coincide (no side), the meshed surfaces decide.
+	axis := na
+	if s := r3.Dot(r3.Sub(midB, midA), na); s < -1e-9*(ta+tb) || math.Abs(s) <= 1e-9*(ta+tb) && r3.Dot(r3.Sub(best.Point, q), na) < -1e-9*(ta+tb) {
+		axis = r3.Scale(-1, na)
+	}
 	rec := NodeContact{
 		Node: -1, Elem: a, Part: m.ElemPart[a], OtherElem: b, Other: m.ElemPart[b], Foot: best.Point, Axis: axis,
 		Gap: r3.Dot(r3.Sub(midB, midA), axis), Contact: (ta + tb) / 2, Nearest: -1,

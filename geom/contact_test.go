@@ -185,3 +185,54 @@ func TestContactsAgainstRule(t *testing.T) {
 		})
 	}
 }
+
+// Sheets meshed on their faces whose meshed surfaces coincide (both parts
+// meshed on the faying face, common practice) or cross by a little: the
+// mid-surfaces lie (t1+t2)/2 apart whichever sheet lies on top, so every
+// node over the other sheet is in contact, from either part, and the
+// coincident nodes face each other (hand calculation: t 1 and 1.5, mid
+// offsets 0.5 and 0.75 from the faying face, gap 1.25 = contact).
+func TestContactsMeshedOnFaces(t *testing.T) {
+	allow := func(t1, t2 float64) float64 { return 0.25 * (t1 + t2) / 2 }
+	for _, tc := range []struct {
+		name   string
+		s1, s2 Surface
+		z2     float64 // meshed surface of part 2; part 1's at 0
+		flip1  bool    // part 1's normals point down
+	}{
+		{"top on bottom, normals up", SurfaceTop, SurfaceBottom, 0, false},
+		{"bottom on top, normals up", SurfaceBottom, SurfaceTop, 0, false},
+		{"top on bottom, part 1 normals down", SurfaceBottom, SurfaceBottom, 0, true},
+		{"bottom on top, part 1 normals down", SurfaceTop, SurfaceTop, 0, true},
+		{"bottom on top, meshes crossing by 0.01", SurfaceBottom, SurfaceTop, 0.01, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			m := sheets(sheetGrid{1, 1, 0, 0, 0, 5, 20, 4}, sheetGrid{2, 1.5, tc.z2, 0, 0, 5, 20, 8})
+			m.Parts[0].Surface, m.Parts[1].Surface = tc.s1, tc.s2
+			if tc.flip1 {
+				for e := range 80 {
+					ns := m.Conn[m.ElemStart[e]:m.ElemStart[e+1]]
+					ns[1], ns[3] = ns[3], ns[1]
+				}
+			}
+			c, err := FindContacts(context.Background(), NewElemIndex(m), ContactRule{Allowance: allow, AngleLimit: 20, FacingFactor: 0.1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			n := 0
+			for r := range c.Records() {
+				n++
+				if want := 1.25 - tc.z2; math.Abs(r.Gap-want) > 1e-9 || math.Abs(r.Faying.Z-tc.z2/2) > 1e-9 {
+					t.Errorf("node %d: gap %g, faying %v; want gap %g (hand calculation), faying z %g", m.NodeIDs[r.Node], r.Gap, r.Faying, want, tc.z2/2)
+				}
+			}
+			// 21 x 5 nodes of part 1 lie over part 2 (host: the lower id).
+			if n != 105 {
+				t.Errorf("%d nodes in contact, want 105", n)
+			}
+			if len(c.Facing()) != 105 {
+				t.Errorf("%d facing pairs, want 105 (the coincident nodes)", len(c.Facing()))
+			}
+		})
+	}
+}

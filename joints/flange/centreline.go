@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/planar"
 	"gonum.org/v1/gonum/spatial/r3"
@@ -488,7 +489,7 @@ const chartIterations = 4
 // overlap, on a straight spine along its end tangents. The fit rounds a
 // ring's corners off, so a ring's centreline is then its mid-line
 // between the outline and the opening (midline), charted along the fit.
-func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
+func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
 	if len(samples) == 0 {
 		return nil
 	}
@@ -602,7 +603,7 @@ func centreline(samples []sample, segs []segment, lps []loop, ring bool, h, area
 		sp = next
 	}
 	if !sp.closed {
-		sp = densify(extendArcs(sp, 1.5*binLen, tol), tol)
+		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), tol), samples, tol)
 	}
 	if ring {
 		// The fit above finds the middle of the pieces, which round a

@@ -204,7 +204,7 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 				}
 			}
 		}
-		o := centreline(samples, segs, lps, ring, h, area, w.c.NodeElems)
+		o := centreline(m, samples, segs, lps, ring, h, area, w.c.NodeElems)
 		if o == nil || o.length <= 0 {
 			continue
 		}

@@ -213,8 +213,11 @@ func (w *pairWork) boundary(e int32, a, b r3.Vec, steps int, tol float64) r3.Vec
 // sample is a piece of the overlap: the covered part of one host
 // element.
 type sample struct {
-	elem   int32
-	pos    r3.Vec // centroid, moved to the faying surface
+	elem int32
+	pos  r3.Vec // centroid, moved to the faying surface
+	// shift is how far the faying surface lies from the host element
+	// along its normal (see faying in drape.go).
+	shift  float64
 	area   float64
 	normal r3.Vec // the host element's normal
 	nodes  []int32
@@ -384,8 +387,9 @@ func (w *pairWork) trace(comp []int32) ([]sample, []segment) {
 		}
 		inBuf = inBuf[:len(inBuf)+len(in)]
 		in = in[:len(in):len(in)]
+		shift := w.shift(e, cen, in)
 		cen = r3.Add(cen, r3.Scale(1/float64(cnt), off))
-		samples = append(samples, sample{elem: e, pos: cen, area: area, normal: w.c.Normal(e), nodes: in})
+		samples = append(samples, sample{elem: e, pos: cen, shift: shift, area: area, normal: w.c.Normal(e), nodes: in})
 	}
 	return samples, segs
 }
@@ -588,4 +592,21 @@ func loops(segs []segment) []loop {
 		out[0], out[best] = out[best], out[0]
 	}
 	return out
+}
+
+// shift returns how far the faying surface lies from host element e
+// along its normal: at the piece's centroid cen, probed against the
+// other sheet (the nodes' faying points do not do: a node on a crease
+// finds its faying point on either side of it), else the mean over the
+// element's nodes in contact in.
+func (w *pairWork) shift(e int32, cen r3.Vec, in []int32) float64 {
+	n := w.c.Normal(e)
+	if r, ok := w.c.ProbeWith(&w.probe, cen, e, w.other); ok {
+		return r3.Dot(r3.Sub(r.Faying, cen), n)
+	}
+	all := 0.0
+	for _, u := range in {
+		all += r3.Dot(r3.Sub(w.rec(u).Faying, w.m.Coords[u]), n)
+	}
+	return all / float64(len(in))
 }

@@ -1,0 +1,245 @@
+package flange
+
+import (
+	"math"
+	"slices"
+
+	"github.com/joinery-cae/joinery/geom"
+	"gonum.org/v1/gonum/spatial/r3"
+)
+
+// drapeDepth bounds how many times over drape halves a chord: a chord
+// across a crease cuts the corner by about half its length times the
+// sine of half the bend; each halving about halves the cut, so 16
+// rounds take a 10 mm chord across a right-angle bend to well under a
+// micrometre.
+const drapeDepth = 16
+
+// draper finds the closest point of a flange's faying surface to a
+// point. The faying surface is taken piece by piece: each host element
+// of the overlap moved along its normal by its sample's shift. Where
+// two of them meet at a crease, moved apart (the host on the inside of
+// the bend) or across each other (on the outside), the surface runs
+// along the line where their planes meet, as the faying face of the
+// other sheet does.
+type draper struct {
+	m       *geom.Mesh
+	samples []sample
+	cell    float64
+	grid    map[[3]int64][]int32
+	edges   map[uint64][]int32 // element edge -> the samples whose element has it
+}
+
+func newDraper(m *geom.Mesh, samples []sample) *draper {
+	d := &draper{m: m, samples: samples, grid: map[[3]int64][]int32{}, edges: map[uint64][]int32{}}
+	for _, s := range samples {
+		e := int(s.elem)
+		c := m.Centroid(e)
+		for k := range m.Type(e).Corners() {
+			d.cell = math.Max(d.cell, dist(c, m.Corner(e, k)))
+		}
+	}
+	// Any element whose surface lies within cell/2 of a point has its
+	// centre within 1.5 cells of it: the 27 cells round the point's
+	// hold it.
+	d.cell = 2 * math.Max(d.cell, 1e-6)
+	for i, s := range samples {
+		e := int(s.elem)
+		k := d.key(r3.Add(m.Centroid(e), r3.Scale(s.shift, s.normal)))
+		d.grid[k] = append(d.grid[k], int32(i))
+		nodes := m.ElemNodes(e)
+		nc := m.Type(e).Corners()
+		for j := range nc {
+			key := edgeKey(nodes[j], nodes[(j+1)%nc])
+			d.edges[key] = append(d.edges[key], int32(i))
+		}
+	}
+	return d
+}
+
+func (d *draper) key(p r3.Vec) [3]int64 {
+	f := func(v float64) int64 { return int64(math.Floor(v / d.cell)) }
+	return [3]int64{f(p.X), f(p.Y), f(p.Z)}
+}
+
+// foot returns the point of the faying surface closest to q and the
+// surface normal there, and false when no piece lies within half a cell
+// of q. Of pieces equally near, the first sample's wins.
+func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
+	m := d.m
+	k := d.key(q)
+	var bestPr geom.Projection
+	bestD, bestI := math.Inf(1), int32(-1)
+	for dx := int64(-1); dx <= 1; dx++ {
+		for dy := int64(-1); dy <= 1; dy++ {
+			for dz := int64(-1); dz <= 1; dz++ {
+				for _, i := range d.grid[[3]int64{k[0] + dx, k[1] + dy, k[2] + dz}] {
+					s := &d.samples[i]
+					lift := r3.Scale(s.shift, s.normal)
+					pr := m.Project(int(s.elem), r3.Sub(q, lift))
+					pr.Point = r3.Add(pr.Point, lift)
+					if pr.Dist < bestD || pr.Dist == bestD && i < bestI {
+						bestPr, bestD, bestI = pr, pr.Dist, i
+					}
+				}
+			}
+		}
+	}
+	if bestI < 0 || bestD > d.cell/2 {
+		return r3.Vec{}, r3.Vec{}, false
+	}
+	s := &d.samples[bestI]
+	n1 := s.normal
+	if r3.Norm2(n1) == 0 {
+		return r3.Vec{}, r3.Vec{}, false
+	}
+	// On an edge shared with another piece whose plane differs (a
+	// crease): the closest point of the line where the two planes meet.
+	e := int(s.elem)
+	nodes := m.ElemNodes(e)
+	nc := m.Type(e).Corners()
+	lift := r3.Scale(s.shift, n1)
+	size := m.ElemSize(e)
+	for j := range nc {
+		a, b := r3.Add(m.Coords[nodes[j]], lift), r3.Add(m.Coords[nodes[(j+1)%nc]], lift)
+		if dist(bestPr.Point, closestOn(bestPr.Point, a, b)) > 1e-9*(1+size) {
+			continue
+		}
+		for _, i := range d.edges[edgeKey(nodes[j], nodes[(j+1)%nc])] {
+			if i == bestI {
+				continue
+			}
+			o := &d.samples[i]
+			n2 := o.normal
+			c := r3.Dot(n1, n2)
+			if !(1-c*c > 1e-8) {
+				continue
+			}
+			p2 := r3.Add(m.Coords[nodes[j]], r3.Scale(o.shift, n2))
+			r1, r2 := r3.Dot(n1, r3.Sub(a, q)), r3.Dot(n2, r3.Sub(p2, q))
+			x := r3.Add(q, r3.Add(r3.Scale((r1-c*r2)/(1-c*c), n1), r3.Scale((r2-c*r1)/(1-c*c), n2)))
+			// The bisecting normal: n2 turned to agree with n1 across the
+			// edge (elements whose normals agree run along a shared edge
+			// in opposite directions), not by their angle, which passes
+			// a right angle at a sharp bend.
+			if sameWay(m.ElemNodes(int(o.elem)), m.Type(int(o.elem)).Corners(), nodes[j], nodes[(j+1)%nc]) {
+				n2 = r3.Scale(-1, n2)
+			}
+			return x, r3.Unit(r3.Add(n1, n2)), true
+		}
+	}
+	return bestPr.Point, n1, true
+}
+
+// drape lays open spine sp on the faying surface where it leaves it:
+// first each point off the surface along the surface's normal (a fit's
+// station inside a bend, at the middle of the pieces there) is put on
+// it; then a chord whose middle lies farther than tol off the surface,
+// along the normal there, is split at the closest point of the surface
+// to its middle, over and over. A flange that runs across a crease of
+// its sheets (a bent bracket lapping a bent panel) then has its
+// centreline bent at the crease, on the sheets, and measured along them,
+// where the fit's stations, a bin apart, cut the corner through the
+// air: 3.5 mm short over a right-angle bend of a flange 20 mm wide.
+// Points and chords that lie on the surface, or off it only beside its
+// edge or beyond its ends (the spine's extensions), where the closest
+// point lies along the surface, are left as they are.
+func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
+	if sp == nil || sp.closed || len(samples) == 0 {
+		return sp
+	}
+	d := newDraper(m, samples)
+	// across reports whether foot f of point p lies off it across the
+	// surface (normal n) by more than tol, and more so than along it.
+	across := func(p, f, n r3.Vec) bool {
+		v := r3.Sub(p, f)
+		off := math.Abs(r3.Dot(v, n))
+		return off > tol && r3.Norm(r3.Sub(v, r3.Scale(r3.Dot(v, n), n))) <= off
+	}
+	ns := sp.normals()
+	src := slices.Clone(sp.pts)
+	moved := false
+	// The extensions past the overlap's ends (points before ext0 and
+	// after length-ext1) are not draped: they move with the spine's
+	// first and last point within the overlap, so that they carry it on
+	// as they did.
+	first, last := -1, -1
+	for i := range src {
+		if sp.cum[i] >= sp.ext0-1e-9 && sp.cum[i] <= sp.length-sp.ext1+1e-9 {
+			if first < 0 {
+				first = i
+			}
+			last = i
+		}
+	}
+	if first < 0 {
+		return sp
+	}
+	for i := first; i <= last; i++ {
+		p := src[i]
+		if f, n, ok := d.foot(p); ok && across(p, f, n) {
+			if r3.Dot(n, ns[i]) < 0 {
+				n = r3.Scale(-1, n)
+			}
+			src[i], ns[i] = f, n
+			moved = true
+		}
+	}
+	for i := range first {
+		src[i] = r3.Add(src[i], r3.Sub(src[first], sp.pts[first]))
+	}
+	for i := last + 1; i < len(src); i++ {
+		src[i] = r3.Add(src[i], r3.Sub(src[last], sp.pts[last]))
+	}
+	var pts, nrm []r3.Vec
+	var fill func(a, b, na r3.Vec, depth int)
+	fill = func(a, b, na r3.Vec, depth int) {
+		if depth == 0 {
+			return
+		}
+		mid := r3.Scale(0.5, r3.Add(a, b))
+		f, n, ok := d.foot(mid)
+		if !ok || !across(mid, f, n) {
+			return
+		}
+		// Only a foot between the chord's ends splits it.
+		ab := r3.Sub(b, a)
+		if t := r3.Dot(r3.Sub(f, a), ab) / r3.Norm2(ab); !(t > 1e-3 && t < 1-1e-3) {
+			return
+		}
+		if r3.Dot(n, na) < 0 {
+			n = r3.Scale(-1, n)
+		}
+		fill(a, f, na, depth-1)
+		pts, nrm = append(pts, f), append(nrm, n)
+		moved = true
+		fill(f, b, n, depth-1)
+	}
+	for i, p := range src {
+		pts, nrm = append(pts, p), append(nrm, ns[i])
+		if i >= first && i < last {
+			fill(p, src[i+1], ns[i], drapeDepth)
+		}
+	}
+	if !moved {
+		return sp
+	}
+	out := makeSpine(pts, nrm, false)
+	if out == nil {
+		return sp
+	}
+	// The extensions keep their lengths: they were moved whole.
+	out.ext0, out.ext1 = out.cum[first], out.length-out.cum[len(out.pts)-1-(len(sp.pts)-1-last)]
+	return out
+}
+
+// sameWay reports whether an element with corner nodes nodes[:nc] runs
+// along its edge from u to v (rather than from v to u).
+func sameWay(nodes []int32, nc int, u, v int32) bool {
+	for k := range nc {
+		if nodes[k] == u && nodes[(k+1)%nc] == v {
+			return true
+		}
+	}
+	return false
+}
