@@ -275,3 +275,48 @@ func TestReferenceSurfaces(t *testing.T) {
 		})
 	}
 }
+
+// TestTiltedAxisPositions: a bolt whose listed axis is tilted to two
+// parallel sheets, one meshed on its mid-surface, one on its bottom
+// face. The position of a sheet is where the axis meets its
+// mid-surface: the plane a distance off from the meshed surface along
+// the normal n meets the axis, direction a, a distance off / (n . a)
+// along it from where the axis meets the meshed surface (hand
+// calculation: a line through two parallel planes d apart runs
+// d / cos(theta) between them).
+func TestTiltedAxisPositions(t *testing.T) {
+	for _, c := range []struct {
+		name   string
+		tilt   float64 // degrees between the axis and the sheets' normal
+		s2     geom.Surface
+		z2     float64 // sheet 2's meshed surface; its mid-surface is at 2.25
+		wantP1 float64 // sheet 1's position: its mid-surface at z = 0, from the point at z = 0.75
+		wantP2 float64
+	}{
+		// Hand calculation: mid-surfaces at z = 0 and 2.25, the point at
+		// z = 0.75: positions -0.75 / cos and 1.5 / cos.
+		{"bottom-15deg", 15, geom.SurfaceBottom, 0.75, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+		{"top-15deg", 15, geom.SurfaceTop, 3.75, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+		{"bottom-19deg", 19, geom.SurfaceBottom, 0.75, -0.75 / math.Cos(19*math.Pi/180), 1.5 / math.Cos(19*math.Pi/180)},
+		{"mid-15deg", 15, geom.SurfaceMid, 2.25, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m := mesh(t, rotation{},
+				sheet{Part: 1, T: 1.5, Z: 0, X0: -40, H: 10, N: 8},
+				sheet{Part: 2, T: 3, Z: c.z2, Surface: c.s2, X0: -40, H: 10, N: 8})
+			a := c.tilt * math.Pi / 180
+			cs := build(t, m, joints.BuildOptions{}, joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{X: 1, Y: 2, Z: 0.75},
+				Diameter: 10, Washer: 20, Hole: 11, Axis: r3.Vec{X: math.Sin(a), Z: math.Cos(a)}})
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			if p := b.Stack.Sheets; !near(p[0].Position, c.wantP1, 1e-9) || !near(p[1].Position, c.wantP2, 1e-9) {
+				t.Errorf("positions %.9g, %.9g, want %.9g, %.9g", p[0].Position, p[1].Position, c.wantP1, c.wantP2)
+			}
+			if l := b.Links[0]; !near(l.MidGap, c.wantP2-c.wantP1, 1e-9) {
+				t.Errorf("mid gap %.9g, want %.9g", l.MidGap, c.wantP2-c.wantP1)
+			}
+		})
+	}
+}
