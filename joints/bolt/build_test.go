@@ -320,3 +320,59 @@ func TestTiltedAxisPositions(t *testing.T) {
 		})
 	}
 }
+
+// TestQuadraticHoleRing: a hole meshed with 8-node quads has on its edge
+// the corners and, between each two, an edge's midside node; the ring
+// is all of them, in order round the hole, weighted by arc length. On a
+// regular 12-gon of corners with midside nodes on the same circle the
+// loop is a regular 24-gon: weights 1/24 each, the fitted circle the
+// hole's (hand calculation).
+func TestQuadraticHoleRing(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		ring joints.BoltRing
+		want int // ring nodes per sheet
+	}{
+		// The hole's edge: 12 corners and 12 midside nodes.
+		{"hole", joints.HoleRing, 24},
+		// Within the washer's radius, 10 mm, on an annulus from 5.5 to
+		// 14.5 mm in 2 rings: the corners and midsides of the hole's edge
+		// (24), the radial midsides at 7.75 mm (12) and the next ring's
+		// corners and midsides at 10 mm, on the washer's circle (24): 60.
+		{"washer", joints.WasherRing, 60},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			ss := []sheet{
+				{Part: 1, T: 1.5, Z: 0, Hole: 11, Outer: 14.5, Seg: 12, Rings: 2, Quadratic: true},
+				{Part: 2, T: 3, Z: 2.25, Hole: 11, Outer: 14.5, Seg: 12, Rings: 2, Quadratic: true},
+			}
+			m := mesh(t, rotation{}, ss...)
+			cs := build(t, m, joints.BuildOptions{BoltRing: c.ring}, m10("B1", r3.Vec{Z: 1.125}))
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			for i, s := range b.Stack.Sheets {
+				if len(b.Ends[i].Nodes) != c.want {
+					t.Errorf("part %d: %d ring nodes, want %d", s.Part, len(b.Ends[i].Nodes), c.want)
+				}
+				if h := b.Bolt.Holes[i]; !near(h.Diameter, 11, 1e-9) {
+					t.Errorf("part %d: hole %g, want 11", s.Part, h.Diameter)
+				}
+				sum := 0.0
+				var mean r3.Vec
+				for k, n := range b.Ends[i].Nodes {
+					w := b.Ends[i].Weights[k]
+					sum += w
+					mean = r3.Add(mean, r3.Scale(w, m.Coords[n]))
+					if c.ring == joints.HoleRing && !near(w, 1.0/24, 1e-12) {
+						t.Errorf("part %d: node %d weight %g, want 1/24", s.Part, m.NodeIDs[n], w)
+					}
+				}
+				if !near(sum, 1, 1e-12) || r3.Norm(r3.Sub(mean, b.Ends[i].Point)) > 1e-9 {
+					t.Errorf("part %d: weights sum to %g with mean %v, want 1 and the centre %v", s.Part, sum, mean, b.Ends[i].Point)
+				}
+			}
+		})
+	}
+}

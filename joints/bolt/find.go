@@ -92,7 +92,8 @@ type crossing struct {
 	point r3.Vec // on the meshed surface, on the axis
 	// normal is the host element's normal at the point.
 	normal r3.Vec
-	// loop holds the hole's edge nodes in order round it; nil when the
+	// loop holds the hole's edge nodes in order round it (second-order
+	// edges' midside nodes between their corners); nil when the
 	// axis meets an element (no hole meshed there).
 	loop []int32
 	hole float64 // measured hole diameter, mm; 0 without a hole
@@ -200,6 +201,7 @@ func crossings(m *geom.Mesh, f *frame, near []int32, reach, l, cosTol float64, k
 func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cosTol float64) (crossing, bool) {
 	type edge struct {
 		a, b int32
+		mid  int32 // the midside node of a second-order element's edge, -1 without
 		elem int32
 	}
 	uses := map[[2]int32]int{}
@@ -209,7 +211,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			ed := m.ElemEdge(int(e), k)
 			key := [2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}
 			uses[key]++
-			all = append(all, edge{ed.A, ed.B, e})
+			all = append(all, edge{ed.A, ed.B, ed.Mid, e})
 		}
 	}
 	inside := func(n int32) bool {
@@ -238,8 +240,13 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			continue
 		}
 		// Walk from edge s; a node with other than two free edges ends
-		// the walk without a loop.
+		// the walk without a loop. The midside node of a second-order
+		// edge joins the loop between the edge's corners: it lies on
+		// the hole's edge as they do.
 		loop := []int32{free[s].a}
+		if free[s].mid >= 0 {
+			loop = append(loop, free[s].mid)
+		}
 		hosts := []int32{free[s].elem}
 		used[s] = true
 		cur, node, closed := s, free[s].b, false
@@ -261,6 +268,9 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			}
 			used[next] = true
 			loop = append(loop, node)
+			if free[next].mid >= 0 {
+				loop = append(loop, free[next].mid)
+			}
 			hosts = append(hosts, free[next].elem)
 			cur = next
 			if free[next].a == node {
