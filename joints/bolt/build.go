@@ -176,7 +176,7 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	for i := range xs {
 		ring, weights, kind := ringOf(m, &f, near, &xs[i], j.Washer, o.BoltRing)
 		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
-		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Ring: kind})
+		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Narrowest: xs[i].narrow, Ring: kind})
 		if xs[i].loop == nil {
 			continue
 		}

@@ -97,6 +97,10 @@ type crossing struct {
 	// axis meets an element (no hole meshed there).
 	loop []int32
 	hole float64 // measured hole diameter, mm; 0 without a hole
+	// narrow is the hole's least width through its centre as meshed:
+	// twice the least distance of its edge nodes from the centre in the
+	// sheet's plane, mm; 0 without a hole.
+	narrow float64
 }
 
 // hitTolerance, mm, is how close the projection of an axis point onto
@@ -301,7 +305,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			centre = f.at(t)
 		}
 		t := f.along(centre)
-		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r}
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.
@@ -317,6 +321,23 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		}
 	}
 	return best, found
+}
+
+// narrowest returns twice the least distance of the nodes of loop from
+// centre in the plane square to normal, mm: the width of the hole
+// through its centre where it is narrowest, as far as its edge nodes
+// tell (they lie on the hole's edge; the chords between them cut inside
+// it, by an amount that depends on the mesh, not on the hole). On a
+// circle it is the diameter; on an oval its lesser axis, where nodes lie
+// at its ends.
+func narrowest(m *geom.Mesh, loop []int32, centre, normal r3.Vec) float64 {
+	n := r3.Unit(normal)
+	least := math.Inf(1)
+	for _, nd := range loop {
+		d := r3.Sub(m.Coords[nd], centre)
+		least = math.Min(least, r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, n), n))))
+	}
+	return 2 * least
 }
 
 // winds reports whether a closed loop of nodes winds round the axis:

@@ -33,6 +33,10 @@ type sheet struct {
 	// each edge, on the circle between two corners of a ring (numbered
 	// after the corners, ring by ring), and half-way between two rings.
 	Quadratic bool
+	// OvalX and OvalY, when set, make the hole an ellipse of these
+	// diameters along x and y (Hole is then the ellipse's nominal size for
+	// the rings beyond, which blend to circles by the outer one).
+	OvalX, OvalY float64
 }
 
 // rotation turns a point about the unit axis u by angle a (Rodrigues'
@@ -79,9 +83,14 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 			}
 			for r := 0; r <= s.Rings; r++ {
 				rad := radius(float64(r))
+				sx, sy := 1.0, 1.0
+				if s.OvalX > 0 {
+					blend := 1 - float64(r)/float64(s.Rings)
+					sx, sy = 1+(s.OvalX/s.Hole-1)*blend, 1+(s.OvalY/s.Hole-1)*blend
+				}
 				for k := range s.Seg {
 					a := angle(float64(k))
-					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+					node(r3.Vec{X: sx * rad * math.Cos(a), Y: sy * rad * math.Sin(a), Z: s.Z})
 				}
 			}
 			at := func(r, k int) int32 { return base + int32(r*s.Seg+k%s.Seg) }
