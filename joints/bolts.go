@@ -209,9 +209,14 @@ type BoltData struct {
 // BoltHole is the hole of one sheet of a bolt.
 type BoltHole struct {
 	// Diameter is the measured diameter of the hole's free-edge loop,
-	// twice the mean distance of its nodes from the axis, mm; 0 when the
-	// mesh has no hole there.
+	// that of the circle fitted to its nodes (Kasa's algebraic fit), mm;
+	// 0 when the mesh has no hole there.
 	Diameter float64
+	// Narrowest is the hole's least width through its centre: twice the
+	// least distance of its edge nodes from the centre, mm (the diameter
+	// on a round hole, the lesser axis on an oval one); 0 when the mesh
+	// has no hole there.
+	Narrowest float64
 	// Ring says which nodes the centre couples: "hole" (the hole's edge
 	// nodes), "washer" (every node within the washer's radius) or
 	// "patch" (no hole meshed: the nodes within the washer's radius, at

@@ -147,7 +147,11 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	for _, cr := range xs {
 		s := joints.Sheet{Part: m.Parts[cr.part].ID, Thickness: m.Thickness(cr.elem), EdgeDistance: math.Inf(1)}
 		s.Proj = geom.Projection{Elem: cr.elem, Point: cr.point, Dist: math.Abs(cr.t), Normal: cr.normal}
-		s.Position = cr.t + m.Parts[cr.part].Surface.MidOffset(s.Thickness)*r3.Dot(cr.normal, axis)
+		// The mid-surface lies off along the normal from the meshed
+		// surface: the axis meets it off / (n . a) along the axis from
+		// where it meets the meshed one (|n . a| >= cosTol, as the
+		// crossing's normal lies within the angle limit of the axis).
+		s.Position = cr.t + m.Parts[cr.part].Surface.MidOffset(s.Thickness)/r3.Dot(cr.normal, axis)
 		c.Stack.Sheets = append(c.Stack.Sheets, s)
 	}
 	order := make([]int, len(xs))
@@ -172,7 +176,7 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	for i := range xs {
 		ring, weights, kind := ringOf(m, &f, near, &xs[i], j.Washer, o.BoltRing)
 		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
-		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Ring: kind})
+		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Narrowest: xs[i].narrow, Ring: kind})
 		if xs[i].loop == nil {
 			continue
 		}

@@ -275,3 +275,104 @@ func TestReferenceSurfaces(t *testing.T) {
 		})
 	}
 }
+
+// TestTiltedAxisPositions: a bolt whose listed axis is tilted to two
+// parallel sheets, one meshed on its mid-surface, one on its bottom
+// face. The position of a sheet is where the axis meets its
+// mid-surface: the plane a distance off from the meshed surface along
+// the normal n meets the axis, direction a, a distance off / (n . a)
+// along it from where the axis meets the meshed surface (hand
+// calculation: a line through two parallel planes d apart runs
+// d / cos(theta) between them).
+func TestTiltedAxisPositions(t *testing.T) {
+	for _, c := range []struct {
+		name   string
+		tilt   float64 // degrees between the axis and the sheets' normal
+		s2     geom.Surface
+		z2     float64 // sheet 2's meshed surface; its mid-surface is at 2.25
+		wantP1 float64 // sheet 1's position: its mid-surface at z = 0, from the point at z = 0.75
+		wantP2 float64
+	}{
+		// Hand calculation: mid-surfaces at z = 0 and 2.25, the point at
+		// z = 0.75: positions -0.75 / cos and 1.5 / cos.
+		{"bottom-15deg", 15, geom.SurfaceBottom, 0.75, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+		{"top-15deg", 15, geom.SurfaceTop, 3.75, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+		{"bottom-19deg", 19, geom.SurfaceBottom, 0.75, -0.75 / math.Cos(19*math.Pi/180), 1.5 / math.Cos(19*math.Pi/180)},
+		{"mid-15deg", 15, geom.SurfaceMid, 2.25, -0.75 / math.Cos(15*math.Pi/180), 1.5 / math.Cos(15*math.Pi/180)},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m := mesh(t, rotation{},
+				sheet{Part: 1, T: 1.5, Z: 0, X0: -40, H: 10, N: 8},
+				sheet{Part: 2, T: 3, Z: c.z2, Surface: c.s2, X0: -40, H: 10, N: 8})
+			a := c.tilt * math.Pi / 180
+			cs := build(t, m, joints.BuildOptions{}, joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{X: 1, Y: 2, Z: 0.75},
+				Diameter: 10, Washer: 20, Hole: 11, Axis: r3.Vec{X: math.Sin(a), Z: math.Cos(a)}})
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			if p := b.Stack.Sheets; !near(p[0].Position, c.wantP1, 1e-9) || !near(p[1].Position, c.wantP2, 1e-9) {
+				t.Errorf("positions %.9g, %.9g, want %.9g, %.9g", p[0].Position, p[1].Position, c.wantP1, c.wantP2)
+			}
+			if l := b.Links[0]; !near(l.MidGap, c.wantP2-c.wantP1, 1e-9) {
+				t.Errorf("mid gap %.9g, want %.9g", l.MidGap, c.wantP2-c.wantP1)
+			}
+		})
+	}
+}
+
+// TestQuadraticHoleRing: a hole meshed with 8-node quads has on its edge
+// the corners and, between each two, an edge's midside node; the ring
+// is all of them, in order round the hole, weighted by arc length. On a
+// regular 12-gon of corners with midside nodes on the same circle the
+// loop is a regular 24-gon: weights 1/24 each, the fitted circle the
+// hole's (hand calculation).
+func TestQuadraticHoleRing(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		ring joints.BoltRing
+		want int // ring nodes per sheet
+	}{
+		// The hole's edge: 12 corners and 12 midside nodes.
+		{"hole", joints.HoleRing, 24},
+		// Within the washer's radius, 10 mm, on an annulus from 5.5 to
+		// 14.5 mm in 2 rings: the corners and midsides of the hole's edge
+		// (24), the radial midsides at 7.75 mm (12) and the next ring's
+		// corners and midsides at 10 mm, on the washer's circle (24): 60.
+		{"washer", joints.WasherRing, 60},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			ss := []sheet{
+				{Part: 1, T: 1.5, Z: 0, Hole: 11, Outer: 14.5, Seg: 12, Rings: 2, Quadratic: true},
+				{Part: 2, T: 3, Z: 2.25, Hole: 11, Outer: 14.5, Seg: 12, Rings: 2, Quadratic: true},
+			}
+			m := mesh(t, rotation{}, ss...)
+			cs := build(t, m, joints.BuildOptions{BoltRing: c.ring}, m10("B1", r3.Vec{Z: 1.125}))
+			b := cs[0]
+			if b.Status != joints.Built {
+				t.Fatalf("state %s, findings %v", b.Status, codes(b.Findings))
+			}
+			for i, s := range b.Stack.Sheets {
+				if len(b.Ends[i].Nodes) != c.want {
+					t.Errorf("part %d: %d ring nodes, want %d", s.Part, len(b.Ends[i].Nodes), c.want)
+				}
+				if h := b.Bolt.Holes[i]; !near(h.Diameter, 11, 1e-9) {
+					t.Errorf("part %d: hole %g, want 11", s.Part, h.Diameter)
+				}
+				sum := 0.0
+				var mean r3.Vec
+				for k, n := range b.Ends[i].Nodes {
+					w := b.Ends[i].Weights[k]
+					sum += w
+					mean = r3.Add(mean, r3.Scale(w, m.Coords[n]))
+					if c.ring == joints.HoleRing && !near(w, 1.0/24, 1e-12) {
+						t.Errorf("part %d: node %d weight %g, want 1/24", s.Part, m.NodeIDs[n], w)
+					}
+				}
+				if !near(sum, 1, 1e-12) || r3.Norm(r3.Sub(mean, b.Ends[i].Point)) > 1e-9 {
+					t.Errorf("part %d: weights sum to %g with mean %v, want 1 and the centre %v", s.Part, sum, mean, b.Ends[i].Point)
+				}
+			}
+		})
+	}
+}

@@ -64,7 +64,9 @@ const sizeTolerance = 1e-6
 // for the size (hole-class) and a washer smaller than ISO 7089's
 // (washer-small) are warnings; per sheet with a hole in the mesh, a
 // measured diameter off the declared one by more than the tolerance is a
-// warning (hole-size), an error when the shank does not pass through it,
+// warning (hole-size), an error when the shank does not pass through it
+// (the fitted diameter, or the hole's width where it is narrowest, as
+// on an oval hole, less than the bolt's),
 // and a washer that does not cover it is an error (washer-hole).
 func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *joints.BuildOptions) []joints.Finding {
 	var fs []joints.Finding
@@ -90,6 +92,9 @@ func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *j
 		case d < j.Diameter-joints.LengthRoundoff:
 			fs = append(fs, j.Finding(joints.Error, joints.CodeHoleSize, []int64{part},
 				fmt.Sprintf("the hole in part %d measures %s mm, less than the bolt's %s mm: the shank does not pass", part, joints.MM(d), joints.MM(j.Diameter))))
+		case h.Narrowest > 0 && h.Narrowest < j.Diameter-joints.LengthRoundoff:
+			fs = append(fs, j.Finding(joints.Error, joints.CodeHoleSize, []int64{part},
+				fmt.Sprintf("the hole in part %d measures %s mm (the circle fitted to its edge) but only %s mm across where it is narrowest, less than the bolt's %s mm: the shank does not pass", part, joints.MM(d), joints.MM(h.Narrowest), joints.MM(j.Diameter))))
 		case d > j.Hole+tol+joints.LengthRoundoff || d < j.Hole-tol-joints.LengthRoundoff:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeHoleSize, []int64{part},
 				fmt.Sprintf("the hole in part %d measures %s mm, the list declares %s mm (tolerance %s mm)", part, joints.MM(d), joints.MM(j.Hole), joints.MM(tol))))

@@ -257,3 +257,50 @@ func TestSizesAtLimits(t *testing.T) {
 		})
 	}
 }
+
+// TestOvalHole: an oval hole, meshed as an ellipse of 16 nodes evenly
+// spaced in its parameter, measures as the circle fitted to its nodes,
+// whose diameter is 2 sqrt((a^2 + b^2) / 2) for semi-axes a and b (Kasa's
+// fit: by symmetry D = E = 0 and F = -mean(x^2 + y^2) = -(a^2 + b^2) / 2;
+// hand calculation), and its narrowest width is its lesser axis, where
+// nodes lie at its ends. The shank must pass the narrowest width: an M10
+// in a 12.6 x 9.6 mm oval measures 11.2 mm, within the tolerance of the
+// declared 11, yet does not pass.
+func TestOvalHole(t *testing.T) {
+	for _, c := range []struct {
+		name       string
+		ox, oy     float64 // the oval's axes, mm
+		wantFit    float64 // fitted diameter, hand calculation above
+		wantNarrow float64
+		want       []string
+		state      joints.Status
+	}{
+		{"round", 11, 11, 11, 11, nil, joints.Built},
+		{"oval passing", 11.55, 10.45, 2 * math.Sqrt((11.55*11.55+10.45*10.45)/8), 10.45, nil, joints.Built},
+		{"oval narrower than the shank", 12.6, 9.6, 2 * math.Sqrt((12.6*12.6+9.6*9.6)/8), 9.6, []string{joints.CodeHoleSize}, joints.NotBuilt},
+		{"oval at the shank", 12, 10, 2 * math.Sqrt((12.0*12+10*10)/8), 10, nil, joints.Built}, // 10 mm exactly passes
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			ss := holed(11)
+			for i := range ss {
+				ss[i].Seg, ss[i].OvalX, ss[i].OvalY = 16, c.ox, c.oy
+			}
+			m := mesh(t, rotation{}, ss...)
+			b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 1.125}))[0]
+			var got []string
+			for _, g := range codes(b.Findings) {
+				if !slices.Contains(got, g) {
+					got = append(got, g)
+				}
+			}
+			if !slices.Equal(got, c.want) || b.Status != c.state {
+				t.Errorf("findings %v, state %s; want %v, %s", got, b.Status, c.want, c.state)
+			}
+			for _, h := range b.Bolt.Holes {
+				if !near(h.Diameter, c.wantFit, 1e-9) || !near(h.Narrowest, c.wantNarrow, 1e-9) {
+					t.Errorf("hole %.9g, narrowest %.9g; want %.9g, %.9g", h.Diameter, h.Narrowest, c.wantFit, c.wantNarrow)
+				}
+			}
+		})
+	}
+}

@@ -92,10 +92,15 @@ type crossing struct {
 	point r3.Vec // on the meshed surface, on the axis
 	// normal is the host element's normal at the point.
 	normal r3.Vec
-	// loop holds the hole's edge nodes in order round it; nil when the
+	// loop holds the hole's edge nodes in order round it (second-order
+	// edges' midside nodes between their corners); nil when the
 	// axis meets an element (no hole meshed there).
 	loop []int32
 	hole float64 // measured hole diameter, mm; 0 without a hole
+	// narrow is the hole's least width through its centre as meshed:
+	// twice the least distance of its edge nodes from the centre in the
+	// sheet's plane, mm; 0 without a hole.
+	narrow float64
 }
 
 // hitTolerance, mm, is how close the projection of an axis point onto
@@ -200,6 +205,7 @@ func crossings(m *geom.Mesh, f *frame, near []int32, reach, l, cosTol float64, k
 func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cosTol float64) (crossing, bool) {
 	type edge struct {
 		a, b int32
+		mid  int32 // the midside node of a second-order element's edge, -1 without
 		elem int32
 	}
 	uses := map[[2]int32]int{}
@@ -209,7 +215,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			ed := m.ElemEdge(int(e), k)
 			key := [2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}
 			uses[key]++
-			all = append(all, edge{ed.A, ed.B, e})
+			all = append(all, edge{ed.A, ed.B, ed.Mid, e})
 		}
 	}
 	inside := func(n int32) bool {
@@ -238,8 +244,13 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			continue
 		}
 		// Walk from edge s; a node with other than two free edges ends
-		// the walk without a loop.
+		// the walk without a loop. The midside node of a second-order
+		// edge joins the loop between the edge's corners: it lies on
+		// the hole's edge as they do.
 		loop := []int32{free[s].a}
+		if free[s].mid >= 0 {
+			loop = append(loop, free[s].mid)
+		}
 		hosts := []int32{free[s].elem}
 		used[s] = true
 		cur, node, closed := s, free[s].b, false
@@ -261,6 +272,9 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			}
 			used[next] = true
 			loop = append(loop, node)
+			if free[next].mid >= 0 {
+				loop = append(loop, free[next].mid)
+			}
 			hosts = append(hosts, free[next].elem)
 			cur = next
 			if free[next].a == node {
@@ -291,7 +305,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			centre = f.at(t)
 		}
 		t := f.along(centre)
-		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r}
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.
@@ -307,6 +321,23 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		}
 	}
 	return best, found
+}
+
+// narrowest returns twice the least distance of the nodes of loop from
+// centre in the plane square to normal, mm: the width of the hole
+// through its centre where it is narrowest, as far as its edge nodes
+// tell (they lie on the hole's edge; the chords between them cut inside
+// it, by an amount that depends on the mesh, not on the hole). On a
+// circle it is the diameter; on an oval its lesser axis, where nodes lie
+// at its ends.
+func narrowest(m *geom.Mesh, loop []int32, centre, normal r3.Vec) float64 {
+	n := r3.Unit(normal)
+	least := math.Inf(1)
+	for _, nd := range loop {
+		d := r3.Sub(m.Coords[nd], centre)
+		least = math.Min(least, r3.Norm(r3.Sub(d, r3.Scale(r3.Dot(d, n), n))))
+	}
+	return 2 * least
 }
 
 // winds reports whether a closed loop of nodes winds round the axis:

@@ -29,6 +29,14 @@ type sheet struct {
 	// Warp spaces the annulus's nodes unevenly round it, still on their
 	// circles: node k at angle a + Warp sin(a), a = 2 pi k / Seg.
 	Warp float64
+	// Quadratic meshes the annulus with 8-node quads: a midside node on
+	// each edge, on the circle between two corners of a ring (numbered
+	// after the corners, ring by ring), and half-way between two rings.
+	Quadratic bool
+	// OvalX and OvalY, when set, make the hole an ellipse of these
+	// diameters along x and y (Hole is then the ellipse's nominal size for
+	// the rings beyond, which blend to circles by the outer one).
+	OvalX, OvalY float64
 }
 
 // rotation turns a point about the unit axis u by angle a (Rodrigues'
@@ -68,18 +76,54 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 			m.ElemPart = append(m.ElemPart, int32(pi))
 		}
 		if s.Hole > 0 {
+			radius := func(r float64) float64 { return s.Hole/2 + (s.Outer-s.Hole/2)*r/float64(s.Rings) }
+			angle := func(k float64) float64 {
+				a := 2 * math.Pi * k / float64(s.Seg)
+				return a + s.Warp*math.Sin(a)
+			}
 			for r := 0; r <= s.Rings; r++ {
-				rad := s.Hole/2 + (s.Outer-s.Hole/2)*float64(r)/float64(s.Rings)
+				rad := radius(float64(r))
+				sx, sy := 1.0, 1.0
+				if s.OvalX > 0 {
+					blend := 1 - float64(r)/float64(s.Rings)
+					sx, sy = 1+(s.OvalX/s.Hole-1)*blend, 1+(s.OvalY/s.Hole-1)*blend
+				}
 				for k := range s.Seg {
-					a := 2 * math.Pi * float64(k) / float64(s.Seg)
-					a += s.Warp * math.Sin(a)
-					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+					a := angle(float64(k))
+					node(r3.Vec{X: sx * rad * math.Cos(a), Y: sy * rad * math.Sin(a), Z: s.Z})
 				}
 			}
 			at := func(r, k int) int32 { return base + int32(r*s.Seg+k%s.Seg) }
+			if !s.Quadratic {
+				for r := range s.Rings {
+					for k := range s.Seg {
+						elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1))
+					}
+				}
+				continue
+			}
+			tb := base + int32((s.Rings+1)*s.Seg) // midsides on the rings
+			for r := 0; r <= s.Rings; r++ {
+				rad := radius(float64(r))
+				for k := range s.Seg {
+					a := angle(float64(k) + 0.5)
+					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+				}
+			}
+			rb := tb + int32((s.Rings+1)*s.Seg) // midsides between rings
+			for r := range s.Rings {
+				rad := radius(float64(r) + 0.5)
+				for k := range s.Seg {
+					a := angle(float64(k))
+					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+				}
+			}
+			tm := func(r, k int) int32 { return tb + int32(r*s.Seg+k%s.Seg) }
+			rm := func(r, k int) int32 { return rb + int32(r*s.Seg+k%s.Seg) }
 			for r := range s.Rings {
 				for k := range s.Seg {
-					elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1))
+					elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1),
+						rm(r, k), tm(r+1, k), rm(r, k+1), tm(r, k))
 				}
 			}
 			continue

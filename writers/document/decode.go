@@ -5,6 +5,9 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
+	"strconv"
+	"strings"
 	"sync"
 	"sync/atomic"
 
@@ -17,9 +20,13 @@ import (
 // ToConnectors converts the connectors of a decoded document back into
 // the domain types, resolved against mesh m: node and element ids become
 // indices, normals come from the mesh. name is the document's file, for
-// errors: a node, element or part that is not in the mesh, or a field
-// out of range, is an input error naming the connector's line. Findings
-// are not carried over (a check makes its own).
+// errors: a node, element or part that is not in the mesh, a sheet
+// whose element lies on another part than the sheet's, an end tied to a
+// node that no element of its sheet's part uses, or a field out of
+// range, is an input error naming the connector's line (the checks take
+// a sheet's part as stated: an end on another part's nodes would tie
+// parts the document does not say it ties). Findings are not carried
+// over (a check makes its own).
 func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Connector, error) {
 	n := len(doc.Connectors)
 	out := make([]joints.Connector, n)
@@ -49,7 +56,73 @@ func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Conn
 			return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", geom.Excerpt(doc.Connectors[i].ID), err)
 		}
 	}
+	if i, err := endsOnParts(m, out); err != nil {
+		return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", geom.Excerpt(doc.Connectors[i].ID), err)
+	}
 	return out, nil
+}
+
+// endsOnParts returns the index of the first connector of cs with an
+// end tied to a node that no element of its sheet's part uses, and the
+// error saying so. The parts of the nodes tied are found in one pass
+// over the elements.
+func endsOnParts(m *geom.Mesh, cs []joints.Connector) (int, error) {
+	used := map[int32][]int32{} // node -> part indices of its elements
+	for i := range cs {
+		for _, e := range cs[i].Ends {
+			for _, n := range e.Nodes {
+				used[n] = nil
+			}
+		}
+	}
+	if len(used) == 0 {
+		return 0, nil
+	}
+	for e := range m.NumElems() {
+		pi := m.ElemPart[e]
+		for _, n := range m.ElemNodes(e) {
+			if ps, ok := used[n]; ok && !slices.Contains(ps, pi) {
+				used[n] = append(ps, pi)
+			}
+		}
+	}
+	for i := range cs {
+		c := &cs[i]
+		for si, e := range c.Ends {
+			part := c.Stack.Sheets[si].Part
+			pi, _ := m.PartIndex(part)
+			for _, n := range e.Nodes {
+				if ps := used[n]; !slices.Contains(ps, pi) {
+					on := "no element"
+					if len(ps) > 0 {
+						ids := make([]int64, len(ps))
+						for k, p := range ps {
+							ids[k] = m.Parts[p].ID
+						}
+						slices.Sort(ids)
+						on = fmt.Sprintf("elements of part %s only", joinIDs(ids))
+						if len(ids) > 1 {
+							on = fmt.Sprintf("elements of parts %s only", joinIDs(ids))
+						}
+					}
+					return i, fmt.Errorf("sheet %d: node %d, tied to the end on part %d, belongs to %s", si, m.NodeIDs[n], part, on)
+				}
+			}
+		}
+	}
+	return 0, nil
+}
+
+// joinIDs writes ids as "1", "1 and 2" or "1, 2 and 3".
+func joinIDs(ids []int64) string {
+	s := make([]string, len(ids))
+	for i, id := range ids {
+		s[i] = strconv.FormatInt(id, 10)
+	}
+	if len(s) == 1 {
+		return s[0]
+	}
+	return strings.Join(s[:len(s)-1], ", ") + " and " + s[len(s)-1]
 }
 
 // maxCoordinate bounds the coordinates and lengths a document may give,
@@ -122,6 +195,9 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 		e, ok := m.ElemIndex(s.Element)
 		if !ok {
 			return c, fmt.Errorf("sheet %d: element %d is not in the mesh", si, s.Element)
+		}
+		if on := m.Part(int(e)).ID; on != s.Part {
+			return c, fmt.Errorf("sheet %d: element %d lies on part %d, not on the sheet's part %d", si, s.Element, on, s.Part)
 		}
 		sh := joints.Sheet{
 			Part: s.Part, Thickness: s.Thickness, Position: s.Position, Lateral: s.Lateral, EdgeDistance: math.Inf(1),

@@ -83,3 +83,55 @@ func FuzzDecodeConnectors(f *testing.F) {
 		}
 	})
 }
+
+// TestToConnectorsParts: a sheet's part, its element's part and the
+// parts of the nodes its end ties must agree, or the document does not
+// say what it ties (the checks take the sheet's part as stated). The 4 x
+// 4 grid has part 1 on x < 2 and part 2 on x > 2; the nodes at x = 2
+// (ids 3, 8, 13, ...) lie on both.
+func TestToConnectorsParts(t *testing.T) {
+	m := geomtest.Grid(geomtest.GridSpec{NX: 4, NY: 4, Parts: []geom.Part{{ID: 1}, {ID: 2}},
+		Part: func(i, j int) int32 {
+			if i < 2 {
+				return 0
+			}
+			return 1
+		}})
+	// Sheet 0 on part 1, element 6 (quad (1, 1), nodes 7, 8, 13, 12);
+	// sheet 1 on part 2, element 7 (quad (2, 1), nodes 8, 9, 14, 13).
+	doc := func(part0, elem0, nodes1 string) string {
+		return `{"schema":"joinery/connectors","version":2,"connectors":[
+{"id":"W1","kind":"spot","state":"built","point":[2,1.5,0],"axis":[0,0,1],"diameter":5,"attach":"interpolated","dofs":["tx","ty","tz"],
+ "sheets":[{"part":` + part0 + `,"element":` + elem0 + `,"point":[1.5,1.5,0],"distance":0,"thickness":1,"position":0,"lateral":0,"edge_distance":null,"end_node":100,"end_point":[1.5,1.5,0],"nodes":[7,8,13,12],"weights":[0.25,0.25,0.25,0.25]},
+           {"part":2,"element":7,"point":[2.5,1.5,0],"distance":0,"thickness":1,"position":1,"lateral":0,"edge_distance":null,"end_node":101,"end_point":[2.5,1.5,0],"nodes":` + nodes1 + `,"weights":[0.25,0.25,0.25,0.25]}],
+ "links":[{"id":102,"from":0,"to":1,"start":[1.5,1.5,0],"end":[2.5,1.5,0],"length":1,"direction":[1,0,0],"contact_gap":1,"mid_gap":1}],
+ "findings":[]}]}`
+	}
+	for _, c := range []struct {
+		name                 string
+		part0, elem0, nodes1 string
+		want                 string // error prefix; "" for none
+	}{
+		{"agree", "1", "6", "[8,9,14,13]", ""},
+		// Nodes 8 and 13 lie on both parts: an end of either may tie them.
+		{"shared-nodes", "1", "6", "[8,3,14,13]", ""},
+		{"element-on-other-part", "2", "6", "[8,9,14,13]", `c.json:2: connector "W1": sheet 0: element 6 lies on part 1, not on the sheet's part 2`},
+		// The end on part 2 tied to part 1's nodes 7 and 12: it would tie
+		// part 1 to itself.
+		{"nodes-on-other-part", "1", "6", "[7,8,13,12]", `c.json:2: connector "W1": sheet 1: node 7, tied to the end on part 2, belongs to elements of part 1 only`},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			d, err := DecodeConnectors(strings.NewReader(doc(c.part0, c.elem0, c.nodes1)), "c.json")
+			if err != nil {
+				t.Fatal(err)
+			}
+			_, err = d.ToConnectors(m, "c.json")
+			switch {
+			case c.want == "" && err != nil:
+				t.Errorf("error %v, want none", err)
+			case c.want != "" && (err == nil || !strings.HasPrefix(err.Error(), c.want) || !errors.Is(err, geom.ErrInput)):
+				t.Errorf("error %v, want the input error %q", err, c.want)
+			}
+		})
+	}
+}
