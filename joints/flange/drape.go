@@ -27,34 +27,52 @@ type draper struct {
 	samples []sample
 	cell    float64
 	grid    map[[3]int64][]int32
-	edges   map[uint64][]int32 // element edge -> the samples whose element has it
+	// centre and rad are each piece's lifted centroid and the radius
+	// about it that holds its corners (a bound that spares most
+	// projections).
+	centre []r3.Vec
+	rad    []float64
+	edges  map[uint64][]int32 // element edge -> the samples whose element has it; made when first needed
 }
 
 func newDraper(m *geom.Mesh, samples []sample) *draper {
-	d := &draper{m: m, samples: samples, grid: map[[3]int64][]int32{}, edges: map[uint64][]int32{}}
-	for _, s := range samples {
+	d := &draper{m: m, samples: samples, grid: map[[3]int64][]int32{},
+		centre: make([]r3.Vec, len(samples)), rad: make([]float64, len(samples))}
+	for i, s := range samples {
 		e := int(s.elem)
 		c := m.Centroid(e)
 		for k := range m.Type(e).Corners() {
-			d.cell = math.Max(d.cell, dist(c, m.Corner(e, k)))
+			d.rad[i] = math.Max(d.rad[i], dist(c, m.Corner(e, k)))
 		}
+		d.cell = math.Max(d.cell, d.rad[i])
+		d.centre[i] = r3.Add(c, r3.Scale(s.shift, s.normal))
 	}
 	// Any element whose surface lies within cell/2 of a point has its
 	// centre within 1.5 cells of it: the 27 cells round the point's
 	// hold it.
 	d.cell = 2 * math.Max(d.cell, 1e-6)
-	for i, s := range samples {
-		e := int(s.elem)
-		k := d.key(r3.Add(m.Centroid(e), r3.Scale(s.shift, s.normal)))
+	for i := range samples {
+		k := d.key(d.centre[i])
 		d.grid[k] = append(d.grid[k], int32(i))
-		nodes := m.ElemNodes(e)
-		nc := m.Type(e).Corners()
-		for j := range nc {
-			key := edgeKey(nodes[j], nodes[(j+1)%nc])
-			d.edges[key] = append(d.edges[key], int32(i))
-		}
 	}
 	return d
+}
+
+// pieceEdges returns the samples whose element has the edge from u to v.
+func (d *draper) pieceEdges(u, v int32) []int32 {
+	if d.edges == nil {
+		d.edges = map[uint64][]int32{}
+		for i, s := range d.samples {
+			e := int(s.elem)
+			nodes := d.m.ElemNodes(e)
+			nc := d.m.Type(e).Corners()
+			for j := range nc {
+				key := edgeKey(nodes[j], nodes[(j+1)%nc])
+				d.edges[key] = append(d.edges[key], int32(i))
+			}
+		}
+	}
+	return d.edges[edgeKey(u, v)]
 }
 
 func (d *draper) key(p r3.Vec) [3]int64 {
@@ -74,6 +92,12 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 		for dy := int64(-1); dy <= 1; dy++ {
 			for dz := int64(-1); dz <= 1; dz++ {
 				for _, i := range d.grid[[3]int64{k[0] + dx, k[1] + dy, k[2] + dz}] {
+					// No point of a piece lies nearer than its centre less
+					// its radius (with a little slack against rounding):
+					// such a piece cannot beat the best, nor tie it.
+					if lb := dist(q, d.centre[i]) - d.rad[i]; lb > bestD+1e-9*(1+bestD) {
+						continue
+					}
 					s := &d.samples[i]
 					lift := r3.Scale(s.shift, s.normal)
 					pr := m.Project(int(s.elem), r3.Sub(q, lift))
@@ -105,7 +129,7 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 		if dist(bestPr.Point, closestOn(bestPr.Point, a, b)) > 1e-9*(1+size) {
 			continue
 		}
-		for _, i := range d.edges[edgeKey(nodes[j], nodes[(j+1)%nc])] {
+		for _, i := range d.pieceEdges(nodes[j], nodes[(j+1)%nc]) {
 			if i == bestI {
 				continue
 			}
@@ -145,7 +169,7 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 // edge or beyond its ends (the spine's extensions), where the closest
 // point lies along the surface, are left as they are.
 func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
-	if sp == nil || sp.closed || len(samples) == 0 {
+	if sp == nil || sp.closed || len(samples) == 0 || onePlane(m, samples) {
 		return sp
 	}
 	d := newDraper(m, samples)
@@ -231,6 +255,33 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
 	// The extensions keep their lengths: they were moved whole.
 	out.ext0, out.ext1 = out.cum[first], out.length-out.cum[len(out.pts)-1-(len(sp.pts)-1-last)]
 	return out
+}
+
+// onePlane reports whether every piece of the faying surface (each host
+// element moved along its normal by its shift) lies in one plane, to
+// rounding: a flat flange, whose spine, made from points of that plane,
+// lies in it too, so that drape would move nothing (most flanges: this
+// spares them the search).
+func onePlane(m *geom.Mesh, samples []sample) bool {
+	n0 := samples[0].normal
+	ref := samples[0].pos
+	if r3.Norm2(n0) == 0 {
+		return false
+	}
+	for _, s := range samples {
+		if r3.Norm(r3.Cross(s.normal, n0)) > 1e-12 {
+			return false
+		}
+		e := int(s.elem)
+		lift := r3.Scale(s.shift, s.normal)
+		for k := range m.Type(e).Corners() {
+			c := r3.Add(m.Corner(e, k), lift)
+			if math.Abs(r3.Dot(r3.Sub(c, ref), n0)) > 1e-9*(1+r3.Norm(c)) {
+				return false
+			}
+		}
+	}
+	return true
 }
 
 // sameWay reports whether an element with corner nodes nodes[:nc] runs
