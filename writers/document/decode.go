@@ -67,22 +67,35 @@ func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Conn
 // error saying so. The parts of the nodes tied are found in one pass
 // over the elements.
 func endsOnParts(m *geom.Mesh, cs []joints.Connector) (int, error) {
-	used := map[int32][]int32{} // node -> part indices of its elements
+	// first[n] is the first part index found among the elements of tied
+	// node n (-1 none yet, -2 not tied); more holds any further ones (a
+	// node shared by parts), so that the pass over the elements touches
+	// arrays only.
+	first := make([]int32, m.NumNodes())
+	for n := range first {
+		first[n] = -2
+	}
+	tied := false
 	for i := range cs {
 		for _, e := range cs[i].Ends {
 			for _, n := range e.Nodes {
-				used[n] = nil
+				first[n], tied = -1, true
 			}
 		}
 	}
-	if len(used) == 0 {
+	if !tied {
 		return 0, nil
 	}
+	more := map[int32][]int32{}
 	for e := range m.NumElems() {
 		pi := m.ElemPart[e]
 		for _, n := range m.ElemNodes(e) {
-			if ps, ok := used[n]; ok && !slices.Contains(ps, pi) {
-				used[n] = append(ps, pi)
+			switch f := first[n]; {
+			case f == -2 || f == pi:
+			case f == -1:
+				first[n] = pi
+			case !slices.Contains(more[n], pi):
+				more[n] = append(more[n], pi)
 			}
 		}
 	}
@@ -92,21 +105,24 @@ func endsOnParts(m *geom.Mesh, cs []joints.Connector) (int, error) {
 			part := c.Stack.Sheets[si].Part
 			pi, _ := m.PartIndex(part)
 			for _, n := range e.Nodes {
-				if ps := used[n]; !slices.Contains(ps, pi) {
-					on := "no element"
-					if len(ps) > 0 {
-						ids := make([]int64, len(ps))
-						for k, p := range ps {
-							ids[k] = m.Parts[p].ID
-						}
-						slices.Sort(ids)
-						on = fmt.Sprintf("elements of part %s only", joinIDs(ids))
-						if len(ids) > 1 {
-							on = fmt.Sprintf("elements of parts %s only", joinIDs(ids))
-						}
-					}
-					return i, fmt.Errorf("sheet %d: node %d, tied to the end on part %d, belongs to %s", si, m.NodeIDs[n], part, on)
+				if first[n] == pi || slices.Contains(more[n], pi) {
+					continue
 				}
+				var ids []int64
+				if first[n] >= 0 {
+					for _, p := range append([]int32{first[n]}, more[n]...) {
+						ids = append(ids, m.Parts[p].ID)
+					}
+				}
+				slices.Sort(ids)
+				on := "no element"
+				switch {
+				case len(ids) == 1:
+					on = fmt.Sprintf("elements of part %s only", joinIDs(ids))
+				case len(ids) > 1:
+					on = fmt.Sprintf("elements of parts %s only", joinIDs(ids))
+				}
+				return i, fmt.Errorf("sheet %d: node %d, tied to the end on part %d, belongs to %s", si, m.NodeIDs[n], part, on)
 			}
 		}
 	}
