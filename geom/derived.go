@@ -272,3 +272,20 @@ func (m *Mesh) ThicknessClashes(relTol float64) []ThicknessClash {
 	}
 	return out
 }
+
+// SignLargest returns v or -v, whichever has its component of largest
+// magnitude positive (the first of equal ones), so that a direction found
+// up to its sign is always given the same way.
+func SignLargest(v r3.Vec) r3.Vec {
+	c := v.X
+	if math.Abs(v.Y) > math.Abs(c) {
+		c = v.Y
+	}
+	if math.Abs(v.Z) > math.Abs(c) {
+		c = v.Z
+	}
+	if c < 0 {
+		return r3.Scale(-1, v)
+	}
+	return v
+}

@@ -8,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
 
@@ -128,18 +129,7 @@ func canonical(v r3.Vec) r3.Vec {
 	if n == 0 {
 		return v
 	}
-	v = r3.Scale(1/n, v)
-	big := v.X
-	if math.Abs(v.Y) > math.Abs(big) {
-		big = v.Y
-	}
-	if math.Abs(v.Z) > math.Abs(big) {
-		big = v.Z
-	}
-	if big < 0 {
-		v = r3.Scale(-1, v)
-	}
-	return roundVec(v, 1e-9)
+	return roundVec(geom.SignLargest(r3.Scale(1/n, v)), 1e-9)
 }
 
 // round rounds v to the decimals of step (a power of ten), so that it

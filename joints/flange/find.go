@@ -291,18 +291,7 @@ func meanNormal(samples []sample) r3.Vec {
 	if !(area > 0) || l < joints.MinMeanNormal*area {
 		return r3.Vec{}
 	}
-	n := r3.Scale(1/l, sum)
-	big := n.X
-	if math.Abs(n.Y) > math.Abs(big) {
-		big = n.Y
-	}
-	if math.Abs(n.Z) > math.Abs(big) {
-		big = n.Z
-	}
-	if big < 0 {
-		n = r3.Scale(-1, n)
-	}
-	return n
+	return geom.SignLargest(r3.Scale(1/l, sum))
 }
 
 // median returns the median of xs (the lower middle for an even count),

@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/writers/document"
 )
@@ -281,15 +282,15 @@ func (s *Flanges) writePlan(w *Writer, p *Page, f *document.FlangeDoc, oa, ob *P
 		if r3.Norm(e1) < 1e-6 {
 			e1 = perpendicular(n)
 		}
-		e1 = signed(r3.Unit(e1))
+		e1 = geom.SignLargest(r3.Unit(e1))
 	} else {
 		_, minor := principal(all, c)
-		e1 = signed(major)
+		e1 = geom.SignLargest(major)
 		n = r3.Sub(minor, r3.Scale(r3.Dot(minor, e1), e1))
 		if r3.Norm(n) < 1e-6 {
 			n = perpendicular(e1)
 		}
-		n = signed(r3.Unit(n))
+		n = geom.SignLargest(r3.Unit(n))
 	}
 	e2 := r3.Cross(n, e1)
 	f0 := &frame{origin: c, right: e1, up: e2}

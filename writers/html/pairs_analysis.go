@@ -186,7 +186,7 @@ func (pa *pairAnalysis) chart(conn *document.ConnectorsDoc, dirs []r3.Vec) {
 	if len(dirs) > 0 {
 		major, _ = principal(dirs, r3.Vec{})
 	}
-	e1, n := signed(major), minor
+	e1, n := geom.SignLargest(major), minor
 	if r3.Norm(axis) > 0 {
 		a := r3.Unit(axis)
 		if o := r3.Sub(a, r3.Scale(r3.Dot(a, e1), e1)); r3.Norm(o) > 0.1 {
@@ -197,7 +197,7 @@ func (pa *pairAnalysis) chart(conn *document.ConnectorsDoc, dirs []r3.Vec) {
 		n = perpendicular(e1)
 	}
 	n = r3.Unit(r3.Sub(n, r3.Scale(r3.Dot(n, e1), e1)))
-	pa.e1, pa.n = e1, signed(n)
+	pa.e1, pa.n = e1, geom.SignLargest(n)
 	pa.e2 = r3.Cross(pa.n, pa.e1)
 }
 
@@ -226,23 +226,6 @@ func principal(pts []r3.Vec, c r3.Vec) (major, minor r3.Vec) {
 	// Eigenvalues come in ascending order.
 	col := func(k int) r3.Vec { return r3.Unit(r3.Vec{X: v.At(0, k), Y: v.At(1, k), Z: v.At(2, k)}) }
 	return col(2), col(0)
-}
-
-// signed returns v or -v, whichever has its component of largest
-// magnitude positive (the first of equal ones), so that a direction
-// found up to its sign is always given the same way.
-func signed(v r3.Vec) r3.Vec {
-	c := v.X
-	if math.Abs(v.Y) > math.Abs(c) {
-		c = v.Y
-	}
-	if math.Abs(v.Z) > math.Abs(c) {
-		c = v.Z
-	}
-	if c < 0 {
-		return r3.Scale(-1, v)
-	}
-	return v
 }
 
 // perpendicular returns a unit vector normal to unit vector e.

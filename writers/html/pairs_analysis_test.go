@@ -10,6 +10,7 @@ import (
 
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/writers/document"
 )
@@ -177,7 +178,7 @@ func TestPrincipal(t *testing.T) {
 	if math.Abs(major.X) < 1-1e-12 || math.Abs(minor.Z) < 1-1e-12 {
 		t.Errorf("rectangle: major %v, minor %v", major, minor)
 	}
-	if s := signed(r3.Vec{X: 0.1, Y: -0.9}); s.Y <= 0 {
+	if s := geom.SignLargest(r3.Vec{X: 0.1, Y: -0.9}); s.Y <= 0 {
 		t.Errorf("signed kept the negative largest component: %v", s)
 	}
 }
