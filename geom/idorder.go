@@ -1,6 +1,7 @@
 package geom
 
 import (
+	"cmp"
 	"math/bits"
 	"slices"
 
@@ -8,18 +9,24 @@ import (
 )
 
 // SortByID puts the nodes and the elements of each source file of m in
-// increasing id order, in place, and reports whether anything moved.
+// increasing id order, and its parts too, in place, and reports whether
+// anything moved.
 // The loader (meshio.Load) calls it on each file read, so that no
 // result depends on the order of the lines or cells in a file: sums over
 // elements, ties between equally near elements and traced outlines all
 // follow ids. Files whose ids already increase (the usual case) cost one
 // pass over the ids. Nodes and elements stay inside their own file's
 // range (Source), so a mesh merged from several files keeps them in
-// file order. The id lookups are rebuilt when anything moved.
+// file order. The parts, which a reader lists in the order of their
+// records or of their first element in the file, are put in id order as
+// well: which of two parts is taken first (the side a contact between
+// them is sampled from, for one) then follows their ids, not the lines.
+// The id lookups are rebuilt when anything moved.
 func (m *Mesh) SortByID() (bool, error) {
 	nodesMoved := m.sortNodesByID()
 	elemsMoved := m.sortElemsByID()
-	if !nodesMoved && !elemsMoved {
+	partsMoved := m.sortPartsByID()
+	if !nodesMoved && !elemsMoved && !partsMoved {
 		return false, nil
 	}
 	return true, m.Index()
@@ -123,5 +130,30 @@ func (m *Mesh) sortElemsByID() bool {
 	if thick != nil {
 		m.ElemThickness = thick
 	}
+	return true
+}
+
+// sortPartsByID puts Parts in increasing id order, renumbering ElemPart,
+// and reports whether any part moved.
+func (m *Mesh) sortPartsByID() bool {
+	byID := func(a, b Part) int { return cmp.Compare(a.ID, b.ID) }
+	if slices.IsSortedFunc(m.Parts, byID) {
+		return false
+	}
+	order := make([]int32, len(m.Parts))
+	for i := range order {
+		order[i] = int32(i)
+	}
+	slices.SortStableFunc(order, func(a, b int32) int { return byID(m.Parts[a], m.Parts[b]) })
+	parts := make([]Part, len(m.Parts))
+	newIndex := make([]int32, len(m.Parts))
+	for k, old := range order {
+		parts[k] = m.Parts[old]
+		newIndex[old] = int32(k)
+	}
+	for e, pi := range m.ElemPart {
+		m.ElemPart[e] = newIndex[pi]
+	}
+	m.Parts = parts
 	return true
 }

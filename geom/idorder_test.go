@@ -133,3 +133,42 @@ func BenchmarkSortByID(b *testing.B) {
 		}
 	})
 }
+
+// TestSortByIDParts: parts listed out of id order (as a file's records
+// gave them) come out in id order, every element keeping its part.
+func TestSortByIDParts(t *testing.T) {
+	m := &Mesh{
+		Parts:     []Part{{ID: 30, Thickness: 3}, {ID: 10, Thickness: 1}, {ID: 20, Thickness: 2}},
+		NodeIDs:   []int64{1, 2, 3},
+		Coords:    []r3.Vec{{}, {X: 1}, {Y: 1}},
+		ElemIDs:   []int64{1, 2, 3},
+		ElemPart:  []int32{0, 1, 2},
+		ElemStart: []int32{0, 3, 6, 9},
+		Conn:      []int32{0, 1, 2, 0, 1, 2, 0, 1, 2},
+	}
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	moved, err := m.SortByID()
+	if err != nil || !moved {
+		t.Fatalf("SortByID = %v, %v; want true, nil", moved, err)
+	}
+	var ids []int64
+	for _, p := range m.Parts {
+		ids = append(ids, p.ID)
+	}
+	if want := []int64{10, 20, 30}; !slices.Equal(ids, want) {
+		t.Errorf("parts %v, want %v", ids, want)
+	}
+	for e, want := range map[int]int64{0: 30, 1: 10, 2: 20} {
+		if got := m.Part(e).ID; got != want || m.Thickness(e) != float64(want/10) {
+			t.Errorf("element %d on part %d (t %g), want %d", m.ElemIDs[e], got, m.Thickness(e), want)
+		}
+		if pi, _ := m.PartIndex(m.Part(e).ID); int(pi) != int(m.ElemPart[e]) {
+			t.Errorf("PartIndex(%d) = %d, element says %d", m.Part(e).ID, pi, m.ElemPart[e])
+		}
+	}
+	if moved, _ := m.SortByID(); moved {
+		t.Error("a mesh in order moved again")
+	}
+}

@@ -192,3 +192,95 @@ func shuffleBlocks(rng *rand.Rand, text []byte, prefixes ...string) []byte {
 	}
 	return bytes.Join(lines, nil)
 }
+
+// TestPartOrder: the example's meshes merged into one native file, its
+// part records in one order and reversed, give byte-identical outputs
+// but for the run id. The readers list a file's parts in the order of
+// their records (or of first use); which part of a pair is taken first
+// decides the side a contact between them is sampled from, and offsets
+// found 5 contacts with the records in one order, 6 reversed, until the
+// loader put the parts in id order (geom.Mesh.SortByID).
+func TestPartOrder(t *testing.T) {
+	skipWithoutExample(t)
+	root := t.TempDir()
+	exDir := filepath.Dir(exampleJob)
+	var ms []*geom.Mesh
+	for _, mn := range []string{"floor.vtk", "beam.vtk", "closing-plate.jmesh", "bracket.jmesh"} {
+		m, err := meshio.ReadMesh(filepath.Join(exDir, "mesh", mn), geom.ReadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ms = append(ms, m)
+	}
+	all, _, err := geom.Merge(ms, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := native.Write(&buf, all); err != nil {
+		t.Fatal(err)
+	}
+	lines := bytes.SplitAfter(buf.Bytes(), []byte("\n"))
+	var at []int
+	for i, l := range lines {
+		if bytes.HasPrefix(l, []byte("part ")) {
+			at = append(at, i)
+		}
+	}
+	if len(at) < 2 {
+		t.Fatalf("%d part records, want several", len(at))
+	}
+	rev := slices.Clone(lines)
+	for k, i := range at {
+		rev[i] = lines[at[len(at)-1-k]]
+	}
+	texts := map[string][]byte{"ordered": buf.Bytes(), "reversed": bytes.Join(rev, nil)}
+	for name, text := range texts {
+		dir := filepath.Join(root, name)
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range []string{"parts.yaml", "welds.csv"} {
+			b, err := os.ReadFile(filepath.Join(exDir, f))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := os.WriteFile(filepath.Join(dir, f), b, 0o644); err != nil {
+				t.Fatal(err)
+			}
+		}
+		job := "version: 1\nmeshes: [all.jmesh]\nparts: parts.yaml\njoints: [welds.csv]\nout: out\n"
+		if err := os.WriteFile(filepath.Join(dir, "job.yaml"), []byte(job), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, "all.jmesh"), text, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, r := range []struct {
+		args  []string
+		files []string
+	}{
+		{[]string{"build"}, pipeline.BuildFiles()},
+		{[]string{"offsets"}, pipeline.OffsetsFiles()},
+		{[]string{"flanges", "--pitch", "30"}, pipeline.FlangesFiles()},
+	} {
+		outs := map[string]map[string][]byte{}
+		for name := range texts {
+			out := filepath.Join(root, name, r.args[0])
+			args := append(slices.Clone(r.args), filepath.Join(root, name, "job.yaml"), "--out", out, "--quiet", "--fail-on", "never")
+			if code, _, errs := runCLI(t, args...); code != exitOK {
+				t.Fatalf("%s %s: exit %d: %s", r.args[0], name, code, errs)
+			}
+			outs[name] = map[string][]byte{}
+			for _, f := range r.files {
+				b, err := os.ReadFile(filepath.Join(out, f))
+				if err != nil {
+					t.Fatal(err)
+				}
+				outs[name][f] = b
+			}
+		}
+		compareOutputs(t, r.args[0]+" parts reversed", outs["ordered"], outs["reversed"])
+	}
+}

@@ -16,7 +16,7 @@ import (
 // rounded to 15 significant digits: a length read in that unit and
 // scaled to mm comes back as it was given (1.1 in is 27.94 mm, and
 // 27.94 / 25.4 is 1.1000000000000001 in binary), and computed lengths
-// move by less than 5e-16 of their size.
+// move by at most half a unit in their 15th digit, 5e-15 of their size.
 func lengthIn(v, mm float64) float64 {
 	if mm == 1 {
 		return v
