@@ -102,15 +102,7 @@ func writeOrderVariant(t *testing.T, dir string, seed uint64, nodes bool) {
 	if err := os.MkdirAll(filepath.Join(dir, "mesh"), 0o755); err != nil {
 		t.Fatal(err)
 	}
-	for _, f := range []string{"parts.yaml", "welds.csv"} {
-		b, err := os.ReadFile(filepath.Join(exDir, f))
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(filepath.Join(dir, f), b, 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
+	copyExampleLists(t, exDir, dir)
 	if err := os.WriteFile(filepath.Join(dir, "job.yaml"), []byte(job), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -240,15 +232,7 @@ func TestPartOrder(t *testing.T) {
 		if err := os.MkdirAll(dir, 0o755); err != nil {
 			t.Fatal(err)
 		}
-		for _, f := range []string{"parts.yaml", "welds.csv"} {
-			b, err := os.ReadFile(filepath.Join(exDir, f))
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := os.WriteFile(filepath.Join(dir, f), b, 0o644); err != nil {
-				t.Fatal(err)
-			}
-		}
+		copyExampleLists(t, exDir, dir)
 		job := "version: 1\nmeshes: [all.jmesh]\nparts: parts.yaml\njoints: [welds.csv]\nout: out\n"
 		if err := os.WriteFile(filepath.Join(dir, "job.yaml"), []byte(job), 0o644); err != nil {
 			t.Fatal(err)
@@ -282,5 +266,20 @@ func TestPartOrder(t *testing.T) {
 			}
 		}
 		compareOutputs(t, r.args[0]+" parts reversed", outs["ordered"], outs["reversed"])
+	}
+}
+
+// copyExampleLists copies the example's parts table and joint list from
+// exDir into dir.
+func copyExampleLists(t *testing.T, exDir, dir string) {
+	t.Helper()
+	for _, f := range []string{"parts.yaml", "welds.csv"} {
+		b, err := os.ReadFile(filepath.Join(exDir, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, f), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
 	}
 }
