@@ -452,6 +452,20 @@ func TestMissingJobFile(t *testing.T) {
 	}
 }
 
+// A newcomer's first try, the mesh where the job file goes, is refused at
+// once with the flag that takes it, by every command that takes a job.
+func TestMeshGivenAsJobFile(t *testing.T) {
+	skipWithoutExample(t)
+	mesh := filepath.Join(filepath.Dir(exampleJob), "mesh", "bracket.jmesh")
+	for _, cmd := range []string{"build", "inspect", "check", "flanges", "offsets", "sweep"} {
+		code, _, errs := runCLI(t, cmd, mesh)
+		want := "joinery: " + mesh + ": this is a mesh file, not a job file: give it with --mesh (-m)"
+		if code != exitBadInput || !strings.HasPrefix(errs, want) {
+			t.Errorf("%s: exit %d, stderr %q; want 2 and %q", cmd, code, errs, want)
+		}
+	}
+}
+
 func TestCautionWhereResultsAre(t *testing.T) {
 	skipWithoutExample(t)
 	if _, help, _ := runCLI(t, "build", "--help"); !strings.Contains(help, document.Caution) {

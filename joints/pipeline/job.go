@@ -1,11 +1,13 @@
 package pipeline
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
 	"path/filepath"
+	"strings"
 
 	"gopkg.in/yaml.v3"
 
@@ -237,9 +239,20 @@ func CheckPartArray(name string) error {
 	return nil
 }
 
+// MaxJobFileBytes bounds a job file's size: a job file names a few input
+// files and settings (the examples' are under 2 KB), so a file larger
+// than 1 MiB is some other file given in its place, refused before it is
+// parsed (a 230 MB mesh read as YAML took 12 s and 1 GB to refuse).
+const MaxJobFileBytes = 1 << 20
+
 // LoadJob reads the job file at path and resolves its relative paths
-// against the file's directory.
+// against the file's directory. A mesh file or a joint list given in its
+// place (by its extension or a mesh file's first line) is refused at once
+// with the flag that takes it.
 func LoadJob(path string) (*Job, error) {
+	if err := notJobFile(path, nil); err != nil {
+		return nil, err
+	}
 	f, err := geom.OpenRegular(path)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
@@ -250,7 +263,36 @@ func LoadJob(path string) (*Job, error) {
 		return nil, geom.FileError(path, "job file: %w", err)
 	}
 	defer f.Close()
-	return ReadJob(f, path)
+	data, err := io.ReadAll(io.LimitReader(f, MaxJobFileBytes+1))
+	if err != nil {
+		return nil, geom.FileError(path, "job file: %w", err)
+	}
+	if err := notJobFile(path, data); err != nil {
+		return nil, err
+	}
+	if len(data) > MaxJobFileBytes {
+		return nil, geom.FileError(path, "larger than %d bytes: not a job file (a job file names its inputs and settings in a few lines)", MaxJobFileBytes)
+	}
+	return ReadJob(bytes.NewReader(data), path)
+}
+
+// notJobFile refuses a file that is plainly an input of another kind,
+// by path's extension or, with data, by a mesh file's first line.
+func notJobFile(path string, data []byte) error {
+	kind, flag := "", ""
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".jmesh", ".vtk", ".vtu":
+		kind, flag = "a mesh file", "--mesh (-m)"
+	case ".csv":
+		kind, flag = "a joint list", "--joints (-j)"
+	}
+	if kind == "" && tabular.IsMeshStart(data) {
+		kind, flag = "a mesh file", "--mesh (-m)"
+	}
+	if kind == "" {
+		return nil
+	}
+	return geom.FileError(path, "this is %s, not a job file: give it with %s (a job file is YAML and lists the meshes, parts and joints)", kind, flag)
 }
 
 // ReadJob reads a job from r; name is the job file's path, used in errors

@@ -233,3 +233,43 @@ func TestRecordedPath(t *testing.T) {
 		t.Errorf("without a job file: %q", got)
 	}
 }
+
+// A mesh file or a joint list given where the job file goes is refused
+// at once, naming the flag that takes it, whatever its extension; so is
+// a file too large to be a job file (a 230 MB mesh was parsed as YAML
+// for 12 s before).
+func TestLoadJobNotAJobFile(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	big := "version: 1\nmeshes: [a.vtk]\n#" + strings.Repeat("x", MaxJobFileBytes) + "\n"
+	tests := []struct {
+		name, file, text, want string
+	}{
+		{"native by extension", "m.jmesh", "joinery-mesh 1\n", "m.jmesh: this is a mesh file, not a job file: give it with --mesh (-m)"},
+		{"legacy vtk by extension", "m.VTK", "", "m.VTK: this is a mesh file"},
+		{"xml vtk by extension", "m.vtu", "", "m.vtu: this is a mesh file"},
+		{"joint list", "w.csv", "id,x,y,z\n", "w.csv: this is a joint list, not a job file: give it with --joints (-j)"},
+		{"native by first line", "job.yaml", "joinery-mesh 1\npart 1\n", "job.yaml: this is a mesh file"},
+		{"legacy vtk by first line", "a.yaml", "# vtk DataFile Version 3.0\n", "a.yaml: this is a mesh file"},
+		{"xml vtk by first line", "b.yaml", "  <VTKFile type=\"UnstructuredGrid\">\n", "b.yaml: this is a mesh file"},
+		{"too large", "big.yaml", big, "big.yaml: larger than 1048576 bytes: not a job file"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := LoadJob(write(tt.file, tt.text))
+			checkErr(t, err, filepath.Join(dir, tt.want))
+		})
+	}
+	// A job file of exactly the limit still loads.
+	head := "version: 1\nmeshes: [a.vtk]\n#"
+	exact := head + strings.Repeat("x", MaxJobFileBytes-len(head)-1) + "\n"
+	if _, err := LoadJob(write("exact.yaml", exact)); err != nil {
+		t.Errorf("a job file of %d bytes: %v", len(exact), err)
+	}
+}

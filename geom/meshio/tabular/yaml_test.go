@@ -19,6 +19,10 @@ func TestYAMLParseErrors(t *testing.T) {
 		{"tab indent", "a:\n\t- 1\n", "t.yaml:2: YAML: "},
 		{"two documents", "a: 1\n---\nb: 2\n", "t.yaml:2: a second YAML document"},
 		{"deep nesting", strings.Repeat("[", 20000), "t.yaml"},
+		// A mesh file given as a table is refused before it is parsed.
+		{"native mesh", "joinery-mesh 1\npart 1 thickness=1\n", "t.yaml: this is a mesh file, not YAML"},
+		{"legacy vtk", "# vtk DataFile Version 3.0\nmesh\nBINARY\n", "t.yaml: this is a mesh file"},
+		{"xml vtk", "<?xml version=\"1.0\"?>\n<VTKFile>\n", "t.yaml: this is a mesh file"},
 	}
 	y := YAML{File: "t.yaml"}
 	for _, tt := range tests {
