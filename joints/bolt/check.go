@@ -2,7 +2,10 @@ package bolt
 
 import (
 	"fmt"
+	"math"
 	"slices"
+
+	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/joints"
 )
@@ -36,22 +39,52 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 	}
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
-		gap := b.Position - a.Position
+		along := b.Position - a.Position
+		gap := squareGap(along, a.Proj.Normal, b.Proj.Normal, st.Axis)
 		want := (a.Thickness + b.Thickness) / 2
 		tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
 		lim := tol + joints.LengthRoundoff
+		apart := joints.MM(gap) + " mm apart"
+		if joints.MM(along) != joints.MM(gap) {
+			apart += " square to the sheets (" + joints.MM(along) + " mm along the bolt's tilted axis)"
+		}
 		switch dev := gap - want; {
 		case dev > lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
-				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
-					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))))
+				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
+					a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(dev))))
 		case dev < -lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
-				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
-					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))))
+				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
+					a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(-dev))))
 		}
 	}
 	return fs
+}
+
+// squareGap returns the gap between two sheets' mid-surfaces square to
+// the sheets, the figure contact, (t1+t2)/2, is measured in, from their
+// distance along the bolt's axis: two parallel planes a distance d
+// apart lie d / cos(theta) apart along a line at theta to their normal
+// (hand calculation), so the gap is along times cos(theta), with
+// cos(theta) the mean of |n . axis| of the two sheets' normals (the
+// same for parallel sheets; within the angle limit otherwise).
+func squareGap(along float64, na, nb, axis r3.Vec) float64 {
+	ca, cb := cosTo(na, axis), cosTo(nb, axis)
+	if ca == 0 || cb == 0 {
+		return along
+	}
+	return along * (ca + cb) / 2
+}
+
+// cosTo returns |cos| of the angle between n and the unit axis, 0 for a
+// zero n.
+func cosTo(n, axis r3.Vec) float64 {
+	l := r3.Norm(n)
+	if l == 0 {
+		return 0
+	}
+	return math.Abs(r3.Dot(n, axis)) / l
 }
 
 // sizeTolerance, mm, is the rounding allowed when sizes are compared
