@@ -200,3 +200,55 @@ func TestWasherRingTilted(t *testing.T) {
 		}
 	})
 }
+
+// TestWasherAtEdge: a washer whose footprint, the disc of its radius
+// about the centre, runs past a sheet's free edge is edge-close (a
+// disc of radius r about a point d from a straight edge crosses it when
+// d < r; closed form), and each sheet records its centre's distance to
+// the nearest free edge other than its hole (+Inf beyond the washer's
+// diameter). Plates 40 mm square (x, y from -20 to 20), washer 20 mm;
+// annuli of 24 segments, whose outer edge is a regular 24-gon of
+// apothem R cos(pi / 24) (hand calculation).
+func TestWasherAtEdge(t *testing.T) {
+	grid := []sheet{{Part: 1, T: 1.5, Z: 0, X0: -20, H: 2, N: 20}, {Part: 2, T: 3, Z: 2.25, X0: -20, H: 2, N: 20}}
+	ring := func(outer float64) []sheet {
+		ss := holed(11)
+		for i := range ss {
+			ss[i].Outer = outer
+		}
+		return ss
+	}
+	for _, c := range []struct {
+		name string
+		ss   []sheet
+		x    float64
+		edge float64
+		warn bool
+	}{
+		{"grid-6mm", grid, 14, 6, true},
+		{"grid-at-radius", grid, 10, 10, false}, // at the limit: meets it
+		{"grid-centre", grid, 0, 20, false},
+		{"hole-wide", ring(40), 0, math.Inf(1), false},
+		{"hole-narrow-ring", ring(9), 0, 9 * math.Cos(math.Pi/24), true},
+		{"hole-ring-14", ring(14), 0, 14 * math.Cos(math.Pi/24), false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m := mesh(t, rotation{}, c.ss...)
+			j := m10("B1", r3.Vec{X: c.x, Z: 1.125})
+			j.Axis = r3.Vec{Z: 1}
+			b := build(t, m, joints.BuildOptions{}, j)[0]
+			var want []string
+			if c.warn {
+				want = []string{joints.CodeEdgeClose, joints.CodeEdgeClose}
+			}
+			if got := codes(b.Findings); !slices.Equal(got, want) {
+				t.Errorf("findings %v, want %v", b.Findings, want)
+			}
+			for i, s := range b.Stack.Sheets {
+				if !(s.EdgeDistance == c.edge || near(s.EdgeDistance, c.edge, 1e-9)) {
+					t.Errorf("sheet %d: edge distance %g, want %g", i, s.EdgeDistance, c.edge)
+				}
+			}
+		})
+	}
+}

@@ -52,8 +52,13 @@ func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, flo
 	if len(pts) == 0 {
 		return nil, 0
 	}
-	// 1% slack against rounding at the margin.
-	return pts, 1.01 * math.Hypot(o.Reach, searchFactor*wmax)
+	// 1% slack against rounding at the margin. The edge check looks a
+	// washer's diameter round each centre, which lies within the reach
+	// along the axis and, moved onto the axis through the holes, within
+	// the washer's diameter across it: within hypot(reach, washer) of
+	// the point, so the elements it needs lie within that plus the
+	// washer's diameter (triangle inequality).
+	return pts, 1.01 * (math.Hypot(o.Reach, searchFactor*wmax) + wmax)
 }
 
 // Build makes the connectors of the bolts among js (other kinds are left
@@ -202,6 +207,7 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		}
 	}
 	c.Findings = append(c.Findings, checkSizes(j, &c.Stack, c.Bolt.Holes, o)...)
+	c.Findings = append(c.Findings, checkEdges(x, j, &c.Stack, c.Ends, xs)...)
 	if joints.HasError(c.Findings) {
 		c.Status = joints.NotBuilt
 		return c

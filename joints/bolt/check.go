@@ -7,6 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/spatial/r3"
 
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
 
@@ -138,4 +139,66 @@ func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *j
 		}
 	}
 	return fs
+}
+
+// checkEdges sets each sheet's EdgeDistance, the distance from its
+// centre to the part's nearest free edge other than its hole's (within
+// the washer's diameter; +Inf beyond), and reports a washer whose
+// footprint, the disc of its radius about the centre, runs past such an
+// edge (edge-close, a warning): the washer overhangs the sheet and
+// bears on less than its ring (closed form: a disc of radius r about a
+// point d from a straight edge crosses it when d < r). x must hold every
+// element within the washer's diameter of each centre (Near's margin).
+func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, ends []joints.End, xs []crossing) []joints.Finding {
+	m := x.Mesh()
+	var fs []joints.Finding
+	var nbuf [256]int32
+	for i := range st.Sheets {
+		s := &st.Sheets[i]
+		near := x.ElemsNear(ends[i].Point, j.Washer, nbuf[:0])
+		s.EdgeDistance = freeEdgeBeyondHole(m, near, ends[i].Point, xs[i].part, xs[i].loop, j.Washer)
+		if r := j.Washer / 2; s.EdgeDistance < r-joints.LengthRoundoff {
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part},
+				fmt.Sprintf("the bolt's centre on part %d lies %s mm from a free edge of the part, less than the washer's radius, %s mm: the washer overhangs the sheet's edge", s.Part, joints.MM(s.EdgeDistance), joints.MM(r))))
+		}
+	}
+	return fs
+}
+
+// freeEdgeBeyondHole returns the distance from q to the nearest free
+// edge of part pi within r, leaving out the edges of the hole loop (both
+// ends on it), +Inf when there is none. near holds every element within
+// r of q: an edge within r has every element using it within r too.
+func freeEdgeBeyondHole(m *geom.Mesh, near []int32, q r3.Vec, pi int32, loop []int32, r float64) float64 {
+	onHole := map[int32]bool{}
+	for _, n := range loop {
+		onHole[n] = true
+	}
+	type use struct {
+		e int32
+		k int
+	}
+	var uses []use
+	count := map[[2]int32]int{}
+	for _, e := range near {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for k := range m.Type(int(e)).Corners() {
+			ed := m.ElemEdge(int(e), k)
+			count[[2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}]++
+			uses = append(uses, use{e, k})
+		}
+	}
+	best := math.Inf(1)
+	for _, u := range uses {
+		ed := m.ElemEdge(int(u.e), u.k)
+		if count[[2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}] != 1 || onHole[ed.A] && onHole[ed.B] {
+			continue
+		}
+		if d := m.EdgeDistance(ed, q); d <= r && d < best {
+			best = d
+		}
+	}
+	return best
 }
