@@ -96,14 +96,15 @@ const (
 	// Bolts (joints/bolt); they use the spot welds' no-sheet,
 	// single-sheet, part-not-found, gap-open, gap-closed, no-thickness
 	// and degenerate-host for the same problems.
-	CodeHoleSize      = "hole-size"       // measured hole differs from the declared one by more than the tolerance
-	CodeHoleClass     = "hole-class"      // declared hole larger than ISO 273's coarse series for the size
-	CodeWasherSmall   = "washer-small"    // washer smaller than ISO 7089's for the size
-	CodeWasherHole    = "washer-hole"     // washer does not cover the measured hole
-	CodeNoAxis        = "no-axis"         // no sheet near the bolt gives an axis direction
-	CodeShankShort    = "shank-short"     // a beam shank between centres that (nearly) coincide
-	CodeHoleOffCentre = "hole-off-centre" // the bolt's point off the centre of a meshed hole
-	CodeFixtureSide   = "fixture-side"    // a grounded bolt's support side taken from an element normal
+	CodeHoleSize        = "hole-size"        // measured hole differs from the declared one by more than the tolerance
+	CodeHoleClass       = "hole-class"       // declared hole larger than ISO 273's coarse series for the size
+	CodeWasherSmall     = "washer-small"     // washer smaller than ISO 7089's for the size
+	CodeWasherHole      = "washer-hole"      // washer does not cover the measured hole
+	CodeNoAxis          = "no-axis"          // no sheet near the bolt gives an axis direction
+	CodeShankShort      = "shank-short"      // a beam shank between centres that (nearly) coincide
+	CodeHoleOffCentre   = "hole-off-centre"  // the bolt's point off the centre of a meshed hole
+	CodeHolesMisaligned = "holes-misaligned" // a meshed hole's centre off the axis through the stack's holes by more than the clearance
+	CodeFixtureSide     = "fixture-side"     // a grounded bolt's support side taken from an element normal
 )
 
 // Finding is one problem found with a joint (or with the run when Joint

@@ -52,8 +52,13 @@ func Near(m *geom.Mesh, js []joints.Joint, o joints.BuildOptions) ([]r3.Vec, flo
 	if len(pts) == 0 {
 		return nil, 0
 	}
-	// 1% slack against rounding at the margin.
-	return pts, 1.01 * math.Hypot(o.Reach, searchFactor*wmax)
+	// 1% slack against rounding at the margin. The edge check looks a
+	// washer's diameter round each centre, which lies within the reach
+	// along the axis and, moved onto the axis through the holes, within
+	// the washer's diameter across it: within hypot(reach, washer) of
+	// the point, so the elements it needs lie within that plus the
+	// washer's diameter (triangle inequality).
+	return pts, 1.01 * (math.Hypot(o.Reach, searchFactor*wmax) + wmax)
 }
 
 // Build makes the connectors of the bolts among js (other kinds are left
@@ -143,10 +148,16 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 	near := x.ElemsNear(j.Point, radius, nbuf[:0])
 	cosTol := math.Cos(o.AngleLimit * math.Pi / 180)
 	xs := crossings(m, &f, near, o.Reach, l, cosTol, keep)
+	g := alignAxis(m, &f, near, xs, o.Reach, l, cosTol)
 	c.Stack.Axis = axis
 	for _, cr := range xs {
 		s := joints.Sheet{Part: m.Parts[cr.part].ID, Thickness: m.Thickness(cr.elem), EdgeDistance: math.Inf(1)}
 		s.Proj = geom.Projection{Elem: cr.elem, Point: cr.point, Dist: math.Abs(cr.t), Normal: cr.normal}
+		if cr.loop != nil {
+			// A meshed hole: its centre, and how far it lies off the
+			// axis through the holes.
+			s.Proj.Point, s.Lateral = cr.centre, g.lateral(cr.centre)
+		}
 		// The mid-surface lies off along the normal from the meshed
 		// surface: the axis meets it off / (n . a) along the axis from
 		// where it meets the meshed one (|n . a| >= cosTol, as the
@@ -174,23 +185,29 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		return c
 	}
 	for i := range xs {
-		ring, weights, kind := ringOf(m, &f, near, &xs[i], j.Washer, o.BoltRing)
+		ring, weights, kind := ringOf(m, near, &xs[i], j.Washer, o.BoltRing)
 		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
 		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Narrowest: xs[i].narrow, Ring: kind})
 		if xs[i].loop == nil {
 			continue
 		}
 		part := c.Stack.Sheets[i].Part
-		switch off, clear := f.lateral(xs[i].point), (xs[i].hole-j.Diameter)/2; {
+		clear := (xs[i].hole - j.Diameter) / 2
+		switch off := f.lateral(xs[i].centre); {
 		case off > clear+joints.LengthRoundoff && off > offCentreTolerance:
 			c.Findings = append(c.Findings, j.Finding(joints.Warning, joints.CodeHoleOffCentre, []int64{part},
-				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d, more than the %s mm between shank and hole: the listed point or axis is off the hole; the centre is put on the hole's axis", joints.MM(off), part, joints.MM(max(clear, 0)))))
+				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d, more than the %s mm between shank and hole: the listed point or axis is off the hole; the centres are put on the axis through the holes", joints.MM(off), part, joints.MM(max(clear, 0)))))
 		case off > offCentreTolerance:
 			c.Findings = append(c.Findings, j.Finding(joints.Info, joints.CodeHoleOffCentre, []int64{part},
-				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d (tolerance %s mm); the centre is put on the hole's axis", joints.MM(off), part, joints.MM(offCentreTolerance))))
+				fmt.Sprintf("the bolt's point lies %s mm off the centre of the hole in part %d (tolerance %s mm); the centres are put on the axis through the holes", joints.MM(off), part, joints.MM(offCentreTolerance))))
+		}
+		if mis := c.Stack.Sheets[i].Lateral; mis > clear+joints.LengthRoundoff && mis > offCentreTolerance {
+			c.Findings = append(c.Findings, j.Finding(joints.Warning, joints.CodeHolesMisaligned, []int64{part},
+				fmt.Sprintf("the centre of the hole in part %d lies %s mm off the axis through the stack's holes, more than the %s mm between shank and hole: a straight shank does not pass through the holes as meshed", part, joints.MM(mis), joints.MM(max(clear, 0)))))
 		}
 	}
 	c.Findings = append(c.Findings, checkSizes(j, &c.Stack, c.Bolt.Holes, o)...)
+	c.Findings = append(c.Findings, checkEdges(x, j, &c.Stack, c.Ends, xs)...)
 	if joints.HasError(c.Findings) {
 		c.Status = joints.NotBuilt
 		return c
@@ -262,10 +279,11 @@ const ringSlack = 1e-4
 // plane: the arc-length weights corrected as little as that takes, the
 // others the most uniform such weights (joints.EvenWeights); where the
 // nodes do not span the plane, the arc-length or equal weights.
-// Nodes of the part count when within the washer's radius of the axis
-// and of the centre along it, ringSlack included. Nodes come in
-// increasing index order.
-func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, ring joints.BoltRing) ([]int32, []float64, string) {
+// Nodes of the part count when within the washer's radius of the
+// centre in the sheet's plane and off that plane by at most the radius,
+// ringSlack included (inFootprint). Nodes come in increasing index
+// order.
+func ringOf(m *geom.Mesh, near []int32, cr *crossing, washer float64, ring joints.BoltRing) ([]int32, []float64, string) {
 	if cr.loop != nil && ring == joints.HoleRing {
 		n := len(cr.loop)
 		lens := make([]float64, n)
@@ -300,14 +318,18 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 		}
 	}
 	r := washer/2 + ringSlack
-	at := newFrame(cr.point, f.A) // about the centre, on a hole's axis
+	// The washer seats on the sheet: its footprint is the disc of its
+	// radius in the sheet's plane about the centre (the plane tangent to
+	// the sheet at the host element, normal nu), whatever the axis's
+	// tilt to it; measured square to the axis, the disc would be an
+	// ellipse on a tilted sheet, 1 / cos of the tilt longer one way.
+	nu := r3.Unit(cr.normal)
 	for _, e := range near {
 		if m.ElemPart[e] != cr.part {
 			continue
 		}
 		for _, n := range m.ElemNodes(int(e)) {
-			q := m.Coords[n]
-			if at.lateral(q) <= r && math.Abs(at.along(q)) <= r {
+			if inFootprint(m.Coords[n], cr.point, nu, r) {
 				set[n] = true
 			}
 		}
@@ -329,4 +351,14 @@ func ringOf(m *geom.Mesh, f *frame, near []int32, cr *crossing, washer float64, 
 		kind = "washer"
 	}
 	return nodes, ws, kind
+}
+
+// inFootprint reports whether q lies within radius r of centre in the
+// plane square to the unit normal n (the sheet's plane) and off that
+// plane by at most r (a curved or folded sheet's nodes far from the
+// washer's seat stay out).
+func inFootprint(q, centre, n r3.Vec, r float64) bool {
+	d := r3.Sub(q, centre)
+	h := r3.Dot(d, n)
+	return math.Abs(h) <= r && r3.Norm(r3.Sub(d, r3.Scale(h, n))) <= r
 }

@@ -2,8 +2,12 @@ package bolt
 
 import (
 	"fmt"
+	"math"
 	"slices"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
+	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 )
 
@@ -36,22 +40,52 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 	}
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
-		gap := b.Position - a.Position
+		along := b.Position - a.Position
+		gap := squareGap(along, a.Proj.Normal, b.Proj.Normal, st.Axis)
 		want := (a.Thickness + b.Thickness) / 2
 		tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
 		lim := tol + joints.LengthRoundoff
+		apart := joints.MM(gap) + " mm apart"
+		if joints.MM(along) != joints.MM(gap) {
+			apart += " square to the sheets (" + joints.MM(along) + " mm along the bolt's tilted axis)"
+		}
 		switch dev := gap - want; {
 		case dev > lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
-				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
-					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))))
+				fmt.Sprintf("parts %d and %d do not touch at the bolt: mid-surfaces %s, contact at %s mm (allowance %s mm); the shank bridges %s mm of air",
+					a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(dev))))
 		case dev < -lim:
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
-				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
-					a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))))
+				fmt.Sprintf("parts %d and %d overlap at the bolt: mid-surfaces %s, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
+					a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(-dev))))
 		}
 	}
 	return fs
+}
+
+// squareGap returns the gap between two sheets' mid-surfaces square to
+// the sheets, the figure contact, (t1+t2)/2, is measured in, from their
+// distance along the bolt's axis: two parallel planes a distance d
+// apart lie d / cos(theta) apart along a line at theta to their normal
+// (hand calculation), so the gap is along times cos(theta), with
+// cos(theta) the mean of |n . axis| of the two sheets' normals (the
+// same for parallel sheets; within the angle limit otherwise).
+func squareGap(along float64, na, nb, axis r3.Vec) float64 {
+	ca, cb := cosTo(na, axis), cosTo(nb, axis)
+	if ca == 0 || cb == 0 {
+		return along
+	}
+	return along * (ca + cb) / 2
+}
+
+// cosTo returns |cos| of the angle between n and the unit axis, 0 for a
+// zero n.
+func cosTo(n, axis r3.Vec) float64 {
+	l := r3.Norm(n)
+	if l == 0 {
+		return 0
+	}
+	return math.Abs(r3.Dot(n, axis)) / l
 }
 
 // sizeTolerance, mm, is the rounding allowed when sizes are compared
@@ -105,4 +139,66 @@ func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *j
 		}
 	}
 	return fs
+}
+
+// checkEdges sets each sheet's EdgeDistance, the distance from its
+// centre to the part's nearest free edge other than its hole's (within
+// the washer's diameter; +Inf beyond), and reports a washer whose
+// footprint, the disc of its radius about the centre, runs past such an
+// edge (edge-close, a warning): the washer overhangs the sheet and
+// bears on less than its ring (closed form: a disc of radius r about a
+// point d from a straight edge crosses it when d < r). x must hold every
+// element within the washer's diameter of each centre (Near's margin).
+func checkEdges(x *geom.Index, j *joints.Joint, st *joints.Stack, ends []joints.End, xs []crossing) []joints.Finding {
+	m := x.Mesh()
+	var fs []joints.Finding
+	var nbuf [256]int32
+	for i := range st.Sheets {
+		s := &st.Sheets[i]
+		near := x.ElemsNear(ends[i].Point, j.Washer, nbuf[:0])
+		s.EdgeDistance = freeEdgeBeyondHole(m, near, ends[i].Point, xs[i].part, xs[i].loop, j.Washer)
+		if r := j.Washer / 2; s.EdgeDistance < r-joints.LengthRoundoff {
+			fs = append(fs, j.Finding(joints.Warning, joints.CodeEdgeClose, []int64{s.Part},
+				fmt.Sprintf("the bolt's centre on part %d lies %s mm from a free edge of the part, less than the washer's radius, %s mm: the washer overhangs the sheet's edge", s.Part, joints.MM(s.EdgeDistance), joints.MM(r))))
+		}
+	}
+	return fs
+}
+
+// freeEdgeBeyondHole returns the distance from q to the nearest free
+// edge of part pi within r, leaving out the edges of the hole loop (both
+// ends on it), +Inf when there is none. near holds every element within
+// r of q: an edge within r has every element using it within r too.
+func freeEdgeBeyondHole(m *geom.Mesh, near []int32, q r3.Vec, pi int32, loop []int32, r float64) float64 {
+	onHole := map[int32]bool{}
+	for _, n := range loop {
+		onHole[n] = true
+	}
+	type use struct {
+		e int32
+		k int
+	}
+	var uses []use
+	count := map[[2]int32]int{}
+	for _, e := range near {
+		if m.ElemPart[e] != pi {
+			continue
+		}
+		for k := range m.Type(int(e)).Corners() {
+			ed := m.ElemEdge(int(e), k)
+			count[[2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}]++
+			uses = append(uses, use{e, k})
+		}
+	}
+	best := math.Inf(1)
+	for _, u := range uses {
+		ed := m.ElemEdge(int(u.e), u.k)
+		if count[[2]int32{min(ed.A, ed.B), max(ed.A, ed.B)}] != 1 || onHole[ed.A] && onHole[ed.B] {
+			continue
+		}
+		if d := m.EdgeDistance(ed, q); d <= r && d < best {
+			best = d
+		}
+	}
+	return best
 }

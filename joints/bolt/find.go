@@ -89,7 +89,11 @@ type crossing struct {
 	part  int32 // part index
 	elem  int   // host element
 	t     float64
-	point r3.Vec // on the meshed surface, on the axis
+	point r3.Vec // on the meshed surface (in a hole, its plane), on the axis
+	// centre is a meshed hole's centre, the circle fitted to its edge
+	// nodes: on the axis as the list gives it, off the axis fitted
+	// through the holes by the holes' misalignment (alignAxis).
+	centre r3.Vec
 	// normal is the host element's normal at the point.
 	normal r3.Vec
 	// loop holds the hole's edge nodes in order round it (second-order
@@ -305,7 +309,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 			centre = f.at(t)
 		}
 		t := f.along(centre)
-		c := crossing{part: pi, elem: int(host), t: t, point: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, centre: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.

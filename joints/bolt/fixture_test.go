@@ -37,6 +37,8 @@ type sheet struct {
 	// diameters along x and y (Hole is then the ellipse's nominal size for
 	// the rings beyond, which blend to circles by the outer one).
 	OvalX, OvalY float64
+	// CX moves the annulus (its hole's centre) to x = CX.
+	CX float64
 }
 
 // rotation turns a point about the unit axis u by angle a (Rodrigues'
@@ -90,7 +92,7 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 				}
 				for k := range s.Seg {
 					a := angle(float64(k))
-					node(r3.Vec{X: sx * rad * math.Cos(a), Y: sy * rad * math.Sin(a), Z: s.Z})
+					node(r3.Vec{X: s.CX + sx*rad*math.Cos(a), Y: sy * rad * math.Sin(a), Z: s.Z})
 				}
 			}
 			at := func(r, k int) int32 { return base + int32(r*s.Seg+k%s.Seg) }
@@ -107,7 +109,7 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 				rad := radius(float64(r))
 				for k := range s.Seg {
 					a := angle(float64(k) + 0.5)
-					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+					node(r3.Vec{X: s.CX + rad*math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
 				}
 			}
 			rb := tb + int32((s.Rings+1)*s.Seg) // midsides between rings
@@ -115,7 +117,7 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 				rad := radius(float64(r) + 0.5)
 				for k := range s.Seg {
 					a := angle(float64(k))
-					node(r3.Vec{X: rad * math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+					node(r3.Vec{X: s.CX + rad*math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
 				}
 			}
 			tm := func(r, k int) int32 { return tb + int32(r*s.Seg+k%s.Seg) }

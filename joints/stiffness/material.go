@@ -4,7 +4,7 @@ import "strings"
 
 // Material holds the elastic constants of a connector's beam, N/mm^2.
 type Material struct {
-	Name string  // "steel" or "aluminium"
+	Name string  // "steel", "aluminium", or a bolt shank's constants (ShankMaterial)
 	E    float64 // Young's modulus
 	G    float64 // shear modulus
 	Nu   float64 // Poisson's ratio

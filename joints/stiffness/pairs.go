@@ -3,6 +3,7 @@ package stiffness
 import (
 	"cmp"
 	"slices"
+	"strconv"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -15,7 +16,9 @@ type Pair struct {
 	A, B     int64  // part ids, A < B
 	Springs  int    // springs assembled: one per connector and sheet pair
 	Centroid r3.Vec // the plain mean of the springs' points, where the stiffness is assembled
-	Material string // "steel", "aluminium" or "mixed"
+	// Material names the springs' material: "steel", "aluminium", a bolt
+	// shank's own constants (ShankMaterial), or "mixed".
+	Material string
 	// Translational and Rotational are the principal stiffnesses of the
 	// pair's 6 x 6 stiffness (see Principal), ascending: N/mm of its
 	// translational block, and N mm/rad of its rotational block with the
@@ -95,13 +98,7 @@ func shankSpring(c *joints.Connector, contact, length float64) Spring {
 	if length <= contact*1e-6 {
 		length = contact
 	}
-	m := Steel()
-	if e, nu := c.Bolt.ShankModulus, c.Bolt.ShankPoisson; e > 0 && nu > -1 && nu < 0.5 {
-		// G = E / (2 (1 + nu)) of an isotropic material (any strength of
-		// materials text; from memory).
-		m = Material{Name: "steel", E: e, Nu: nu, G: e / (2 * (1 + nu))}
-	}
-	s := Beam(c.Diameter, length, m)
+	s := Beam(c.Diameter, length, ShankMaterial(c))
 	if c.Bolt.Shank == joints.RigidShank {
 		s.Axial *= RigidShankFactor
 		s.Shear *= RigidShankFactor
@@ -109,6 +106,26 @@ func shankSpring(c *joints.Connector, contact, length float64) Spring {
 		s.Bending *= RigidShankFactor
 	}
 	return s
+}
+
+// ShankMaterial returns the material of a bolt's shank: steel (Steel)
+// unless its connector records another modulus or Poisson's ratio, then
+// the material of those constants, named by them ("E=70000 N/mm^2
+// nu=0.3", no comma to quote in a CSV cell): a modulus the user gave
+// need not be steel's, and a summary that said steel would misname it.
+func ShankMaterial(c *joints.Connector) Material {
+	m := Steel()
+	if c.Bolt == nil {
+		return m
+	}
+	e, nu := c.Bolt.ShankModulus, c.Bolt.ShankPoisson
+	if !(e > 0 && nu > -1 && nu < 0.5) || e == m.E && nu == m.Nu {
+		return m
+	}
+	// G = E / (2 (1 + nu)) of an isotropic material (any strength of
+	// materials text; from memory).
+	return Material{Name: "E=" + strconv.FormatFloat(e, 'g', -1, 64) + " N/mm^2 nu=" + strconv.FormatFloat(nu, 'g', -1, 64),
+		E: e, Nu: nu, G: e / (2 * (1 + nu))}
 }
 
 // Pairs assembles the springs of every connector per part pair and
@@ -131,7 +148,7 @@ func Pairs(conns []joints.Connector, material func(part int64) Material) []Pair 
 			a.springs = append(a.springs, s)
 			m := Softer(material(p[0]), material(p[1])).Name
 			if conns[i].Joint.Kind == joints.Bolt {
-				m = "steel" // a bolt's shank is steel whatever its sheets
+				m = ShankMaterial(&conns[i]).Name // a bolt's shank's, whatever its sheets
 			}
 			a.mats[m] = true
 		}

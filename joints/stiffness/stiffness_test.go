@@ -262,3 +262,33 @@ func TestBoltPairRotationalRelease(t *testing.T) {
 		}
 	}
 }
+
+// TestShankMaterialName: a beam shank of the default steel is "steel";
+// one given another modulus is named by its constants, not "steel", in
+// the spring and in the pair's summary, and its axial stiffness is EA/L
+// of that modulus: E = 70,000 N/mm^2 (an aluminium alloy's, EN 1999-1-1
+// 3.2.5; from memory), A = pi 10^2/4, L = 4 mm: 1.37445e6 N/mm (closed
+// form).
+func TestShankMaterialName(t *testing.T) {
+	c := bolt("b", 0, 4, joints.BeamShank, joints.AllDOFs)
+	if got := ShankMaterial(&c).Name; got != "steel" {
+		t.Errorf("default shank named %q, want steel", got)
+	}
+	c.Bolt.ShankModulus = 70000
+	if got := ShankMaterial(&c).Name; got != "E=70000 N/mm^2 nu=0.3" {
+		t.Errorf("shank of E 70,000 named %q, want E=70000 N/mm^2 nu=0.3", got)
+	}
+	ss, _ := Springs(&c, func(int64) Material { return Steel() })
+	if want := 70000 * math.Pi * 100 / 4 / 4; len(ss) != 1 || !near(ss[0].Axial, want, 1e-12) {
+		t.Errorf("springs %+v, want axial %g", ss, want)
+	}
+	ps := Pairs([]joints.Connector{c}, func(int64) Material { return Steel() })
+	if len(ps) != 1 || ps[0].Material != "E=70000 N/mm^2 nu=0.3" {
+		t.Errorf("pairs %+v, want one of material E=70000 N/mm^2 nu=0.3", ps)
+	}
+	// Two bolts of one pair, one of each shank: mixed.
+	d := bolt("d", 20, 4, joints.BeamShank, joints.AllDOFs)
+	if ps = Pairs([]joints.Connector{c, d}, func(int64) Material { return Steel() }); len(ps) != 1 || ps[0].Material != "mixed" {
+		t.Errorf("pairs %+v, want one, mixed", ps)
+	}
+}
