@@ -12,6 +12,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/joinery-cae/joinery/joints/pipeline"
 	"github.com/joinery-cae/joinery/writers/document"
 )
 
@@ -351,7 +352,10 @@ func TestLongFieldsEchoedShort(t *testing.T) {
 		{"parts csv mesh", map[string]string{"p.csv": "id,thickness,mesh\n10,1,a/" + huge + "\n"}, []string{"-p", "p.csv"}, `is not a file base name`},
 		{"vtk keyword", map[string]string{"m.vtk": strings.Replace(vtkMesh, "SCALARS thickness float 1", huge, 1)}, []string{"-m", "m.vtk", "-j", "w.csv"}, `unknown keyword "xxxx`},
 		{"vtu array name", map[string]string{"m.vtu": strings.Replace(vtuMesh, `Name="thickness" format="ascii"`, `Name="`+huge+`" format="zz"`, 1)}, []string{"-m", "m.vtu", "-j", "w.csv"}, `unknown format "zz"`},
-		{"job attach", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  attach: " + huge + "\n"}, []string{"job.yaml"}, `unknown attachment "xxxx`},
+		// A job file is at most pipeline.MaxJobFileBytes: a field just
+		// under that is echoed short, a larger file refused by its size.
+		{"job attach", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  attach: " + huge[:pipeline.MaxJobFileBytes-100] + "\n"}, []string{"job.yaml"}, `unknown attachment "xxxx`},
+		{"job too large", map[string]string{"job.yaml": "version: 1\nmeshes: [m.jmesh]\njoints: [w.csv]\nbuild:\n  attach: " + huge + "\n"}, []string{"job.yaml"}, `larger than 1048576 bytes: not a job file`},
 	})
 }
 
