@@ -603,7 +603,7 @@ func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring
 		sp = next
 	}
 	if !sp.closed {
-		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), newSectionFinder(lps, wEst), tol), samples, tol)
+		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), lps, wEst, tol), samples, tol)
 	}
 	if ring {
 		// The fit above finds the middle of the pieces, which round a
@@ -1366,7 +1366,7 @@ func extendArcs(sp *spine, e, tol float64) *spine {
 // 60 mm), and welds between stations would lie that far off. The scheme
 // only says where a chord may cut a curve: the point inserted is the
 // middle of the overlap's cross-section square to the chord at its
-// middle (mid, when it finds one), and it is inserted only where that
+// middle (when the outline gives one), and it is inserted only where that
 // middle lies more than tol off the chord. The scheme's own point
 // overshoots a sharp turn (by 0.5 mm outside an L-shaped flange's corner,
 // 10 mm wide) and rounds a coarse mesh's polygon round a curve into a
@@ -1374,10 +1374,14 @@ func extendArcs(sp *spine, e, tol float64) *spine {
 // the polygon of 10 degree elements on a radius of 310 mm); the
 // cross-section's middle is the overlap's own. Where the spine is
 // straight nothing is inserted.
-func densify(sp *spine, mid *sectionFinder, tol float64) *spine {
+func densify(sp *spine, lps []loop, wEst, tol float64) *spine {
 	if sp == nil || sp.closed || len(sp.pts) < 3 {
 		return sp
 	}
+	// The outline's segments are filed when a chord first asks (most
+	// flanges are straight and never do).
+	var finder *sectionFinder
+	filed := false
 	for range 3 {
 		p := sp.pts
 		n := len(p)
@@ -1411,11 +1415,14 @@ func densify(sp *spine, mid *sectionFinder, tol float64) *spine {
 				continue
 			}
 			lat := r3.Scale(1/l, across)
-			if mid != nil {
+			if !filed {
+				finder, filed = newSectionFinder(lps, wEst), true
+			}
+			if finder != nil {
 				// No cross-section there (its far side out of reach, as
 				// beside an L's corner, where it runs along the other
 				// arm): nothing to insert.
-				off, ok := mid.middle(c, r3.Unit(r3.Sub(p[i+1], p[i])), lat)
+				off, ok := finder.middle(c, r3.Unit(r3.Sub(p[i+1], p[i])), lat)
 				if !ok {
 					continue
 				}
