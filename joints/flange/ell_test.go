@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/joinery-cae/joinery/joints"
+	"gonum.org/v1/gonum/spatial/r3"
 )
 
 // An L-shaped strip 10 mm wide lying on a square plate: the arms run
@@ -39,26 +40,37 @@ func TestLShapedStrip(t *testing.T) {
 			// it falls in, the area was 1912.5 (congruent: half that
 			// element counted) and the centreline 185.6 mm long. The
 			// corners put back are found by probing, to about 0.01 mm:
-			// the area is held to 0.02 per cent, the length to 0.5 mm
-			// (the fit still rounds the corner's inside a little).
+			// the area is held to 0.02 per cent, the length to 0.05 mm.
 			if !near(f.Area, 1900, 2e-4*1900) {
 				t.Errorf("area %.9g, want 1900", f.Area)
 			}
-			if !near(f.Length, 190, 0.5) || !near(f.Width.Mean, 10, 0.05) {
+			if !near(f.Length, 190, 0.05) || !near(f.Width.Mean, 10, 0.01) {
 				t.Errorf("length %g, width %+v; want 190, 10", f.Length, f.Width)
 			}
 			// Every point of the centreline lies on the mid-line, 5 mm
 			// from the strip's outer edges (x = 5 or y = 5), inside:
 			// to 0.05 mm, well inside the edge rule's allowance for a
-			// weld on it. Within a width and a half of the corner the
-			// fit still rounds it (by up to about 0.5 mm): left out.
-			for _, p := range f.Centreline {
-				if math.Max(p.X, p.Y) < 25 {
-					continue
-				}
+			// weld on it, the corner (5, 5) included. Until densify
+			// inserted cross-section middles instead of the four-point
+			// scheme's guesses, the centreline overshot the corner by
+			// 0.52 mm (to (7.14, 4.48)) and was 190.24 mm long.
+			for i, p := range f.Centreline {
 				if d := math.Min(math.Abs(p.X-5), math.Abs(p.Y-5)); d > 0.05 || p.X < 5-0.05 || p.Y < 5-0.05 {
 					t.Fatalf("centreline point %v is %g mm off the mid-line", p, d)
 				}
+				if i > 0 {
+					q := f.Centreline[i-1]
+					if m := r3.Scale(0.5, r3.Add(p, q)); math.Min(math.Abs(m.X-5), math.Abs(m.Y-5)) > 0.05 {
+						t.Fatalf("centreline chord %v to %v cuts the corner at %v", q, p, m)
+					}
+				}
+			}
+			corner := false
+			for _, p := range f.Centreline {
+				corner = corner || math.Hypot(p.X-5, p.Y-5) < 0.05
+			}
+			if !corner {
+				t.Errorf("no centreline point at the mid-line's corner (5, 5): %v", f.Centreline)
 			}
 		})
 	}
