@@ -169,6 +169,7 @@ func TestFlangesBadInput(t *testing.T) {
 		{[]string{"--pitch", "-3"}, "--pitch"},
 		{[]string{"--pitch", "often"}, "--pitch"},
 		{[]string{"--end-margin", "-1"}, "end margin"},
+		{[]string{"--end-margin", "5"}, "--end-margin places the first weld of each flange: it needs --pitch"},
 		{[]string{"--attach", "glue"}, "glue"},
 	} {
 		args := append([]string{"flanges", exampleJob, "--out", out}, tc.args...)
