@@ -47,7 +47,20 @@ const (
 	// outputs (our choice). When more nodes lie within the nugget, the
 	// end ties the nearest ones and a patch-capped finding says so.
 	MaxPatchNodes = 100
+	// MinPitch, mm, is the smallest weld pitch flanges places welds at:
+	// the smallest fused zone of the spacing table (spacingTable: 2.9 mm
+	// for 0.25 mm sheets), so that closer welds overlap on any sheet. A
+	// finer pitch places nothing better (the welds are spaced wider to
+	// keep apart, pitch-too-fine) and costs time growing with the square
+	// of the stations per flange: 0.001 mm ran for hours on the
+	// example's nine flanges.
+	MinPitch = 2.9
 )
+
+// minPitchWant says what a pitch below MinPitch should be.
+func minPitchWant() string {
+	return fmt.Sprintf("want a length in mm of at least %g, the smallest nugget of the spacing table (closer welds overlap), or table", MinPitch)
+}
 
 // Plausible ranges of a sheet-metal model in millimetres, for the
 // units-suspect warning: a model whose thicknesses and element sizes both

@@ -122,6 +122,9 @@ func ParsePitch(s string) (Pitch, error) {
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
 		return Pitch{}, fmt.Errorf("pitch %q: want a length in mm above 0, or table", s)
 	}
+	if v < MinPitch {
+		return Pitch{}, fmt.Errorf("pitch %q: %s", s, minPitchWant())
+	}
 	return Pitch{MM: v}, nil
 }
 
@@ -185,6 +188,8 @@ func (o *FlangeOptions) Validate() error {
 		return fmt.Errorf("end margin %g: want a finite number, 0 or more (0 for one nugget diameter)", o.EndMargin)
 	case math.IsNaN(o.Pitch.MM) || math.IsInf(o.Pitch.MM, 0) || o.Pitch.MM < 0:
 		return fmt.Errorf("pitch %g: want a length in mm above 0", o.Pitch.MM)
+	case o.Pitch.MM > 0 && o.Pitch.MM < MinPitch:
+		return fmt.Errorf("pitch %g: %s", o.Pitch.MM, minPitchWant())
 	case math.IsNaN(o.FacingFactor) || o.FacingFactor < 0 || o.FacingFactor >= 0.5:
 		return fmt.Errorf("facing factor %g: want 0 (the default) up to 0.5", o.FacingFactor)
 	}

@@ -329,6 +329,20 @@ func TestCheckReadsOutputSets(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// One file named twice under other spellings (the set's directory
+	// and its connectors.json, a link to it) is refused as such, not
+	// read twice into a clash of connector ids naming the directory as
+	// a file and line.
+	link := filepath.Join(dir, "link.json")
+	if err := os.Symlink(cj, link); err != nil {
+		t.Fatal(err)
+	}
+	for _, twice := range [][2]string{{built, cj}, {cj, link}, {cj, filepath.Join(built, ".", "connectors.json")}} {
+		code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", twice[0], "--connectors", twice[1], "--out", filepath.Join(dir, "check2"))
+		if want := "connector file given twice (as " + twice[0] + " too)"; code != exitBadInput || !strings.Contains(errs, want) {
+			t.Errorf("%v: exit %d, %q; want 2 and %q", twice, code, errs, want)
+		}
+	}
 	write(t, cj, strings.Replace(string(raw), `"W3"`, `"W9"`, 1))
 	code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", built, "--out", filepath.Join(dir, "check9"))
 	if code != exitBadInput || !strings.Contains(errs, "connectors.json") {
@@ -406,5 +420,20 @@ func TestCheckEdgeClose(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A sweep's output directory holds no connectors.json of its own: check
+// given it says where the connectors are, naming a variant's folder.
+func TestCheckPointsIntoSweep(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	sw := filepath.Join(dir, "sw")
+	if code, _, errs := runCLI(t, "sweep", exampleJob, "--vary", "attach=interpolated,patch", "--out", sw, "--quiet"); code != exitOK {
+		t.Fatalf("sweep: exit %d: %s", code, errs)
+	}
+	code, _, errs := runCLI(t, "check", exampleJob, "--connectors", sw, "--out", filepath.Join(dir, "c"))
+	if want := "name one of them, as " + filepath.Join(sw, "01-attach=interpolated"); code != exitBadInput || !strings.Contains(errs, want) {
+		t.Errorf("exit %d, %q; want 2 and %q", code, errs, want)
 	}
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 
 	"github.com/spf13/cobra"
@@ -32,8 +33,8 @@ func (o *flangesOptions) AddFlags(fs *pflag.FlagSet) {
 	o.in.AddModelFlags(fs)
 	fs.StringVarP(&o.out, "out", "o", "", "output directory (default: the job's out with "+pipeline.FlangesSuffix+" appended, else ./"+pipeline.DefaultOut+pipeline.FlangesSuffix+": beside a build's set, not in it)")
 	fs.StringArrayVar(&o.pairs, "pair", nil, "part pair A,B to find flanges of; repeat for several (default: every pair of parts in contact)")
-	fs.StringVar(&o.pitch, "pitch", "", "place spot welds every MM along each flange, or 'table' for the minimum spacing of the spacing table (default: place none)")
-	fs.Float64Var(&o.endMargin, "end-margin", 0, "mm from each end of a flange to its first weld (0: one nugget diameter)")
+	fs.StringVar(&o.pitch, "pitch", "", "place spot welds every MM (at least 2.9) along each flange, or 'table' for the minimum spacing of the spacing table (default: place none)")
+	fs.Float64Var(&o.endMargin, "end-margin", 0, "with --pitch: mm from each end of a flange to its first weld (0: one nugget diameter)")
 	fs.StringVar(&o.attach, "attach", joints.DefaultAttach.String(), "attachment the welds will be built with (interpolated, node-pair or patch): it decides which welds share elements")
 	fs.Float64Var(&o.gapAllowance, "gap-allowance", 0, fmt.Sprintf("mm; allowed deviation of a gap from contact (0: %g x the contact gap (t1+t2)/2)", joints.DefaultGapAllowanceFactor))
 	fs.StringVar(&o.nuggetRule, "nugget-rule", joints.DefaultNuggetRule.String(), "nugget diameter from the governing thickness t: 4sqrt or 5sqrt (d = K*sqrt(t))")
@@ -135,6 +136,9 @@ func runFlanges(c *cobra.Command, o *flangesOptions, g *globalOptions, args []st
 	s, err := job.FlangeSettings()
 	if err != nil {
 		return err
+	}
+	if o.flags.Changed("end-margin") && !s.Flanges.Pitch.Set() {
+		return pipeline.UsageError(errors.New("--end-margin places the first weld of each flange: it needs --pitch (or the job's flanges: pitch), without which no weld is placed"))
 	}
 	out, err := pipeline.Flanges(c.Context(), job, s, g.env())
 	if err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
@@ -17,7 +18,7 @@ type inspectOptions struct {
 func (o *inspectOptions) AddFlags(fs *pflag.FlagSet) {
 	o.in.AddFlags(fs)
 	fs.BoolVar(&o.inspect.Deep, "deep", false, "also list free-edge loops per part and warped or degenerate elements")
-	fs.Float64Var(&o.inspect.WarpLimit, "warp-limit", o.inspect.WarpLimit, "with --deep: warp angle in degrees above which a quad is listed")
+	fs.Float64Var(&o.inspect.WarpLimit, "warp-limit", o.inspect.WarpLimit, "with --deep (exit 2 without it): warp angle in degrees above which a quad is listed")
 	fs.Float64Var(&o.inspect.BoxMargin, "box-margin", o.inspect.BoxMargin, "margin in mm added to part bounding boxes when testing joints")
 }
 
@@ -51,6 +52,9 @@ Inputs come from a job file, from flags, or both (flags win).
 func runInspect(c *cobra.Command, o *inspectOptions, g *globalOptions, args []string) error {
 	if err := o.inspect.Validate(); err != nil {
 		return pipeline.UsageError(err)
+	}
+	if c.Flags().Changed("warp-limit") && !o.inspect.Deep {
+		return pipeline.UsageError(errors.New("--warp-limit applies with --deep only, which lists the warped elements: add --deep"))
 	}
 	job, err := loadJob(args)
 	if err != nil {

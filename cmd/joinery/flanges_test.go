@@ -8,6 +8,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/writers/document"
@@ -168,6 +169,7 @@ func TestFlangesBadInput(t *testing.T) {
 		{[]string{"--pitch", "-3"}, "--pitch"},
 		{[]string{"--pitch", "often"}, "--pitch"},
 		{[]string{"--end-margin", "-1"}, "end margin"},
+		{[]string{"--end-margin", "5"}, "--end-margin places the first weld of each flange: it needs --pitch"},
 		{[]string{"--attach", "glue"}, "glue"},
 	} {
 		args := append([]string{"flanges", exampleJob, "--out", out}, tc.args...)
@@ -185,6 +187,41 @@ func TestFlangesBadInput(t *testing.T) {
 	}
 	if _, err := os.Stat(out); !os.IsNotExist(err) {
 		t.Errorf("output directory written on bad input")
+	}
+}
+
+// A pitch finer than the smallest nugget is refused at once, from the
+// flag or the job file: placing stations that close cost time growing
+// with the square of their number (--pitch 0.001 ran for hours on the
+// example; 2.9 mm is the fused zone of the spacing table's thinnest
+// row, resistance welding manufacturers' table).
+func TestFlangesFinePitchRefused(t *testing.T) {
+	skipWithoutExample(t)
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	for _, p := range []string{"0.001", "2.8999"} {
+		code, _, errs := runCLIWithin(t, 20*time.Second, "flanges", exampleJob, "--pitch", p, "--out", out)
+		if code != exitBadInput || !strings.Contains(errs, "at least 2.9") {
+			t.Errorf("--pitch %s: exit %d, %q; want 2 and the least pitch", p, code, errs)
+		}
+	}
+	ex := filepath.Join(dir, "example")
+	if err := os.CopyFS(ex, os.DirFS(exampleDir)); err != nil {
+		t.Fatal(err)
+	}
+	job := filepath.Join(ex, "job.yaml")
+	text := "version: 1\nmeshes: [mesh/floor.vtk, mesh/beam.vtk, mesh/closing-plate.jmesh, mesh/bracket.jmesh]\nparts: parts.yaml\nflanges:\n  pitch: 1\n"
+	if err := os.WriteFile(job, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, errs := runCLIWithin(t, 20*time.Second, "flanges", job, "--out", out); code != exitBadInput || !strings.Contains(errs, "job.yaml:5:") || !strings.Contains(errs, "at least 2.9") {
+		t.Errorf("job pitch 1: exit %d, %q; want 2 at job.yaml:5", code, errs)
+	}
+	if code, _, errs := runCLI(t, "flanges", exampleJob, "--pitch", "2.9", "--out", out, "--quiet", "--fail-on", "never"); code != exitOK {
+		t.Errorf("--pitch 2.9: exit %d, %s", code, errs)
+	}
+	if _, err := os.Stat(out); err != nil {
+		t.Errorf("--pitch 2.9 wrote no set: %v", err)
 	}
 }
 

@@ -7,7 +7,8 @@ import (
 )
 
 // inspect honours --warp-limit 0 and refuses negative or non-finite
-// --warp-limit and --box-margin with exit 2, naming the flag.
+// --warp-limit and --box-margin with exit 2, naming the flag, and
+// --warp-limit without --deep.
 func TestInspectFlagValidation(t *testing.T) {
 	const mesh = "../../testdata/native/small.jmesh"
 	// --warp-limit 0 must be honoured (or refused), not turned into 10.
@@ -33,5 +34,9 @@ func TestInspectFlagValidation(t *testing.T) {
 		if code != exitBadInput || !strings.Contains(errs, strings.TrimPrefix(args[0], "--")) {
 			t.Errorf("%v: exit %d, stderr %q; want exit 2 naming the flag", args, code, strings.TrimSpace(errs))
 		}
+	}
+	// --warp-limit without --deep would be ignored: refused.
+	if code, _, errs := runCLI(t, "inspect", "--mesh", mesh, "--warp-limit", "5"); code != exitBadInput || !strings.Contains(errs, "--warp-limit applies with --deep only") {
+		t.Errorf("--warp-limit without --deep: exit %d, stderr %q", code, strings.TrimSpace(errs))
 	}
 }

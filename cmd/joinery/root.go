@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -81,7 +82,46 @@ and a connectivity report in joinery's own documented formats.
 		return pipeline.UsageError(fmt.Errorf("%w (see '%s --help')", err, c.CommandPath()))
 	})
 	root.AddCommand(newInspectCommand(g), newBuildCommand(g), newCheckCommand(g), newFlangesCommand(g), newOffsetsCommand(g), newSweepCommand(g))
+	strictHelpAndCompletion(root)
 	return root
+}
+
+// strictHelpAndCompletion makes cobra's own help and completion commands
+// exit 2 on a topic or shell they do not know, as every other mistake on
+// the command line does: by themselves they print their help and exit
+// 0 (joinery completion fish2, joinery help biuld).
+func strictHelpAndCompletion(root *cobra.Command) {
+	root.InitDefaultHelpCmd()
+	root.InitDefaultCompletionCmd()
+	for _, c := range root.Commands() {
+		switch c.Name() {
+		case "help":
+			c.Run = nil
+			c.RunE = func(hc *cobra.Command, args []string) error {
+				cmd, rest, err := hc.Root().Find(args)
+				if cmd == nil || err != nil || len(rest) > 0 {
+					return pipeline.UsageError(fmt.Errorf("unknown help topic %q (see 'joinery --help')", strings.Join(args, " ")))
+				}
+				cmd.InitDefaultHelpFlag()
+				cmd.InitDefaultVersionFlag()
+				return cmd.Help()
+			}
+		case "completion":
+			var shells []string
+			for _, s := range c.Commands() {
+				shells = append(shells, s.Name())
+			}
+			c.Args = nil
+			c.DisableFlagsInUseLine = true
+			c.RunE = func(cc *cobra.Command, args []string) error {
+				what := "no shell given"
+				if len(args) > 0 {
+					what = fmt.Sprintf("unknown shell %q", strings.Join(args, " "))
+				}
+				return pipeline.UsageError(fmt.Errorf("completion: %s: want one of %s (see 'joinery completion --help')", what, strings.Join(shells, ", ")))
+			}
+		}
+	}
 }
 
 // finish ends a command that wrote an output set: it prints doc (--json)

@@ -21,10 +21,22 @@ func TestUsageErrorsExitTwo(t *testing.T) {
 		{[]string{"build", "a.yaml", "b.yaml"}, "accepts at most 1 arg(s), received 2"},
 		{[]string{"build", "--no-such-flag"}, "unknown flag: --no-such-flag"},
 		{[]string{"build", "--attach", "nodepair"}, "nodepair"},
+		// cobra's own help and completion commands print their help
+		// and exit 0 on a topic or shell they do not know.
+		{[]string{"help", "biuld"}, `unknown help topic "biuld"`},
+		{[]string{"help", "build", "extra"}, `unknown help topic "build extra"`},
+		{[]string{"completion"}, "completion: no shell given: want one of bash, fish, powershell, zsh"},
+		{[]string{"completion", "fish2"}, `completion: unknown shell "fish2"`},
 	} {
 		code, _, errs := runCLI(t, tc.args...)
 		if code != exitBadInput || !strings.Contains(errs, tc.want) {
 			t.Errorf("%v: exit %d, %q; want exit %d and %q", tc.args, code, errs, exitBadInput, tc.want)
+		}
+	}
+	// What they know still works.
+	for _, args := range [][]string{{"help"}, {"help", "build"}, {"help", "completion", "bash"}, {"completion", "bash"}, {"completion", "--help"}} {
+		if code, out, errs := runCLI(t, args...); code != exitOK || out == "" {
+			t.Errorf("%v: exit %d, %d bytes out, %q", args, code, len(out), errs)
 		}
 	}
 }

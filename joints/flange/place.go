@@ -307,7 +307,10 @@ func (p *placer) widen(i int, pitch, margin float64) ([]weld, float64) {
 	// consecutive welds that is not apart.
 	try := func(q float64) (ws []weld, used float64, live int, ok bool) {
 		ss, used := stations(f.Length, q, margin, f.Closed)
-		ws = make([]weld, 0, len(ss))
+		// No room for every station up front: most tries stop at the
+		// first pair that is not apart, and a fine pitch asks for
+		// thousands of stations per try.
+		ws = make([]weld, 0, min(len(ss), 8))
 		first, last := -1, -1
 		for k, s := range ss {
 			ws = append(ws, p.station(i, k+1, s))

@@ -230,6 +230,9 @@ func readConnectorBytes(p string) ([]byte, string, error) {
 	}
 	data, ok := set.Files[name]
 	if !ok {
+		if len(set.Marker.Sets) > 0 {
+			return nil, p, geom.FileError(filepath.Join(dir, name), "not a file of the output set of run %s (%s wrote it): a sweep's connectors are in its variants' folders; name one of them, as %s", set.Marker.RunID, set.Marker.Job, filepath.Join(dir, set.Marker.Sets[0].Name))
+		}
 		return nil, p, geom.FileError(filepath.Join(dir, name), "not a file of the output set of run %s (%s wrote it)", set.Marker.RunID, set.Marker.Job)
 	}
 	return data, filepath.Join(dir, name), nil
@@ -239,15 +242,25 @@ func readConnectorBytes(p string) ([]byte, string, error) {
 // the mesh, so that it can run while the mesh is read.
 func parseConnectorFiles(paths []string) ([]connectorFile, error) {
 	var out []connectorFile
-	seen := map[string]bool{}
+	// The files read, by what was given for them: an output directory
+	// and its connectors.json, or a file and a link to it, are one file.
+	type read struct {
+		given string
+		info  os.FileInfo
+	}
+	var seen []read
 	for _, p := range paths {
-		if seen[filepath.Clean(p)] {
-			return nil, geom.FileError(p, "connector file given twice")
-		}
-		seen[filepath.Clean(p)] = true
 		data, name, err := readConnectorBytes(p)
 		if err != nil {
 			return nil, err
+		}
+		if fi, err := os.Stat(name); err == nil {
+			for _, r := range seen {
+				if os.SameFile(r.info, fi) {
+					return nil, geom.FileError(p, "connector file given twice (as %s too)", r.given)
+				}
+			}
+			seen = append(seen, read{p, fi})
 		}
 		cf := connectorFile{path: p, data: data}
 		switch ext := strings.ToLower(filepath.Ext(name)); ext {

@@ -44,6 +44,7 @@ func TestJobFlangesErrors(t *testing.T) {
 		{"key", head + "  pich: 30\n", `j.yaml:4: flanges: unknown key "pich" (did you mean "pitch"?)`},
 		{"pitch", head + "  pitch: often\n", `j.yaml:4: pitch "often": want a length in mm above 0, or table`},
 		{"pitch negative", head + "  pitch: -30\n", `j.yaml:4: pitch "-30"`},
+		{"pitch finer than a nugget", head + "  pitch: 1\n", `j.yaml:4: pitch "1": want a length in mm of at least 2.9`},
 		{"end margin", head + "  end_margin: -2\n", "j.yaml:4: end_margin: -2 mm is negative"},
 		{"pair size", head + "  pairs: [[100, 200, 300]]\n", "j.yaml:4: pairs: want two part ids"},
 		{"pair self", head + "  pairs: [[100, 100]]\n", "j.yaml:4: pairs: a part does not pair with itself"},
