@@ -88,7 +88,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer, stderrIsT
 		started = true
 		return g.startProfile()
 	}
-	err := root.ExecuteContext(ctx)
+	cmd, err := root.ExecuteContextC(ctx)
 	g.stopProfile()
 	if err != nil && !started && !errors.Is(err, pipeline.ErrUsage) {
 		msg := strings.TrimRight(err.Error(), "\n")
@@ -97,7 +97,11 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer, stderrIsT
 		} else {
 			msg += " "
 		}
-		err = pipeline.UsageError(errors.New(msg + "(see 'joinery --help')"))
+		help := "joinery"
+		if cmd != nil {
+			help = cmd.CommandPath() // the command whose arguments were wrong
+		}
+		err = pipeline.UsageError(fmt.Errorf("%s(see '%s --help')", msg, help))
 	}
 	if err == nil {
 		return exitOK

@@ -18,8 +18,9 @@ func TestUsageErrorsExitTwo(t *testing.T) {
 		want string
 	}{
 		{[]string{"bulid", "job.yaml"}, `unknown command "bulid"`},
-		{[]string{"build", "a.yaml", "b.yaml"}, "accepts at most 1 arg(s), received 2"},
-		{[]string{"build", "--no-such-flag"}, "unknown flag: --no-such-flag"},
+		{[]string{"build", "a.yaml", "b.yaml"}, "accepts at most 1 arg(s), received 2 (see 'joinery build --help')"},
+		{[]string{"build", "--no-such-flag"}, "unknown flag: --no-such-flag (see 'joinery build --help')"},
+		{[]string{"check", "--pitch", "20"}, "unknown flag: --pitch (see 'joinery check --help')"},
 		{[]string{"build", "--attach", "nodepair"}, "nodepair"},
 		// cobra's own help and completion commands print their help
 		// and exit 0 on a topic or shell they do not know.
