@@ -116,9 +116,11 @@ type Link struct {
 	Contact float64
 	// MidGap is the gap between the mid-surfaces of sheets From and To
 	// along the stack axis (the later sheet's minus the earlier's), mm:
-	// the figure to compare with Contact. It differs from a gap link's
-	// Length when a part is meshed on an outer surface, when the ends are
-	// nodes (node-pair), or when the sheets are tilted to the axis.
+	// the figure to compare with Contact on sheets square to the axis;
+	// on sheets tilted to it the gap findings compare SquareGap of it,
+	// the gap square to the sheets. It differs from a gap link's Length
+	// when a part is meshed on an outer surface, when the ends are nodes
+	// (node-pair), or when the sheets are tilted to the axis.
 	MidGap float64
 	// StartAt and EndAt name the nodes at the link's two ends.
 	StartAt, EndAt NodeRef

@@ -434,7 +434,7 @@ func nodePairConnector(m *geom.Mesh, w *NodePairWeld, info map[int32]*nodeInfo, 
 	}
 	c.Findings = append(c.Findings, spotFacing(&c, o)...)
 	for _, l := range c.Links {
-		if f, ok := spotGap(&c.Joint, c.Stack.Sheets[l.From], c.Stack.Sheets[l.To], o); ok {
+		if f, ok := spotGap(&c.Joint, c.Stack.Axis, c.Stack.Sheets[l.From], c.Stack.Sheets[l.To], o); ok {
 			c.Findings = append(c.Findings, f)
 		}
 	}

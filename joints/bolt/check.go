@@ -41,7 +41,7 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		along := b.Position - a.Position
-		gap := squareGap(along, a.Proj.Normal, b.Proj.Normal, st.Axis)
+		gap := joints.SquareGap(along, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, st.Axis)
 		want := (a.Thickness + b.Thickness) / 2
 		tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
 		lim := tol + joints.LengthRoundoff
@@ -61,31 +61,6 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 		}
 	}
 	return fs
-}
-
-// squareGap returns the gap between two sheets' mid-surfaces square to
-// the sheets, the figure contact, (t1+t2)/2, is measured in, from their
-// distance along the bolt's axis: two parallel planes a distance d
-// apart lie d / cos(theta) apart along a line at theta to their normal
-// (hand calculation), so the gap is along times cos(theta), with
-// cos(theta) the mean of |n . axis| of the two sheets' normals (the
-// same for parallel sheets; within the angle limit otherwise).
-func squareGap(along float64, na, nb, axis r3.Vec) float64 {
-	ca, cb := cosTo(na, axis), cosTo(nb, axis)
-	if ca == 0 || cb == 0 {
-		return along
-	}
-	return along * (ca + cb) / 2
-}
-
-// cosTo returns |cos| of the angle between n and the unit axis, 0 for a
-// zero n.
-func cosTo(n, axis r3.Vec) float64 {
-	l := r3.Norm(n)
-	if l == 0 {
-		return 0
-	}
-	return math.Abs(r3.Dot(n, axis)) / l
 }
 
 // sizeTolerance, mm, is the rounding allowed when sizes are compared

@@ -417,8 +417,9 @@ func TestGapNamesFlippedHost(t *testing.T) {
 
 func TestTiltedGapIndependentOfHeight(t *testing.T) {
 	// Part 1 (1 mm) is flat at z = 0; part 2 (1.5 mm) is tilted by 10
-	// degrees about the line y = 25, z = 1.25, where it lies at contact,
-	// (t1+t2)/2 = 1.25 mm (shell mid-surface geometry, common practice).
+	// degrees about the line y = 25, z = 1.25, where its mid-surface lies
+	// (t1+t2)/2 = 1.25 mm above part 1's along part 1's normal (square to
+	// the sheets, joints.SquareGap, 0.0115 mm less: within the allowance).
 	// The stack axis is part 1's normal (part 1 is the closer sheet for
 	// every height below), and it meets part 2's plane at z = 1.25 exactly
 	// (elementary geometry): the gap must not depend on the height at

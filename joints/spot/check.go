@@ -49,15 +49,16 @@ func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 	return append(fs, checkEdges(x, j, st, diameter, o)...)
 }
 
-// checkGaps compares each consecutive gap between mid-surfaces with the
-// contact gap and reports those off by more than the allowance. A gap
-// that a reversed normal on one sheet of an outer-surface mesh would
-// bring to contact names that sheet's host element (flippedHint).
+// checkGaps compares each consecutive gap between mid-surfaces, square
+// to the sheets (joints.SquareGap), with the contact gap and reports
+// those off by more than the allowance. A gap that a reversed normal on
+// one sheet of an outer-surface mesh would bring to contact names that
+// sheet's host element (flippedHint).
 func checkGaps(m *geom.Mesh, st *joints.Stack, o *joints.BuildOptions, j *joints.Joint) []joints.Finding {
 	var out []joints.Finding
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
-		if f, ok := GapFinding(j, a, b, o); ok {
+		if f, ok := GapFinding(j, st.Axis, a, b, o); ok {
 			f.Message += flippedHint(m, st.Axis, a, b, o)
 			out = append(out, f)
 		}
@@ -89,7 +90,8 @@ func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOp
 		} else {
 			pb += shift
 		}
-		if math.Abs(math.Abs(pb-pa)-want) <= tol+joints.LengthRoundoff {
+		gap := joints.SquareGap(math.Abs(pb-pa), a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, axis)
+		if math.Abs(gap-want) <= tol+joints.LengthRoundoff {
 			return fmt.Sprintf("; part %d is meshed on its %s face, and the sheets would touch if the normal of its element %d under the weld pointed the other way: check its normals (inspect --deep reports normals-flipped; joinery offsets infers each part's surface)",
 				s.Part, p.Surface, m.ElemIDs[s.Proj.Elem])
 		}
@@ -98,24 +100,30 @@ func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOp
 }
 
 // GapFinding compares the gap between the mid-surfaces of consecutive
-// sheets a and b of a stack (b.Position - a.Position) with contact,
-// (t1+t2)/2, and returns a gap-open or gap-closed warning when it is off
-// by more than the allowance.
-func GapFinding(j *joints.Joint, a, b joints.Sheet, o *joints.BuildOptions) (joints.Finding, bool) {
-	gap := b.Position - a.Position
+// sheets a and b of a stack with unit axis axis, square to the sheets
+// (joints.SquareGap of b.Position - a.Position, their distance along the
+// axis), with contact, (t1+t2)/2, and returns a gap-open or gap-closed
+// warning when it is off by more than the allowance.
+func GapFinding(j *joints.Joint, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOptions) (joints.Finding, bool) {
+	along := b.Position - a.Position
+	gap := joints.SquareGap(along, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, axis)
 	want := (a.Thickness + b.Thickness) / 2
 	tol := o.GapAllowanceFor(a.Thickness, b.Thickness)
 	dev := gap - want
 	lim := tol + joints.LengthRoundoff
+	apart := joints.MM(gap) + " mm apart"
+	if joints.MM(along) != joints.MM(gap) {
+		apart += " square to the sheets (" + joints.MM(along) + " mm along the weld axis)"
+	}
 	switch {
 	case dev > lim:
 		return j.Finding(joints.Warning, joints.CodeGapOpen, []int64{a.Part, b.Part},
-			fmt.Sprintf("parts %d and %d do not touch: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the weld would bridge %s mm of air",
-				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(dev))), true
+			fmt.Sprintf("parts %d and %d do not touch: mid-surfaces %s, contact at %s mm (allowance %s mm); the weld would bridge %s mm of air",
+				a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(dev))), true
 	case dev < -lim:
 		return j.Finding(joints.Warning, joints.CodeGapClosed, []int64{a.Part, b.Part},
-			fmt.Sprintf("parts %d and %d overlap: mid-surfaces %s mm apart, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
-				a.Part, b.Part, joints.MM(gap), joints.MM(want), joints.MM(tol), joints.MM(-dev))), true
+			fmt.Sprintf("parts %d and %d overlap: mid-surfaces %s, contact at %s mm (allowance %s mm); the sheets penetrate by %s mm",
+				a.Part, b.Part, apart, joints.MM(want), joints.MM(tol), joints.MM(-dev))), true
 	}
 	return joints.Finding{}, false
 }

@@ -44,7 +44,8 @@ func gapLinks(st *joints.Stack, ends []joints.End, dofs joints.DOFs) []joints.Li
 // the two faying points may lie apart across the stack axis: beyond
 // joints.OffsetMismatchFactor times the thinner sheet, offset-mismatch
 // is reported. Along the axis they lie apart by the gap's deviation from
-// contact, which gap-open and gap-closed judge.
+// contact, which gap-open and gap-closed judge square to the sheets
+// (joints.SquareGap).
 func offsetLinks(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, dofs joints.DOFs) ([]joints.Link, []joints.Finding) {
 	var (
 		links []joints.Link

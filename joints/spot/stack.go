@@ -415,8 +415,8 @@ func listedStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, listed []int64) (
 
 // splitStack keeps, of an automatically found stack, the sheets in
 // contact around the weld: where the gap between two consecutive
-// mid-surfaces exceeds contact by more than the average of their
-// thicknesses, the stack is split, and the group holding the weld point
+// mid-surfaces, square to the sheets (joints.SquareGap), exceeds contact
+// by more than the average of their thicknesses, the stack is split, and the group holding the weld point
 // (or, failing that, the group nearest to it) is kept when it has two
 // sheets or more. The sheets left out are returned. When no such group
 // exists the stack is kept whole, so its gaps are reported.
@@ -426,7 +426,8 @@ func splitStack(st *joints.Stack) (kept joints.Stack, dropped []joints.Sheet) {
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
-		if b.Position-a.Position-contact > contact {
+		gap := joints.SquareGap(b.Position-a.Position, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, st.Axis)
+		if gap-contact > contact {
 			groups = append(groups, st.Sheets[start:i+1])
 			start = i + 1
 		}
