@@ -80,6 +80,8 @@ const (
 	CodeFreePart     = "free-part"    // a part or group of parts joined by no connector to the largest group
 	CodeMechanism    = "mechanism"    // parts the connectors do not hold against every rigid-body motion
 	CodeUnrestrained = "unrestrained" // a node a connector creates with degrees of freedom nothing holds
+	// Check only: a connectors.json read against a mesh that changed.
+	CodeEndMoved = "end-moved" // an end rebuilt from its nodes and weights lies off the end point the document records
 	// Flange finding and weld placement (joinery flanges); they use the
 	// audit's pitch-short for a pitch below the table's minimum spacing.
 	CodeFlangeNarrow   = "flange-narrow"   // flange narrower than the minimum overlap, or than the edge rule needs

@@ -90,6 +90,11 @@ mesh and parts table, and reports what a person would have to look for by hand:
                 motion, with the free motion (a turn about the line of a row
                 of welds that couple translations only, ...)
   unrestrained  nodes a connector creates with degrees of freedom nothing holds
+  end-moved     ends of a connectors.json that no longer lie where the mesh
+                puts them (each rebuilt from its nodes and weights): the mesh
+                changed since the build, or is read in another unit
+  units-suspect, thickness-mismatch, cells-skipped
+                the model's own findings, as build gives them
 --joints adds planned weld points to check against the others (duplicates,
 spacing) without building them. It writes, in the output directory:
   report.json   summary and findings (schema joinery/report, version 2)

@@ -114,7 +114,8 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	o := s.Options.Defaults(joints.MaxThickness(m))
 	prog := env.progress()
 	prog.Start("reading the connectors", 0)
-	conns, err := resolveConnectors(m, got.files, o, env)
+	unit := in.Unit.String()
+	conns, err := resolveConnectors(m, got.files, o, &unit, env)
 	prog.Done()
 	if err != nil {
 		return nil, err
@@ -122,7 +123,9 @@ func Check(ctx context.Context, job *Job, s CheckSettings, env Env) (*Outcome, e
 	prog.Start("measuring edge distances", 0)
 	edgeClose(m, conns, &o)
 	prog.Done()
-	res := &joints.Result{Connectors: conns, Options: o}
+	// The run's own findings first, as a build gives them (units-suspect,
+	// thickness-mismatch, cells-skipped), then the connectors'.
+	res := &joints.Result{Connectors: conns, Options: o, Findings: in.ModelFindings()}
 	for _, c := range conns {
 		res.Findings = append(res.Findings, c.Findings...)
 	}
@@ -197,9 +200,12 @@ func weldToJudge(c *joints.Connector) bool {
 // mesh: a connectors.json document or a node-pair list, with its bytes
 // (for the run id).
 type connectorFile struct {
-	path  string
-	data  []byte
-	doc   *document.ConnectorsDoc
+	path string
+	data []byte
+	doc  *document.ConnectorsDoc
+	// unit is the document's units.length as written, before its
+	// lengths were converted to mm.
+	unit  string
 	welds []audit.NodePairWeld
 	warns []joints.InputWarning
 }
@@ -268,6 +274,7 @@ func parseConnectorFiles(paths []string) ([]connectorFile, error) {
 			if cf.doc, err = document.ParseConnectors(data, name); err != nil {
 				return nil, err
 			}
+			cf.unit = cf.doc.Units.Length
 			if err = cf.doc.ToMillimetres(); err != nil {
 				return nil, geom.FileError(name, "%w", err)
 			}
@@ -295,11 +302,15 @@ func ReadConnectors(m *geom.Mesh, paths []string, o joints.BuildOptions, env Env
 	if err != nil {
 		return nil, err
 	}
-	return resolveConnectors(m, files, o, env)
+	return resolveConnectors(m, files, o, nil, env)
 }
 
 // resolveConnectors turns connector files read into connectors of m.
-func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOptions, env Env) ([]joints.Connector, error) {
+// The ends of a document's connectors are compared with m as they are
+// recorded, before node-pair ones are rebuilt (audit.EndsMoved: the
+// end-moved errors join the connectors' findings); unit, when known, is
+// the unit m was read in, for the findings' messages.
+func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOptions, unit *string, env Env) ([]joints.Connector, error) {
 	n := 0
 	for fi := range files {
 		if files[fi].doc != nil {
@@ -352,6 +363,7 @@ func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOption
 		if err != nil {
 			return nil, err
 		}
+		moved := endsMoved(m, doc, cs, movedCause(cf.unit, unit))
 		var pairs []audit.NodePairWeld
 		var pairIdx []int
 		for i := range doc.Connectors {
@@ -381,6 +393,9 @@ func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOption
 				cs[i] = rebuilt[k]
 			}
 		}
+		for i := range cs {
+			cs[i].Findings = append(cs[i].Findings, moved[i]...)
+		}
 		for i, c := range cs {
 			if err := add(c, place{cf, i}); err != nil {
 				return nil, err
@@ -389,6 +404,44 @@ func resolveConnectors(m *geom.Mesh, files []connectorFile, o joints.BuildOption
 	}
 	slices.SortStableFunc(conns, func(a, b joints.Connector) int { return joints.CompareIDs(a.Joint.ID, b.Joint.ID) })
 	return conns, nil
+}
+
+// endsMoved returns, per connector of cs (doc's, as ToConnectors
+// resolved them against m), its end-moved findings (audit.EndsMoved),
+// each connector on its own (in parallel, each into its place).
+func endsMoved(m *geom.Mesh, doc *document.ConnectorsDoc, cs []joints.Connector, cause string) [][]joints.Finding {
+	out := make([][]joints.Finding, len(cs))
+	geom.ParallelEach(len(cs), func(i int) {
+		c := &cs[i]
+		if len(c.Ends) == 0 {
+			return
+		}
+		var rings []audit.RecordedRing
+		if c.Bolt != nil {
+			rings = make([]audit.RecordedRing, len(doc.Connectors[i].Sheets))
+			for k, s := range doc.Connectors[i].Sheets {
+				rings[k].Kind = s.Ring
+				for _, v := range s.NodePoints {
+					rings[k].Points = append(rings[k].Points, r3.Vec{X: v[0], Y: v[1], Z: v[2]})
+				}
+			}
+		}
+		out[i] = audit.EndsMoved(m, c, rings, cause)
+	})
+	return out
+}
+
+// movedCause returns what end-moved findings give as the cause when the
+// document's unit (units.length as written) differs from the unit the
+// mesh was read in (nil: not known): "" (the mesh changed) otherwise.
+func movedCause(doc string, mesh *string) string {
+	if mesh == nil || doc == *mesh {
+		return ""
+	}
+	if u, err := joints.ParseUnit(doc); err != nil || u.String() == *mesh {
+		return ""
+	}
+	return fmt.Sprintf("the connectors were written in %s and this check reads the mesh in %s: if the mesh is the build's, check with --units %s; else the mesh changed since the build, and the connectors must be built again", doc, *mesh, doc)
 }
 
 // CheckConnectors is a build's check step: it audits the connectors of
