@@ -2,6 +2,7 @@ package offset
 
 import (
 	"context"
+	"reflect"
 	"slices"
 	"testing"
 
@@ -138,4 +139,136 @@ func countCode(fs []joints.Finding, code string) int {
 		}
 	}
 	return n
+}
+
+// plantedVariant is the planted model changed in a way that must not
+// change the answer: its plates (by index into offsettest.Planted) with
+// ids, order, and possibly mirrored through z = 0.
+type plantedVariant struct {
+	name   string
+	id     func(int64) int64 // new id of a plate
+	order  []int             // plate records in this order (indices into Planted)
+	mirror bool              // z -> -z: the sheet above becomes the one below, top faces bottom ones
+}
+
+// plantedAnswer is what one plate of the planted model got, by plate.
+type plantedAnswer struct {
+	surface               geom.Surface
+	confidence            float64
+	evidence, agreeing    float64
+	contacts, disagreeing int
+	flipped               bool // the flip list is the planted one
+	disagreeingWith       []int
+}
+
+// TestInferIndependentOfIDsAndOrder: the planted model (one part meshed
+// on its top face, one on its bottom face, one with half its normals
+// flipped, one contact that disagrees) gives the same assignment,
+// confidences, evidence, disagreeing contacts and flipped elements when
+// its parts are renumbered so that their id order is reversed, when
+// their records come in reverse order, both, and when it is mirrored
+// through z = 0 (top and bottom faces swap, the sheet above each one
+// becomes the one below). Each pair used to be sampled from its part of
+// lower index and framed on its part of lower id, so the side a contact
+// was measured from followed the numbering.
+//
+// So that the side matters, 50 and 60 are moved 3 mm along x (63 to 103)
+// and 50 is meshed finer (4 mm): its stand-off from 10, 17 mm by 20,
+// then holds 20 of 50's elements (320 mm²) but 12 of 10's (300 mm²).
+func TestInferIndependentOfIDsAndOrder(t *testing.T) {
+	base := offsettest.Planted()
+	for i := range base {
+		if base[i].ID == 50 || base[i].ID == 60 {
+			base[i].X0, base[i].X1 = 63, 103
+		}
+		if base[i].ID == 50 {
+			base[i].H = 4
+		}
+	}
+	n := len(base)
+	fwd, rev := make([]int, n), make([]int, n)
+	for i := range n {
+		fwd[i], rev[i] = i, n-1-i
+	}
+	same := func(id int64) int64 { return id }
+	flip := func(id int64) int64 { return 70 - id } // 10..60 -> 60..10
+	variants := []plantedVariant{
+		{"as planted", same, fwd, false},
+		{"records reversed", same, rev, false},
+		{"ids reversed", flip, fwd, false},
+		{"ids and records reversed", flip, rev, false},
+		{"mirrored", same, fwd, true},
+		{"mirrored, ids reversed", flip, rev, true},
+	}
+	var want []plantedAnswer
+	for _, v := range variants {
+		plates := make([]offsettest.Plate, 0, n)
+		byID := map[int64]int{}
+		for _, i := range v.order {
+			p := base[i]
+			p.ID = v.id(p.ID)
+			if v.mirror {
+				p.Mid = -p.Mid
+				switch p.Surface {
+				case geom.SurfaceTop:
+					p.Surface = geom.SurfaceBottom
+				case geom.SurfaceBottom:
+					p.Surface = geom.SurfaceTop
+				}
+			}
+			byID[p.ID] = i
+			plates = append(plates, p)
+		}
+		welds := offsettest.PlantedWelds()
+		if v.mirror {
+			for k := range welds {
+				welds[k].Point.Z = -welds[k].Point.Z
+			}
+		}
+		res := infer(t, plates, welds)
+		got := make([]plantedAnswer, n)
+		for _, ps := range res.Parts {
+			i := byID[ps.Part]
+			var p offsettest.Plate
+			for _, q := range plates {
+				if q.ID == ps.Part {
+					p = q
+				}
+			}
+			if ps.Surface != p.Surface {
+				t.Errorf("%s: part %d (planted %d): %s, want %s", v.name, ps.Part, base[i].ID, ps.Surface, p.Surface)
+			}
+			got[i] = plantedAnswer{surface: ps.Surface, confidence: ps.Confidence, evidence: ps.Evidence, agreeing: ps.Agreeing,
+				contacts: ps.Contacts, disagreeing: ps.Disagreeing, flipped: slices.Equal(ps.Flip, offsettest.FlippedIDs(p, offsettest.H))}
+			if v.mirror {
+				// Surfaces are compared as planted: top and bottom swap.
+				got[i].surface = base[i].Surface
+			}
+		}
+		for _, c := range res.Contacts {
+			if !c.Agrees {
+				a, b := byID[c.A], byID[c.B]
+				got[a].disagreeingWith = append(got[a].disagreeingWith, b)
+				got[b].disagreeingWith = append(got[b].disagreeingWith, a)
+			}
+		}
+		for i := range got {
+			slices.Sort(got[i].disagreeingWith)
+			if !got[i].flipped {
+				t.Errorf("%s: planted part %d: flip list is not the planted one", v.name, base[i].ID)
+			}
+		}
+		if want == nil {
+			want = got
+			if w := want[0].disagreeingWith; !slices.Equal(w, []int{4}) {
+				t.Errorf("%s: planted part 10 disagrees with plates %v, want [4] (part 50)", v.name, w)
+			}
+			continue
+		}
+		for i := range got {
+			if !reflect.DeepEqual(got[i], want[i]) {
+				t.Errorf("%s: planted part %d: %+v, want %+v (as planted)", v.name, base[i].ID, got[i], want[i])
+			}
+		}
+	}
 }

@@ -15,19 +15,19 @@ import (
 )
 
 // sample is one measurement of how far apart two parts' meshes lie where
-// they face each other, in the frame of the part with the smaller id
-// (a): the signed distance from a's mesh to b's along a's normal (as
-// made consistent by the orientation), and whether b's normal points the
-// other way.
+// they face each other, in the frame of the part that comes first in the
+// sampling order (a; sampleOrder): the signed distance from a's mesh to
+// b's along a's normal (as made consistent by the orientation), and
+// whether b's normal points the other way.
 type sample struct {
-	a, b     int32   // part indices, Parts[a].ID < Parts[b].ID
-	ida, idb int64   // their ids
-	s        float64 // mm, along a's normal from a's mesh to b's
-	opposed  bool    // b's normal points against a's
-	ta, tb   float64 // thicknesses of the two elements, mm
-	w        float64 // weight: overlap area, mm² (0 for joint sites)
-	site     bool    // measured at a joint site
-	at       r3.Vec  // where: the sampling element's centroid, or the joint point
+	a, b    int32   // part indices, rank[a] < rank[b]
+	ra, rb  int32   // their ranks in the sampling order
+	s       float64 // mm, along a's normal from a's mesh to b's
+	opposed bool    // b's normal points against a's
+	ta, tb  float64 // thicknesses of the two elements, mm
+	w       float64 // weight: overlap area, mm² (0 for joint sites)
+	site    bool    // measured at a joint site
+	at      r3.Vec  // where: the sampling element's centroid, or the joint point
 }
 
 // overlapSamples measures, for every element that another part faces
@@ -39,19 +39,21 @@ type sample struct {
 // with it); a part coinciding with the element (|s| within 5 per cent
 // of its thickness: meshes drawn on one surface coincide but for
 // rounding) counts as lying on both sides. Each pair of parts is
-// measured from the elements of the part of lower index (in the mesh's
-// part order), each sample weighing its element's area, so that a
-// contact weighs its overlap area. The order depends only on the index.
+// measured from the elements of the part that comes first in the
+// sampling order rank (sampleOrder: geometric, not the parts' ids nor
+// their order in the files), each sample weighing its element's area, so
+// that a contact weighs its overlap area. The order depends only on the
+// index and rank.
 //
-// fs are the facing elements: x.FacingElements(m.ElemPart, reach,
-// cosTol, true). Each pair of parts is sampled from its part of lower
-// index; the parts of higher index are looked at only to tell whether
-// they lie in between (upward).
+// fs are the facing elements: x.FacingElements(g, reach, cosTol, true)
+// with g[e] = rank[m.ElemPart[e]]. Each pair of parts is sampled from its
+// part of lower rank; the parts of higher rank are looked at only to
+// tell whether they lie in between (upward).
 //
 // The samples are returned in chunks, in order: fresh memory is dear, so
 // each chunk's samples are found in its worker's reused buffer and kept
 // at their size, and the chunks are not joined.
-func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64) [][]sample {
+func overlapSamples(m *geom.Mesh, rank []int32, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64) [][]sample {
 	// Facings come grouped by element: runs of about overlapChunk
 	// facings, cut between elements, are sampled concurrently and their
 	// samples joined in order.
@@ -75,7 +77,7 @@ func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowa
 		default:
 		}
 		for k := lo; k < hi; k++ {
-			buf = elementSamples(m, fs[cuts[k]:cuts[k+1]], or, allowance, buf[:0])
+			buf = elementSamples(m, rank, fs[cuts[k]:cuts[k+1]], or, allowance, buf[:0])
 			parts[k] = slices.Clone(buf)
 		}
 		select {
@@ -88,7 +90,7 @@ func overlapSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowa
 
 // elementSamples appends to out overlapSamples on facings fs that hold
 // all the facings of each of their elements.
-func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64, out []sample) []sample {
+func elementSamples(m *geom.Mesh, rank []int32, fs []geom.Facing, or *geom.Orientation, allowance func(t1, t2 float64) float64, out []sample) []sample {
 	type found struct {
 		part int32
 		s, t float64
@@ -103,17 +105,18 @@ func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowa
 		coincide := 0.05 * te
 		up, down := -1, -1
 		for i, c := range cur {
-			if c.s >= -coincide && (up < 0 || c.s < cur[up].s || c.s == cur[up].s && c.part < cur[up].part) {
+			if c.s >= -coincide && (up < 0 || c.s < cur[up].s || c.s == cur[up].s && rank[c.part] < rank[cur[up].part]) {
 				up = i
 			}
-			if c.s <= coincide && (down < 0 || c.s > cur[down].s || c.s == cur[down].s && c.part < cur[down].part) {
+			if c.s <= coincide && (down < 0 || c.s > cur[down].s || c.s == cur[down].s && rank[c.part] < rank[cur[down].part]) {
 				down = i
 			}
 		}
 		at, w := m.Centroid(int(e)), m.Area(int(e))
+		pe := m.ElemPart[e]
 		for i, c := range cur {
-			if (i == up || i == down) && c.part > m.ElemPart[e] {
-				out = append(out, newSample(m, m.ElemPart[e], c.part, c.s, c.opp, te, c.t, w, false, at))
+			if (i == up || i == down) && rank[c.part] > rank[pe] {
+				out = append(out, newSample(rank, pe, c.part, c.s, c.opp, te, c.t, w, false, at))
 			}
 		}
 		cur = cur[:0]
@@ -138,16 +141,24 @@ func elementSamples(m *geom.Mesh, fs []geom.Facing, or *geom.Orientation, allowa
 }
 
 // newSample makes a sample measured from part pa's side (s along pa's
-// normal to pb's mesh) in the frame of the part with the smaller id: seen
-// from pb, pa lies at -s along pa's normal, which is -s·(±1) along pb's.
-func newSample(m *geom.Mesh, pa, pb int32, s float64, opposed bool, ta, tb, w float64, site bool, at r3.Vec) sample {
-	if m.Parts[pa].ID > m.Parts[pb].ID {
-		if !opposed {
-			s = -s
-		}
+// normal to pb's mesh) in the frame of the part of lower rank: seen from
+// pb, pa lies at -s along pa's normal, which is -s·(±1) along pb's.
+func newSample(rank []int32, pa, pb int32, s float64, opposed bool, ta, tb, w float64, site bool, at r3.Vec) sample {
+	if rank[pa] > rank[pb] {
+		s = flipped(s, opposed)
 		pa, pb, ta, tb = pb, pa, tb, ta
 	}
-	return sample{a: pa, b: pb, ida: m.Parts[pa].ID, idb: m.Parts[pb].ID, s: s, opposed: opposed, ta: ta, tb: tb, w: w, site: site, at: at}
+	return sample{a: pa, b: pb, ra: rank[pa], rb: rank[pb], s: s, opposed: opposed, ta: ta, tb: tb, w: w, site: site, at: at}
+}
+
+// flipped returns a separation s along A's normal from A's mesh to B's
+// as seen from B (along B's normal from B's mesh to A's): -s, or s when
+// the normals are opposed (B's normal is -A's). It is exact.
+func flipped(s float64, opposed bool) float64 {
+	if opposed {
+		return s
+	}
+	return -s
 }
 
 // siteSamples measures the separation of consecutive sheets at every
@@ -157,17 +168,17 @@ func newSample(m *geom.Mesh, pa, pb int32, s float64, opposed bool, ta, tb, w fl
 // LateralFactor nugget radii of the axis through the joint point, ordered
 // along that axis; each consecutive pair within its window gives a
 // sample.
-func siteSamples(x *geom.Index, or *geom.Orientation, js []joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
+func siteSamples(x *geom.Index, rank []int32, or *geom.Orientation, js []joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
 	out := make([][]sample, len(js))
 	parallelRange(len(js), 64, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
-			out[i] = siteSample(x, or, &js[i], o, cosTol)
+			out[i] = siteSample(x, rank, or, &js[i], o, cosTol)
 		}
 	})
 	return slices.Concat(out...)
 }
 
-func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
+func siteSample(x *geom.Index, rank []int32, or *geom.Orientation, j *joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
 	m := x.Mesh()
 	// The closest point of every part within reach: elements by their
 	// box distance, each projected only while it may beat its part's
@@ -235,7 +246,7 @@ func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.
 		}
 	}
 	slices.SortStableFunc(kept, func(a, b sheet) int {
-		return cmp.Or(cmp.Compare(a.along, b.along), cmp.Compare(m.Parts[a.part].ID, m.Parts[b.part].ID))
+		return cmp.Or(cmp.Compare(a.along, b.along), cmp.Compare(rank[a.part], rank[b.part]))
 	})
 	var out []sample
 	for i := 0; i+1 < len(kept); i++ {
@@ -244,7 +255,7 @@ func siteSample(x *geom.Index, or *geom.Orientation, j *joints.Joint, o *joints.
 		if math.Abs(s) > a.t+b.t+o.GapAllowanceFor(a.t, b.t) {
 			continue
 		}
-		out = append(out, newSample(m, a.part, b.part, s, r3.Dot(a.n, b.n) < 0, a.t, b.t, 0, true, j.Point))
+		out = append(out, newSample(rank, a.part, b.part, s, r3.Dot(a.n, b.n) < 0, a.t, b.t, 0, true, j.Point))
 	}
 	return out
 }
