@@ -272,3 +272,44 @@ func TestInferIndependentOfIDsAndOrder(t *testing.T) {
 		}
 	}
 }
+
+// Two sheets drawn on their mating faces, whose meshes coincide (A, 1 mm,
+// meshed on its top face at z = 0; B, 1.2 mm, on its bottom face at z =
+// 0, lying on A), and a third under A (C, 0.8 mm, mid-surface at z =
+// -1.4: in contact, (t/2 of C) + (t of A) below A's mesh; hand
+// calculation). Seen from A's elements, B lies on one side or the other
+// and hides neither: A's contact with C is measured whichever part
+// samples it. B, seen at C's distance through A, makes a contact with C
+// that no surfaces explain (a sheet beyond a sheet, which C's elements
+// cannot tell from its neighbour, whose mesh coincides): info. Whatever
+// the ids and mesh sizes (which decide the side each pair is sampled
+// from), the surfaces are the planted ones; when B hid C from A, with
+// C's mesh the finest they came out mid, mid, bottom.
+func TestInferCoincidingMeshes(t *testing.T) {
+	for _, ids := range [][3]int64{{1, 2, 3}, {3, 2, 1}, {2, 3, 1}} {
+		for _, h := range [][3]float64{{5, 5, 5}, {4, 5, 2.5}, {2.5, 4, 5}, {5, 4, 2.5}} {
+			plates := []offsettest.Plate{
+				{ID: ids[0], H: h[0], Thickness: 1, Surface: geom.SurfaceTop, Mid: -0.5, X0: 0, X1: 40, Y0: 0, Y1: 40},
+				{ID: ids[1], H: h[1], Thickness: 1.2, Surface: geom.SurfaceBottom, Mid: 0.6, X0: 0, X1: 40, Y0: 0, Y1: 40},
+				{ID: ids[2], H: h[2], Thickness: 0.8, Surface: geom.SurfaceMid, Mid: -1.4, X0: 0, X1: 40, Y0: 0, Y1: 40},
+			}
+			res := infer(t, plates, nil)
+			for _, ps := range res.Parts {
+				for _, p := range plates {
+					if p.ID == ps.Part && ps.Surface != p.Surface {
+						t.Errorf("ids %v sizes %v: part %d %s, want %s", ids, h, ps.Part, ps.Surface, p.Surface)
+					}
+				}
+			}
+			pair := func(a, b int64) [2]int64 { return [2]int64{min(a, b), max(a, b)} }
+			agree := map[[2]int64]bool{}
+			for _, c := range res.Contacts {
+				agree[pair(c.A, c.B)] = c.Agrees
+			}
+			want := map[[2]int64]bool{pair(ids[0], ids[1]): true, pair(ids[0], ids[2]): true, pair(ids[1], ids[2]): false}
+			if !reflect.DeepEqual(agree, want) {
+				t.Errorf("ids %v sizes %v: contacts (agree) %v, want %v", ids, h, agree, want)
+			}
+		}
+	}
+}

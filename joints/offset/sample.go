@@ -36,9 +36,17 @@ type sample struct {
 // separation to that part, if it lies within the pair's window (|s| at
 // most t1+t2 plus the allowance). Of the parts facing an element on one
 // side only the nearest counts (a sheet beyond a sheet is not in contact
-// with it); a part coinciding with the element (|s| within 5 per cent
-// of its thickness: meshes drawn on one surface coincide but for
-// rounding) counts as lying on both sides. Each pair of parts is
+// with it), with any part whose mesh coincides with the nearest's; a
+// part coinciding with the element (|s| within 5 per cent of its
+// thickness: meshes drawn on their mating faces coincide but for
+// rounding) counts and hides nothing: it lies on one side or the other,
+// which the element cannot tell, and were it taken to lie on both, the
+// element's neighbour on the far side would be lost (a sheet meshed on
+// its top face, one on its bottom face lying on it, a third under the
+// first: the first's contact with the third was not measured, and with
+// the third's mesh the finest the surfaces came out mid, mid, bottom
+// instead of top, bottom, mid; TestInferCoincidingMeshes). A
+// coincidence band is 5 per cent of the sampling element's thickness. Each pair of parts is
 // measured from the elements of the part that comes first in the
 // sampling order rank (sampleOrder: geometric, not the parts' ids nor
 // their order in the files), each sample weighing its element's area, so
@@ -103,19 +111,26 @@ func elementSamples(m *geom.Mesh, rank []int32, fs []geom.Facing, or *geom.Orien
 		}
 		te := m.Thickness(int(e))
 		coincide := 0.05 * te
-		up, down := -1, -1
-		for i, c := range cur {
-			if c.s >= -coincide && (up < 0 || c.s < cur[up].s || c.s == cur[up].s && rank[c.part] < rank[cur[up].part]) {
-				up = i
+		// The nearest part beyond the coincidence band on either side.
+		up, down := math.Inf(1), math.Inf(-1)
+		for _, c := range cur {
+			if c.s > coincide {
+				up = math.Min(up, c.s)
 			}
-			if c.s <= coincide && (down < 0 || c.s > cur[down].s || c.s == cur[down].s && rank[c.part] < rank[cur[down].part]) {
-				down = i
+			if c.s < -coincide {
+				down = math.Max(down, c.s)
 			}
 		}
 		at, w := m.Centroid(int(e)), m.Area(int(e))
 		pe := m.ElemPart[e]
-		for i, c := range cur {
-			if (i == up || i == down) && rank[c.part] > rank[pe] {
+		for _, c := range cur {
+			if rank[c.part] <= rank[pe] {
+				continue
+			}
+			// A coinciding part, the nearest on a side, and a part that
+			// coincides with the nearest (either of two meshes drawn on
+			// their mating faces may be e's neighbour).
+			if math.Abs(c.s) <= coincide || c.s > coincide && c.s <= up+coincide || c.s < -coincide && c.s >= down-coincide {
 				out = append(out, newSample(rank, pe, c.part, c.s, c.opp, te, c.t, w, false, at))
 			}
 		}
