@@ -313,3 +313,59 @@ func TestInferCoincidingMeshes(t *testing.T) {
 		}
 	}
 }
+
+// Two equal sheets (1 mm), the lower meshed on its mid-surface at z = 0,
+// the upper on its bottom face at z = 0.5 (mid-surface at 1: in
+// contact). The separation, 0.5 mm, is explained as well by the lower
+// meshed on its top face and the upper on its mid-surface (-0.5 + 0 + 1
+// against 0 - 0.5 + 1; hand calculation): both readings have one part on
+// mid, so the table decides where it gives one of them, and otherwise
+// the same reading is taken whatever the ids; each part's confidence is
+// 0 and both are reported unsure.
+func TestInferEqualSheetsFayingFace(t *testing.T) {
+	var first []geom.Surface // by plate, the table saying mid
+	for _, ids := range [][2]int64{{1, 2}, {2, 1}} {
+		for _, decl := range [][2]geom.Surface{{geom.SurfaceMid, geom.SurfaceMid}, {geom.SurfaceMid, geom.SurfaceBottom}, {geom.SurfaceTop, geom.SurfaceMid}} {
+			plates := []offsettest.Plate{
+				{ID: ids[0], Thickness: 1, Surface: geom.SurfaceMid, Mid: 0, X0: 0, X1: 40, Y0: 0, Y1: 40},
+				{ID: ids[1], Thickness: 1, Surface: geom.SurfaceBottom, Mid: 1, X0: 0, X1: 40, Y0: 0, Y1: 40},
+			}
+			m, err := offsettest.Mesh(plates, offsettest.H)
+			if err != nil {
+				t.Fatal(err)
+			}
+			m.Parts[0].Surface, m.Parts[1].Surface = decl[0], decl[1]
+			res, err := Infer(context.Background(), geom.NewIndex(m), nil, joints.BuildOptions{}, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := make([]geom.Surface, 2)
+			for _, ps := range res.Parts {
+				i := slices.Index(ids[:], ps.Part)
+				got[i] = ps.Surface
+				if ps.Confidence != 0 {
+					t.Errorf("ids %v table %v: part %d confidence %g, want 0", ids, decl, ps.Part, ps.Confidence)
+				}
+			}
+			if n := countCode(res.Findings, joints.CodeSurfaceUnsure); n != 2 {
+				t.Errorf("ids %v table %v: %d surface-unsure, want 2", ids, decl, n)
+			}
+			if c := res.Contacts; len(c) != 1 || !c[0].Agrees {
+				t.Errorf("ids %v table %v: contacts %+v, want one, agreeing", ids, decl, c)
+			}
+			switch {
+			case decl[1] == geom.SurfaceBottom || decl[0] == geom.SurfaceTop:
+				if !slices.Equal(got, decl[:]) {
+					t.Errorf("ids %v table %v: %v, want the table's", ids, decl, got)
+				}
+			case first == nil:
+				first = got
+				if !slices.Equal(got, []geom.Surface{geom.SurfaceTop, geom.SurfaceMid}) && !slices.Equal(got, []geom.Surface{geom.SurfaceMid, geom.SurfaceBottom}) {
+					t.Errorf("ids %v table %v: %v, want one of the two readings", ids, decl, got)
+				}
+			case !slices.Equal(got, first):
+				t.Errorf("ids %v table %v: %v, want %v as with the other ids", ids, decl, got, first)
+			}
+		}
+	}
+}
