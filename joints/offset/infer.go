@@ -123,10 +123,6 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	// Pairs are sampled from, and framed on, the part that comes first
 	// in a geometric order (sampleOrder), not by id or file order.
 	rank := sampleOrder(m)
-	group := make([]int32, len(m.ElemPart))
-	for e, p := range m.ElemPart {
-		group[e] = rank[p]
-	}
 	// The facing elements need the mesh as it is, not the orientation:
 	// find them while the normals are oriented (each stage alone leaves
 	// a core idle part of the time). Both answers are deterministic.
@@ -134,7 +130,7 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	facing := make(chan struct{})
 	go func() {
 		defer close(facing)
-		fs = x.FacingElements(group, reach, cosTol, true)
+		fs = x.FacingElementsOrdered(m.ElemPart, rank, reach, cosTol, true)
 	}()
 	if orient == nil {
 		orient = func() geom.Orientation { return geom.OrientNormals(m, adj) }

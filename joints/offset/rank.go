@@ -32,28 +32,70 @@ import (
 // m or in and scaled to mm orders its parts as the same model in mm. Parts
 // without elements come last.
 func sampleOrder(m *geom.Mesh) []int32 {
-	st := m.PartStats()
+	// Element counts and areas per part, summed over fixed blocks of
+	// elements merged in block order (the result does not depend on
+	// GOMAXPROCS).
+	const block = 1 << 16
+	ne := m.NumElems()
+	type sums struct {
+		n    []int32
+		area []float64
+	}
+	blocks := make([]sums, (ne+block-1)/block)
+	parallelRange(ne, block, func(lo, hi int) {
+		b := sums{n: make([]int32, len(m.Parts)), area: make([]float64, len(m.Parts))}
+		for e := lo; e < hi; e++ {
+			p := m.ElemPart[e]
+			b.n[p]++
+			b.area[p] += m.Area(e)
+		}
+		blocks[lo/block] = b
+	})
+	n := make([]int, len(m.Parts))
+	area := make([]float64, len(m.Parts))
+	for _, b := range blocks {
+		for p := range n {
+			n[p] += int(b.n[p])
+			area[p] += b.area[p]
+		}
+	}
 	idx := make([]int32, len(m.Parts))
 	for i := range idx {
 		idx[i] = int32(i)
 	}
-	mean := func(s *geom.PartStats) float64 { return s.Area / float64(s.Elems) }
-	slices.SortFunc(idx, func(a, b int32) int {
-		sa, sb := &st[a], &st[b]
-		if (sa.Elems == 0) != (sb.Elems == 0) {
-			return cmpBool(sa.Elems == 0, sb.Elems == 0)
+	first := func(a, b int32) int {
+		if (n[a] == 0) != (n[b] == 0) {
+			return cmpBool(n[a] == 0, n[b] == 0)
 		}
-		if sa.Elems > 0 {
-			if c := cmp.Or(cmp.Compare(tie(mean(sa)), tie(mean(sb))), cmp.Compare(tie(sa.Area), tie(sb.Area)),
-				cmp.Compare(tie(sa.Box.Min.X), tie(sb.Box.Min.X)), cmp.Compare(tie(sa.Box.Min.Y), tie(sb.Box.Min.Y)),
+		if n[a] == 0 {
+			return 0
+		}
+		return cmp.Or(cmp.Compare(tie(area[a]/float64(n[a])), tie(area[b]/float64(n[b]))), cmp.Compare(tie(area[a]), tie(area[b])))
+	}
+	slices.SortFunc(idx, func(a, b int32) int { return cmp.Or(first(a, b), cmp.Compare(m.Parts[a].ID, m.Parts[b].ID)) })
+	// Boxes and thicknesses only where those keys tie (meshes of one
+	// element size, as generated ones often are).
+	tied := false
+	for i := 1; i < len(idx); i++ {
+		if n[idx[i]] > 0 && first(idx[i-1], idx[i]) == 0 {
+			tied = true
+			break
+		}
+	}
+	if tied {
+		st := m.PartStats()
+		slices.SortFunc(idx, func(a, b int32) int {
+			if c := first(a, b); c != 0 || n[a] == 0 {
+				return cmp.Or(c, cmp.Compare(m.Parts[a].ID, m.Parts[b].ID))
+			}
+			sa, sb := &st[a], &st[b]
+			return cmp.Or(cmp.Compare(tie(sa.Box.Min.X), tie(sb.Box.Min.X)), cmp.Compare(tie(sa.Box.Min.Y), tie(sb.Box.Min.Y)),
 				cmp.Compare(tie(sa.Box.Min.Z), tie(sb.Box.Min.Z)), cmp.Compare(tie(sa.Box.Max.X), tie(sb.Box.Max.X)),
 				cmp.Compare(tie(sa.Box.Max.Y), tie(sb.Box.Max.Y)), cmp.Compare(tie(sa.Box.Max.Z), tie(sb.Box.Max.Z)),
-				cmp.Compare(tie(sa.ThicknessMin), tie(sb.ThicknessMin)), cmp.Compare(tie(sa.ThicknessMax), tie(sb.ThicknessMax))); c != 0 {
-				return c
-			}
-		}
-		return cmp.Compare(m.Parts[a].ID, m.Parts[b].ID)
-	})
+				cmp.Compare(tie(sa.ThicknessMin), tie(sb.ThicknessMin)), cmp.Compare(tie(sa.ThicknessMax), tie(sb.ThicknessMax)),
+				cmp.Compare(m.Parts[a].ID, m.Parts[b].ID))
+		})
+	}
 	rank := make([]int32, len(m.Parts))
 	for r, p := range idx {
 		rank[p] = int32(r)

@@ -53,8 +53,8 @@ type sample struct {
 // that a contact weighs its overlap area. The order depends only on the
 // index and rank.
 //
-// fs are the facing elements: x.FacingElements(g, reach, cosTol, true)
-// with g[e] = rank[m.ElemPart[e]]. Each pair of parts is sampled from its
+// fs are the facing elements: x.FacingElementsOrdered(m.ElemPart, rank,
+// reach, cosTol, true). Each pair of parts is sampled from its
 // part of lower rank; the parts of higher rank are looked at only to
 // tell whether they lie in between (upward).
 //
