@@ -2,6 +2,7 @@ package offset
 
 import (
 	"context"
+	"fmt"
 	"reflect"
 	"slices"
 	"testing"
@@ -284,31 +285,47 @@ func TestInferIndependentOfIDsAndOrder(t *testing.T) {
 // cannot tell from its neighbour, whose mesh coincides): info. Whatever
 // the ids and mesh sizes (which decide the side each pair is sampled
 // from), the surfaces are the planted ones; when B hid C from A, with
-// C's mesh the finest they came out mid, mid, bottom.
+// C's mesh the finest they came out mid, mid, bottom. With eight welds
+// through the stack, every site pairs A with B, whose meshes coincide
+// there, and neither with C (either may be the one C touches): the
+// contact that disagrees has no site, so it stays info (the sites went
+// to B and C, by the order a sort gave the coinciding sheets, and made
+// it a warning).
 func TestInferCoincidingMeshes(t *testing.T) {
-	for _, ids := range [][3]int64{{1, 2, 3}, {3, 2, 1}, {2, 3, 1}} {
-		for _, h := range [][3]float64{{5, 5, 5}, {4, 5, 2.5}, {2.5, 4, 5}, {5, 4, 2.5}} {
-			plates := []offsettest.Plate{
-				{ID: ids[0], H: h[0], Thickness: 1, Surface: geom.SurfaceTop, Mid: -0.5, X0: 0, X1: 40, Y0: 0, Y1: 40},
-				{ID: ids[1], H: h[1], Thickness: 1.2, Surface: geom.SurfaceBottom, Mid: 0.6, X0: 0, X1: 40, Y0: 0, Y1: 40},
-				{ID: ids[2], H: h[2], Thickness: 0.8, Surface: geom.SurfaceMid, Mid: -1.4, X0: 0, X1: 40, Y0: 0, Y1: 40},
-			}
-			res := infer(t, plates, nil)
-			for _, ps := range res.Parts {
-				for _, p := range plates {
-					if p.ID == ps.Part && ps.Surface != p.Surface {
-						t.Errorf("ids %v sizes %v: part %d %s, want %s", ids, h, ps.Part, ps.Surface, p.Surface)
+	var welds []joints.Joint
+	for k := range 8 {
+		welds = append(welds, joints.Joint{ID: fmt.Sprint(k), Kind: joints.Spot, Point: r3.Vec{X: 7.3 + 3*float64(k), Y: 21.1, Z: -0.5}})
+	}
+	for _, js := range [][]joints.Joint{nil, welds} {
+		for _, ids := range [][3]int64{{1, 2, 3}, {3, 2, 1}, {2, 3, 1}} {
+			for _, h := range [][3]float64{{5, 5, 5}, {4, 5, 2.5}, {2.5, 4, 5}, {5, 4, 2.5}} {
+				plates := []offsettest.Plate{
+					{ID: ids[0], H: h[0], Thickness: 1, Surface: geom.SurfaceTop, Mid: -0.5, X0: 0, X1: 40, Y0: 0, Y1: 40},
+					{ID: ids[1], H: h[1], Thickness: 1.2, Surface: geom.SurfaceBottom, Mid: 0.6, X0: 0, X1: 40, Y0: 0, Y1: 40},
+					{ID: ids[2], H: h[2], Thickness: 0.8, Surface: geom.SurfaceMid, Mid: -1.4, X0: 0, X1: 40, Y0: 0, Y1: 40},
+				}
+				res := infer(t, plates, js)
+				for _, ps := range res.Parts {
+					for _, p := range plates {
+						if p.ID == ps.Part && ps.Surface != p.Surface {
+							t.Errorf("ids %v sizes %v: part %d %s, want %s", ids, h, ps.Part, ps.Surface, p.Surface)
+						}
 					}
 				}
-			}
-			pair := func(a, b int64) [2]int64 { return [2]int64{min(a, b), max(a, b)} }
-			agree := map[[2]int64]bool{}
-			for _, c := range res.Contacts {
-				agree[pair(c.A, c.B)] = c.Agrees
-			}
-			want := map[[2]int64]bool{pair(ids[0], ids[1]): true, pair(ids[0], ids[2]): true, pair(ids[1], ids[2]): false}
-			if !reflect.DeepEqual(agree, want) {
-				t.Errorf("ids %v sizes %v: contacts (agree) %v, want %v", ids, h, agree, want)
+				pair := func(a, b int64) [2]int64 { return [2]int64{min(a, b), max(a, b)} }
+				agree := map[[2]int64]bool{}
+				sites := map[[2]int64]int{}
+				for _, c := range res.Contacts {
+					agree[pair(c.A, c.B)] = c.Agrees
+					sites[pair(c.A, c.B)] += c.Sites
+				}
+				want := map[[2]int64]bool{pair(ids[0], ids[1]): true, pair(ids[0], ids[2]): true, pair(ids[1], ids[2]): false}
+				if !reflect.DeepEqual(agree, want) {
+					t.Errorf("ids %v sizes %v welds %d: contacts (agree) %v, want %v", ids, h, len(js), agree, want)
+				}
+				if wantSites := map[[2]int64]int{pair(ids[0], ids[1]): len(js), pair(ids[0], ids[2]): 0, pair(ids[1], ids[2]): 0}; !reflect.DeepEqual(sites, wantSites) {
+					t.Errorf("ids %v sizes %v welds %d: joint sites by pair %v, want %v", ids, h, len(js), sites, wantSites)
+				}
 			}
 		}
 	}

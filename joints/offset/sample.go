@@ -182,7 +182,7 @@ func flipped(s float64, opposed bool) float64 {
 // within cosTol of the nearest one's and whose closest point lies within
 // LateralFactor nugget radii of the axis through the joint point, ordered
 // along that axis; each consecutive pair within its window gives a
-// sample.
+// sample, but for a sheet next to sheets whose meshes coincide there.
 func siteSamples(x *geom.Index, rank []int32, or *geom.Orientation, js []joints.Joint, o *joints.BuildOptions, cosTol float64) []sample {
 	out := make([][]sample, len(js))
 	parallelRange(len(js), 64, func(lo, hi int) {
@@ -263,9 +263,20 @@ func siteSample(x *geom.Index, rank []int32, or *geom.Orientation, j *joints.Joi
 	slices.SortStableFunc(kept, func(a, b sheet) int {
 		return cmp.Or(cmp.Compare(a.along, b.along), cmp.Compare(rank[a.part], rank[b.part]))
 	})
+	// Sheets whose meshes coincide along the axis (within 5 per cent of
+	// the thinner, as for overlaps: two sheets drawn on their mating
+	// faces) are paired with each other but not with the sheets beside
+	// them, which either of them may be the one to touch: the order the
+	// sort gives such sheets is no physical order.
+	coincide := func(i int) bool {
+		return i >= 0 && i+1 < len(kept) && kept[i+1].along-kept[i].along <= 0.05*math.Min(kept[i].t, kept[i+1].t)
+	}
 	var out []sample
 	for i := 0; i+1 < len(kept); i++ {
 		a, b := kept[i], kept[i+1]
+		if !coincide(i) && (coincide(i-1) || coincide(i+1)) {
+			continue
+		}
 		s := r3.Dot(r3.Sub(b.q, a.q), a.n)
 		if math.Abs(s) > a.t+b.t+o.GapAllowanceFor(a.t, b.t) {
 			continue
