@@ -19,8 +19,9 @@ import (
 // range (Source), so a mesh merged from several files keeps them in
 // file order. The parts, which a reader lists in the order of their
 // records or of their first element in the file, are put in id order as
-// well: which of two parts is taken first (the side a contact between
-// them is sampled from, for one) then follows their ids, not the lines.
+// well: which of two parts is taken first then follows their ids, not
+// the lines (joints/offset takes the side a contact is sampled from by
+// geometry, so neither ids nor lines move its answer).
 // The id lookups are rebuilt when anything moved.
 func (m *Mesh) SortByID() (bool, error) {
 	nodesMoved := m.sortNodesByID()

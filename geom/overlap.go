@@ -44,6 +44,14 @@ type Facing struct {
 // above its own, and the groups below it only when one above faces it
 // (to tell whether they lie in between).
 func (x *Index) FacingElements(group []int32, r, cosTol float64, upward bool) []Facing {
+	return x.FacingElementsOrdered(group, nil, r, cosTol, upward)
+}
+
+// FacingElementsOrdered is FacingElements with the groups taken in the
+// order order gives them (group g's place is order[g]) where FacingElements
+// takes them by value: which groups lie above an element's with upward,
+// and the order of an element's facings. A nil order is FacingElements'.
+func (x *Index) FacingElementsOrdered(group, order []int32, r, cosTol float64, upward bool) []Facing {
 	t := &x.elems
 	if len(t.ids) < 2 || !(r >= 0) {
 		return nil
@@ -70,7 +78,7 @@ func (x *Index) FacingElements(group []int32, r, cosTol float64, upward bool) []
 			fill[p[1]]++
 		}
 	}
-	w := &facingSearch{m: x.m, group: group, r: r, cosTol: cosTol, upward: upward, geo: make([]elemGeo, x.m.NumElems())}
+	w := &facingSearch{m: x.m, group: group, order: order, r: r, cosTol: cosTol, upward: upward, geo: make([]elemGeo, x.m.NumElems())}
 	// Geometry and clusters of the elements of the leaves that have
 	// partners (only they are ever looked at).
 	w.summarize(t, start)
@@ -106,6 +114,7 @@ type facingSearch struct {
 	upward bool
 	m      *Mesh
 	group  []int32
+	order  []int32 // each group's place; nil: its value
 	r      float64
 	cosTol float64
 	// geo holds every element's unit normal, centroid and radius in
@@ -117,6 +126,14 @@ type facingSearch struct {
 	// clEnd[l] where leaf l's end in its block's (see leafClusters).
 	clusters [][]cluster
 	clEnd    []int32
+}
+
+// above reports whether group g comes after group h (order).
+func (w *facingSearch) above(g, h int32) bool {
+	if w.order != nil {
+		return w.order[g] > w.order[h]
+	}
+	return g > h
 }
 
 // leafClusters returns the clusters that sum up the elements of leaf l.
@@ -365,7 +382,7 @@ func (w *facingSearch) leaf(t *packedTree, l int32, partners []int32, sc *leafSc
 			}
 			for i := range runs {
 				rn := &runs[i]
-				if w.upward && (pass == 0) != (rn.g > w.group[e]) || !w.upward && pass == 1 {
+				if w.upward && (pass == 0) != w.above(rn.g, w.group[e]) || !w.upward && pass == 1 {
 					continue
 				}
 				if rn.g == w.group[e] || !rn.admits(ce, ne, repCos, w.r) {
@@ -379,7 +396,7 @@ func (w *facingSearch) leaf(t *packedTree, l int32, partners []int32, sc *leafSc
 		}
 		// e's facings by the other's group (there are few).
 		for i := first + 1; i < len(dst); i++ {
-			for k := i; k > first && w.group[dst[k].Other] < w.group[dst[k-1].Other]; k-- {
+			for k := i; k > first && w.above(w.group[dst[k-1].Other], w.group[dst[k].Other]); k-- {
 				dst[k], dst[k-1] = dst[k-1], dst[k]
 			}
 		}

@@ -307,3 +307,64 @@ func TestFacingElementsTieLowestID(t *testing.T) {
 		}
 	}
 }
+
+// TestFacingElementsOrdered: the groups relabelled in reverse (g ->
+// n-1-g) and searched by value give the same facings, in the same order,
+// as the groups searched in the reverse order (order[g] = n-1-g); with
+// upward, every facing pair (upward false) lies in the half searched
+// from its lower group: by value, or in the reverse order.
+func TestFacingElementsOrdered(t *testing.T) {
+	cosTol := math.Cos(20 * math.Pi / 180)
+	const r = 4.5
+	m := stackMesh(rand.New(rand.NewPCG(3, 77)))
+	n := int32(len(m.Parts))
+	order := make([]int32, n)
+	for g := range order {
+		order[g] = n - 1 - int32(g)
+	}
+	relabelled := make([]int32, len(m.ElemPart))
+	for e, g := range m.ElemPart {
+		relabelled[e] = order[g]
+	}
+	x := NewElemIndex(m)
+	for _, upward := range []bool{false, true} {
+		got := x.FacingElementsOrdered(m.ElemPart, order, r, cosTol, upward)
+		want := x.FacingElements(relabelled, r, cosTol, upward)
+		if !slices.Equal(got, want) {
+			t.Errorf("upward %v: %d facings in reverse order, %d relabelled; they differ", upward, len(got), len(want))
+		}
+	}
+	all := byID(m, x.FacingElements(m.ElemPart, r, cosTol, false))
+	up, down := byID(m, x.FacingElements(m.ElemPart, r, cosTol, true)), byID(m, x.FacingElementsOrdered(m.ElemPart, order, r, cosTol, true))
+	pairs := 0
+	for k, v := range all {
+		a, b := m.ElemPart[mustElem(t, m, k[0])], mustPart(t, m, k[1])
+		half := up
+		if a > b {
+			half = down
+		}
+		if g, ok := half[k]; !ok || g != v {
+			t.Errorf("element %d, part %d: %v in its half, want %v", k[0], k[1], g, v)
+		}
+		pairs++
+	}
+	if pairs < 100 {
+		t.Fatalf("only %d facing pairs", pairs)
+	}
+}
+
+func mustElem(t *testing.T, m *Mesh, id int64) int32 {
+	e, ok := m.ElemIndex(id)
+	if !ok {
+		t.Fatalf("element %d not found", id)
+	}
+	return e
+}
+
+func mustPart(t *testing.T, m *Mesh, id int64) int32 {
+	p, ok := m.PartIndex(id)
+	if !ok {
+		t.Fatalf("part %d not found", id)
+	}
+	return p
+}

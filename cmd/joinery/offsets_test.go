@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -355,5 +356,90 @@ func TestOffsetsPlantedModelInOtherUnits(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// The planted model built in the offset form with the surfaces offsets
+// found laid over the parts table (which says mid everywhere): every
+// offset link runs from its sheet's mesh to the faying plane between
+// its sheet and the next, z = Mid + t/2 of the lower sheet (hand
+// calculation from the planted mid-surfaces: sheets in contact), so its
+// length is t/2 from a mid-surface mesh, 0 from a faying-face mesh and t
+// from a far-face one; every faying joint has no length, and no gap or
+// offset-mismatch finding is reported. With the table's surfaces the
+// outer-face meshes put faying points apart.
+func TestOffsetsPlantedOffsetLinks(t *testing.T) {
+	dir := t.TempDir()
+	plates := offsettest.Planted()
+	mesh, parts, welds := writeModel(t, dir, plates, nil, offsettest.PlantedWelds())
+	out := filepath.Join(dir, "offsets")
+	if code, _, errs := runCLI(t, "offsets", "--mesh", mesh, "--parts", parts, "--joints", welds, "--out", out, "--quiet"); code != exitOK {
+		t.Fatalf("offsets: exit %d: %s", code, errs)
+	}
+	byID := map[int64]offsettest.Plate{}
+	for _, p := range plates {
+		byID[p.ID] = p
+	}
+	build := func(tables ...string) (*document.ConnectorsDoc, map[string][]document.FindingDoc) {
+		bo := filepath.Join(dir, "build")
+		args := []string{"build", "--mesh", mesh, "--joints", welds, "--out", bo, "--links", "offset", "--fail-on", "never", "--quiet"}
+		for _, tb := range tables {
+			args = append(args, "--parts", tb)
+		}
+		if code, _, errs := runCLI(t, args...); code != exitOK {
+			t.Fatalf("build: exit %d: %s", code, errs)
+		}
+		f, err := os.Open(filepath.Join(bo, "connectors.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer f.Close()
+		doc, err := document.DecodeConnectors(f, "connectors.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return doc, findingCodes(t, filepath.Join(bo, "report.json"))
+	}
+	doc, fs := build(parts, filepath.Join(out, "surfaces.yaml"))
+	for _, code := range []string{joints.CodeGapOpen, joints.CodeGapClosed, joints.CodeOffsetMismatch} {
+		if len(fs[code]) != 0 {
+			t.Errorf("%s: %+v, want none", code, fs[code])
+		}
+	}
+	offsets := 0
+	for _, c := range doc.Connectors {
+		// W1's four sheets are beyond ISO 14373's two or three
+		// (thickness-range, a warning): flagged, built.
+		if c.State == "not-built" {
+			t.Errorf("%s: %s: %+v", c.ID, c.State, c.Findings)
+			continue
+		}
+		for _, l := range c.Links {
+			switch l.Kind {
+			case "offset":
+				a, b := byID[c.Sheets[l.From].Part], byID[c.Sheets[l.To].Part]
+				lower := a
+				if b.Mid < a.Mid {
+					lower = b
+				}
+				fz := lower.Mid + lower.Thickness/2
+				want := math.Abs(fz - a.MeshZ())
+				if math.Abs(l.Length-want) > 1e-12 || math.Abs(l.End[2]-fz) > 1e-12 {
+					t.Errorf("%s: offset of part %d (%s) toward %d: length %g to z %g, want %g to z %g", c.ID, a.ID, a.Surface, b.ID, l.Length, l.End[2], want, fz)
+				}
+				offsets++
+			case "faying":
+				if l.Length > 1e-12 {
+					t.Errorf("%s: faying joint %d-%d length %g, want 0", c.ID, c.Sheets[l.From].Part, c.Sheets[l.To].Part, l.Length)
+				}
+			}
+		}
+	}
+	// W1 joins 4 sheets, W2 3, W3 2: 2 offset links per pair of sheets.
+	if offsets != 2*(3+2+1) {
+		t.Errorf("%d offset links, want 12", offsets)
+	}
+	if _, fs := build(parts); len(fs[joints.CodeGapOpen])+len(fs[joints.CodeGapClosed]) == 0 {
+		t.Errorf("build with the table's surfaces: no gap finding, want some for the outer-face meshes")
 	}
 }

@@ -191,7 +191,9 @@ func shuffleBlocks(rng *rand.Rand, text []byte, prefixes ...string) []byte {
 // their records (or of first use); which part of a pair is taken first
 // decides the side a contact between them is sampled from, and offsets
 // found 5 contacts with the records in one order, 6 reversed, until the
-// loader put the parts in id order (geom.Mesh.SortByID).
+// loader put the parts in id order (geom.Mesh.SortByID); offsets now
+// takes that side by geometry, so that renumbering the parts does not
+// move it either (joints/offset TestInferIndependentOfIDsAndOrder).
 func TestPartOrder(t *testing.T) {
 	skipWithoutExample(t)
 	root := t.TempDir()

@@ -71,9 +71,12 @@ const tieGrain = 1e-6
 // tie returns v in units of tieGrain, rounded.
 func tie(v float64) float64 { return math.Round(v / tieGrain) }
 
-// contacts clusters the samples (chunks, in order) into contacts, sorted
-// by A, B, Opposed, Separation. allowance gives the agreement allowance of
-// two thicknesses.
+// contacts clusters the samples (chunks, in order) into contacts, each in
+// the frame of its part of lower rank (a, as the samples are), sorted by
+// the ranks of a and b, Opposed, Separation: neither the order nor the
+// values depend on the parts' ids or on the order of their records
+// (idFrame turns them into the frame of the part of lower id). allowance
+// gives the agreement allowance of two thicknesses.
 func contacts(m *geom.Mesh, chunks [][]sample, allowance func(t1, t2 float64) float64) []Contact {
 	// Sort an order, not the samples themselves (they are large).
 	n := 0
@@ -88,10 +91,10 @@ func contacts(m *geom.Mesh, chunks [][]sample, allowance func(t1, t2 float64) fl
 	}
 	slices.SortFunc(order, func(x, y *sample) int {
 		switch {
-		case x.ida != y.ida:
-			return cmp.Compare(x.ida, y.ida)
-		case x.idb != y.idb:
-			return cmp.Compare(x.idb, y.idb)
+		case x.ra != y.ra:
+			return cmp.Compare(x.ra, y.ra)
+		case x.rb != y.rb:
+			return cmp.Compare(x.rb, y.rb)
 		case x.opposed != y.opposed:
 			return cmpBool(x.opposed, y.opposed)
 		case tie(x.s) != tie(y.s):
@@ -99,8 +102,7 @@ func contacts(m *geom.Mesh, chunks [][]sample, allowance func(t1, t2 float64) fl
 		case x.site != y.site:
 			return cmpBool(x.site, y.site)
 		}
-		return cmp.Or(cmp.Compare(tie(x.at.X), tie(y.at.X)), cmp.Compare(tie(x.at.Y), tie(y.at.Y)), cmp.Compare(tie(x.at.Z), tie(y.at.Z)),
-			cmp.Compare(x.s, y.s))
+		return cmp.Or(cmpPoint(x.at, y.at), cmp.Compare(x.s, y.s))
 	})
 	samples := make([]sample, len(order))
 	for i, p := range order {
@@ -146,19 +148,65 @@ func newContact(m *geom.Mesh, ss []sample) (Contact, bool) {
 	if c.Sites == 0 && len(ss) < MinContactSamples || !(c.Weight > 0) {
 		return c, false
 	}
-	// Weighted median: the first sample at which half the weight is
-	// reached (samples are sorted by separation).
-	half, acc := c.Weight/2, 0.0
-	med := len(ss) - 1
+	// Weighted median (samples are sorted by separation): lo is the first
+	// sample at which half the weight is reached from below, hi the last
+	// at which it is reached from above; they differ where the weight
+	// splits in halves, and the median is then the midpoint of their
+	// separations (as for the median of an even count, common practice).
+	// Halves are judged to 1e-9 of the weight, so that the rounding of
+	// the sums (a model read in m or in, or summed from the other end)
+	// does not move the median by a sample. The point and thicknesses
+	// are those of whichever of the two lies first by position.
+	half, eps := c.Weight/2, 1e-9*c.Weight
+	lo, hi := len(ss)-1, 0
+	acc := 0.0
 	for i := range ss {
 		acc += w(&ss[i])
-		if acc >= half {
-			med = i
+		if acc >= half-eps {
+			lo = i
 			break
 		}
 	}
-	c.Separation, c.Point, c.TA, c.TB = ss[med].s, ss[med].at, ss[med].ta, ss[med].tb
+	acc = 0
+	for i := len(ss) - 1; i >= 0; i-- {
+		acc += w(&ss[i])
+		if acc >= half-eps {
+			hi = i
+			break
+		}
+	}
+	hi = max(hi, lo)
+	c.Separation = ss[lo].s
+	if hi != lo {
+		c.Separation = (ss[lo].s + ss[hi].s) / 2
+	}
+	at := &ss[lo]
+	if q := &ss[hi]; cmpPoint(q.at, at.at) < 0 {
+		at = q
+	}
+	c.Point, c.TA, c.TB = at.at, at.ta, at.tb
 	return c, true
+}
+
+// cmpPoint orders points by x, y, z at the grain of tie.
+func cmpPoint(p, q r3.Vec) int {
+	return cmp.Or(cmp.Compare(tie(p.X), tie(q.X)), cmp.Compare(tie(p.Y), tie(q.Y)), cmp.Compare(tie(p.Z), tie(q.Z)))
+}
+
+// idFrame turns c, found in the frame of its part of lower rank, into
+// the frame of its part of lower id, as Contact documents it: A and B
+// (and their thicknesses) swap where B's id is the lower, and the
+// separations along A's normal become those along B's (flipped), exactly.
+func (c *Contact) idFrame() {
+	if c.A < c.B {
+		return
+	}
+	c.A, c.B, c.a, c.b, c.TA, c.TB = c.B, c.A, c.b, c.a, c.TB, c.TA
+	c.Separation, c.Expected = flipped(c.Separation, c.Opposed), flipped(c.Expected, c.Opposed)
+	if !c.Opposed {
+		c.Min, c.Max = -c.Max, -c.Min
+		c.Side = -c.Side
+	}
 }
 
 func cmpBool(a, b bool) int {

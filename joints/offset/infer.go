@@ -120,6 +120,9 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	if adj.Start == nil {
 		adj = geom.NodeElements(m)
 	}
+	// Pairs are sampled from, and framed on, the part that comes first
+	// in a geometric order (sampleOrder), not by id or file order.
+	rank := sampleOrder(m)
 	// The facing elements need the mesh as it is, not the orientation:
 	// find them while the normals are oriented (each stage alone leaves
 	// a core idle part of the time). Both answers are deterministic.
@@ -127,7 +130,7 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	facing := make(chan struct{})
 	go func() {
 		defer close(facing)
-		fs = x.FacingElements(m.ElemPart, reach, cosTol, true)
+		fs = x.FacingElementsOrdered(m.ElemPart, rank, reach, cosTol, true)
 	}()
 	if orient == nil {
 		orient = func() geom.Orientation { return geom.OrientNormals(m, adj) }
@@ -146,8 +149,8 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 	}
 	prog.Start("measuring overlaps", 0)
 	<-facing
-	samples := overlapSamples(m, fs, &or, allowance)
-	samples = append(samples, siteSamples(x, &or, js, &o, cosTol))
+	samples := overlapSamples(m, rank, fs, &or, allowance)
+	samples = append(samples, siteSamples(x, rank, &or, js, &o, cosTol))
 	prog.Done()
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("offset: interrupted: %w", err)
@@ -158,9 +161,9 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 		declared[i] = p.Surface
 	}
 	sv := newSolver(declared, cs)
-	lab, conf := sv.solve(func(p int32) int64 { return m.Parts[p].ID })
+	lab, conf := sv.solve(func(p int32) int64 { return int64(rank[p]) })
 
-	res := &Result{Contacts: cs, Reach: reach, Options: o}
+	res := &Result{Reach: reach, Options: o}
 	for i := range cs {
 		c := &cs[i]
 		sa, sb := labels[lab[c.a]], labels[lab[c.b]]
@@ -200,6 +203,15 @@ func InferOriented(ctx context.Context, x *geom.Index, adj geom.Adjacency, orien
 		res.Parts = append(res.Parts, ps)
 	}
 	slices.SortFunc(res.Parts, func(a, b PartSurface) int { return cmp.Compare(a.Part, b.Part) })
+	// The contacts as documented: in the frame of the part of lower id,
+	// by A, B, Opposed, Separation.
+	for i := range cs {
+		cs[i].idFrame()
+	}
+	slices.SortStableFunc(cs, func(x, y Contact) int {
+		return cmp.Or(cmp.Compare(x.A, y.A), cmp.Compare(x.B, y.B), cmpBool(x.Opposed, y.Opposed), cmp.Compare(x.Separation, y.Separation))
+	})
+	res.Contacts = cs
 	res.Findings = findings(res)
 	return res, nil
 }

@@ -258,7 +258,8 @@ func (sv *solver) spread(group []int32, seed int32, l int8, lab []int8, done []b
 }
 
 // groups returns the connected groups of parts joined through contacts,
-// each sorted by part id, in order of their lowest part id.
+// each sorted by ids (Infer gives the sampling order, sampleOrder, so that
+// no search below follows the parts' ids), in order of their lowest.
 func (sv *solver) groups(ids func(int32) int64) [][]int32 {
 	seen := make([]bool, len(sv.byPart))
 	var out [][]int32
@@ -293,7 +294,8 @@ func (sv *solver) groups(ids func(int32) int64) [][]int32 {
 }
 
 // solve returns the label of every part index (0 for parts without
-// contacts) and every part's confidence (0 without contacts).
+// contacts) and every part's confidence (0 without contacts). ids orders
+// the parts where the search must pick one first (see groups).
 func (sv *solver) solve(ids func(int32) int64) (lab []int8, conf []float64) {
 	n := len(sv.byPart)
 	lab = make([]int8, n)

@@ -200,6 +200,58 @@ func TestOffsetLinksCylinder(t *testing.T) {
 	}
 }
 
+// The same rings meshed on their outer faces (normals outwards: their
+// top faces): the inner ring's mesh is its faying face, offset 0; the
+// outer ring's is its far face, offset t2 inwards, exactly. At the quad
+// centre the normal is radial, so the faying points lie on one radius,
+// at (r1 + t1/2)·cos(π/n) and (r2 + t2/2)·cos(π/n) - t2 from the axis;
+// with r2 - r1 = (t1+t2)/2 they lie t2·(1 - cos(π/n)) apart along it
+// (chord geometry; hand calculation) and not at all across it.
+func TestOffsetLinksCylinderOuterFaces(t *testing.T) {
+	const (
+		r1, t1 = 50.0, 1.0
+		t2     = 1.5
+		r2     = r1 + (t1+t2)/2 // mid radii, in contact
+		n      = 60
+	)
+	m := cylinders(t, cylinder(1, t1, r1+t1/2, n, 0, 10, 5), cylinder(2, t2, r2+t2/2, n, 0, 10, 5))
+	for i := range m.Parts {
+		m.Parts[i].Surface = geom.SurfaceTop
+	}
+	a := 2 * math.Pi * 10.5 / n // the centre of quad 10 of each ring
+	rw := (r1 + t1/2) * math.Cos(math.Pi/n)
+	c := buildOne1(t, m, joints.Joint{ID: "C", Point: r3.Vec{X: rw * math.Cos(a), Y: rw * math.Sin(a), Z: 22.5}}, offsetForm)
+	if c.Status != joints.Built {
+		t.Fatalf("%v %v", c.Status, c.Findings)
+	}
+	checkOffsetForm(t, c)
+	radial := r3.Vec{X: math.Cos(a), Y: math.Sin(a)}
+	cos := math.Cos(math.Pi / n)
+	want := map[int64]struct {
+		length float64
+		end    r3.Vec
+	}{
+		1: {0, r3.Add(r3.Scale((r1+t1/2)*cos, radial), r3.Vec{Z: 22.5})},
+		2: {t2, r3.Add(r3.Scale((r2+t2/2)*cos-t2, radial), r3.Vec{Z: 22.5})},
+	}
+	for _, l := range c.Links[:2] {
+		part := c.Stack.Sheets[l.From].Part
+		w := want[part]
+		if l.Length != w.length || !near(l.End, w.end, 1e-9) {
+			t.Errorf("part %d: offset %g to %v, want %g exactly, to %v", part, l.Length, l.End, w.length, w.end)
+		}
+		if part == 2 && !near(l.Direction, r3.Scale(-1, radial), 1e-12) {
+			t.Errorf("part 2: direction %v, want inwards %v", l.Direction, r3.Scale(-1, radial))
+		}
+	}
+	if fj := c.Links[2]; fj.Mismatch > 1e-9 || math.Abs(fj.Length-t2*(1-cos)) > 1e-9 {
+		t.Errorf("faying joint length %g mismatch %g, want %g and 0", fj.Length, fj.Mismatch, t2*(1-cos))
+	}
+	if cs := codes(c); len(cs) != 0 {
+		t.Errorf("findings %v, want none", c.Findings)
+	}
+}
+
 // Rings meshed differently: the weld meets each sheet on a quad whose
 // normal points elsewhere, and the faying points part across the stack.
 // On coarse rings (30° quads) the step exceeds a tenth of the thinner

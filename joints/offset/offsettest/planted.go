@@ -15,7 +15,7 @@ import (
 )
 
 // Plate is one flat rectangular sheet of the xy plane, meshed with
-// square quads of side H.
+// square quads of side H (the mesh's, unless the plate gives its own).
 type Plate struct {
 	ID        int64
 	Thickness float64
@@ -30,6 +30,17 @@ type Plate struct {
 	Flip func(x, y float64) bool
 	// FlipAll reverses every element (applied before Flip).
 	FlipAll bool
+	// H, when positive, is the plate's own element size, mm, in place
+	// of the mesh's.
+	H float64
+}
+
+// size returns the plate's element size in a mesh of element size h.
+func (p *Plate) size(h float64) float64 {
+	if p.H > 0 {
+		return p.H
+	}
+	return h
 }
 
 // MeshZ returns the z of the plate's mesh: the mid-surface moved by the
@@ -50,6 +61,7 @@ func Mesh(plates []Plate, h float64) (*geom.Mesh, error) {
 	m := &geom.Mesh{ElemStart: []int32{0}}
 	for pi, p := range plates {
 		m.Parts = append(m.Parts, geom.Part{ID: p.ID, Thickness: p.Thickness, Name: fmt.Sprintf("plate %d", p.ID)})
+		h := p.size(h)
 		nx := int(math.Round((p.X1 - p.X0) / h))
 		ny := int(math.Round((p.Y1 - p.Y0) / h))
 		first := int32(len(m.Coords))
@@ -90,6 +102,7 @@ func Mesh(plates []Plate, h float64) (*geom.Mesh, error) {
 // rest of the plate.
 func FlippedIDs(p Plate, h float64) []int64 {
 	var ids []int64
+	h = p.size(h)
 	nx := int(math.Round((p.X1 - p.X0) / h))
 	ny := int(math.Round((p.Y1 - p.Y0) / h))
 	for j := range ny {
