@@ -43,7 +43,23 @@ func (t *packedTree) remap(list []int32) {
 // and the result does not depend on the order of the points. The boxes
 // found on the way are those the tree is built from.
 func NewIndexNear(m *Mesh, pts []r3.Vec, margin float64, withNodes bool) *Index {
-	sel, elems := nearElements(m, pts, margin)
+	return NewIndexNearSets(m, []NearPoints{{pts, margin}}, withNodes)
+}
+
+// NearPoints is a set of points and the margin round each of them that
+// NewIndexNearSets indexes.
+type NearPoints struct {
+	Pts    []r3.Vec
+	Margin float64
+}
+
+// NewIndexNearSets is NewIndexNear for several sets of points, each with
+// its own margin: an element is indexed when its box comes within a
+// set's margin of one of the set's points. Joints of two kinds (spot
+// welds, and the few bolts that look farther round them) thus index only
+// what each needs, not everything within the larger margin of all.
+func NewIndexNearSets(m *Mesh, sets []NearPoints, withNodes bool) *Index {
+	sel, elems := nearElements(m, sets...)
 	x := &Index{m: m, nodes: packedTree{level: []int{0, 0}}}
 	var wg sync.WaitGroup
 	if withNodes {
@@ -72,17 +88,34 @@ func NewIndexNear(m *Mesh, pts []r3.Vec, margin float64, withNodes bool) *Index 
 // nearElements returns, in increasing order, the elements whose bounding
 // box lies within margin of a point, and a tree over them waiting for
 // sortItems: its item boxes (box32Of) filled in, in the same order.
-func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, packedTree) {
-	var finitePts []r3.Vec
-	for _, p := range pts {
-		if finite(p.X) && finite(p.Y) && finite(p.Z) {
-			finitePts = append(finitePts, p)
+func nearElements(m *Mesh, sets ...NearPoints) ([]int32, packedTree) {
+	var grids []*pointGrid
+	for _, set := range sets {
+		var finitePts []r3.Vec
+		for _, p := range set.Pts {
+			if finite(p.X) && finite(p.Y) && finite(p.Z) {
+				finitePts = append(finitePts, p)
+			}
+		}
+		if len(finitePts) > 0 && set.Margin >= 0 && !math.IsInf(set.Margin, 0) {
+			grids = append(grids, newPointGrid(finitePts, set.Margin))
 		}
 	}
-	if len(finitePts) == 0 || !(margin >= 0) || math.IsInf(margin, 0) {
+	if len(grids) == 0 {
 		return nil, packedTree{level: []int{0, 0}}
 	}
-	g := newPointGrid(finitePts, margin)
+	g := grids[0]
+	near := g.near
+	if len(grids) > 1 {
+		near = func(lo, hi r3.Vec) bool {
+			for _, g := range grids {
+				if g.near(lo, hi) {
+					return true
+				}
+			}
+			return false
+		}
+	}
 	// Blocks of elements are scanned concurrently, each marking its
 	// elements in a bit set (a block covers whole words) and counting
 	// them; a second pass computes the chosen elements' boxes again
@@ -95,7 +128,7 @@ func nearElements(m *Mesh, pts []r3.Vec, margin float64) ([]int32, packedTree) {
 	parallelBlocks(ne, func(from, to int) {
 		n := 0
 		for e := from; e < to; e++ {
-			if g.near(elemBox(m, e)) {
+			if near(elemBox(m, e)) {
 				chosen[e/64] |= 1 << (e % 64)
 				n++
 			}

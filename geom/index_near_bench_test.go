@@ -25,7 +25,7 @@ func BenchmarkNearElements(b *testing.B) {
 	var sel []int32
 	defer cpuMetric(b)()
 	for b.Loop() {
-		sel, _ = nearElements(m, pts, 18)
+		sel, _ = nearElements(m, NearPoints{pts, 18})
 	}
 	b.ReportMetric(float64(len(sel)), "selected")
 }

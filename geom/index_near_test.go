@@ -83,30 +83,40 @@ func TestNearElementsExact(t *testing.T) {
 	meshes := []*Mesh{gridMesh(60, 40, 2.5, 1.5), soupMesh(rng, 3000)}
 	for mi, m := range meshes {
 		for _, tc := range []struct {
-			name   string
-			npts   int
-			margin float64
+			name    string
+			npts    int
+			margin  float64
+			npts2   int     // a second set of points (NewIndexNearSets)
+			margin2 float64 // with its own margin
 		}{
-			{"no margin", 30, 0},
-			{"below the element size", 30, 0.7},
-			{"a few elements", 20, 6},
-			{"most of the model", 5, 40},
-			{"one point", 1, 3},
+			{"no margin", 30, 0, 0, 0},
+			{"below the element size", 30, 0.7, 0, 0},
+			{"a few elements", 20, 6, 0, 0},
+			{"most of the model", 5, 40, 0, 0},
+			{"one point", 1, 3, 0, 0},
+			{"two sets, the second reaching farther", 20, 0.7, 3, 6},
+			{"two sets, the second empty of reach", 20, 6, 5, 0},
 		} {
-			pts := make([]r3.Vec, tc.npts)
-			for i := range pts {
-				c := m.Coords[rng.IntN(len(m.Coords))]
-				pts[i] = r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
+			random := func(n int) []r3.Vec {
+				pts := make([]r3.Vec, n)
+				for i := range pts {
+					c := m.Coords[rng.IntN(len(m.Coords))]
+					pts[i] = r3.Add(c, r3.Vec{X: rng.NormFloat64(), Y: rng.NormFloat64(), Z: rng.NormFloat64()})
+				}
+				return pts
 			}
-			sel, tree := nearElements(m, pts, tc.margin)
+			sets := []NearPoints{{random(tc.npts), tc.margin}}
+			if tc.npts2 > 0 {
+				sets = append(sets, NearPoints{random(tc.npts2), tc.margin2})
+			}
+			sel, tree := nearElements(m, sets...)
 			var want []int32
 			for e := range m.NumElems() {
 				lo, hi := elemBox(m, e)
-				for _, p := range pts {
-					if boxDist2(lo, hi, p) <= tc.margin*tc.margin {
-						want = append(want, int32(e))
-						break
-					}
+				if slices.ContainsFunc(sets, func(set NearPoints) bool {
+					return slices.ContainsFunc(set.Pts, func(p r3.Vec) bool { return boxDist2(lo, hi, p) <= set.Margin*set.Margin })
+				}) {
+					want = append(want, int32(e))
 				}
 			}
 			if !slices.Equal(sel, want) {

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 
+	"gonum.org/v1/gonum/spatial/r3"
+
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/joints"
 	"github.com/joinery-cae/joinery/joints/bolt"
@@ -291,16 +293,21 @@ func (o *Outcome) FailMessage(failOn joints.Severity) string {
 
 // IndexFor builds one index of the elements near the joints that serves
 // both builders (spot welds and bolts) with each of the options opts
-// (one for a build, the variants' for a sweep): every joint's point with
-// the largest of their margins.
+// (one for a build, the variants' for a sweep): the spot welds' points
+// with the largest of the spot builder's margins, the bolts' with the
+// largest of the bolt builder's. Each kind keeps its own margin, since
+// a bolt looks farther round it than a weld (its washer and edge check)
+// and the welds are many.
 func IndexFor(m *geom.Mesh, js []joints.Joint, opts []joints.BuildOptions) *geom.Index {
 	pts, margin := spot.NearAll(m, js, opts)
+	var bpts []r3.Vec
+	bmargin := 0.0
 	for i, o := range opts {
-		bpts, bmargin := bolt.Near(m, js, o)
+		p, mg := bolt.Near(m, js, o)
 		if i == 0 { // the same points for every variant
-			pts = append(pts, bpts...)
+			bpts = p
 		}
-		margin = max(margin, bmargin)
+		bmargin = max(bmargin, mg)
 	}
-	return geom.NewIndexNear(m, pts, margin, false)
+	return geom.NewIndexNearSets(m, []geom.NearPoints{{Pts: pts, Margin: margin}, {Pts: bpts, Margin: bmargin}}, false)
 }
