@@ -59,7 +59,10 @@ type Flange struct {
 	// Closed is set for a ring round an opening; an open flange is a
 	// strip with two ends.
 	Closed bool
-	Area   float64 // mm²
+	// Area is the overlap's area on the faying surface, where the
+	// centreline is measured too, mm²: the host's pieces lifted to it,
+	// mitred where they meet at a crease.
+	Area float64
 	// Length is the length of the centreline, mm; Width the overlap's
 	// width across it: Mean is Area / Length, Min and Max the shortest
 	// and longest cross-section square to the centreline at stations

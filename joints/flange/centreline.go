@@ -473,7 +473,12 @@ const chartIterations = 4
 
 // centreline finds the centreline of an overlap from its pieces and
 // outline loops (the first the outer one), with h the typical element
-// size. Rings (ring true) get a closed centreline.
+// size. Rings (ring true) get a closed centreline. area, the pieces' own
+// (the host's mid-surface), sizes the fit's bins; fay, the overlap's
+// area on the faying surface (fayingArea), where the centreline is
+// measured, gives the mean width, fay / length. The samples' up normals
+// are to be set (orient); edges are the element edges they share
+// (sharedEdges, nil for a flat overlap).
 //
 // Open strips start from the shortest path through the pieces between
 // the two pieces farthest apart (a double sweep), which follows a curved
@@ -489,7 +494,7 @@ const chartIterations = 4
 // overlap, on a straight spine along its end tangents. The fit rounds a
 // ring's corners off, so a ring's centreline is then its mid-line
 // between the outline and the opening (midline), charted along the fit.
-func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring bool, h, area float64, nodeElems func(int32) []int32) *outline {
+func centreline(m *geom.Mesh, samples []sample, edges []sharedEdge, segs []segment, lps []loop, ring bool, h, area, fay float64, nodeElems func(int32) []int32) *outline {
 	if len(samples) == 0 {
 		return nil
 	}
@@ -544,17 +549,17 @@ func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring
 		var pts, ns []r3.Vec
 		for _, i := range path {
 			if da[i] >= trim && da[i] <= total-trim {
-				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].normal)
+				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].up)
 			}
 		}
 		if len(pts) < 2 {
 			pts, ns = pts[:0], ns[:0]
 			for _, i := range path {
-				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].normal)
+				pts, ns = append(pts, samples[i].pos), append(ns, samples[i].up)
 			}
 		}
 		pts = smoothPath(pts, math.Max(binLen, 2*wEst))
-		sp = makeSpine(pts, orientAlong(ns), false)
+		sp = makeSpine(pts, ns, false)
 		for i := range hints {
 			hints[i] = da[i]
 			if math.IsInf(hints[i], 1) {
@@ -603,7 +608,7 @@ func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring
 		sp = next
 	}
 	if !sp.closed {
-		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), lps, wEst, tol), samples, tol)
+		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), lps, wEst, tol), samples, edges, tol)
 	}
 	if ring {
 		// The fit above finds the middle of the pieces, which round a
@@ -613,7 +618,7 @@ func centreline(m *geom.Mesh, samples []sample, segs []segment, lps []loop, ring
 			sp = mid
 		}
 	}
-	return canonical(sp, samples, lps, area, binLen)
+	return canonical(sp, samples, lps, fay, binLen)
 }
 
 // smoothPath returns the points of a polyline averaged over a window of
@@ -828,7 +833,6 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 		bins[k].nlo, bins[k].nhi = math.Inf(1), math.Inf(-1)
 		bins[k].clo, bins[k].chi = math.Inf(1), math.Inf(-1)
 	}
-	ref := samples[0].normal
 	add := func(k int, w float64, i int) {
 		if w <= 0 {
 			return
@@ -840,11 +844,7 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 		wa := w * samples[i].area
 		b.pos = r3.Add(b.pos, r3.Scale(wa, samples[i].pos))
 		b.area += wa
-		nv := samples[i].normal
-		if r3.Dot(nv, ref) < 0 {
-			nv = r3.Scale(-1, nv)
-		}
-		b.normal = r3.Add(b.normal, r3.Scale(wa, nv))
+		b.normal = r3.Add(b.normal, r3.Scale(wa, samples[i].up))
 	}
 	for i := range samples {
 		x := 0.0
@@ -960,7 +960,7 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 	if smooth {
 		pts = taubin(pts, sp.closed)
 	}
-	next := makeSpine(pts, orientAlong(nrm), sp.closed)
+	next := makeSpine(pts, nrm, sp.closed)
 	return next, lo + bl/2, moved
 }
 

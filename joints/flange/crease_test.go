@@ -65,3 +65,57 @@ func TestFlangeAcrossCrease(t *testing.T) {
 		}
 	}
 }
+
+// The same flanges measured across: the strip is 20 mm wide everywhere,
+// so every cross-section is 20 mm and the overlap's area on the faying
+// surface, where the centreline is measured, is 20 (100 - s tan(th/2))
+// mm² (closed form: each leg of the faying surface is a 20 mm wide
+// rectangle 50 - 0.5 s tan(th/2) long), and the mean width, area over
+// length, 20 mm. The host, the finer mesh, is the other sheet with it
+// on the inside of the bend (its mid-surface 1 mm inside the strip's,
+// its own area 20 (100 - 2 tan(th/2))), the strip with it on the
+// outside (its own area 2000 mm²): before the area was measured on the
+// faying surface the mean width was 19.80 mm over a right angle on
+// either side, 19.65 mm over 120 degrees. And before the pieces'
+// normals were given one orientation across the crease (their dot
+// product is negative past a right angle) the chart's lateral sense
+// flipped along the spine near a sharp bend, its cross-sections cut
+// short there: the minimum width over 120 degrees was 16.08 mm (inside)
+// and 15.08 mm (outside). Meshes whose second leg's elements run the
+// other way round (normals the other way there) and triangles measure
+// the same.
+func TestFlangeAcrossCreaseWidth(t *testing.T) {
+	for _, tc := range []struct {
+		deg, side float64
+		mixed     bool // the second legs' elements reversed
+		tri       bool
+	}{
+		{10, 1, false, false}, {30, 1, false, false}, {60, 1, false, false}, {90, 1, false, false}, {120, 1, false, false},
+		{10, -1, false, false}, {30, -1, false, false}, {60, -1, false, false}, {90, -1, false, false}, {120, -1, false, false},
+		{90, 1, true, false}, {120, 1, true, false}, {120, -1, true, false},
+		{90, 1, false, true}, {120, -1, false, true},
+	} {
+		th := tc.deg * math.Pi / 180
+		strip, other := bentStrip(1, 0, th, 4), bentStrip(2, tc.side, th, 8)
+		if tc.mixed {
+			leg2 := func(i, _ int) bool { return i >= 10 }
+			strip.FlipAt, other.FlipAt = leg2, leg2
+		}
+		strip.Tri, other.Tri = tc.tri, tc.tri
+		f := one(t, findAll(t, mesh(strip, other), joints.FlangeOptions{}))
+		l := 100 - tc.side*math.Tan(th/2)
+		// Area to rounding: the overlap's edges are the strip's own; on
+		// triangles the diagonals cross the strip's edge, each crossing
+		// found to a bracket of crossingTol, so to crossingTol times
+		// the length. Length to 0.02 h (README), and the widths with it.
+		tol := 1e-6
+		if tc.tri {
+			tol = crossingTol * l
+		}
+		if !near(f.Area, 20*l, tol) || !near(f.Length, l, 0.1) ||
+			!near(f.Width.Min, 20, 0.02) || !near(f.Width.Mean, 20, 0.02) || !near(f.Width.Max, 20, 0.02) {
+			t.Errorf("bend %g deg, side %g, mixed %v, triangles %v: area %.6g, length %.6g, width %.6g / %.6g / %.6g; want %.6g, %.6g, 20 (closed form)",
+				tc.deg, tc.side, tc.mixed, tc.tri, f.Area, f.Length, f.Width.Min, f.Width.Mean, f.Width.Max, 20*l, l)
+		}
+	}
+}

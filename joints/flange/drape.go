@@ -1,6 +1,7 @@
 package flange
 
 import (
+	"cmp"
 	"math"
 	"slices"
 
@@ -32,11 +33,12 @@ type draper struct {
 	// projections).
 	centre []r3.Vec
 	rad    []float64
-	edges  map[uint64][]int32 // element edge -> the samples whose element has it; made when first needed
+	edges  []sharedEdge // the element edges the pieces share (sharedEdges)
+	buf    []int32
 }
 
-func newDraper(m *geom.Mesh, samples []sample) *draper {
-	d := &draper{m: m, samples: samples, grid: map[[3]int64][]int32{},
+func newDraper(m *geom.Mesh, samples []sample, edges []sharedEdge) *draper {
+	d := &draper{m: m, samples: samples, edges: edges, grid: map[[3]int64][]int32{},
 		centre: make([]r3.Vec, len(samples)), rad: make([]float64, len(samples))}
 	for i, s := range samples {
 		e := int(s.elem)
@@ -58,21 +60,24 @@ func newDraper(m *geom.Mesh, samples []sample) *draper {
 	return d
 }
 
-// pieceEdges returns the samples whose element has the edge from u to v.
-func (d *draper) pieceEdges(u, v int32) []int32 {
-	if d.edges == nil {
-		d.edges = map[uint64][]int32{}
-		for i, s := range d.samples {
-			e := int(s.elem)
-			nodes := d.m.ElemNodes(e)
-			nc := d.m.Type(e).Corners()
-			for j := range nc {
-				key := edgeKey(nodes[j], nodes[(j+1)%nc])
-				d.edges[key] = append(d.edges[key], int32(i))
-			}
+// across returns the samples other than i whose element shares the
+// edge from u to v with sample i's, in order.
+func (d *draper) across(i int32, u, v int32) []int32 {
+	key := edgeKey(u, v)
+	lo, _ := slices.BinarySearchFunc(d.edges, key, func(e sharedEdge, k uint64) int { return cmp.Compare(e.key, k) })
+	out := d.buf[:0]
+	for _, e := range d.edges[lo:] {
+		if e.key != key {
+			break
+		}
+		if e.a == i {
+			out = append(out, e.b)
+		} else if e.b == i {
+			out = append(out, e.a)
 		}
 	}
-	return d.edges[edgeKey(u, v)]
+	d.buf = out
+	return out
 }
 
 func (d *draper) key(p r3.Vec) [3]int64 {
@@ -81,7 +86,7 @@ func (d *draper) key(p r3.Vec) [3]int64 {
 }
 
 // foot returns the point of the faying surface closest to q and the
-// surface normal there, and false when no piece lies within half a cell
+// surface normal there, of the pieces' one orientation (up), and false when no piece lies within half a cell
 // of q. Of pieces equally near, the first sample's wins.
 func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 	m := d.m
@@ -113,7 +118,7 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 		return r3.Vec{}, r3.Vec{}, false
 	}
 	s := &d.samples[bestI]
-	n1 := s.normal
+	n1 := s.up
 	if r3.Norm2(n1) == 0 {
 		return r3.Vec{}, r3.Vec{}, false
 	}
@@ -122,33 +127,26 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 	e := int(s.elem)
 	nodes := m.ElemNodes(e)
 	nc := m.Type(e).Corners()
-	lift := r3.Scale(s.shift, n1)
+	lift := r3.Scale(s.shift, s.normal)
 	size := m.ElemSize(e)
 	for j := range nc {
 		a, b := r3.Add(m.Coords[nodes[j]], lift), r3.Add(m.Coords[nodes[(j+1)%nc]], lift)
 		if dist(bestPr.Point, closestOn(bestPr.Point, a, b)) > 1e-9*(1+size) {
 			continue
 		}
-		for _, i := range d.pieceEdges(nodes[j], nodes[(j+1)%nc]) {
-			if i == bestI {
-				continue
-			}
+		for _, i := range d.across(bestI, nodes[j], nodes[(j+1)%nc]) {
 			o := &d.samples[i]
-			n2 := o.normal
+			n2 := o.up
 			c := r3.Dot(n1, n2)
 			if !(1-c*c > 1e-8) {
 				continue
 			}
-			p2 := r3.Add(m.Coords[nodes[j]], r3.Scale(o.shift, n2))
+			p2 := r3.Add(m.Coords[nodes[j]], r3.Scale(o.shift, o.normal))
 			r1, r2 := r3.Dot(n1, r3.Sub(a, q)), r3.Dot(n2, r3.Sub(p2, q))
 			x := r3.Add(q, r3.Add(r3.Scale((r1-c*r2)/(1-c*c), n1), r3.Scale((r2-c*r1)/(1-c*c), n2)))
-			// The bisecting normal: n2 turned to agree with n1 across the
-			// edge (elements whose normals agree run along a shared edge
-			// in opposite directions), not by their angle, which passes
-			// a right angle at a sharp bend.
-			if sameWay(m.ElemNodes(int(o.elem)), m.Type(int(o.elem)).Corners(), nodes[j], nodes[(j+1)%nc]) {
-				n2 = r3.Scale(-1, n2)
-			}
+			// The bisecting normal, of the two pieces' normals turned to
+			// one orientation (orient: not by their angle, which passes
+			// a right angle at a sharp bend).
 			return x, r3.Unit(r3.Add(n1, n2)), true
 		}
 	}
@@ -168,11 +166,11 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 // Points and chords that lie on the surface, or off it only beside its
 // edge or beyond its ends (the spine's extensions), where the closest
 // point lies along the surface, are left as they are.
-func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
+func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol float64) *spine {
 	if sp == nil || sp.closed || len(samples) == 0 || onePlane(m, samples) {
 		return sp
 	}
-	d := newDraper(m, samples)
+	d := newDraper(m, samples, edges)
 	// across reports whether foot f of point p lies off it across the
 	// surface (normal n) by more than tol, and more so than along it.
 	across := func(p, f, n r3.Vec) bool {
@@ -202,9 +200,6 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
 	for i := first; i <= last; i++ {
 		p := src[i]
 		if f, n, ok := d.foot(p); ok && across(p, f, n) {
-			if r3.Dot(n, ns[i]) < 0 {
-				n = r3.Scale(-1, n)
-			}
 			src[i], ns[i] = f, n
 			moved = true
 		}
@@ -216,8 +211,8 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
 		src[i] = r3.Add(src[i], r3.Sub(src[last], sp.pts[last]))
 	}
 	var pts, nrm []r3.Vec
-	var fill func(a, b, na r3.Vec, depth int)
-	fill = func(a, b, na r3.Vec, depth int) {
+	var fill func(a, b r3.Vec, depth int)
+	fill = func(a, b r3.Vec, depth int) {
 		if depth == 0 {
 			return
 		}
@@ -231,18 +226,15 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, tol float64) *spine {
 		if t := r3.Dot(r3.Sub(f, a), ab) / r3.Norm2(ab); !(t > 1e-3 && t < 1-1e-3) {
 			return
 		}
-		if r3.Dot(n, na) < 0 {
-			n = r3.Scale(-1, n)
-		}
-		fill(a, f, na, depth-1)
+		fill(a, f, depth-1)
 		pts, nrm = append(pts, f), append(nrm, n)
 		moved = true
-		fill(f, b, n, depth-1)
+		fill(f, b, depth-1)
 	}
 	for i, p := range src {
 		pts, nrm = append(pts, p), append(nrm, ns[i])
 		if i >= first && i < last {
-			fill(p, src[i+1], ns[i], drapeDepth)
+			fill(p, src[i+1], drapeDepth)
 		}
 	}
 	if !moved {
@@ -282,15 +274,4 @@ func onePlane(m *geom.Mesh, samples []sample) bool {
 		}
 	}
 	return true
-}
-
-// sameWay reports whether an element with corner nodes nodes[:nc] runs
-// along its edge from u to v (rather than from v to u).
-func sameWay(nodes []int32, nc int, u, v int32) bool {
-	for k := range nc {
-		if nodes[k] == u && nodes[(k+1)%nc] == v {
-			return true
-		}
-	}
-	return false
 }

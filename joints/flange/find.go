@@ -204,12 +204,21 @@ func (w *pairWork) flanges(a, b int64) []joints.Flange {
 				}
 			}
 		}
-		o := centreline(m, samples, segs, lps, ring, h, area, w.c.NodeElems)
+		// The pieces' normals turned to one orientation, and the area on
+		// the faying surface, where the centreline is measured too: a
+		// crease across the flange adds the mitre of the lifted pieces.
+		var edges []sharedEdge
+		if !flatNormals(samples) {
+			edges = sharedEdges(m, samples)
+		}
+		orient(samples, edges)
+		fay := w.fayingArea(samples, edges, area)
+		o := centreline(m, samples, edges, segs, lps, ring, h, area, fay, w.c.NodeElems)
 		if o == nil || o.length <= 0 {
 			continue
 		}
 		f := joints.Flange{
-			Parts: [2]int64{a, b}, Host: m.Parts[w.host].ID, Closed: o.closed, Area: area, Length: o.length,
+			Parts: [2]int64{a, b}, Host: m.Parts[w.host].ID, Closed: o.closed, Area: fay, Length: o.length,
 			Width:      joints.Span{Min: o.width[0], Mean: o.width[1], Max: o.width[2]},
 			Centreline: o.centre, Normal: meanNormal(samples),
 		}

@@ -220,7 +220,10 @@ type sample struct {
 	shift  float64
 	area   float64
 	normal r3.Vec // the host element's normal
-	nodes  []int32
+	// up is normal turned to one side of the sheet over the whole
+	// overlap (orient).
+	up    r3.Vec
+	nodes []int32
 }
 
 // segment is a piece of the overlap's outline.

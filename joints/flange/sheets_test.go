@@ -23,6 +23,9 @@ type sheet struct {
 	Diag    bool
 	Surface geom.Surface
 	Flip    bool // reverse the node order: normals the other way
+	// FlipAt reverses the node order of the elements of quad (i, j)
+	// only: a mesh whose normals disagree from element to element.
+	FlipAt func(i, j int) bool
 	// Skip leaves quad (i, j) out (a hole).
 	Skip func(i, j int) bool
 	// Wrap joins column NU to column 0 (a closed band round an axis):
@@ -62,8 +65,9 @@ func mesh(ss ...sheet) *geom.Mesh {
 			return base + int32(j*cols+i)
 		}
 		n := 0
+		flip := s.Flip
 		add := func(ns ...int32) {
-			if s.Flip {
+			if flip {
 				for a, b := 0, len(ns)-1; a < b; a, b = a+1, b-1 {
 					ns[a], ns[b] = ns[b], ns[a]
 				}
@@ -80,6 +84,7 @@ func mesh(ss ...sheet) *geom.Mesh {
 					continue
 				}
 				n0, n1, n2, n3 := node(i, j), node(i+1, j), node(i+1, j+1), node(i, j+1)
+				flip = s.Flip != (s.FlipAt != nil && s.FlipAt(i, j))
 				switch {
 				case s.Tri && s.Diag:
 					add(n0, n1, n3)
