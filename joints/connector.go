@@ -77,6 +77,19 @@ func (s *Stack) Thicknesses() []float64 {
 	return ts
 }
 
+// Gaps returns the gap between the mid-surfaces of sheets i and j, in
+// either order, along the axis (the later sheet's Position minus the
+// earlier's) and square to the sheets (SquareGap of it), mm: a link's
+// MidGap and SquareGap.
+func (s *Stack) Gaps(i, j int) (along, square float64) {
+	if i > j {
+		i, j = j, i
+	}
+	a, b := &s.Sheets[i], &s.Sheets[j]
+	along = b.Position - a.Position
+	return along, SquareGap(along, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, s.Axis)
+}
+
 // Parts returns the part ids in stack order.
 func (s *Stack) Parts() []int64 {
 	ps := make([]int64, len(s.Sheets))
@@ -115,13 +128,16 @@ type Link struct {
 	// (t1+t2)/2, mm.
 	Contact float64
 	// MidGap is the gap between the mid-surfaces of sheets From and To
-	// along the stack axis (the later sheet's minus the earlier's), mm:
-	// the figure to compare with Contact on sheets square to the axis;
-	// on sheets tilted to it the gap findings compare SquareGap of it,
-	// the gap square to the sheets. It differs from a gap link's Length
-	// when a part is meshed on an outer surface, when the ends are nodes
-	// (node-pair), or when the sheets are tilted to the axis.
+	// along the stack axis (the later sheet's minus the earlier's), mm.
+	// It differs from a gap link's Length when a part is meshed on an
+	// outer surface, when the ends are nodes (node-pair), or when the
+	// sheets are tilted to the axis.
 	MidGap float64
+	// SquareGap is the same gap square to the sheets (SquareGap of
+	// MidGap; Stack.Gaps gives both), mm: the figure gap-open and
+	// gap-closed compare with Contact. It equals MidGap on sheets square
+	// to the axis.
+	SquareGap float64
 	// StartAt and EndAt name the nodes at the link's two ends.
 	StartAt, EndAt NodeRef
 	// NewEnd marks a link that brings a new node at End (an offset

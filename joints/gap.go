@@ -52,3 +52,19 @@ func cosToAxis(n, axis r3.Vec) float64 {
 	}
 	return math.Abs(r3.Dot(n, axis)) / l
 }
+
+// AxisCrossing returns the coordinate along the unit axis, from a point
+// q, at which the axis through q meets the plane through q + v moved off
+// by off along its unit normal n: the mid-surface of a sheet whose meshed
+// surface passes through q + v (off its MidOffset), where SquareGap takes
+// the sheets' positions. On a sheet tilted to the axis this does not
+// depend on where along the axis q lies. A normal square to the axis
+// (never within a stack's angle limit) falls back to the distance along
+// the axis.
+func AxisCrossing(v, n, axis r3.Vec, off float64) float64 {
+	c := r3.Dot(n, axis)
+	if math.Abs(c) < 1e-6 {
+		return r3.Dot(v, axis) + off*c
+	}
+	return (r3.Dot(v, n) + off) / c
+}

@@ -38,3 +38,30 @@ func TestSquareGap(t *testing.T) {
 		}
 	}
 }
+
+// AxisCrossing against plane geometry: a plane d from a point lies
+// d / cos(theta) from it along a line at theta to its normal; moving the
+// plane off along its normal by off moves the crossing by off / cos(theta).
+func TestAxisCrossing(t *testing.T) {
+	deg := func(d float64) float64 { return d * math.Pi / 180 }
+	z := r3.Vec{Z: 1}
+	s, c := math.Sincos(deg(19))
+	n := r3.Vec{Y: -s, Z: c}
+	for _, tc := range []struct {
+		name string
+		v, n r3.Vec
+		off  float64
+		want float64
+	}{
+		{"square plane 2 up", r3.Vec{X: 3, Z: 2}, z, 0, 2},
+		{"square plane, moved off 0.5", r3.Vec{X: 3, Z: 2}, z, 0.5, 2.5},
+		{"plane at 19deg, 2 mm away square to it", r3.Scale(2, n), n, 0, 2 / c},
+		{"plane at 19deg through a point off the axis", r3.Add(r3.Scale(2, n), r3.Vec{X: 7, Y: 4 * c, Z: 4 * s}), n, 0, 2 / c},
+		{"plane at 19deg, moved off 0.5", r3.Scale(2, n), n, 0.5, 2.5 / c},
+		{"normal reversed", r3.Scale(2, n), r3.Scale(-1, n), -0.5, 2.5 / c},
+	} {
+		if got := AxisCrossing(tc.v, tc.n, z, tc.off); math.Abs(got-tc.want) > 1e-12 {
+			t.Errorf("%s: %.15g, want %.15g", tc.name, got, tc.want)
+		}
+	}
+}

@@ -69,8 +69,9 @@ const RingLineKind = 5
 // per link and one vertex cell at the joint point of every connector that
 // was not built. Cell data: "state" (1 built, 2 flagged, 3 not-built),
 // "sheets" (stack size), "connector" (index into connectors.json's
-// connectors array) and "gap_offset" (the link's mid_gap minus its
-// contact_gap, mm; 0 on vertices), and, when some link is not a gap link
+// connectors array) and "gap_offset" (the link's square_gap, its gap
+// square to the sheets, minus its contact_gap, in the document's length
+// unit, as gap-open and gap-closed judge it; 0 on vertices), and, when some link is not a gap link
 // (--links offset, bolts), "link_kind" (1 gap, 2 offset, 3 faying, 4
 // shank, 5 a line from a bolt's centre to a node of its ring, which
 // connectors.json gives as the sheet's nodes; 0 on vertices). Output is
@@ -97,7 +98,7 @@ func WriteConnectorsVTK(w io.Writer, doc *document.ConnectorsDoc) error {
 			k := linkKindCode(l.Kind)
 			kinds = kinds || k != joints.GapLink.Code()
 			cells = append(cells, cell{typ: vtkLine, pts: []document.Vec{l.Start, l.End}, state: st, sheets: len(c.Sheets),
-				connector: i, gap: clean(l.MidGap - l.ContactGap), kind: k})
+				connector: i, gap: clean(l.Gap() - l.ContactGap), kind: k})
 		}
 		// A bolt's rings: a line from each centre to each ring node.
 		for _, sh := range c.Sheets {

@@ -2,6 +2,9 @@ package writers
 
 import (
 	"bytes"
+	"math"
+	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -53,6 +56,40 @@ func TestConnectorsVTKTitleLength(t *testing.T) {
 		}
 		if len(gen) < 100 && document.FindRunID([]byte(title)) != id {
 			t.Errorf("run id not found in %q", title)
+		}
+	}
+}
+
+// TestConnectorsVTKGapOffset: gap_offset is the gap square to the sheets
+// less contact, as gap-open and gap-closed judge it: square_gap where
+// the document has it (sheets at 40 degrees to the axis, in contact:
+// 2.25 / cos 40 deg along the axis, 2.25 square to them, plane
+// geometry; offset 0), mid_gap for a file written before square_gap
+// (1.25 against contact 1.1: 0.15).
+func TestConnectorsVTKGapOffset(t *testing.T) {
+	square := 2.25
+	doc := &document.ConnectorsDoc{Generator: "test", Connectors: []document.ConnectorDoc{
+		{State: "built", Sheets: make([]document.SheetDoc, 3), Links: []document.LinkDoc{
+			{Start: document.Vec{0, 0, 0}, End: document.Vec{0, 0, 1}, MidGap: 2.25 / math.Cos(40*math.Pi/180), SquareGap: &square, ContactGap: 2.25},
+			{Start: document.Vec{0, 0, 1}, End: document.Vec{0, 0, 2.25}, MidGap: 1.25, ContactGap: 1.1},
+		}},
+	}}
+	var buf bytes.Buffer
+	if err := WriteConnectorsVTK(&buf, doc); err != nil {
+		t.Fatal(err)
+	}
+	_, after, ok := strings.Cut(buf.String(), "SCALARS gap_offset double 1\nLOOKUP_TABLE default\n")
+	if !ok {
+		t.Fatalf("no gap_offset:\n%s", buf.String())
+	}
+	f := strings.Fields(after)
+	if len(f) < 2 {
+		t.Fatalf("gap_offset %q", after)
+	}
+	for i, want := range []float64{0, 1.25 - 1.1} {
+		got, err := strconv.ParseFloat(f[i], 64)
+		if err != nil || math.Abs(got-want) > 1e-12 {
+			t.Errorf("link %d gap_offset %s, want %g", i, f[i], want)
 		}
 	}
 }

@@ -185,6 +185,7 @@ func compareConnectors(t *testing.T, ref, got *document.ConnectorsDoc, scale flo
 			gl := g.Links[k]
 			if rl.ID != gl.ID || !vec(rl.Start, gl.Start) || !vec(rl.End, gl.End) || !near(rl.Length, gl.Length, scale) ||
 				!near(rl.ContactGap, gl.ContactGap, scale) || !near(rl.MidGap, gl.MidGap, scale) ||
+				rl.SquareGap == nil || gl.SquareGap == nil || !near(*rl.SquareGap, *gl.SquareGap, scale) ||
 				(rl.Mismatch == nil) != (gl.Mismatch == nil) || rl.Mismatch != nil && !near(*rl.Mismatch, *gl.Mismatch, scale) {
 				t.Errorf("connector %s link %d differs:\n got %+v\nwant %+v (mm)", r.ID, k, gl, rl)
 			}

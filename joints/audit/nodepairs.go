@@ -423,8 +423,9 @@ func nodePairConnector(m *geom.Mesh, w *NodePairWeld, info map[int32]*nodeInfo, 
 			dir = r3.Scale(1/length, d)
 		}
 		s, t := c.Stack.Sheets[from], c.Stack.Sheets[to]
+		gap, square := c.Stack.Gaps(from, to)
 		c.Links = append(c.Links, joints.Link{From: from, To: to, Start: a, End: b, Length: length, Direction: dir,
-			Contact: (s.Thickness + t.Thickness) / 2, MidGap: t.Position - s.Position})
+			Contact: (s.Thickness + t.Thickness) / 2, MidGap: gap, SquareGap: square})
 	}
 	slices.SortStableFunc(c.Links, func(a, b joints.Link) int { return cmp.Or(cmp.Compare(a.From, b.From), cmp.Compare(a.To, b.To)) })
 	c.Diameter, c.DiameterSource = w.Diameter, "list"

@@ -139,9 +139,10 @@ func TestTiltedAxisGap(t *testing.T) {
 			if c.code != "" && !strings.Contains(b.Findings[0].Message, c.words) {
 				t.Errorf("message %q, want it to hold %q", b.Findings[0].Message, c.words)
 			}
-			// The link keeps the gap along the axis (mid_gap).
-			if l := b.Links[0]; !near(l.MidGap, c.z2/math.Cos(a), 1e-9) {
-				t.Errorf("mid gap %.9g, want %.9g", l.MidGap, c.z2/math.Cos(a))
+			// The link keeps the gap along the axis (mid_gap) and the
+			// planes' separation square to them (square_gap): z2.
+			if l := b.Links[0]; !near(l.MidGap, c.z2/math.Cos(a), 1e-9) || !near(l.SquareGap, c.z2, 1e-9) {
+				t.Errorf("mid gap %.9g, square gap %.9g; want %.9g, %.9g", l.MidGap, l.SquareGap, c.z2/math.Cos(a), c.z2)
 			}
 		})
 	}

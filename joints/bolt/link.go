@@ -27,9 +27,9 @@ func shank(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, o
 	for i := 0; i+1 < len(ends); i++ {
 		a, b := &st.Sheets[i], &st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
-		gap := b.Position - a.Position
+		gap, square := st.Gaps(i, i+1)
 		if o.Links != joints.OffsetLinks || o.Shank == joints.BeamShank {
-			l := joints.Link{Kind: joints.ShankLink, From: i, To: i + 1, Contact: contact, MidGap: gap,
+			l := joints.Link{Kind: joints.ShankLink, From: i, To: i + 1, Contact: contact, MidGap: gap, SquareGap: square,
 				StartAt: joints.SheetEnd(i), EndAt: joints.SheetEnd(i + 1), DOFs: joints.AllDOFs}
 			setSpan(&l, ends[i].Point, ends[i+1].Point)
 			links = append(links, l)
@@ -46,8 +46,9 @@ func shank(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.End, o
 			joints.FayingSide(b.Proj.Normal, r3.Scale(-1, st.Axis)))
 		la.From, la.To, la.StartAt, la.EndAt = i, i+1, joints.SheetEnd(i), joints.LinkNode(len(links))
 		lb.From, lb.To, lb.StartAt, lb.EndAt = i+1, i, joints.SheetEnd(i+1), joints.LinkNode(len(links)+1)
-		la.Contact, la.MidGap, lb.Contact, lb.MidGap = contact, gap, contact, gap
-		sh := joints.Link{Kind: joints.ShankLink, From: i, To: i + 1, Contact: contact, MidGap: gap,
+		la.Contact, la.MidGap, la.SquareGap = contact, gap, square
+		lb.Contact, lb.MidGap, lb.SquareGap = contact, gap, square
+		sh := joints.Link{Kind: joints.ShankLink, From: i, To: i + 1, Contact: contact, MidGap: gap, SquareGap: square,
 			StartAt: joints.LinkNode(len(links)), EndAt: joints.LinkNode(len(links) + 1), DOFs: joints.AllDOFs}
 		setSpan(&sh, la.End, lb.End)
 		sh.Mismatch = joints.Across(r3.Sub(lb.End, la.End), st.Axis)

@@ -499,7 +499,7 @@ func shareAny(a, b []int32) bool {
 type sheetAt struct {
 	part  int32
 	proj  geom.Projection
-	pos   float64 // mid-surface position along the axis
+	pos   float64 // where the axis meets the mid-surface (joints.AxisCrossing), as build's sheet Position
 	thick float64
 }
 
@@ -546,8 +546,12 @@ func (p *placer) station(i, k int, s float64) weld {
 		return w
 	}
 	lo, up := min(hi, oi), max(hi, oi)
+	// Consecutive sheets in contact: their gap square to the sheets
+	// (joints.SquareGap, as build's gap-open and gap-closed judge it)
+	// within the allowance of contact.
 	inContact := func(a, b sheetAt) bool {
-		return math.Abs(b.pos-a.pos-(a.thick+b.thick)/2) <= p.o.GapAllowanceFor(a.thick, b.thick)+joints.LengthRoundoff
+		gap := joints.SquareGap(b.pos-a.pos, a.thick, b.thick, a.proj.Normal, b.proj.Normal, w.axis)
+		return math.Abs(gap-(a.thick+b.thick)/2) <= p.o.GapAllowanceFor(a.thick, b.thick)+joints.LengthRoundoff
 	}
 	for lo > 0 && inContact(sheets[lo-1], sheets[lo]) {
 		lo--
@@ -599,7 +603,8 @@ func (p *placer) station(i, k int, s float64) weld {
 // sheetsAt returns, for every part with an element within reach of q
 // whose normal lies within the angle limit of the axis and whose closest
 // point lies near the axis line through q, that closest point, ordered
-// along the axis. The closest point is build's (geom.Index.ClosestPerPart:
+// along the axis by where the axis meets the sheet's mid-surface (the
+// plane tangent at the closest point, as build places its sheets). The closest point is build's (geom.Index.ClosestPerPart:
 // ties within geom.TieDistance to the lowest element id), so that a weld
 // on an element edge has the host element, and the attachments, build
 // will give it.
@@ -622,7 +627,7 @@ func (p *placer) sheetsAt(q, axis r3.Vec) []sheetAt {
 			continue
 		}
 		off := m.Parts[pi].Surface.MidOffset(t)
-		out = append(out, sheetAt{part: pi, proj: pr, pos: along + off*r3.Dot(pr.Normal, axis), thick: t})
+		out = append(out, sheetAt{part: pi, proj: pr, pos: joints.AxisCrossing(v, pr.Normal, axis, off), thick: t})
 	}
 	slices.SortFunc(out, func(a, b sheetAt) int {
 		return cmp.Or(cmp.Compare(a.pos, b.pos), cmp.Compare(m.Parts[a.part].ID, m.Parts[b.part].ID))

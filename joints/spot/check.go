@@ -83,7 +83,7 @@ func flippedHint(m *geom.Mesh, axis r3.Vec, a, b joints.Sheet, o *joints.BuildOp
 		}
 		// Reversing the normal moves the mid-surface to the other side of
 		// the meshed surface.
-		shift := axisCrossing(r3.Vec{}, s.Proj.Normal, axis, -off) - axisCrossing(r3.Vec{}, s.Proj.Normal, axis, off)
+		shift := joints.AxisCrossing(r3.Vec{}, s.Proj.Normal, axis, -off) - joints.AxisCrossing(r3.Vec{}, s.Proj.Normal, axis, off)
 		pa, pb := a.Position, b.Position
 		if k == 0 {
 			pa += shift

@@ -203,7 +203,9 @@ func redraw(g gapModel, d drawn) gapModel {
 // a tilted axis the gaps read up to 1/cos(20 deg) = 1.064 times longer;
 // compared as they read, the three-sheet stacks at 19 degrees were
 // gap-open at 0.4375 - eps (1.0576 x 2.1875 - 1.75 = 0.563 mm) and the
-// wedges at 19 degrees at 0.3125 - eps.
+// wedges at 19 degrees at 0.3125 - eps. Each link records both
+// figures: mid_gap the model's closed-form distance along the axis,
+// square_gap its contact plus dev.
 func TestGapSquareToSheets(t *testing.T) {
 	const eps = 1e-5
 	mid, top, bot := geom.SurfaceMid, geom.SurfaceTop, geom.SurfaceBottom
@@ -293,6 +295,15 @@ func TestGapSquareToSheets(t *testing.T) {
 					}
 					if math.Abs(l.MidGap-g.along[i]) > 1e-9 {
 						t.Errorf("%s: link %d mid_gap %.12g, want %.12g along the axis", name, i, l.MidGap, g.along[i])
+					}
+					// square_gap: contact, plus dev on the link dev moves
+					// (the model's construction, square to the sheets).
+					want := l.Contact
+					if i == g.vary {
+						want += side.dev
+					}
+					if math.Abs(l.SquareGap-want) > 1e-9 {
+						t.Errorf("%s: link %d square_gap %.12g, want %.12g", name, i, l.SquareGap, want)
 					}
 				}
 			}

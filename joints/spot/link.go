@@ -27,8 +27,9 @@ func gapLinks(st *joints.Stack, ends []joints.End, dofs joints.DOFs) []joints.Li
 		a, b := ends[i].Point, ends[i+1].Point
 		l, dir := joints.LinkSpan(a, b)
 		s, t := st.Sheets[i], st.Sheets[i+1]
+		gap, square := st.Gaps(i, i+1)
 		links = append(links, joints.Link{Kind: joints.GapLink, From: i, To: i + 1, Start: a, End: b, Length: l, Direction: dir,
-			Contact: (s.Thickness + t.Thickness) / 2, MidGap: t.Position - s.Position,
+			Contact: (s.Thickness + t.Thickness) / 2, MidGap: gap, SquareGap: square,
 			StartAt: joints.SheetEnd(i), EndAt: joints.SheetEnd(i + 1), DOFs: dofs})
 	}
 	return links
@@ -54,7 +55,7 @@ func offsetLinks(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.
 	for i := 0; i+1 < len(ends); i++ {
 		a, b := &st.Sheets[i], &st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
-		gap := b.Position - a.Position
+		gap, square := st.Gaps(i, i+1)
 		// Sheet i's faying face looks up the axis, sheet i+1's down it.
 		la := joints.NewOffsetLink(ends[i].Point, a.Proj.Normal, a.Thickness, m.Part(a.Proj.Elem).Surface,
 			joints.FayingSide(a.Proj.Normal, st.Axis))
@@ -62,11 +63,12 @@ func offsetLinks(m *geom.Mesh, j *joints.Joint, st *joints.Stack, ends []joints.
 			joints.FayingSide(b.Proj.Normal, r3.Scale(-1, st.Axis)))
 		la.From, la.To, la.StartAt, la.EndAt = i, i+1, joints.SheetEnd(i), joints.LinkNode(len(links))
 		lb.From, lb.To, lb.StartAt, lb.EndAt = i+1, i, joints.SheetEnd(i+1), joints.LinkNode(len(links)+1)
-		la.Contact, la.MidGap, lb.Contact, lb.MidGap = contact, gap, contact, gap
+		la.Contact, la.MidGap, la.SquareGap = contact, gap, square
+		lb.Contact, lb.MidGap, lb.SquareGap = contact, gap, square
 		d := r3.Sub(lb.End, la.End)
 		l, dir := joints.LinkSpan(la.End, lb.End)
 		fj := joints.Link{Kind: joints.FayingJoint, From: i, To: i + 1, Start: la.End, End: lb.End, Length: l, Direction: dir,
-			Contact: contact, MidGap: gap, StartAt: joints.LinkNode(len(links)), EndAt: joints.LinkNode(len(links) + 1),
+			Contact: contact, MidGap: gap, SquareGap: square, StartAt: joints.LinkNode(len(links)), EndAt: joints.LinkNode(len(links) + 1),
 			DOFs: dofs, Mismatch: joints.Across(d, st.Axis)}
 		links = append(links, la, lb, fj)
 		if tol := joints.OffsetMismatchFactor * min(a.Thickness, b.Thickness); fj.Mismatch > tol {

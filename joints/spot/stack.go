@@ -308,21 +308,7 @@ func place(m *geom.Mesh, s *joints.Sheet, p, axis r3.Vec) {
 	v := r3.Sub(s.Proj.Point, p)
 	along := r3.Dot(v, axis)
 	s.Lateral = r3.Norm(r3.Sub(v, r3.Scale(along, axis)))
-	s.Position = axisCrossing(v, s.Proj.Normal, axis, m.Part(s.Proj.Elem).Surface.MidOffset(s.Thickness))
-}
-
-// axisCrossing returns the coordinate along the unit axis, from the weld
-// point, at which the axis meets the plane through the weld point + v
-// moved off along its unit normal n: the mid-surface of a sheet whose
-// meshed surface passes through that point. Normals within the stack's
-// angle limit of the axis are far from square to it; a normal square to
-// it (never in a stack) falls back to the distance along the axis.
-func axisCrossing(v, n, axis r3.Vec, off float64) float64 {
-	c := r3.Dot(n, axis)
-	if math.Abs(c) < 1e-6 {
-		return r3.Dot(v, axis) + off*c
-	}
-	return (r3.Dot(v, n) + off) / c
+	s.Position = joints.AxisCrossing(v, s.Proj.Normal, axis, m.Part(s.Proj.Elem).Surface.MidOffset(s.Thickness))
 }
 
 // parallel reports whether unit vectors a and b are within tol radians of

@@ -179,7 +179,24 @@ type LinkDoc struct {
 	DOFs       []string `json:"dofs"`
 	ContactGap float64  `json:"contact_gap"`
 	MidGap     float64  `json:"mid_gap"`
-	Mismatch   *float64 `json:"mismatch,omitempty"` // faying joints: faying points apart across the axis, in units.length
+	// SquareGap is the gap between the same mid-surfaces square to the
+	// sheets, in units.length: the figure gap-open and gap-closed judge
+	// against contact_gap (joints.SquareGap). Always written; nil when
+	// read from a file written before the field (see Gap).
+	SquareGap *float64 `json:"square_gap,omitempty"`
+	Mismatch  *float64 `json:"mismatch,omitempty"` // faying joints: faying points apart across the axis, in units.length
+}
+
+// Gap returns the link's gap between mid-surfaces that the gap findings
+// judge against contact_gap: square_gap, or mid_gap for a file written
+// before square_gap (on sheets square to the axis the two are equal).
+// ToConnectors, which has the mesh's normals, works square_gap out for
+// such a file instead.
+func (l *LinkDoc) Gap() float64 {
+	if l.SquareGap != nil {
+		return *l.SquareGap
+	}
+	return l.MidGap
 }
 
 // Vec is a point or direction, [x, y, z].
@@ -292,6 +309,8 @@ func connectorDoc(m *geom.Mesh, c *joints.Connector) ConnectorDoc {
 		ld := LinkDoc{ID: l.ID, Kind: l.Kind.String(), From: l.From, To: l.To, Start: vecOf(l.Start), End: vecOf(l.End),
 			StartNode: l.StartNode, EndNode: l.EndNode, NewNode: l.NewEnd,
 			Length: l.Length, Direction: vecOf(l.Direction), DOFs: dofs.Names(), ContactGap: l.Contact, MidGap: clean(l.MidGap)}
+		sq := clean(l.SquareGap)
+		ld.SquareGap = &sq
 		if l.Kind == joints.FayingJoint || l.Kind == joints.ShankLink && c.Bolt != nil && c.Links[0].Kind == joints.OffsetLink {
 			mm := clean(l.Mismatch)
 			ld.Mismatch = &mm

@@ -732,6 +732,10 @@ func (d *connDecoder) link(l *LinkDoc) {
 			if d.once(&seen, 14, key) {
 				d.floatPtr(&l.Mismatch)
 			}
+		case "square_gap":
+			if d.once(&seen, 15, key) {
+				d.floatPtr(&l.SquareGap)
+			}
 		default:
 			d.skip()
 		}

@@ -250,7 +250,7 @@ func randomConnectors(rng *rand.Rand) *ConnectorsDoc {
 			for range rng.IntN(4) {
 				c.Links = append(c.Links, LinkDoc{ID: integer(), Kind: str(), From: int(integer()), To: int(integer()), Start: vec(), End: vec(),
 					StartNode: integer(), EndNode: integer(), NewNode: rng.IntN(2) == 0, Length: num(), Direction: vec(),
-					DOFs: strs(), ContactGap: num(), MidGap: num(), Mismatch: fp()})
+					DOFs: strs(), ContactGap: num(), MidGap: num(), SquareGap: fp(), Mismatch: fp()})
 			}
 		}
 		if rng.IntN(3) == 0 {

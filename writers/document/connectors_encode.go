@@ -181,6 +181,11 @@ func appendLink(b []byte, l *LinkDoc) ([]byte, error) {
 	if b, err = appendFloatField(b, "mid_gap", l.MidGap); err != nil {
 		return b, err
 	}
+	if l.SquareGap != nil {
+		if b, err = appendFloatField(b, "square_gap", *l.SquareGap); err != nil {
+			return b, err
+		}
+	}
 	if l.Mismatch != nil {
 		if b, err = appendFloatField(b, "mismatch", *l.Mismatch); err != nil {
 			return b, err

@@ -258,8 +258,17 @@ func (d *ConnectorDoc) toConnector(m *geom.Mesh) (joints.Connector, error) {
 		if l.From < 0 || l.To < 0 || l.From >= len(c.Ends) || l.To >= len(c.Ends) || l.From == l.To {
 			return c, fmt.Errorf("link %d joins sheets %d and %d, not two of the %d ends", l.ID, l.From, l.To, len(c.Ends))
 		}
-		c.Links = append(c.Links, joints.Link{ID: l.ID, From: l.From, To: l.To, Start: l.Start.r3(), End: l.End.r3(),
-			Length: l.Length, Direction: l.Direction.r3(), Contact: l.ContactGap, MidGap: l.MidGap})
+		link := joints.Link{ID: l.ID, From: l.From, To: l.To, Start: l.Start.r3(), End: l.End.r3(),
+			Length: l.Length, Direction: l.Direction.r3(), Contact: l.ContactGap, MidGap: l.MidGap}
+		if l.SquareGap != nil {
+			link.SquareGap = *l.SquareGap
+		} else {
+			// A file written before square_gap: square to the sheets
+			// from the host elements' normals, as build judged it.
+			a, b := c.Stack.Sheets[min(l.From, l.To)], c.Stack.Sheets[max(l.From, l.To)]
+			link.SquareGap = joints.SquareGap(l.MidGap, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, c.Stack.Axis)
+		}
+		c.Links = append(c.Links, link)
 	}
 	return c, nil
 }
@@ -309,7 +318,7 @@ func (d *ConnectorDoc) checkNumbers() error {
 		}
 	}
 	for _, l := range d.Links {
-		if vec(&l.Start) || vec(&l.End) || vec(&l.Direction) || bad(l.Length) || bad(l.ContactGap) || bad(l.MidGap) {
+		if vec(&l.Start) || vec(&l.End) || vec(&l.Direction) || bad(l.Length) || bad(l.ContactGap) || bad(l.MidGap) || l.SquareGap != nil && bad(*l.SquareGap) {
 			return fmt.Errorf("link %d: a value beyond %g mm", l.ID, maxCoordinate)
 		}
 	}

@@ -3,10 +3,14 @@ package document
 import (
 	"bytes"
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/spatial/r3"
 
 	"github.com/joinery-cae/joinery/geom"
 	"github.com/joinery-cae/joinery/geom/geomtest"
@@ -133,5 +137,51 @@ func TestToConnectorsParts(t *testing.T) {
 				t.Errorf("error %v, want the input error %q", err, c.want)
 			}
 		})
+	}
+}
+
+// TestToConnectorsSquareGap: a link's square_gap is taken as written;
+// in a file written before the field it is worked out from the host
+// elements' normals as build judged it (joints.SquareGap). The grid is
+// tilted 40 degrees about y, so its normal lies 40 degrees off the
+// document's axis z; sheets 1.5 and 3 mm in contact (2.25 mm apart
+// square to them) lie 2.25 / cos 40 deg apart along the axis, since
+// parallel planes d apart lie d / cos(theta) apart along a line at theta
+// to their normal (plane geometry).
+func TestToConnectorsSquareGap(t *testing.T) {
+	s, c := math.Sincos(40 * math.Pi / 180)
+	m := geomtest.Grid(geomtest.GridSpec{NX: 4, NY: 4, Node: func(i, j int) r3.Vec {
+		return r3.Vec{X: float64(i) * c, Y: float64(j), Z: float64(i) * s}
+	}})
+	along := 2.25 / c
+	doc := func(square string) string {
+		return `{"schema":"joinery/connectors","version":2,"connectors":[
+{"id":"W1","kind":"spot","state":"built","point":[1.5,1.5,0],"axis":[0,0,1],"diameter":5,"attach":"interpolated","dofs":["tx","ty","tz"],
+ "sheets":[{"part":1,"element":6,"point":[1.5,1.5,0],"distance":0,"thickness":1.5,"position":0,"lateral":0,"edge_distance":null,"end_node":100,"end_point":[1.5,1.5,0],"nodes":[7,8,13,12],"weights":[0.25,0.25,0.25,0.25]},
+           {"part":1,"element":7,"point":[2.5,1.5,0],"distance":0,"thickness":3,"position":` + strconv.FormatFloat(along, 'g', -1, 64) + `,"lateral":0,"edge_distance":null,"end_node":101,"end_point":[2.5,1.5,0],"nodes":[8,9,14,13],"weights":[0.25,0.25,0.25,0.25]}],
+ "links":[{"id":102,"from":0,"to":1,"start":[1.5,1.5,0],"end":[2.5,1.5,0],"length":1,"direction":[1,0,0],"contact_gap":2.25,"mid_gap":` + strconv.FormatFloat(along, 'g', -1, 64) + square + `}],
+ "findings":[]}]}`
+	}
+	for _, tc := range []struct {
+		name, square string
+		doc, conv    float64 // LinkDoc.Gap, the converted link's SquareGap
+	}{
+		{"written before square_gap", "", along, 2.25},
+		{"square_gap given", `,"square_gap":2.5`, 2.5, 2.5},
+	} {
+		d, err := DecodeConnectors(strings.NewReader(doc(tc.square)), "c.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if g := d.Connectors[0].Links[0].Gap(); math.Abs(g-tc.doc) > 1e-12 {
+			t.Errorf("%s: document gap %.15g, want %.15g", tc.name, g, tc.doc)
+		}
+		cs, err := d.ToConnectors(m, "c.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if l := cs[0].Links[0]; math.Abs(l.SquareGap-tc.conv) > 1e-12 || l.MidGap != along {
+			t.Errorf("%s: link square gap %.15g, mid gap %.15g; want %.15g, %.15g", tc.name, l.SquareGap, l.MidGap, tc.conv, along)
+		}
 	}
 }

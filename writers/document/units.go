@@ -112,6 +112,7 @@ func (d *ConnectorsDoc) scaleLengths(f func(float64) float64) {
 			l.Length = f(l.Length)
 			l.ContactGap = f(l.ContactGap)
 			l.MidGap = f(l.MidGap)
+			ptr(l.SquareGap)
 			ptr(l.Mismatch)
 		}
 	}

@@ -53,7 +53,7 @@ func (s *PartPairs) Write(w *Writer, p *Page) error {
 	}
 	w.Raw("<p>")
 	w.Int(int64(len(an.pairs)))
-	w.Raw(" part pairs joined directly (as consecutive sheets of a stack; a joint not built counts for the parts it lists), the pairs with most findings first. In the tables, t is the governing thickness, d the nugget diameter (bold where the joint list gives it, else from the nugget rule), the gap offset the links' mid-surface gap less contact, the edge distance the least to a free edge of the pair's sheets (- where none lies within twice the edge limit), the spacing the distance to the closest consecutive weld. Each plan view is drawn in the pair's own chart: u along the welds, v across, seen along the normal (the mean stack axis); the first part's free edges within reach of the chart's plane are solid, the second's dashed; pale blue dots are the nuggets to scale, blue dashes the weld line (centreline) through consecutive welds, vermillion a spacing below the minimum.</p>\n")
+	w.Raw(" part pairs joined directly (as consecutive sheets of a stack; a joint not built counts for the parts it lists), the pairs with most findings first. In the tables, t is the governing thickness, d the nugget diameter (bold where the joint list gives it, else from the nugget rule), the gap offset the links' mid-surface gap square to the sheets less contact, the edge distance the least to a free edge of the pair's sheets (- where none lies within twice the edge limit), the spacing the distance to the closest consecutive weld. Each plan view is drawn in the pair's own chart: u along the welds, v across, seen along the normal (the mean stack axis); the first part's free edges within reach of the chart's plane are solid, the second's dashed; pale blue dots are the nuggets to scale, blue dashes the weld line (centreline) through consecutive welds, vermillion a spacing below the minimum.</p>\n")
 	s.writeIndex(w, p)
 	outlines := map[int64]*PartOutline{}
 	if s.outline != nil {
@@ -422,7 +422,7 @@ func (s *PartPairs) writeConnectors(w *Writer, p *Page, conns []int, pa *pairAna
 				if n > 0 {
 					w.Raw(" ")
 				}
-				w.MM(l.MidGap - l.ContactGap)
+				w.MM(l.Gap() - l.ContactGap)
 				n++
 			}
 		}

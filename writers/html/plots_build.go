@@ -91,8 +91,9 @@ func (s *BuildPlots) render(f *figure, p *plot.Plot, label string) error {
 // made.
 func built(state string) bool { return state == "built" || state == "flagged" }
 
-// gapPlot is the histogram of the links' gap offsets from contact, with
-// the allowance marked.
+// gapPlot is the histogram of the links' gap offsets from contact, the
+// gap square to the sheets (square_gap) less contact as gap-open and
+// gap-closed judge it, with the allowance marked.
 func (s *BuildPlots) gapPlot() (figure, error) {
 	f := figure{id: "gap", none: "No links: no connector was built."}
 	conn := s.an.conn
@@ -104,7 +105,7 @@ func (s *BuildPlots) gapPlot() (figure, error) {
 			continue
 		}
 		for _, l := range c.Links {
-			offs = append(offs, l.MidGap-l.ContactGap)
+			offs = append(offs, l.Gap()-l.ContactGap)
 			if fixed != nil {
 				allow = append(allow, *fixed)
 			} else {
@@ -144,7 +145,7 @@ func (s *BuildPlots) gapPlot() (figure, error) {
 		counts[k]++
 	}
 	top := float64(slices.Max(counts)) * 1.05
-	p := newPlot("Gap offset from contact", "mid-surface gap − contact gap (t1+t2)/2 ("+s.an.unit+")", "links (count)")
+	p := newPlot("Gap offset from contact", "mid-surface gap square to the sheets − contact gap (t1+t2)/2 ("+s.an.unit+")", "links (count)")
 	b := &bars{lo: lo, width: width, counts: counts, fill: rgb(colSky)}
 	p.Add(b)
 	p.Legend.Add("links", b)

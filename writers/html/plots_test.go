@@ -5,6 +5,7 @@ import (
 	"encoding/xml"
 	"fmt"
 	"io"
+	"math"
 	"regexp"
 	"strings"
 	"sync"
@@ -132,5 +133,38 @@ func parseXML(b []byte) error {
 		} else if err != nil {
 			return err
 		}
+	}
+}
+
+// TestGapPlotSquareToSheets: the gap plot counts a link's gap square to
+// the sheets (square_gap) against the allowance, 0.25 x contact
+// (joints.DefaultGapAllowanceFactor), as gap-open and gap-closed do.
+// Three welds join 0.8 and 1.2 mm sheets in contact (contact 1 mm) at 40
+// degrees to the axis: along it they lie 1 / cos 40 deg = 1.305 mm
+// apart (parallel planes d apart lie d / cos(theta) apart along a line at
+// theta to their normal, plane geometry), 0.305 mm off contact read
+// that way, beyond the allowance; square to them they are at contact. A
+// fourth weld from a file written before square_gap is 0.3 mm open
+// along its axis, which is then the figure shown.
+func TestGapPlotSquareToSheets(t *testing.T) {
+	conn := &document.ConnectorsDoc{Options: document.OptionsDoc{Reach: 9, EdgeFactor: 1}}
+	for k := range 4 {
+		c := weldDoc(fmt.Sprintf("W%d", k), r3.Vec{X: 28 * float64(k)}, r3.Vec{Z: 1}, 1, 2, 0.8, 1.2)
+		l := &c.Links[0]
+		if k < 3 {
+			sq := l.ContactGap
+			l.MidGap, l.SquareGap = l.ContactGap/math.Cos(40*math.Pi/180), &sq
+		} else {
+			l.MidGap = l.ContactGap + 0.3
+		}
+		conn.Connectors = append(conn.Connectors, c)
+	}
+	s := &BuildPlots{an: analyse(conn, nil)}
+	f, err := s.gapPlot()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := "4 links of built connectors; 1 beyond the allowance"; !strings.HasPrefix(f.caption, want) {
+		t.Errorf("caption %q, want it to start %q", f.caption, want)
 	}
 }
