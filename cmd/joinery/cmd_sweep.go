@@ -25,7 +25,7 @@ func (o *sweepOptions) AddFlags(fs *pflag.FlagSet) {
 	o.build.AddFlags(fs)
 	fs.Lookup("out").Usage = "output directory (default: the job's out for a job with a sweep: section, else the job's out with " + pipeline.SweepSuffix + " appended, else ./" + pipeline.DefaultOut + pipeline.SweepSuffix + ")"
 	fs.StringArrayVar(&o.vary, "vary", nil, "KEY=V1,V2,...: build a variant per value (repeat for more keys; the last varies fastest; a DOF set is written tx+ty+tz)")
-	fs.IntVar(&o.maxVariants, "max-variants", 0, fmt.Sprintf("refuse a sweep of more variants than this (0: the job's max_variants, else %d)", pipeline.DefaultMaxVariants))
+	fs.IntVar(&o.maxVariants, "max-variants", 0, fmt.Sprintf("refuse a sweep of more variants than this, up to %d (0: the job's max_variants, else %d)", pipeline.MaxMaxVariants, pipeline.DefaultMaxVariants))
 }
 
 func newSweepCommand(g *globalOptions) *cobra.Command {
@@ -84,7 +84,7 @@ comparison aid with rigid sheets, not a model of the joints' real stiffness.
 
 func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string) error {
 	if o.maxVariants < 0 {
-		return pipeline.UsageError(fmt.Errorf("--max-variants %d: want 1 or more (0 for the default)", o.maxVariants))
+		return pipeline.UsageError(fmt.Errorf("--max-variants %d: want 1 to %d (0 for the default)", o.maxVariants, pipeline.MaxMaxVariants))
 	}
 	var vary []pipeline.Vary
 	for _, s := range o.vary {
@@ -106,7 +106,7 @@ func runSweep(c *cobra.Command, o *sweepOptions, g *globalOptions, args []string
 	if err != nil {
 		return err
 	}
-	s.Build.NoPage = o.build.noHTML
+	s.Build.NoPage, s.Build.NoCheck = o.build.noHTML, o.build.noCheck
 	out, err := pipeline.Sweep(c.Context(), job, s, g.env())
 	if err != nil {
 		return err

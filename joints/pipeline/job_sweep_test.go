@@ -118,6 +118,28 @@ sweep:
 	if s.MaxVariants != 8 || len(s.Vary) != 2 || s.Vary[0].Key != "spot-dofs" || s.Vary[0].Values[1] != "tx+ty+tz+rx+ry+rz" || s.Vary[1].Key != "attach" {
 		t.Errorf("settings %+v", s)
 	}
+	// The bound names where it came from: the job's, or the flag's,
+	// which wins and is held to the job's range.
+	three, err := ParseVary("attach=interpolated,node-pair,patch")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		flag int
+		want string
+	}{
+		{0, "2 x 3 values of spot-dofs, attach make 6 variants, more than the job's max_variants 5"},
+		{5, "make 6 variants, more than --max-variants 5"},
+		{MaxMaxVariants + 1, "--max-variants 10000: want 1 to 9999"},
+	} {
+		j := *job
+		five := 5
+		j.Sweep.MaxVariants = &five
+		_, err := j.SweepSettings([]Vary{s.Vary[0], three}, c.flag)
+		if err == nil || !errors.Is(err, ErrUsage) || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("--max-variants %d: %v, want a usage error with %q", c.flag, err, c.want)
+		}
+	}
 	for _, c := range []struct{ src, want string }{
 		{"version: 1\nmeshes: [m.vtk]\nsweep:\n  vary:\n    atach: [patch]\n", `job.yaml:5: sweep vary: unknown key "atach"`},
 		{"version: 1\nmeshes: [m.vtk]\nsweep:\n  vary:\n    attach: [patch, glue]\n", `job.yaml:5: sweep vary: attach: unknown attachment "glue"`},

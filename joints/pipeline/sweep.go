@@ -46,11 +46,18 @@ func (job *Job) SweepSettings(vary []Vary, maxVariants int) (SweepSettings, erro
 	if len(vary) > 0 {
 		s.Vary = vary
 	}
+	bound := "--max-variants" // what set the bound, for the message
 	if job.Sweep.MaxVariants != nil {
-		s.MaxVariants = *job.Sweep.MaxVariants
+		s.MaxVariants, bound = *job.Sweep.MaxVariants, "the job's max_variants"
+	}
+	if maxVariants > MaxMaxVariants {
+		// Bounded as the job's max_variants is: the most a sweep builds
+		// (a larger bound once let a larger product through, of which
+		// Variants built the first MaxMaxVariants+1).
+		return s, UsageError(fmt.Errorf("--max-variants %d: want 1 to %d (0 for the default)", maxVariants, MaxMaxVariants))
 	}
 	if maxVariants > 0 {
-		s.MaxVariants = maxVariants
+		s.MaxVariants, bound = maxVariants, "--max-variants"
 	}
 	if len(s.Vary) == 0 {
 		return s, UsageError(errors.New("nothing to vary: give --vary KEY=V1,V2 or a sweep: vary: section in the job file"))
@@ -63,24 +70,29 @@ func (job *Job) SweepSettings(vary []Vary, maxVariants int) (SweepSettings, erro
 		seen[v.Key] = true
 	}
 	if n := s.count(); n > s.MaxVariants {
-		return s, UsageError(fmt.Errorf("%s make %d variants, more than --max-variants %d: vary fewer settings or values, or raise --max-variants",
-			s.product(), n, s.MaxVariants))
+		return s, UsageError(fmt.Errorf("%s make %d variants, more than %s %d: vary fewer settings or values, or raise --max-variants",
+			s.product(), n, bound, s.MaxVariants))
 	}
 	return s, nil
 }
 
-// count returns the number of variants, saturating above
-// MaxMaxVariants.
+// count returns the number of variants, the product of the value
+// counts, saturating at countCap (far above MaxMaxVariants: a product
+// that large is refused, never built in part).
 func (s *SweepSettings) count() int {
 	n := 1
 	for _, v := range s.Vary {
 		n *= len(v.Values)
-		if n > MaxMaxVariants {
-			return MaxMaxVariants + 1
+		if n > countCap {
+			return countCap
 		}
 	}
 	return n
 }
+
+// countCap bounds count, so that no product of value counts overflows
+// (each factor is below it too: a key has at most 63 distinct values).
+const countCap = 1 << 30
 
 // product says how the variants' number comes about: "3 x 2 values of
 // attach and links".
@@ -111,6 +123,9 @@ type Variant struct {
 // settings as its flag would be.
 func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 	n := s.count()
+	if n > MaxMaxVariants {
+		return nil, UsageError(fmt.Errorf("%s make %d variants, more than %d, the most a sweep builds", s.product(), n, MaxMaxVariants))
+	}
 	width := max(2, len(fmt.Sprint(n)))
 	out := make([]Variant, 0, n)
 	for i := range n {
@@ -145,7 +160,7 @@ func (s *SweepSettings) Variants(job *Job) ([]Variant, error) {
 		if err != nil {
 			return nil, err
 		}
-		b.NoPage = s.Build.NoPage
+		b.NoPage, b.NoCheck = s.Build.NoPage, s.Build.NoCheck
 		out = append(out, Variant{Name: strings.Join(names, "-"), Settings: settings, Job: &vj, Build: b, shareKey: share})
 	}
 	return out, nil
@@ -266,7 +281,7 @@ func Sweep(ctx context.Context, job *Job, s SweepSettings, env Env) (*SweepOutco
 	}
 	// The sweep's record of its inputs is its first variant's; its run id
 	// is its own.
-	info, err := in.RunInfo(env.Generator, runs[0].run.Result, RunSettings{Command: "build", NoPage: s.Build.NoPage})
+	info, err := in.RunInfo(env.Generator, runs[0].run.Result, RunSettings{Command: "build", NoCheck: s.Build.NoCheck, NoPage: s.Build.NoPage})
 	if err != nil {
 		return nil, err
 	}
@@ -312,10 +327,12 @@ func buildVariant(ctx context.Context, shared *Inputs, v *Variant, material func
 	if err != nil {
 		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
 	}
-	if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
-		return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
+	if !v.Build.NoCheck {
+		if err := CheckConnectors(ctx, &in, res, quiet); err != nil {
+			return variantRun{}, nil, fmt.Errorf("variant %s: %w", v.Name, err)
+		}
 	}
-	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "build", NoPage: v.Build.NoPage})
+	info, err := in.RunInfo(env.Generator, res, RunSettings{Command: "build", NoCheck: v.Build.NoCheck, NoPage: v.Build.NoPage})
 	if err != nil {
 		return variantRun{}, nil, err
 	}

@@ -52,7 +52,8 @@ const RigidShankFactor = 1000.0
 // the distance between the centres (the contact length (t1+t2)/2 where
 // the centres coincide), at their midpoint, along the stack axis, of
 // the shank's material (ShankModulus, ShankPoisson); a rigid shank is
-// that beam times RigidShankFactor. It couples the bolt's ring degrees
+// that beam times RigidShankFactor, in steel (a rigid shank records no
+// modulus: --shank-modulus is a beam shank's). It couples the bolt's ring degrees
 // of freedom: the shank ties all six between the centres, but each
 // sheet is held only on what its ring couples. The ring's own spread
 // is left out, as the nugget's is for a weld: with translations-only

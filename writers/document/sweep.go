@@ -213,8 +213,8 @@ func sig6(v float64) float64 {
 	return r
 }
 
-// ratio returns v/first rounded, 1 when both are zero, nil when only
-// first is.
+// ratio returns v/first rounded to 6 significant digits, 1 when both
+// are zero, nil when only first is.
 func ratio(v, first float64) *float64 {
 	var r float64
 	switch {
@@ -273,8 +273,11 @@ func NewCompare(runs []VariantRun, info RunInfo) *CompareDoc {
 			}
 			for a := range 3 {
 				d.Translational[a], d.Rotational[a] = sig6(p.Translational[a]), sig6(p.Rotational[a])
-				d.RatioTranslational[a] = ratio(d.Translational[a], sig6(first.Translational[a]))
-				d.RatioRotational[a] = ratio(d.Rotational[a], sig6(first.Rotational[a]))
+				// The ratios of the values as computed, rounded once: of
+				// the rounded values they would be off in their sixth
+				// digit (0.640001 for the (4/5)^2 of two nuggets).
+				d.RatioTranslational[a] = ratio(p.Translational[a], first.Translational[a])
+				d.RatioRotational[a] = ratio(p.Rotational[a], first.Rotational[a])
 				for _, q := range []*float64{d.RatioTranslational[a], d.RatioRotational[a]} {
 					if q == nil || *q == 0 {
 						change = math.Inf(1)
