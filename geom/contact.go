@@ -99,11 +99,14 @@ type FacingPair struct {
 	A, B         int32 // node indices; A's part has the smaller id
 	PartA, PartB int32 // part indices
 	// Separation is the distance between the mid-surface points of the
-	// two nodes along A's normal, mm; Contact is (tA+tB)/2.
+	// two nodes along the host node's normal (the node of the pair's
+	// host, Contacts.Host, whichever of A and B it is), mm; Contact is
+	// (tA+tB)/2.
 	Separation, Contact float64
-	// Lateral is the distance of B from the normal line through A, mm,
-	// and Tolerance the limit it was held to (FacingFactor times the
-	// local element size).
+	// Lateral is the distance of the other node from the normal line
+	// through the host node, mm, and Tolerance the limit it was held to
+	// (FacingFactor times the local element size). Measured from the
+	// host, chosen by geometry, neither follows the parts' ids.
 	Lateral, Tolerance float64
 }
 
@@ -655,9 +658,18 @@ func (c *Contacts) partnersOf(e, other int32) []int32 {
 }
 
 // chooseHosts picks, for every pair of parts with elements paired, the
-// part whose nodes are tested against the other: the one with the finer
-// mesh there (the smaller mean size of its paired elements), ties to the
-// lower part id.
+// part whose nodes are tested against the other, whose mesh traces
+// their overlaps and from whose nodes the facing pairs are measured: the
+// one with the finer mesh there (the smaller mean size, ElemSize, of its
+// elements paired with the other part's), sizes compared at the grain of
+// PartOrder; where they tie (meshes of one element size: shifted grids,
+// triangles against quads of one size), the one PartOrder takes first.
+// The choice follows geometry alone, never the parts' ids or the order
+// of their records, but between parts that coincide: with the host taken
+// by id on ties, two plates meshed at one size were traced on the other
+// plate once their ids were swapped, which moved the flange's area,
+// widths, centreline, facing pairs and welds
+// (cmd/joinery TestFlangesRenumbered).
 func (c *Contacts) chooseHosts() {
 	m := c.m
 	type acc struct {
@@ -682,14 +694,18 @@ func (c *Contacts) chooseHosts() {
 		}
 	}
 	c.hosts = make(map[[2]int32]int32, len(sums)/2+1)
+	var rank []int32 // PartOrder, found at the first tie
 	for k, s := range sums {
 		if k[0] > k[1] {
 			continue
 		}
 		h := k[0]
 		if t := sums[[2]int32{k[1], k[0]}]; t != nil {
-			ms, mt := s.size/float64(s.n), t.size/float64(t.n)
-			if mt < ms || mt == ms && m.Parts[k[1]].ID < m.Parts[k[0]].ID {
+			ms, mt := grain(s.size/float64(s.n)), grain(t.size/float64(t.n))
+			if mt == ms && rank == nil {
+				rank = m.PartOrder()
+			}
+			if mt < ms || mt == ms && rank[k[1]] < rank[k[0]] {
 				h = k[1]
 			}
 		}
@@ -699,7 +715,8 @@ func (c *Contacts) chooseHosts() {
 
 // Host returns the host of the pair of parts a and b (part indices), the
 // part whose nodes Records holds, and false when the parts are not in
-// contact anywhere.
+// contact anywhere. The host is the finer mesh there, then the part
+// PartOrder takes first: chosen by geometry, not by the parts' ids.
 func (c *Contacts) Host(a, b int32) (int32, bool) {
 	h, ok := c.hosts[[2]int32{min(a, b), max(a, b)}]
 	return h, ok

@@ -48,7 +48,9 @@ const MinMeanNormal = 0.5
 type Flange struct {
 	ID    string   // "<A>-<B>-<k>": the part ids, then the flange's number for the pair
 	Parts [2]int64 // the two parts, the smaller id first
-	// Host is the part whose mesh traces the overlap (the finer one).
+	// Host is the part whose mesh traces the overlap: the finer one
+	// there, then the one geom.Mesh.PartOrder takes first (chosen by
+	// geometry, see geom.Contacts.Host).
 	Host int64
 	// Thickness holds the two sheets' thicknesses, aligned with Parts
 	// (the median over the overlap's elements), mm; Contact is their

@@ -1416,7 +1416,11 @@ func densify(sp *spine, lps []loop, wEst, tol float64) *spine {
 			}
 			lat := r3.Scale(1/l, across)
 			if !filed {
-				finder, filed = newSectionFinder(lps, wEst), true
+				// Reach 1.5 widths: across an L's corner the section
+				// along the bisector is sqrt 2 widths long (with wEst,
+				// a congruent L traced on its own mesh lost its corner,
+				// 186.9 mm long for 190; TestLShapedStrip).
+				finder, filed = newSectionFinder(lps, 1.5*wEst), true
 			}
 			if finder != nil {
 				// No cross-section there (its far side out of reach, as

@@ -18,7 +18,9 @@ import (
 // on a node), or the plate on a 4 mm grid shifted by 2 mm (projected:
 // the strip's inner corner (10, 10) lies on a plate node, its edges
 // x = 10 and y = 10 on plate nodes too, and the outer edges x = 0 and
-// y = 0 inside the plate's elements).
+// y = 0 inside the plate's elements). The congruent strip hosts
+// (the smaller part of two meshes of one size, geom.Mesh.PartOrder); it
+// did only when its id was the lower one, and then cut the corner.
 func TestLShapedStrip(t *testing.T) {
 	ell := plate(2, 1, 0, 0, 1, 20, 20, 5)
 	ell.Skip = func(i, j int) bool { return i >= 2 && j >= 2 }

@@ -651,16 +651,26 @@ func (p *placer) attachNodes(sh sheetAt, a joints.Attach, d float64) []int32 {
 // resolve drops welds of different flanges that clash: attachments
 // sharing an element, or two sheets in common closer than the pitch or
 // the minimum spacing. Flanges are taken narrowest first (a weld line
-// on a strip before a station on a wide overlap), then by part pair;
-// welds in station order. It marks the dropped welds and returns their
-// findings.
+// on a strip before a station on a wide overlap), then the smaller
+// area (both at 1e-6 mm, far below what tells two flanges apart and
+// above the rounding of a model scaled to mm), then by the start of the
+// centreline (cmpVec), and by part pair only between
+// flanges alike in all of these: which of two flanges of one width
+// through the same stack keeps the welds follows geometry, not the
+// parts' ids (cmd/joinery TestFlangesRenumbered, "stack"). Welds go in
+// station order. It marks the dropped welds and returns their findings.
 func (p *placer) resolve(results [][]weld, pitches []float64) []joints.Finding {
 	flanges := p.set.Flanges
 	order := make([]int, len(flanges))
 	for i := range order {
 		order[i] = i
 	}
-	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(flanges[a].Width.Mean, flanges[b].Width.Mean) })
+	g := func(v float64) float64 { return math.Round(v / 1e-6) }
+	slices.SortStableFunc(order, func(a, b int) int {
+		fa, fb := &flanges[a], &flanges[b]
+		return cmp.Or(cmp.Compare(g(fa.Width.Mean), g(fb.Width.Mean)), cmp.Compare(g(fa.Area), g(fb.Area)),
+			cmpVec(fa.Centreline[0], fb.Centreline[0]))
+	})
 	reach := 0.0
 	for i, ws := range results {
 		reach = math.Max(reach, pitches[i])
