@@ -1480,9 +1480,12 @@ func newSectionFinder(lps []loop, wEst float64) *sectionFinder {
 	if len(f.segs) == 0 || !(wEst > 0) {
 		return nil
 	}
-	// A segment within reach of a point has its middle within reach
-	// plus half its length: the cells round the point's hold it.
-	f.cell = math.Max(wEst, longest/2)
+	// A crossing middle takes lies within the reach along the section's
+	// lateral direction and within it off the plane (section.cross), so
+	// within reach sqrt(2) of the point, and its segment's middle within
+	// half the segment's length of it: cells that wide make the cells
+	// round the point's hold it.
+	f.cell = math.Sqrt2*wEst + longest/2
 	for i, sg := range f.segs {
 		k := f.key(r3.Scale(0.5, r3.Add(sg.a, sg.b)))
 		f.grid[k] = append(f.grid[k], int32(i))
