@@ -300,12 +300,24 @@ func (d *ConnectorDoc) boltData() (*joints.BoltData, error) {
 	return b, nil
 }
 
+// axisUnitTolerance is how far a connector's axis may be from unit
+// length: far above the rounding of 15 significant digits (about 1e-15),
+// far below any axis meant otherwise.
+const axisUnitTolerance = 1e-9
+
 // checkNumbers refuses coordinates, lengths and weights out of range.
 func (d *ConnectorDoc) checkNumbers() error {
 	bad := func(v float64) bool { return !(math.Abs(v) <= maxCoordinate) }
 	vec := func(v *Vec) bool { return v != nil && (bad(v[0]) || bad(v[1]) || bad(v[2])) }
 	if vec(&d.Point) || vec(d.Axis) || d.Diameter != nil && bad(*d.Diameter) {
 		return fmt.Errorf("a point, axis or diameter beyond %g mm", maxCoordinate)
+	}
+	// Joinery writes unit axes (to 15 significant digits); gaps judged
+	// square to the sheets take cosines against it.
+	if a := d.Axis; a != nil {
+		if n := math.Sqrt(a[0]*a[0] + a[1]*a[1] + a[2]*a[2]); n != 0 && math.Abs(n-1) > axisUnitTolerance {
+			return fmt.Errorf("axis [%g, %g, %g] is not a unit vector (length %g)", a[0], a[1], a[2], n)
+		}
 	}
 	for i, s := range d.Sheets {
 		if vec(&s.Point) || vec(s.EndPoint) || bad(s.Thickness) || bad(s.Position) || bad(s.Lateral) || bad(s.Distance) {

@@ -59,6 +59,27 @@ func TestToConnectors(t *testing.T) {
 	if _, err := doc.ToConnectors(m, "c.json"); err == nil || !strings.HasPrefix(err.Error(), `c.json:5: connector "W1": sheet 1: node 99 is not in the mesh`) {
 		t.Errorf("%v", err)
 	}
+	// An axis that is not a unit vector (a hand-edited file): gaps square
+	// to the sheets take cosines against it, so it is refused; Joinery's
+	// own axes, written to 15 significant digits, pass.
+	for _, tc := range []struct{ axis, want string }{
+		{"[0,0,2]", `c.json:5: connector "W1": axis [0, 0, 2] is not a unit vector (length 2)`},
+		{"[0.6,0.8,1e-4]", `c.json:5: connector "W1": axis [0.6, 0.8, 0.0001] is not a unit vector`}, // length 1 + 5e-9
+		{"[0.6,0.8,0]", ""},
+		{"[0.577350269189626,0.577350269189626,0.577350269189626]", ""},
+	} {
+		doc, err := DecodeConnectors(strings.NewReader(strings.Replace(seedConnectors, `"axis":[0,0,1]`, `"axis":`+tc.axis, 1)), "c.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = doc.ToConnectors(m, "c.json")
+		switch {
+		case tc.want == "" && err != nil:
+			t.Errorf("axis %s: %v", tc.axis, err)
+		case tc.want != "" && (err == nil || !strings.HasPrefix(err.Error(), tc.want)):
+			t.Errorf("axis %s: %v, want %s", tc.axis, err, tc.want)
+		}
+	}
 }
 
 // FuzzDecodeConnectors checks that no document makes the decoder, the
