@@ -198,18 +198,7 @@ func TestPartOrder(t *testing.T) {
 	skipWithoutExample(t)
 	root := t.TempDir()
 	exDir := filepath.Dir(exampleJob)
-	var ms []*geom.Mesh
-	for _, mn := range []string{"floor.vtk", "beam.vtk", "closing-plate.jmesh", "bracket.jmesh"} {
-		m, err := meshio.ReadMesh(filepath.Join(exDir, "mesh", mn), geom.ReadOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		ms = append(ms, m)
-	}
-	all, _, err := geom.Merge(ms, false)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := exampleMerged(t)
 	var buf bytes.Buffer
 	if err := native.Write(&buf, all); err != nil {
 		t.Fatal(err)

@@ -271,18 +271,7 @@ func ff(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
 func exampleRenumbered(t *testing.T, id func(int64) int64) (string, string) {
 	t.Helper()
 	exDir := filepath.Dir(exampleJob)
-	var ms []*geom.Mesh
-	for _, mn := range []string{"floor.vtk", "beam.vtk", "closing-plate.jmesh", "bracket.jmesh"} {
-		m, err := meshio.ReadMesh(filepath.Join(exDir, "mesh", mn), geom.ReadOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		ms = append(ms, m)
-	}
-	all, _, err := geom.Merge(ms, false)
-	if err != nil {
-		t.Fatal(err)
-	}
+	all := exampleMerged(t)
 	for i := range all.Parts {
 		all.Parts[i].ID = id(all.Parts[i].ID)
 	}
@@ -300,4 +289,22 @@ func exampleRenumbered(t *testing.T, id func(int64) int64) (string, string) {
 		return s[:i+1] + strconv.FormatInt(id(v), 10)
 	})
 	return buf.String(), parts
+}
+
+// exampleMerged returns the bundled example's meshes merged into one.
+func exampleMerged(t *testing.T) *geom.Mesh {
+	t.Helper()
+	var ms []*geom.Mesh
+	for _, mn := range []string{"floor.vtk", "beam.vtk", "closing-plate.jmesh", "bracket.jmesh"} {
+		m, err := meshio.ReadMesh(filepath.Join(filepath.Dir(exampleJob), "mesh", mn), geom.ReadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ms = append(ms, m)
+	}
+	all, _, err := geom.Merge(ms, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return all
 }

@@ -189,15 +189,7 @@ func TestSweepSharesOnlyWhatIsEqual(t *testing.T) {
 						t.Fatalf("build: exit %d: %s", code, errs)
 					}
 					name := "0" + string(rune('0'+i)) + "-" + key + "=" + v + "-" + partner + "=" + p
-					got, want := readTree(t, filepath.Join(dir, name)), readTree(t, b)
-					if len(got) != len(want) || len(got) == 0 {
-						t.Errorf("%s: %d files, the build %d", name, len(got), len(want))
-					}
-					for f := range want {
-						if !bytes.Equal(got[f], want[f]) {
-							t.Errorf("%s: %s differs from the plain build's", name, f)
-						}
-					}
+					sameTree(t, name, readTree(t, filepath.Join(dir, name)), readTree(t, b))
 				}
 			}
 		})
