@@ -140,6 +140,20 @@ sweep:
 			t.Errorf("--max-variants %d: %v, want a usage error with %q", c.flag, err, c.want)
 		}
 	}
+	// Neither set: the default bound, named as such.
+	many := []Vary{}
+	for _, v := range []string{"attach=interpolated,node-pair,patch", "spot-dofs=tx+ty+tz,tx+ty+tz+rx+ry+rz,tz", "bolt-dofs=tx+ty+tz,tx+ty+tz+rx+ry+rz,tz", "links=gap,offset", "bolt-coupling=rigid,averaging"} {
+		vv, err := ParseVary(v)
+		if err != nil {
+			t.Fatal(err)
+		}
+		many = append(many, vv)
+	}
+	plain := *job
+	plain.Sweep.MaxVariants = nil
+	if _, err := plain.SweepSettings(many, 0); err == nil || !strings.Contains(err.Error(), "make 108 variants, more than the default bound 64") {
+		t.Errorf("default bound: %v", err)
+	}
 	for _, c := range []struct{ src, want string }{
 		{"version: 1\nmeshes: [m.vtk]\nsweep:\n  vary:\n    atach: [patch]\n", `job.yaml:5: sweep vary: unknown key "atach"`},
 		{"version: 1\nmeshes: [m.vtk]\nsweep:\n  vary:\n    attach: [patch, glue]\n", `job.yaml:5: sweep vary: attach: unknown attachment "glue"`},

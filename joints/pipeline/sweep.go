@@ -46,7 +46,7 @@ func (job *Job) SweepSettings(vary []Vary, maxVariants int) (SweepSettings, erro
 	if len(vary) > 0 {
 		s.Vary = vary
 	}
-	bound := "--max-variants" // what set the bound, for the message
+	bound := "the default bound" // what set the bound, for the message
 	if job.Sweep.MaxVariants != nil {
 		s.MaxVariants, bound = *job.Sweep.MaxVariants, "the job's max_variants"
 	}

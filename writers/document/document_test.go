@@ -5,6 +5,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -53,5 +54,32 @@ func TestREADMEHoldsTheCaution(t *testing.T) {
 	}
 	if !strings.Contains(strings.Join(strings.Fields(string(raw)), " "), Caution) {
 		t.Errorf("README.md does not hold the caution text of document.Caution")
+	}
+}
+
+// The report schema's description of a finding's code lists every code
+// joints defines (read from its source, so that a new code cannot be
+// forgotten there).
+func TestReportSchemaListsEveryCode(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("..", "..", "joints", "finding.go"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	schema, err := Schemas.ReadFile("schema/report.schema.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	desc := regexp.MustCompile(`"description": "finding code; [^"]*"`).Find(schema)
+	if desc == nil {
+		t.Fatal("no description of the finding code in report.schema.json")
+	}
+	codes := regexp.MustCompile(`(?m)^\s*Code[A-Za-z]+\s*=\s*"([a-z0-9-]+)"`).FindAllSubmatch(src, -1)
+	if len(codes) < 40 {
+		t.Fatalf("found %d codes in joints/finding.go", len(codes))
+	}
+	for _, c := range codes {
+		if !regexp.MustCompile(`[ (]` + regexp.QuoteMeta(string(c[1])) + `[,;)]`).Match(desc) {
+			t.Errorf("report.schema.json does not list %s", c[1])
+		}
 	}
 }
