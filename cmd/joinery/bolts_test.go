@@ -5,8 +5,6 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-
-	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // TestBuildExampleBolts builds the example's two towing-eye bolts end to
@@ -20,15 +18,7 @@ func TestBuildExampleBolts(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	f, err := os.Open(filepath.Join(dir, "connectors.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc, err := document.DecodeConnectors(f, "connectors.json")
-	f.Close()
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := readConnectors(t, filepath.Join(dir, "connectors.json"))
 	bolts := 0
 	for _, c := range doc.Connectors {
 		if c.Kind != "bolt" {

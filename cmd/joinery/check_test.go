@@ -201,15 +201,7 @@ func TestCheckConnectorsJSONMatchesNodePairs(t *testing.T) {
 		}
 	}
 	// Export the node pairs of connectors.json as a list.
-	f, err := os.Open(filepath.Join(built, "connectors.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	cdoc, err := document.DecodeConnectors(f, "connectors.json")
-	f.Close()
-	if err != nil {
-		t.Fatal(err)
-	}
+	cdoc := readConnectors(t, filepath.Join(built, "connectors.json"))
 	var pairs strings.Builder
 	pairs.WriteString("id,node_a,node_b,dofs\n")
 	for _, c := range cdoc.Connectors {

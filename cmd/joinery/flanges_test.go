@@ -86,15 +86,7 @@ func TestFlangesThenBuild(t *testing.T) {
 			if code != exitOK {
 				t.Fatalf("build: exit %d: %s", code, errs)
 			}
-			f, err := os.Open(filepath.Join(bl, "connectors.json"))
-			if err != nil {
-				t.Fatal(err)
-			}
-			defer f.Close()
-			doc, err := document.DecodeConnectors(f, "connectors.json")
-			if err != nil {
-				t.Fatal(err)
-			}
+			doc := readConnectors(t, filepath.Join(bl, "connectors.json"))
 			byID := map[string]joints.Joint{}
 			for _, w := range welds {
 				byID[w.ID] = w

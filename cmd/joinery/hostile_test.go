@@ -209,15 +209,7 @@ func TestSharedNodeAndEdgeTiesByElementID(t *testing.T) {
 		if code != exitOK && code != exitFindings {
 			t.Fatalf("exit %d: %s", code, errs)
 		}
-		f, err := os.Open(filepath.Join(out, "connectors.json"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		doc, err := document.DecodeConnectors(f, "connectors.json")
-		f.Close()
-		if err != nil {
-			t.Fatal(err)
-		}
+		doc := readConnectors(t, filepath.Join(out, "connectors.json"))
 		if first == nil {
 			first = doc.Connectors
 			for _, c := range first {

@@ -229,15 +229,7 @@ func TestBuildOffsetLinksExample(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	validate(t, "connectors.schema.json", filepath.Join(dir, "connectors.json"))
-	f, err := os.Open(filepath.Join(dir, "connectors.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc, err := document.DecodeConnectors(f, "connectors.json")
-	f.Close()
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := readConnectors(t, filepath.Join(dir, "connectors.json"))
 	if doc.Options.Links != "offset" {
 		t.Errorf("options.links %q", doc.Options.Links)
 	}
@@ -328,15 +320,7 @@ func TestOffsetsPlantedModelInOtherUnits(t *testing.T) {
 			if n := len(fs[joints.CodeGapOpen]) + len(fs[joints.CodeGapClosed]); n != 0 {
 				t.Errorf("build with the surfaces found: %d gap finding(s), want none: %+v", n, fs)
 			}
-			f, err := os.Open(filepath.Join(bo, "connectors.json"))
-			if err != nil {
-				t.Fatal(err)
-			}
-			doc, err := document.DecodeConnectors(f, "connectors.json")
-			f.Close()
-			if err != nil {
-				t.Fatal(err)
-			}
+			doc := readConnectors(t, filepath.Join(bo, "connectors.json"))
 			if len(doc.Connectors) != 3 {
 				t.Fatalf("%d connectors, want 3", len(doc.Connectors))
 			}
@@ -389,15 +373,7 @@ func TestOffsetsPlantedOffsetLinks(t *testing.T) {
 		if code, _, errs := runCLI(t, args...); code != exitOK {
 			t.Fatalf("build: exit %d: %s", code, errs)
 		}
-		f, err := os.Open(filepath.Join(bo, "connectors.json"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer f.Close()
-		doc, err := document.DecodeConnectors(f, "connectors.json")
-		if err != nil {
-			t.Fatal(err)
-		}
+		doc := readConnectors(t, filepath.Join(bo, "connectors.json"))
 		return doc, findingCodes(t, filepath.Join(bo, "report.json"))
 	}
 	doc, fs := build(parts, filepath.Join(out, "surfaces.yaml"))

@@ -391,3 +391,18 @@ func TestSweepMaxVariantsBounds(t *testing.T) {
 		t.Errorf("output directory written on bad usage")
 	}
 }
+
+// readConnectors reads and decodes the connectors.json at path.
+func readConnectors(t *testing.T, path string) *document.ConnectorsDoc {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	doc, err := document.DecodeConnectors(f, filepath.Base(path))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return doc
+}

@@ -64,15 +64,7 @@ func TestSweepExampleGolden(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := os.Open(filepath.Join(dir, "manifest.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	man, err := document.DecodeManifest(f, "manifest.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	man := readManifest(t, dir)
 	if man.RunID != set.Marker.RunID || len(man.Variants) != 4 || len(set.Sets) != 4 {
 		t.Fatalf("manifest run %s, %d variants; set run %s, %d nested", man.RunID, len(man.Variants), set.Marker.RunID, len(set.Sets))
 	}
@@ -304,15 +296,7 @@ func TestSweepBoltCoupling(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	f, err := os.Open(filepath.Join(dir, "manifest.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	man, err := document.DecodeManifest(f, "manifest.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	man := readManifest(t, dir)
 	if len(man.Variants) != 2 || man.Variants[0].Moves || !man.Variants[1].Moves {
 		t.Errorf("variants %+v: want rigid held, averaging moving", man.Variants)
 	}
@@ -331,15 +315,7 @@ func TestSweepFlagsMovingVariants(t *testing.T) {
 	if !strings.Contains(out, "02-spot-dofs=tx: ") || !strings.Contains(out, "MOVES") || strings.Contains(strings.SplitN(out, "\n", 3)[1], "MOVES") {
 		t.Errorf("summary does not flag variant 2 alone:\n%s", out)
 	}
-	f, err := os.Open(filepath.Join(dir, "manifest.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	man, err := document.DecodeManifest(f, "manifest.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	man := readManifest(t, dir)
 	if man.Moving != 1 || man.Variants[0].Moves || !man.Variants[1].Moves || man.Variants[1].Mechanisms == 0 {
 		t.Errorf("manifest: moving %d, variants %+v", man.Moving, man.Variants)
 	}
