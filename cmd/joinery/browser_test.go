@@ -114,15 +114,7 @@ func TestPageInBrowser(t *testing.T) {
 	if code, _, errs := runCLI(t, "build", exampleJob, "--out", dir, "--quiet"); code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	f, err := os.Open(filepath.Join(dir, "report.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	rep, err := document.DecodeReport(f, "report.json")
-	f.Close()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rep := readReport(t, filepath.Join(dir, "report.json"))
 	page := "file://" + filepath.Join(dir, "report.html")
 	attrs, _ := checkRendered(t, bin, filepath.Join(dir, "report.html"), rep)
 	// The script's answers to a reader: filter the findings by the first

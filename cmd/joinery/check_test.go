@@ -84,16 +84,7 @@ func nodeID(t *testing.T, m *geom.Mesh, part int64, x, y float64) int64 {
 // reportOf reads a report.json.
 func reportOf(t *testing.T, dir string) *document.ReportDoc {
 	t.Helper()
-	f, err := os.Open(filepath.Join(dir, "report.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	doc, err := document.DecodeReport(f, "report.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return doc
+	return readReport(t, filepath.Join(dir, "report.json"))
 }
 
 // findingSet lists a report's findings as "code joints parts" lines.

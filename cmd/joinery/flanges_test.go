@@ -36,15 +36,7 @@ func TestFlangesExampleGolden(t *testing.T) {
 	}
 	validate(t, "flanges.schema.json", filepath.Join(dir, "flanges.json"))
 	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
-	f, err := os.Open(filepath.Join(dir, "flanges.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	doc, err := document.DecodeFlanges(f, "flanges.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := readFlanges(t, filepath.Join(dir, "flanges.json"))
 	pairs := map[[2]int64]int{}
 	for _, fl := range doc.Flanges {
 		pairs[fl.Parts]++

@@ -65,15 +65,7 @@ func writeModel(t *testing.T, dir string, plates []offsettest.Plate, declared ma
 // findingCodes reads a report.json and returns its findings by code.
 func findingCodes(t *testing.T, path string) map[string][]document.FindingDoc {
 	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rep, err := document.DecodeReport(f, path)
-	if err != nil {
-		t.Fatal(err)
-	}
+	rep := readReport(t, path)
 	out := map[string][]document.FindingDoc{}
 	for _, fd := range rep.Findings {
 		out[fd.Code] = append(out[fd.Code], fd)
@@ -100,15 +92,7 @@ func TestOffsetsPlantedModel(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := os.Open(filepath.Join(out, "surfaces.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	doc, err := document.DecodeSurfaces(f, "surfaces.json")
-	f.Close()
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := readSurfaces(t, filepath.Join(out, "surfaces.json"))
 	for i, p := range plates {
 		if table[i].ID != p.ID || table[i].Surface != p.Surface || table[i].Thickness != p.Thickness {
 			t.Errorf("surfaces.yaml: %+v, want part %d %s", table[i], p.ID, p.Surface)

@@ -116,15 +116,7 @@ func runRenumbered(t *testing.T, dir string, md renumberModel, id func(int64) in
 	if code, _, errs := runCLI(t, "flanges", filepath.Join(dir, "job.yaml"), "--pitch", "30", "--out", out, "--quiet", "--fail-on", "never"); code != exitOK {
 		t.Fatalf("flanges: exit %d: %s", code, errs)
 	}
-	f, err := os.Open(filepath.Join(out, "flanges.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	doc, err := document.DecodeFlanges(f, "flanges.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := readFlanges(t, filepath.Join(out, "flanges.json"))
 	return doc.Flanges
 }
 

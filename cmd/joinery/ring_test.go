@@ -3,12 +3,10 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"testing"
 
 	"github.com/joinery-cae/joinery/joints"
-	"github.com/joinery-cae/joinery/writers/document"
 )
 
 // frameSheet is a square sheet of n by n quads of size h from (x0, x0)
@@ -89,7 +87,7 @@ func TestFlangesOnSquareRingBuildClean(t *testing.T) {
 			dir := t.TempDir()
 			mesh := writeLines(t, filepath.Join(dir, "ring.jmesh"), frameMesh(tc.sheets...))
 			fl := runDocs(t, "flanges", "--mesh", mesh, "--pitch", tc.pitch)
-			doc := decodeFile(t, filepath.Join(fl, "flanges.json"), func(f *os.File, n string) (*document.FlangesDoc, error) { return document.DecodeFlanges(f, n) })
+			doc := readFlanges(t, filepath.Join(fl, "flanges.json"))
 			if len(doc.Flanges) != 1 || doc.Flanges[0].Shape != "closed" || math.Abs(doc.Flanges[0].Length-tc.length) > tc.tol {
 				t.Fatalf("flanges %+v; want one closed flange %g mm round", doc.Flanges, tc.length)
 			}
@@ -99,7 +97,7 @@ func TestFlangesOnSquareRingBuildClean(t *testing.T) {
 				t.Fatalf("joints.csv: %d welds, %v", len(welds), err)
 			}
 			bl := runDocs(t, "build", "--mesh", mesh, "--joints", list)
-			cs := decodeFile(t, filepath.Join(bl, "connectors.json"), func(f *os.File, n string) (*document.ConnectorsDoc, error) { return document.DecodeConnectors(f, n) })
+			cs := readConnectors(t, filepath.Join(bl, "connectors.json"))
 			if len(cs.Connectors) != len(welds) {
 				t.Errorf("%d connectors for %d welds", len(cs.Connectors), len(welds))
 			}

@@ -48,21 +48,6 @@ func stackedModel(t *testing.T, dir string) string {
 		"joints: [joints.csv]", "build:", "  groups:", "    g:", "      attach: node-pair"})
 }
 
-// readManifest reads a sweep's manifest.json.
-func readManifest(t *testing.T, dir string) *document.ManifestDoc {
-	t.Helper()
-	f, err := os.Open(filepath.Join(dir, "manifest.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	man, err := document.DecodeManifest(f, "manifest.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return man
-}
-
 // settingsFlags returns a variant's settings as build flags, a set of
 // degrees of freedom written as the build flag takes it.
 func settingsFlags(ss []document.Setting) []string {
@@ -390,19 +375,4 @@ func TestSweepMaxVariantsBounds(t *testing.T) {
 	if _, err := os.Stat(out); !os.IsNotExist(err) {
 		t.Errorf("output directory written on bad usage")
 	}
-}
-
-// readConnectors reads and decodes the connectors.json at path.
-func readConnectors(t *testing.T, path string) *document.ConnectorsDoc {
-	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	doc, err := document.DecodeConnectors(f, filepath.Base(path))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return doc
 }

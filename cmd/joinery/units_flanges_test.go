@@ -3,6 +3,7 @@ package main
 import (
 	"bufio"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -27,7 +28,9 @@ func runDocs(t *testing.T, cmd string, args ...string) string {
 	return out
 }
 
-func decodeFile[T any](t *testing.T, path string, dec func(f *os.File, name string) (T, error)) T {
+// decodeFile opens path and decodes it with dec (one of document's
+// decoders), failing the test on any error.
+func decodeFile[T any](t *testing.T, path string, dec func(r io.Reader, name string) (T, error)) T {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -39,6 +42,32 @@ func decodeFile[T any](t *testing.T, path string, dec func(f *os.File, name stri
 		t.Fatal(err)
 	}
 	return doc
+}
+
+func readConnectors(t *testing.T, path string) *document.ConnectorsDoc {
+	t.Helper()
+	return decodeFile(t, path, document.DecodeConnectors)
+}
+
+func readReport(t *testing.T, path string) *document.ReportDoc {
+	t.Helper()
+	return decodeFile(t, path, document.DecodeReport)
+}
+
+func readFlanges(t *testing.T, path string) *document.FlangesDoc {
+	t.Helper()
+	return decodeFile(t, path, document.DecodeFlanges)
+}
+
+func readSurfaces(t *testing.T, path string) *document.SurfacesDoc {
+	t.Helper()
+	return decodeFile(t, path, document.DecodeSurfaces)
+}
+
+// readManifest reads a sweep's manifest.json from dir.
+func readManifest(t *testing.T, dir string) *document.ManifestDoc {
+	t.Helper()
+	return decodeFile(t, filepath.Join(dir, "manifest.json"), document.DecodeManifest)
 }
 
 // vtkPoints reads the POINTS block of a legacy ASCII VTK file.
@@ -107,9 +136,8 @@ func TestUnitsGiveTheSameFlanges(t *testing.T) {
 		return out
 	}
 	flangeArgs := func(args []string) []string { return append(noJoints(args), "--pitch", "30") }
-	decFlanges := func(f *os.File, name string) (*document.FlangesDoc, error) { return document.DecodeFlanges(f, name) }
 	refDir := runDocs(t, "flanges", flangeArgs(argsMM)...)
-	ref := decodeFile(t, filepath.Join(refDir, "flanges.json"), decFlanges)
+	ref := readFlanges(t, filepath.Join(refDir, "flanges.json"))
 	refPts := vtkPoints(t, filepath.Join(refDir, "flanges.vtk"))
 	refWelds, _, err := joints.ReadJoints(filepath.Join(refDir, "joints.csv"))
 	if err != nil || len(refWelds) == 0 {
@@ -126,7 +154,7 @@ func TestUnitsGiveTheSameFlanges(t *testing.T) {
 			fargs := append(flangeArgs(args), "--units", u.String())
 			dir := runDocs(t, "flanges", fargs...)
 			validate(t, "flanges.schema.json", filepath.Join(dir, "flanges.json"))
-			got := decodeFile(t, filepath.Join(dir, "flanges.json"), decFlanges)
+			got := readFlanges(t, filepath.Join(dir, "flanges.json"))
 			if got.Units.Length != u.String() {
 				t.Errorf("units.length %q, want %q", got.Units.Length, u)
 			}
@@ -218,9 +246,8 @@ func TestUnitsGiveTheSameFlanges(t *testing.T) {
 func TestUnitsGiveTheSameSurfaces(t *testing.T) {
 	skipWithoutExample(t)
 	_, argsMM := scaledExample(t, joints.Millimetre)
-	decSurfaces := func(f *os.File, name string) (*document.SurfacesDoc, error) { return document.DecodeSurfaces(f, name) }
 	refDir := runDocs(t, "offsets", argsMM...)
-	ref := decodeFile(t, filepath.Join(refDir, "surfaces.json"), decSurfaces)
+	ref := readSurfaces(t, filepath.Join(refDir, "surfaces.json"))
 	refTable, err := meshio.ReadParts(filepath.Join(refDir, "surfaces.yaml"))
 	if err != nil || len(refTable) == 0 {
 		t.Fatalf("surfaces.yaml: %d parts, %v", len(refTable), err)
@@ -231,7 +258,7 @@ func TestUnitsGiveTheSameSurfaces(t *testing.T) {
 			_, args := scaledExample(t, u)
 			dir := runDocs(t, "offsets", append(args, "--units", u.String())...)
 			validate(t, "surfaces.schema.json", filepath.Join(dir, "surfaces.json"))
-			got := decodeFile(t, filepath.Join(dir, "surfaces.json"), decSurfaces)
+			got := readSurfaces(t, filepath.Join(dir, "surfaces.json"))
 			if got.Units.Length != u.String() {
 				t.Errorf("units.length %q, want %q", got.Units.Length, u)
 			}

@@ -91,24 +91,8 @@ func buildDocs(t *testing.T, args ...string) (*document.ConnectorsDoc, *document
 	if code != exitOK {
 		t.Fatalf("build %v: exit %d: %s", args, code, errs)
 	}
-	cf, err := os.Open(filepath.Join(out, "connectors.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer cf.Close()
-	conn, err := document.DecodeConnectors(cf, "connectors.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	rf, err := os.Open(filepath.Join(out, "report.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer rf.Close()
-	rep, err := document.DecodeReport(rf, "report.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	conn := readConnectors(t, filepath.Join(out, "connectors.json"))
+	rep := readReport(t, filepath.Join(out, "report.json"))
 	validate(t, "connectors.schema.json", filepath.Join(out, "connectors.json"))
 	validate(t, "report.schema.json", filepath.Join(out, "report.json"))
 	return conn, rep
@@ -293,15 +277,7 @@ func TestCheckReadsUnits(t *testing.T) {
 		if code, _, errs := runCLI(t, chk...); code != exitOK {
 			t.Fatalf("check in %s: exit %d: %s", u, code, errs)
 		}
-		f, err := os.Open(filepath.Join(out, "report.json"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer f.Close()
-		rep, err := document.DecodeReport(f, "report.json")
-		if err != nil {
-			t.Fatal(err)
-		}
+		rep := readReport(t, filepath.Join(out, "report.json"))
 		var codes []string
 		for _, fd := range rep.Findings {
 			codes = append(codes, fmt.Sprint(fd.Joint != nil && *fd.Joint != "", ":", fd.Code, fd.Joints))
