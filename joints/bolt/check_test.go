@@ -38,6 +38,18 @@ func TestSizes(t *testing.T) {
 		{"M10 hole too small", 10, 20, 11, 9.5, []string{joints.CodeHoleSize}, joints.NotBuilt}, // the shank does not pass
 		{"M10 washer not covering", 10, 20, 11, 21, []string{joints.CodeHoleSize, joints.CodeWasherHole}, joints.NotBuilt},
 		{"M14 not tabled", 14, 20, 30, 15, []string{joints.CodeHoleSize}, joints.Flagged}, // no table row: only the mesh is checked
+		// Sizes given in inches to 6 or 4 significant digits (25.4 mm to
+		// the inch, exactly) are the tabled sizes they stand for
+		// (joints.SizeRoundoff): an M10 at 0.393701 in (10.0000054 mm)
+		// in an ISO 273 coarse hole of 0.472441 in (12.0000014 mm) with
+		// an ISO 7089 washer of 0.787402 in; an M8 at 0.3150 in
+		// (8.001 mm) with a 16 mm washer at 0.629921 in (15.9999934 mm).
+		{"M10 in inches, coarse hole", 0.393701 * 25.4, 0.787402 * 25.4, 0.472441 * 25.4, 12, nil, joints.Built},
+		{"M8 in inches, ISO 7089 washer", 0.3150 * 25.4, 0.629921 * 25.4, 0.3543 * 25.4, 9, nil, joints.Built},
+		// The same M8 is recognised: beyond coarse (0.4 in, 10.16 mm)
+		// and with a smaller washer (0.62 in, 15.748 mm) it is reported.
+		{"M8 in inches, beyond coarse", 0.3150 * 25.4, 0.629921 * 25.4, 0.4 * 25.4, 10.16, []string{joints.CodeHoleClass}, joints.Flagged},
+		{"M8 in inches, small washer", 0.314961 * 25.4, 0.62 * 25.4, 0.3543 * 25.4, 9, []string{joints.CodeWasherSmall}, joints.Flagged},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			var ss []sheet
