@@ -221,11 +221,12 @@ type BoltData struct {
 // BoltHole is the hole of one sheet of a bolt.
 type BoltHole struct {
 	// Diameter is the measured diameter of the hole's free-edge loop,
-	// that of the circle fitted to its nodes (Kasa's algebraic fit), mm;
-	// 0 when the mesh has no hole there.
+	// that of the circle fitted to its corner nodes (Kasa's algebraic
+	// fit; second-order edges' midside nodes left out), mm; 0 when the
+	// mesh has no hole there.
 	Diameter float64
 	// Narrowest is the hole's least width through its centre: twice the
-	// least distance of its edge nodes from the centre, mm (the diameter
+	// least distance of its corner nodes from the centre, mm (the diameter
 	// on a round hole, the lesser axis on an oval one); 0 when the mesh
 	// has no hole there.
 	Narrowest float64

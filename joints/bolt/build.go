@@ -256,7 +256,7 @@ func boltAxis(x *geom.Index, j *joints.Joint, radius float64, keep func(pi int32
 }
 
 // offCentreTolerance, mm: a hole's centre (the circle fitted to its
-// edge nodes) farther than this from the bolt's listed axis is reported,
+// corner nodes) farther than this from the bolt's listed axis is reported,
 // hole-off-centre (our choice: above points rounded to 0.01 mm, far
 // below the half millimetre between an M10's shank and its ISO 273
 // fine hole).

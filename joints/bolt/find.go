@@ -90,9 +90,10 @@ type crossing struct {
 	elem  int   // host element
 	t     float64
 	point r3.Vec // on the meshed surface (in a hole, its plane), on the axis
-	// centre is a meshed hole's centre, the circle fitted to its edge
-	// nodes: on the axis as the list gives it, off the axis fitted
-	// through the holes by the holes' misalignment (alignAxis).
+	// centre is a meshed hole's centre, the circle fitted to its corner
+	// nodes (second-order edges' midside nodes left out): on the axis as
+	// the list gives it, off the axis fitted through the holes by the
+	// holes' misalignment (alignAxis).
 	centre r3.Vec
 	// normal is the host element's normal at the point.
 	normal r3.Vec
@@ -100,10 +101,10 @@ type crossing struct {
 	// edges' midside nodes between their corners); nil when the
 	// axis meets an element (no hole meshed there).
 	loop []int32
-	hole float64 // measured hole diameter, mm; 0 without a hole
+	hole float64 // measured hole diameter (the fitted circle's), mm; 0 without a hole
 	// narrow is the hole's least width through its centre as meshed:
-	// twice the least distance of its edge nodes from the centre in the
-	// sheet's plane, mm; 0 without a hole.
+	// twice the least distance of its corner nodes from the centre in
+	// the sheet's plane, mm; 0 without a hole.
 	narrow float64
 }
 
@@ -251,7 +252,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		// the walk without a loop. The midside node of a second-order
 		// edge joins the loop between the edge's corners: it lies on
 		// the hole's edge as they do.
-		loop := []int32{free[s].a}
+		loop, corners := []int32{free[s].a}, []int32{free[s].a}
 		if free[s].mid >= 0 {
 			loop = append(loop, free[s].mid)
 		}
@@ -275,7 +276,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 				break
 			}
 			used[next] = true
-			loop = append(loop, node)
+			loop, corners = append(loop, node), append(corners, node)
 			if free[next].mid >= 0 {
 				loop = append(loop, free[next].mid)
 			}
@@ -295,21 +296,31 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		if math.Abs(r3.Dot(n, f.A)) < cosTol {
 			continue
 		}
-		centre, r, ok := fitCircle(m, loop, n)
+		// The hole is measured on its corners, the nodes a first- and a
+		// second-order mesh of it share: a midside node lies on the
+		// hole's edge only where the mesher curved the element's edge,
+		// and on the chord where it did not (straight-sided elements),
+		// which would read a hole of the same corners smaller and off
+		// centre. Fewer than three corners: every edge node.
+		fit := corners
+		if len(fit) < 3 {
+			fit = loop
+		}
+		centre, r, ok := fitCircle(m, fit, n)
 		if !ok {
 			// Edge nodes on a line or fewer than three: the mean
 			// distance from the axis, where it crosses their mean plane.
 			var t float64
-			for _, nd := range loop {
+			for _, nd := range fit {
 				t += f.along(m.Coords[nd])
 				r += f.lateral(m.Coords[nd])
 			}
-			t /= float64(len(loop))
-			r /= float64(len(loop))
+			t /= float64(len(fit))
+			r /= float64(len(fit))
 			centre = f.at(t)
 		}
 		t := f.along(centre)
-		c := crossing{part: pi, elem: int(host), t: t, point: centre, centre: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, centre: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, fit, centre, n)}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.
@@ -327,13 +338,13 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 	return best, found
 }
 
-// narrowest returns twice the least distance of the nodes of loop from
-// centre in the plane square to normal, mm: the width of the hole
-// through its centre where it is narrowest, as far as its edge nodes
-// tell (they lie on the hole's edge; the chords between them cut inside
-// it, by an amount that depends on the mesh, not on the hole). On a
-// circle it is the diameter; on an oval its lesser axis, where nodes lie
-// at its ends.
+// narrowest returns twice the least distance of the nodes of loop (a
+// hole's corner nodes) from centre in the plane square to normal, mm:
+// the width of the hole through its centre where it is narrowest, as
+// far as its corners tell (they lie on the hole's edge; the chords
+// between them cut inside it, by an amount that depends on the mesh,
+// not on the hole). On a circle it is the diameter; on an oval its
+// lesser axis, where corners lie at its ends.
 func narrowest(m *geom.Mesh, loop []int32, centre, normal r3.Vec) float64 {
 	n := r3.Unit(normal)
 	least := math.Inf(1)
@@ -358,7 +369,7 @@ func winds(m *geom.Mesh, f *frame, loop []int32) bool {
 	return math.Abs(sum) > math.Pi
 }
 
-// fitCircle returns the circle that fits a hole's edge nodes best in
+// fitCircle returns the circle that fits a hole's nodes (its corners) best in
 // the plane through their mean square to normal: the algebraic least
 // squares fit x^2 + y^2 + D x + E y + F = 0 (I. Kasa, A circle fitting
 // procedure and its error analysis, IEEE Trans. Instrum. Meas. 25,
