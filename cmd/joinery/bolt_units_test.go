@@ -396,3 +396,36 @@ func TestBoltUnitsRoundedSizes(t *testing.T) {
 		}
 	}
 }
+
+// check reads the planted bolts back in every unit: the same findings
+// as in mm, and no end-moved (the bolt centres rebuilt on the mesh lie
+// where connectors.json, written in the unit, puts them).
+func TestBoltUnitsCheck(t *testing.T) {
+	var want string
+	for _, u := range []joints.Unit{joints.Millimetre, joints.Metre, joints.Inch} {
+		args := writePlantedBolts(t, u, 0)
+		built := t.TempDir()
+		if code, _, errs := runCLI(t, append([]string{"build", "--out", built, "--quiet", "--fail-on", "never"}, args...)...); code != exitOK {
+			t.Fatalf("build in %s: exit %d: %s", u, code, errs)
+		}
+		out := t.TempDir()
+		chk := []string{"check", "--connectors", filepath.Join(built, "connectors.json"), "--out", out, "--quiet", "--fail-on", "never"}
+		for i := 0; i < len(args); i += 2 {
+			if args[i] != "--joints" {
+				chk = append(chk, args[i], args[i+1])
+			}
+		}
+		if code, _, errs := runCLI(t, chk...); code != exitOK {
+			t.Fatalf("check in %s: exit %d: %s", u, code, errs)
+		}
+		got := summaryCodes(anyJSON(t, filepath.Join(out, "report.json")))
+		if strings.Contains(got, joints.CodeEndMoved) {
+			t.Errorf("check in %s: %s", u, got)
+		}
+		if u == joints.Millimetre {
+			want = got
+		} else if got != want {
+			t.Errorf("check in %s:\n %s\nwant (mm)\n %s", u, got, want)
+		}
+	}
+}

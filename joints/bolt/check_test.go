@@ -316,3 +316,34 @@ func TestOvalHole(t *testing.T) {
 		})
 	}
 }
+
+// TestPointBesideHole: an M10's point 6 or 8 mm off the centre of an
+// 11 mm hole (ISO 273 medium, REFERENCES.md) lies outside the hole, on
+// the sheet: the axis meets the sheet's material and the bolt is built
+// there on a patch ring, and since the hole's centre lies within the
+// washer's radius (10 mm, ISO 7089 washer 20 mm) of the axis, a
+// hole-off-centre warning says the bolt misses its hole (besides
+// edge-close: the hole's edge under the washer). At 12 mm the hole lies
+// beyond the washer's radius: only the edge it leaves within the
+// washer's diameter, no hole-off-centre.
+func TestPointBesideHole(t *testing.T) {
+	m := mesh(t, rotation{}, holed(11)...)
+	for _, c := range []struct {
+		off  float64
+		want bool
+	}{{6, true}, {8, true}, {12, false}} {
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{X: c.off, Z: 1.125}))[0]
+		n := 0
+		for _, f := range b.Findings {
+			if f.Code == joints.CodeHoleOffCentre {
+				n++
+				if f.Severity != joints.Warning || !strings.Contains(f.Message, joints.MM(c.off)+" mm from the centre of a hole") || !strings.Contains(f.Message, "(11 mm across), outside the hole") {
+					t.Errorf("off %g: %s", c.off, f.Message)
+				}
+			}
+		}
+		if got := n == 2; got != c.want || b.Status == joints.NotBuilt || b.Bolt.Holes[0].Ring != "patch" {
+			t.Errorf("off %g: %d hole-off-centre, state %s, ring %s; want %v on both sheets, built on a patch", c.off, n, b.Status, b.Bolt.Holes[0].Ring, c.want)
+		}
+	}
+}
