@@ -2,6 +2,7 @@ package joints
 
 import (
 	"fmt"
+	"math"
 
 	"github.com/joinery-cae/joinery/geom"
 )
@@ -177,11 +178,22 @@ func MetricBolts() []MetricBolt {
 	}
 }
 
+// SizeRoundoff, mm, is how far a listed bolt size (diameter, washer,
+// hole) may lie from a value of the tables and still be that value: the
+// rounding of sizes given in another unit (our choice: half a unit in
+// the fourth significant digit of an inch size under 1 in, 0.00005 in,
+// is 0.00127 mm, so that an M10 written 0.3937 in or 0.393701 in, which
+// is 9.99998 or 10.0000054 mm, is an M10, and a 12 mm coarse hole
+// written 0.472441 in, 12.0000014 mm, is no larger than the coarse
+// hole; far below the tables' smallest step, 0.2 mm, and any tolerance
+// a clearance hole is drilled to).
+const SizeRoundoff = 0.005
+
 // MetricBoltFor returns the tabled size of nominal diameter d, mm, and
-// whether the table has it (within 1e-6 mm).
+// whether the table has it (within SizeRoundoff).
 func MetricBoltFor(d float64) (MetricBolt, bool) {
 	for _, b := range MetricBolts() {
-		if d > b.Nominal-1e-6 && d < b.Nominal+1e-6 {
+		if math.Abs(d-b.Nominal) <= SizeRoundoff {
 			return b, true
 		}
 	}
@@ -209,11 +221,12 @@ type BoltData struct {
 // BoltHole is the hole of one sheet of a bolt.
 type BoltHole struct {
 	// Diameter is the measured diameter of the hole's free-edge loop,
-	// that of the circle fitted to its nodes (Kasa's algebraic fit), mm;
-	// 0 when the mesh has no hole there.
+	// that of the circle fitted to its corner nodes (Kasa's algebraic
+	// fit; second-order edges' midside nodes left out), mm; 0 when the
+	// mesh has no hole there.
 	Diameter float64
 	// Narrowest is the hole's least width through its centre: twice the
-	// least distance of its edge nodes from the centre, mm (the diameter
+	// least distance of its corner nodes from the centre, mm (the diameter
 	// on a round hole, the lesser axis on an oval one); 0 when the mesh
 	// has no hole there.
 	Narrowest float64

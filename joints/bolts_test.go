@@ -79,4 +79,16 @@ func TestMetricBolts(t *testing.T) {
 	if _, ok := MetricBoltFor(14); ok {
 		t.Errorf("M14 is not in the table")
 	}
+	// Sizes given in inches and rounded to 6 or 4 significant digits
+	// (25.4 mm to the inch) are still the tabled sizes: M6 0.236220 in is
+	// 5.999988 mm, M10 0.3937 in 9.99998 mm (SizeRoundoff).
+	for _, c := range []struct{ in, want float64 }{{0.236220, 6}, {0.314961, 8}, {0.3937, 10}, {0.393701, 10}, {0.472441, 12}} {
+		if b, ok := MetricBoltFor(c.in * Inch.MM()); !ok || b.Nominal != c.want {
+			t.Errorf("%g in: %+v %v, want M%g", c.in, b, ok, c.want)
+		}
+	}
+	// A size between two of the table's is none of them.
+	if _, ok := MetricBoltFor(10.01); ok {
+		t.Errorf("10.01 mm is not an M10")
+	}
 }

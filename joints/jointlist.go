@@ -93,12 +93,13 @@ func ParseGround(s string) (bool, error) {
 // regard to case.
 //
 //	id        required; text, unique in the list ("W17", "1042")
-//	x, y, z   required; the joint's point, mm
+//	x, y, z   required; the joint's point, in the job's unit (mm
+//	          unless units says m or in; lengths below alike)
 //	kind      spot (default) or bolt
 //	parts     part ids the joint joins, separated by ';' ("10;20;30")
-//	diameter  spot: nugget diameter; bolt: nominal shank diameter; mm
-//	washer    bolt: washer or head outer diameter, mm
-//	hole      bolt: hole diameter, mm
+//	diameter  spot: nugget diameter; bolt: nominal shank diameter
+//	washer    bolt: washer or head outer diameter
+//	hole      bolt: hole diameter
 //	group     free tag, e.g. to select build settings in a job file
 //	nx, ny, nz bolt: the axis direction (any length but zero; all three
 //	          or none); default: the normal of the nearest sheet

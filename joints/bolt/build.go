@@ -188,10 +188,22 @@ func buildOne(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) joints.Con
 		ring, weights, kind := ringOf(m, near, &xs[i], j.Washer, o.BoltRing)
 		c.Ends = append(c.Ends, joints.End{Point: xs[i].point, NodeIndex: -1, Nodes: ring, Weights: weights})
 		c.Bolt.Holes = append(c.Bolt.Holes, joints.BoltHole{Diameter: xs[i].hole, Narrowest: xs[i].narrow, Ring: kind})
+		part := c.Stack.Sheets[i].Part
 		if xs[i].loop == nil {
+			// The axis meets the sheet's material: a meshed hole beside
+			// it, under the washer, is the hole the bolt was meant for.
+			var own []int32
+			for _, e := range near {
+				if m.ElemPart[e] == xs[i].part {
+					own = append(own, e)
+				}
+			}
+			if off, d, ok := holeBeside(m, &g, own, o.Reach, l, j.Washer/2); ok {
+				c.Findings = append(c.Findings, j.Finding(joints.Warning, joints.CodeHoleOffCentre, []int64{part},
+					fmt.Sprintf("the bolt's axis passes through part %d %s mm from the centre of a hole meshed there (%s mm across), outside the hole: the bolt is built through the sheet at the listed point, not through the hole; correct the point or the axis", part, joints.MM(off), joints.MM(d))))
+			}
 			continue
 		}
-		part := c.Stack.Sheets[i].Part
 		clear := (xs[i].hole - j.Diameter) / 2
 		switch off := f.lateral(xs[i].centre); {
 		case off > clear+joints.LengthRoundoff && off > offCentreTolerance:
@@ -256,7 +268,7 @@ func boltAxis(x *geom.Index, j *joints.Joint, radius float64, keep func(pi int32
 }
 
 // offCentreTolerance, mm: a hole's centre (the circle fitted to its
-// edge nodes) farther than this from the bolt's listed axis is reported,
+// corner nodes) farther than this from the bolt's listed axis is reported,
 // hole-off-centre (our choice: above points rounded to 0.01 mm, far
 // below the half millimetre between an M10's shank and its ISO 273
 // fine hole).

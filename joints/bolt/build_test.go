@@ -1,6 +1,7 @@
 package bolt
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"testing"
@@ -371,6 +372,178 @@ func TestQuadraticHoleRing(t *testing.T) {
 				}
 				if !near(sum, 1, 1e-12) || r3.Norm(r3.Sub(mean, b.Ends[i].Point)) > 1e-9 {
 					t.Errorf("part %d: weights sum to %g with mean %v, want 1 and the centre %v", s.Part, sum, mean, b.Ends[i].Point)
+				}
+			}
+		})
+	}
+}
+
+// TestSecondOrderHoles: holes meshed with 8- and 9-node quads and
+// 6-node triangles, their midside nodes on the hole's circle or on the
+// chords between its corners (straight-sided elements), the corners
+// evenly or unevenly spaced round it. Closed form: the hole's edge
+// nodes are its Seg corners and Seg midside nodes, nothing else (no
+// Quad9 centre, no Tri6 diagonal, no midside between rings); its
+// circle, fitted to its corners, all on the 11 mm circle, is that
+// circle exactly, centre and diameter, whatever the element order and
+// wherever the midside nodes lie, as for first-order elements with the
+// same corners; the weights sum to 1 and their weighted mean of the
+// nodes is the centre; evenly spaced on the circle, each is 1/(2 Seg).
+func TestSecondOrderHoles(t *testing.T) {
+	const seg, rings = 8, 2
+	for _, elem := range []geom.ElemType{geom.Quad8, geom.Quad9, geom.Tri6} {
+		for _, straight := range []bool{false, true} {
+			for _, warp := range []float64{0, 0.3} {
+				name := fmt.Sprintf("%s/straight=%v/warp=%g", elem, straight, warp)
+				t.Run(name, func(t *testing.T) {
+					// An M10 in an ISO 273 fine hole, 10.5 mm (REFERENCES.md),
+					// ISO 7089 washer 20 mm.
+					ss := []sheet{
+						{Part: 1, T: 1.5, Z: 0, Hole: 10.5, Outer: 14, Seg: seg, Rings: rings, Quadratic: true, Elem: elem, Straight: straight, Warp: warp},
+						{Part: 2, T: 3, Z: 2.25, Hole: 10.5, Outer: 14, Seg: seg, Rings: rings, Quadratic: true, Elem: elem, Straight: straight, Warp: warp},
+					}
+					m := mesh(t, rotation{}, ss...)
+					j := joints.Joint{ID: "B1", Kind: joints.Bolt, Point: r3.Vec{Z: 1.125}, Diameter: 10, Washer: 20, Hole: 10.5}
+					b := build(t, m, joints.BuildOptions{}, j)[0]
+					if b.Status != joints.Built || len(b.Findings) > 0 {
+						t.Fatalf("state %s, findings %v", b.Status, b.Findings)
+					}
+					for i, s := range b.Stack.Sheets {
+						var want []int32
+						for k := range seg {
+							n, _ := m.NodeIndex(s.Part*10000 + int64(k) + 1) // corners of the hole's edge
+							want = append(want, n)
+						}
+						for k := range seg {
+							n, _ := m.NodeIndex(s.Part*10000 + int64((rings+1)*seg+k) + 1) // their midsides
+							want = append(want, n)
+						}
+						if !slices.Equal(b.Ends[i].Nodes, want) {
+							t.Errorf("part %d: ring %v, want %v", s.Part, b.Ends[i].Nodes, want)
+						}
+						z := []float64{0, 2.25}[i]
+						if r3.Norm(r3.Sub(b.Ends[i].Point, r3.Vec{Z: z})) > 1e-9 {
+							t.Errorf("part %d: centre %v, want (0, 0, %g)", s.Part, b.Ends[i].Point, z)
+						}
+						if h := b.Bolt.Holes[i]; !near(h.Diameter, 10.5, 1e-9) || !near(h.Narrowest, 10.5, 1e-9) {
+							t.Errorf("part %d: hole %g, narrowest %g; want 10.5 and 10.5", s.Part, h.Diameter, h.Narrowest)
+						}
+						sum := 0.0
+						var mean r3.Vec
+						for k, n := range b.Ends[i].Nodes {
+							w := b.Ends[i].Weights[k]
+							sum += w
+							mean = r3.Add(mean, r3.Scale(w, m.Coords[n]))
+							if warp == 0 && !straight && !near(w, 1.0/(2*seg), 1e-12) {
+								t.Errorf("part %d: weight %g, want 1/%d", s.Part, w, 2*seg)
+							}
+						}
+						if !near(sum, 1, 1e-12) || r3.Norm(r3.Sub(mean, b.Ends[i].Point)) > 1e-9 {
+							t.Errorf("part %d: weights sum to %g, mean %v; want 1 and %v", s.Part, sum, mean, b.Ends[i].Point)
+						}
+					}
+				})
+			}
+		}
+	}
+}
+
+// TestFewNodeHoles: a hexagonal and an octagonal hole, their corners on
+// the 11 mm circle (an M10's ISO 273 medium hole, REFERENCES.md). The
+// fitted circle passes through the corners (Kasa's fit is exact for
+// points on a circle), so the hole measures 11 mm, the circumscribed
+// circle, not the inscribed one, 11 cos(180°/n) (9.526 mm for the
+// hexagon, 10.163 mm for the octagon); its least width through the
+// centre as its corners tell is 11 too; the ring's weights are 1/n,
+// and the bolt is built without findings.
+func TestFewNodeHoles(t *testing.T) {
+	for _, n := range []int{6, 8} {
+		t.Run(fmt.Sprintf("%d-gon", n), func(t *testing.T) {
+			ss := holed(11)
+			for i := range ss {
+				ss[i].Seg = n
+			}
+			// Turned about the axis, so that no corner lies on a
+			// coordinate axis.
+			m := mesh(t, rotation{u: r3.Vec{Z: 1}, a: 0.3}, ss...)
+			b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{Z: 1.125}))[0]
+			if b.Status != joints.Built || len(b.Findings) > 0 {
+				t.Fatalf("state %s, findings %v", b.Status, b.Findings)
+			}
+			for i := range b.Stack.Sheets {
+				if h := b.Bolt.Holes[i]; !near(h.Diameter, 11, 1e-9) || !near(h.Narrowest, 11, 1e-9) {
+					t.Errorf("sheet %d: hole %.12g, narrowest %.12g; want 11 (circumscribed; inscribed %.4g)", i, h.Diameter, h.Narrowest, 11*math.Cos(math.Pi/float64(n)))
+				}
+				if len(b.Ends[i].Nodes) != n {
+					t.Errorf("sheet %d: %d ring nodes, want %d", i, len(b.Ends[i].Nodes), n)
+				}
+				for _, w := range b.Ends[i].Weights {
+					if !near(w, 1/float64(n), 1e-12) {
+						t.Errorf("sheet %d: weight %g, want 1/%d", i, w, n)
+					}
+				}
+				if z := []float64{0, 2.25}[i]; r3.Norm(r3.Sub(b.Ends[i].Point, r3.Vec{Z: z})) > 1e-9 {
+					t.Errorf("sheet %d: centre %v, want (0, 0, %g)", i, b.Ends[i].Point, z)
+				}
+			}
+		})
+	}
+}
+
+// TestThreeSheetsGrounded: an M10 through three holed sheets in contact,
+// 1, 1.5 and 2 mm thick, mid-surfaces at z = 0, 1.25 and 3 (contact
+// (t1+t2)/2: 1.25 and 1.75), grounded. Closed form: three centres on the
+// axis at the mid-surfaces, two shanks of 1.25 and 1.75 mm on all six
+// degrees of freedom, the support at the last centre along the listed
+// axis (z = 3 along +z, z = 0 along -z), holding the rings' degrees of
+// freedom: translations by default, all six when asked.
+func TestThreeSheetsGrounded(t *testing.T) {
+	ss := []sheet{
+		{Part: 1, T: 1, Z: 0, Hole: 11, Outer: 40, Seg: 24, Rings: 6},
+		{Part: 2, T: 1.5, Z: 1.25, Hole: 11, Outer: 40, Seg: 24, Rings: 6},
+		{Part: 3, T: 2, Z: 3, Hole: 11, Outer: 40, Seg: 24, Rings: 6},
+	}
+	m := mesh(t, rotation{}, ss...)
+	for _, c := range []struct {
+		name    string
+		axis    r3.Vec
+		dofs    joints.DOFs
+		support int64 // part of the supported centre
+	}{
+		{"toward +z", r3.Vec{Z: 1}, 0, 3},
+		{"toward -z", r3.Vec{Z: -1}, 0, 1},
+		{"rotations asked", r3.Vec{Z: 2}, joints.AllDOFs, 3},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			j := m10("B1", r3.Vec{X: 0.004, Z: 1.5}) // within 0.01 mm of the centres: no finding
+			j.Axis, j.Ground = c.axis, true
+			b := build(t, m, joints.BuildOptions{BoltDOFs: c.dofs}, j)[0]
+			if b.Status != joints.Built || len(b.Findings) > 0 {
+				t.Fatalf("state %s, findings %v", b.Status, b.Findings)
+			}
+			want := c.dofs
+			if want == 0 {
+				want = joints.Translations
+			}
+			if b.DOFs != want || b.Bolt.SupportDOFs != want || b.Bolt.Support != 2 || b.Stack.Sheets[2].Part != c.support {
+				t.Errorf("dofs %s, support at sheet %d (part %d) holding %s; want %s at the last sheet, part %d", b.DOFs, b.Bolt.Support, b.Stack.Sheets[b.Bolt.Support].Part, b.Bolt.SupportDOFs, want, c.support)
+			}
+			if len(b.Links) != 2 {
+				t.Fatalf("%d links, want 2", len(b.Links))
+			}
+			lengths := []float64{1.25, 1.75} // in stack order along the axis
+			if c.axis.Z < 0 {
+				lengths = []float64{1.75, 1.25}
+			}
+			for k, l := range b.Links {
+				if l.Kind != joints.ShankLink || l.DOFs != joints.AllDOFs || !near(l.Length, lengths[k], 1e-9) || !near(l.SquareGap, l.Contact, 1e-9) {
+					t.Errorf("link %d: %s %s length %g gap %g contact %g; want a shank on all six, %g long, at contact", k, l.Kind, l.DOFs, l.Length, l.SquareGap, l.Contact, lengths[k])
+				}
+			}
+			for i, s := range b.Stack.Sheets {
+				pi, _ := m.PartIndex(s.Part)
+				if p := (r3.Vec{Z: ss[pi].Z}); r3.Norm(r3.Sub(b.Ends[i].Point, p)) > 1e-9 {
+					t.Errorf("part %d: centre %v, want %v", s.Part, b.Ends[i].Point, p)
 				}
 			}
 		})

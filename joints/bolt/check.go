@@ -63,11 +63,6 @@ func checkSheets(j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []jo
 	return fs
 }
 
-// sizeTolerance, mm, is the rounding allowed when sizes are compared
-// with the tables (our choice: far below any step of the tables, far
-// above the rounding of a unit conversion).
-const sizeTolerance = 1e-6
-
 // checkSizes checks a bolt's sizes against the published tables and its
 // holes as meshed: a declared hole larger than ISO 273's coarse series
 // for the size (hole-class) and a washer smaller than ISO 7089's
@@ -80,13 +75,13 @@ const sizeTolerance = 1e-6
 func checkSizes(j *joints.Joint, st *joints.Stack, holes []joints.BoltHole, o *joints.BuildOptions) []joints.Finding {
 	var fs []joints.Finding
 	if b, ok := joints.MetricBoltFor(j.Diameter); ok {
-		// sizeTolerance absorbs the rounding of lengths given in other
-		// units (20 mm written in inches and read back).
-		if j.Hole > b.Coarse+sizeTolerance {
+		// SizeRoundoff absorbs the rounding of sizes given in other
+		// units (20 mm written 0.7874 in is 19.99996 mm).
+		if j.Hole > b.Coarse+joints.SizeRoundoff {
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeHoleClass, st.Parts(),
 				fmt.Sprintf("hole %s mm is larger than the coarse clearance hole for M%g, %s mm (ISO 273): the washer may not bear", joints.MM(j.Hole), b.Nominal, joints.MM(b.Coarse))))
 		}
-		if j.Washer < b.WasherOuter-sizeTolerance {
+		if j.Washer < b.WasherOuter-joints.SizeRoundoff {
 			fs = append(fs, j.Finding(joints.Warning, joints.CodeWasherSmall, st.Parts(),
 				fmt.Sprintf("washer %s mm is smaller than the plain washer for M%g, %s mm (ISO 7089)", joints.MM(j.Washer), b.Nominal, joints.MM(b.WasherOuter))))
 		}

@@ -38,6 +38,18 @@ func TestSizes(t *testing.T) {
 		{"M10 hole too small", 10, 20, 11, 9.5, []string{joints.CodeHoleSize}, joints.NotBuilt}, // the shank does not pass
 		{"M10 washer not covering", 10, 20, 11, 21, []string{joints.CodeHoleSize, joints.CodeWasherHole}, joints.NotBuilt},
 		{"M14 not tabled", 14, 20, 30, 15, []string{joints.CodeHoleSize}, joints.Flagged}, // no table row: only the mesh is checked
+		// Sizes given in inches to 6 or 4 significant digits (25.4 mm to
+		// the inch, exactly) are the tabled sizes they stand for
+		// (joints.SizeRoundoff): an M10 at 0.393701 in (10.0000054 mm)
+		// in an ISO 273 coarse hole of 0.472441 in (12.0000014 mm) with
+		// an ISO 7089 washer of 0.787402 in; an M8 at 0.3150 in
+		// (8.001 mm) with a 16 mm washer at 0.629921 in (15.9999934 mm).
+		{"M10 in inches, coarse hole", 0.393701 * 25.4, 0.787402 * 25.4, 0.472441 * 25.4, 12, nil, joints.Built},
+		{"M8 in inches, ISO 7089 washer", 0.3150 * 25.4, 0.629921 * 25.4, 0.3543 * 25.4, 9, nil, joints.Built},
+		// The same M8 is recognised: beyond coarse (0.4 in, 10.16 mm)
+		// and with a smaller washer (0.62 in, 15.748 mm) it is reported.
+		{"M8 in inches, beyond coarse", 0.3150 * 25.4, 0.629921 * 25.4, 0.4 * 25.4, 10.16, []string{joints.CodeHoleClass}, joints.Flagged},
+		{"M8 in inches, small washer", 0.314961 * 25.4, 0.62 * 25.4, 0.3543 * 25.4, 9, []string{joints.CodeWasherSmall}, joints.Flagged},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			var ss []sheet
@@ -302,5 +314,36 @@ func TestOvalHole(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestPointBesideHole: an M10's point 6 or 8 mm off the centre of an
+// 11 mm hole (ISO 273 medium, REFERENCES.md) lies outside the hole, on
+// the sheet: the axis meets the sheet's material and the bolt is built
+// there on a patch ring, and since the hole's centre lies within the
+// washer's radius (10 mm, ISO 7089 washer 20 mm) of the axis, a
+// hole-off-centre warning says the bolt misses its hole (besides
+// edge-close: the hole's edge under the washer). At 12 mm the hole lies
+// beyond the washer's radius: only the edge it leaves within the
+// washer's diameter, no hole-off-centre.
+func TestPointBesideHole(t *testing.T) {
+	m := mesh(t, rotation{}, holed(11)...)
+	for _, c := range []struct {
+		off  float64
+		want bool
+	}{{6, true}, {8, true}, {12, false}} {
+		b := build(t, m, joints.BuildOptions{}, m10("B1", r3.Vec{X: c.off, Z: 1.125}))[0]
+		n := 0
+		for _, f := range b.Findings {
+			if f.Code == joints.CodeHoleOffCentre {
+				n++
+				if f.Severity != joints.Warning || !strings.Contains(f.Message, joints.MM(c.off)+" mm from the centre of a hole") || !strings.Contains(f.Message, "(11 mm across), outside the hole") {
+					t.Errorf("off %g: %s", c.off, f.Message)
+				}
+			}
+		}
+		if got := n == 2; got != c.want || b.Status == joints.NotBuilt || b.Bolt.Holes[0].Ring != "patch" {
+			t.Errorf("off %g: %d hole-off-centre, state %s, ring %s; want %v on both sheets, built on a patch", c.off, n, b.Status, b.Bolt.Holes[0].Ring, c.want)
+		}
 	}
 }

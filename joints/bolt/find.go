@@ -90,9 +90,10 @@ type crossing struct {
 	elem  int   // host element
 	t     float64
 	point r3.Vec // on the meshed surface (in a hole, its plane), on the axis
-	// centre is a meshed hole's centre, the circle fitted to its edge
-	// nodes: on the axis as the list gives it, off the axis fitted
-	// through the holes by the holes' misalignment (alignAxis).
+	// centre is a meshed hole's centre, the circle fitted to its corner
+	// nodes (second-order edges' midside nodes left out): on the axis as
+	// the list gives it, off the axis fitted through the holes by the
+	// holes' misalignment (alignAxis).
 	centre r3.Vec
 	// normal is the host element's normal at the point.
 	normal r3.Vec
@@ -100,10 +101,10 @@ type crossing struct {
 	// edges' midside nodes between their corners); nil when the
 	// axis meets an element (no hole meshed there).
 	loop []int32
-	hole float64 // measured hole diameter, mm; 0 without a hole
+	hole float64 // measured hole diameter (the fitted circle's), mm; 0 without a hole
 	// narrow is the hole's least width through its centre as meshed:
-	// twice the least distance of its edge nodes from the centre in the
-	// sheet's plane, mm; 0 without a hole.
+	// twice the least distance of its corner nodes from the centre in
+	// the sheet's plane, mm; 0 without a hole.
 	narrow float64
 }
 
@@ -201,12 +202,19 @@ func crossings(m *geom.Mesh, f *frame, near []int32, reach, l, cosTol float64, k
 	return out
 }
 
-// holeCrossing finds the hole of part pi round the axis among its
-// elements elems: the closed free-edge loop, within l of the axis and
-// reach along it, that winds round the axis, nearest the bolt point
-// along it; of two such loops in one sheet (a small part whose outer
-// edge also lies within l), the inner one.
-func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cosTol float64) (crossing, bool) {
+// edgeLoop is a closed loop of free edges of one part.
+type edgeLoop struct {
+	// nodes are the loop's nodes in order round it, a second-order
+	// edge's midside node between its corners; corners leaves the
+	// midside nodes out.
+	nodes, corners []int32
+	host           int32 // the loop's element of lowest id
+}
+
+// freeLoops returns the closed free-edge loops among the elements elems
+// of one part whose edges have both ends within l of the axis and reach
+// of the point along it, in the order of their edges' lowest nodes.
+func freeLoops(m *geom.Mesh, f *frame, elems []int32, reach, l float64) []edgeLoop {
 	type edge struct {
 		a, b int32
 		mid  int32 // the midside node of a second-order element's edge, -1 without
@@ -233,7 +241,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		}
 	}
 	if len(free) < 3 {
-		return crossing{}, false
+		return nil
 	}
 	slices.SortFunc(free, func(x, y edge) int { return cmp.Or(cmp.Compare(x.a, y.a), cmp.Compare(x.b, y.b)) })
 	at := map[int32][]int{} // node -> free edges using it
@@ -242,7 +250,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		at[ed.b] = append(at[ed.b], i)
 	}
 	used := make([]bool, len(free))
-	best, found := crossing{}, false
+	var out []edgeLoop
 	for s := range free {
 		if used[s] {
 			continue
@@ -251,7 +259,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 		// the walk without a loop. The midside node of a second-order
 		// edge joins the loop between the edge's corners: it lies on
 		// the hole's edge as they do.
-		loop := []int32{free[s].a}
+		loop, corners := []int32{free[s].a}, []int32{free[s].a}
 		if free[s].mid >= 0 {
 			loop = append(loop, free[s].mid)
 		}
@@ -275,7 +283,7 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 				break
 			}
 			used[next] = true
-			loop = append(loop, node)
+			loop, corners = append(loop, node), append(corners, node)
 			if free[next].mid >= 0 {
 				loop = append(loop, free[next].mid)
 			}
@@ -287,29 +295,64 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 				node = free[next].a
 			}
 		}
-		if !closed || len(loop) < 3 || !winds(m, f, loop) {
+		if !closed || len(loop) < 3 {
 			continue
 		}
 		host := slices.MinFunc(hosts, func(a, b int32) int { return cmp.Compare(m.ElemIDs[a], m.ElemIDs[b]) })
+		out = append(out, edgeLoop{nodes: loop, corners: corners, host: host})
+	}
+	return out
+}
+
+// holeCircle returns the circle of a hole's loop in the plane square to
+// normal n: centre and radius fitted to its corners.
+//
+// The hole is measured on its corners, the nodes a first- and a
+// second-order mesh of it share: a midside node lies on the hole's edge
+// only where the mesher curved the element's edge, and on the chord
+// where it did not (straight-sided elements), which would read a hole
+// of the same corners smaller and off centre. Fewer than three corners:
+// every edge node. Edge nodes on a line: the mean distance from the
+// axis of f, where it crosses their mean plane. It also returns the
+// nodes the circle was fitted to.
+func holeCircle(m *geom.Mesh, f *frame, lp *edgeLoop, n r3.Vec) (r3.Vec, float64, []int32) {
+	fit := lp.corners
+	if len(fit) < 3 {
+		fit = lp.nodes
+	}
+	centre, r, ok := fitCircle(m, fit, n)
+	if !ok {
+		var t float64
+		for _, nd := range fit {
+			t += f.along(m.Coords[nd])
+			r += f.lateral(m.Coords[nd])
+		}
+		t /= float64(len(fit))
+		r /= float64(len(fit))
+		centre = f.at(t)
+	}
+	return centre, r, fit
+}
+
+// holeCrossing finds the hole of part pi round the axis among its
+// elements elems: the closed free-edge loop, within l of the axis and
+// reach along it, that winds round the axis, nearest the bolt point
+// along it; of two such loops in one sheet (a small part whose outer
+// edge also lies within l), the inner one.
+func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cosTol float64) (crossing, bool) {
+	best, found := crossing{}, false
+	for _, lp := range freeLoops(m, f, elems, reach, l) {
+		if !winds(m, f, lp.nodes) {
+			continue
+		}
+		host, loop := lp.host, lp.nodes
 		n := m.Normal(int(host))
 		if math.Abs(r3.Dot(n, f.A)) < cosTol {
 			continue
 		}
-		centre, r, ok := fitCircle(m, loop, n)
-		if !ok {
-			// Edge nodes on a line or fewer than three: the mean
-			// distance from the axis, where it crosses their mean plane.
-			var t float64
-			for _, nd := range loop {
-				t += f.along(m.Coords[nd])
-				r += f.lateral(m.Coords[nd])
-			}
-			t /= float64(len(loop))
-			r /= float64(len(loop))
-			centre = f.at(t)
-		}
+		centre, r, fit := holeCircle(m, f, &lp, n)
 		t := f.along(centre)
-		c := crossing{part: pi, elem: int(host), t: t, point: centre, centre: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, loop, centre, n)}
+		c := crossing{part: pi, elem: int(host), t: t, point: centre, centre: centre, normal: n, loop: loop, hole: 2 * r, narrow: narrowest(m, fit, centre, n)}
 		// Of two loops in one sheet (within its thickness along the
 		// axis), the inner is the hole, the outer the sheet's edge; of
 		// loops apart along the axis, the one nearer the bolt point.
@@ -327,13 +370,37 @@ func holeCrossing(m *geom.Mesh, f *frame, pi int32, elems []int32, reach, l, cos
 	return best, found
 }
 
-// narrowest returns twice the least distance of the nodes of loop from
-// centre in the plane square to normal, mm: the width of the hole
-// through its centre where it is narrowest, as far as its edge nodes
-// tell (they lie on the hole's edge; the chords between them cut inside
-// it, by an amount that depends on the mesh, not on the hole). On a
-// circle it is the diameter; on an oval its lesser axis, where nodes lie
-// at its ends.
+// holeBeside returns the meshed hole of part pi, among its elements
+// elems, that lies beside the axis instead of round it: of the closed
+// free-edge loops within l of the axis and reach along it that do not
+// wind round it, the one whose centre lies nearest the axis, if within
+// r of it (the washer's radius: the washer would seat over it). It
+// returns the centre's distance from the axis and the hole's diameter.
+func holeBeside(m *geom.Mesh, f *frame, elems []int32, reach, l, r float64) (float64, float64, bool) {
+	best, dia, found := 0.0, 0.0, false
+	for _, lp := range freeLoops(m, f, elems, reach, l) {
+		if winds(m, f, lp.nodes) {
+			continue
+		}
+		n := m.Normal(int(lp.host))
+		if r3.Norm2(n) == 0 {
+			continue
+		}
+		centre, rad, _ := holeCircle(m, f, &lp, n)
+		if d := f.lateral(centre); d <= r+joints.LengthRoundoff && (!found || d < best) {
+			best, dia, found = d, 2*rad, true
+		}
+	}
+	return best, dia, found
+}
+
+// narrowest returns twice the least distance of the nodes of loop (a
+// hole's corner nodes) from centre in the plane square to normal, mm:
+// the width of the hole through its centre where it is narrowest, as
+// far as its corners tell (they lie on the hole's edge; the chords
+// between them cut inside it, by an amount that depends on the mesh,
+// not on the hole). On a circle it is the diameter; on an oval its
+// lesser axis, where corners lie at its ends.
 func narrowest(m *geom.Mesh, loop []int32, centre, normal r3.Vec) float64 {
 	n := r3.Unit(normal)
 	least := math.Inf(1)
@@ -358,7 +425,7 @@ func winds(m *geom.Mesh, f *frame, loop []int32) bool {
 	return math.Abs(sum) > math.Pi
 }
 
-// fitCircle returns the circle that fits a hole's edge nodes best in
+// fitCircle returns the circle that fits a hole's nodes (its corners) best in
 // the plane through their mean square to normal: the algebraic least
 // squares fit x^2 + y^2 + D x + E y + F = 0 (I. Kasa, A circle fitting
 // procedure and its error analysis, IEEE Trans. Instrum. Meas. 25,

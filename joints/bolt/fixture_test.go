@@ -33,6 +33,15 @@ type sheet struct {
 	// each edge, on the circle between two corners of a ring (numbered
 	// after the corners, ring by ring), and half-way between two rings.
 	Quadratic bool
+	// Elem, with Quadratic, is the second-order element: Quad8 (the
+	// default), Quad9 (a centre node too, numbered after the midsides)
+	// or Tri6 (each quad cut along its diagonal from ring r at k to ring
+	// r+1 at k+1, the diagonals' midside nodes numbered last).
+	Elem geom.ElemType
+	// Straight puts the midside nodes at the middle of the chords
+	// between their corners (straight-sided second-order elements)
+	// instead of on the circles.
+	Straight bool
 	// OvalX and OvalY, when set, make the hole an ellipse of these
 	// diameters along x and y (Hole is then the ellipse's nominal size for
 	// the rings beyond, which blend to circles by the outer one).
@@ -104,12 +113,21 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 				}
 				continue
 			}
+			// mid places a node between angles k and k+1 at radius rad:
+			// on the circle, or with Straight at the chord's middle.
+			mid := func(rad, k float64) {
+				a := angle(k + 0.5)
+				if s.Straight {
+					a0, a1 := angle(k), angle(k+1)
+					node(r3.Vec{X: s.CX + rad*(math.Cos(a0)+math.Cos(a1))/2, Y: rad * (math.Sin(a0) + math.Sin(a1)) / 2, Z: s.Z})
+					return
+				}
+				node(r3.Vec{X: s.CX + rad*math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+			}
 			tb := base + int32((s.Rings+1)*s.Seg) // midsides on the rings
 			for r := 0; r <= s.Rings; r++ {
-				rad := radius(float64(r))
 				for k := range s.Seg {
-					a := angle(float64(k) + 0.5)
-					node(r3.Vec{X: s.CX + rad*math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
+					mid(radius(float64(r)), float64(k))
 				}
 			}
 			rb := tb + int32((s.Rings+1)*s.Seg) // midsides between rings
@@ -120,12 +138,30 @@ func mesh(t *testing.T, rot rotation, sheets ...sheet) *geom.Mesh {
 					node(r3.Vec{X: s.CX + rad*math.Cos(a), Y: rad * math.Sin(a), Z: s.Z})
 				}
 			}
+			cb := rb + int32(s.Rings*s.Seg) // centres (Quad9) or diagonals' midsides (Tri6)
+			if s.Elem == geom.Quad9 || s.Elem == geom.Tri6 {
+				for r := range s.Rings {
+					for k := range s.Seg {
+						mid(radius(float64(r)+0.5), float64(k))
+					}
+				}
+			}
 			tm := func(r, k int) int32 { return tb + int32(r*s.Seg+k%s.Seg) }
 			rm := func(r, k int) int32 { return rb + int32(r*s.Seg+k%s.Seg) }
+			cm := func(r, k int) int32 { return cb + int32(r*s.Seg+k%s.Seg) }
 			for r := range s.Rings {
 				for k := range s.Seg {
-					elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1),
-						rm(r, k), tm(r+1, k), rm(r, k+1), tm(r, k))
+					switch s.Elem {
+					case geom.Tri6:
+						elem(at(r, k), at(r+1, k), at(r+1, k+1), rm(r, k), tm(r+1, k), cm(r, k))
+						elem(at(r, k), at(r+1, k+1), at(r, k+1), cm(r, k), rm(r, k+1), tm(r, k))
+					case geom.Quad9:
+						elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1),
+							rm(r, k), tm(r+1, k), rm(r, k+1), tm(r, k), cm(r, k))
+					default:
+						elem(at(r, k), at(r+1, k), at(r+1, k+1), at(r, k+1),
+							rm(r, k), tm(r+1, k), rm(r, k+1), tm(r, k))
+					}
 				}
 			}
 			continue
