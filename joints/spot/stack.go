@@ -402,7 +402,10 @@ func listedStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, listed []int64) (
 // splitStack keeps, of an automatically found stack, the sheets in
 // contact around the weld: where the gap between two consecutive
 // mid-surfaces, square to the sheets (joints.SquareGap), exceeds contact
-// by more than the average of their thicknesses, the stack is split, and the group holding the weld point
+// by more than the average of their thicknesses (a gap exactly at that
+// limit meets it: it is computed from coordinates, so it is compared
+// with joints.LengthRoundoff allowed, and the same sheets split alike
+// whatever the height of the weld point), the stack is split, and the group holding the weld point
 // (or, failing that, the group nearest to it) is kept when it has two
 // sheets or more. The sheets left out are returned. When no such group
 // exists the stack is kept whole, so its gaps are reported.
@@ -413,7 +416,7 @@ func splitStack(st *joints.Stack) (kept joints.Stack, dropped []joints.Sheet) {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
 		gap := joints.SquareGap(b.Position-a.Position, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, st.Axis)
-		if gap-contact > contact {
+		if gap-contact > contact+joints.LengthRoundoff {
 			groups = append(groups, st.Sheets[start:i+1])
 			start = i + 1
 		}
