@@ -18,18 +18,24 @@ import (
 // the automatic choice leaves fewer than two sheets, the finding names
 // the sheets within reach it rejected and why; a sheet under the weld
 // whose host element is degenerate is an error of its own
-// (degenerate-host).
-func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints.Stack, []joints.Finding) {
+// (degenerate-host). For a joint that lists its parts it also returns
+// the sheets of the parts it does not list that lie parallel to the
+// stack's axis (within the angle limit, on sound host elements), placed
+// on that axis: the checks name those that lie between two listed
+// sheets under the weld (unlistedBetween).
+func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints.Stack, []joints.Finding, []joints.Sheet) {
 	m := x.Mesh()
 	cands := candidates(x, j.Point, o.Reach)
 	var (
-		st   joints.Stack
-		fs   []joints.Finding
-		rejs []rejection
+		st       joints.Stack
+		fs       []joints.Finding
+		rejs     []rejection
+		unlisted []joints.Sheet
 	)
 	if len(j.Parts) > 0 {
 		var missing []int64
 		st, missing = listedStack(m, cands, j.Point, j.Parts)
+		unlisted = parallelUnlisted(m, cands, &st, j, o)
 		for _, id := range missing {
 			fs = append(fs, j.Finding(joints.Error, joints.CodePartNotFound, []int64{id},
 				fmt.Sprintf("listed part %d has no element within %s mm of the weld", id, joints.MM(o.Reach))))
@@ -84,13 +90,49 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 		}
 		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, rejectedParts(st.Parts(), rejs), msg))
 	case n == 1 && len(fs) == 0:
-		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
-			"fewer than two listed parts found: nothing to join"))
+		msg := "fewer than two listed parts found: nothing to join"
+		if len(j.Parts) == 1 {
+			msg = fmt.Sprintf("the joint lists part %d alone: nothing to join (a spot weld joins two sheets or more)", j.Parts[0])
+		}
+		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(), msg))
 	case n > 4:
 		fs = append(fs, j.Finding(joints.Warning, joints.CodeStackSize, st.Parts(),
 			fmt.Sprintf("%d sheets in one stack; spot-welded stacks have 2 to 4", n)))
 	}
-	return st, fs
+	return st, fs, unlisted
+}
+
+// parallelUnlisted returns the candidates of parts joint j does not
+// list whose normals lie within the angle limit of listed stack st's
+// axis, on sound host elements, placed on that axis through the weld
+// point.
+func parallelUnlisted(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, j *joints.Joint, o *joints.BuildOptions) []joints.Sheet {
+	if r3.Norm2(st.Axis) == 0 {
+		return nil
+	}
+	var out []joints.Sheet
+	for _, s := range cands {
+		if slices.Contains(j.Parts, s.Part) || degenerateHost(m, &s) || axisAngle(s.Proj.Normal, st.Axis) > o.AngleLimit {
+			continue
+		}
+		place(m, &s, j.Point, st.Axis)
+		out = append(out, s)
+	}
+	return out
+}
+
+// unlistedBetween returns the parts of the sheets among unlisted that
+// lie under the weld (within limit of the axis, mm) between consecutive
+// sheets a and b of its stack, along the axis.
+func unlistedBetween(unlisted []joints.Sheet, a, b joints.Sheet, limit float64) []int64 {
+	var out []int64
+	for _, s := range unlisted {
+		if s.Position > a.Position && s.Position < b.Position && !offAxis(s.Lateral, limit) {
+			out = append(out, s.Part)
+		}
+	}
+	slices.Sort(out)
+	return out
 }
 
 // candidates returns, for every part with an element within r of p, the
