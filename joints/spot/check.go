@@ -48,8 +48,34 @@ func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float
 		fs = append(fs, j.Finding(joints.Warning, joints.CodeThicknessRange, st.Parts(),
 			"stack outside the scope of ISO 14373: "+why))
 	}
+	if len(j.Parts) > 0 {
+		fs = append(fs, checkTilt(x.Mesh(), j, st, o)...)
+	}
 	fs = append(fs, checkGaps(x.Mesh(), st, o, j, unlisted, o.LateralFactor*diameter/2)...)
 	return append(fs, checkEdges(x, j, st, diameter, o)...)
+}
+
+// checkTilt returns a sheet-tilted warning for every sheet of a stack
+// of listed parts whose normal lies beyond the angle limit of the stack
+// axis (the normal of the closest listed sheet): the limit an automatic
+// stack holds its sheets to, here not a reason to leave a listed part
+// out, but a sign that the sheets cross rather than lie on each other
+// at the weld.
+func checkTilt(m *geom.Mesh, j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	for _, s := range st.Sheets {
+		angle := axisAngle(s.Proj.Normal, st.Axis)
+		if !(angle > o.AngleLimit) {
+			continue
+		}
+		msg := fmt.Sprintf("listed part %d lies with its normal %s degrees off the weld axis (limit %s degrees): the sheets cross rather than lie on each other at the weld",
+			s.Part, joints.MM(angle), joints.MM(o.AngleLimit))
+		if q := m.ElemQuality(s.Proj.Elem); q.Warp > o.AngleLimit {
+			msg += fmt.Sprintf("; its element there (id %d) is warped by %s degrees", m.ElemIDs[s.Proj.Elem], joints.MM(q.Warp))
+		}
+		fs = append(fs, j.Finding(joints.Warning, joints.CodeSheetTilted, []int64{s.Part}, msg))
+	}
+	return fs
 }
 
 // checkGaps compares each consecutive gap between mid-surfaces, square

@@ -40,3 +40,28 @@ func TestListedPartsSkipASheet(t *testing.T) {
 		t.Errorf("one listed part: single-sheet %q, want it to say the joint lists part 2 alone", got)
 	}
 }
+
+// TestListedSheetTilted checks that a listed sheet whose normal lies
+// beyond the 20 degree angle limit of the weld axis is joined as listed
+// and reported (sheet-tilted), while one within it is not: sheet 2
+// crosses the weld axis at z = 1, its normal at 10 to 80 degrees to
+// sheet 1's; the weld at z = 0.1 lies closer to sheet 1 (0.1 mm) than
+// to sheet 2 (0.9 cos(theta) mm, 0.156 mm at 80 degrees), so sheet 1's
+// normal is the axis and sheet 2 the one reported.
+func TestListedSheetTilted(t *testing.T) {
+	for _, c := range []struct {
+		deg    float64
+		tilted bool
+	}{{10, false}, {19.9, false}, {25, true}, {80, true}} {
+		m := tilted(plates(plate{Part: 1, T: 1, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 1, Z: 1, Y0: -25, NX: 10, NY: 20, H: 5}), 1, c.deg, 25, 1)
+		con := buildOne1(t, m, joints.Joint{ID: "T", Point: r3.Vec{X: 25, Y: 25, Z: 0.1}, Parts: []int64{1, 2}}, joints.BuildOptions{})
+		got := messages(con, joints.CodeSheetTilted)
+		if con.Status == joints.NotBuilt || len(got) != map[bool]int{false: 0, true: 1}[c.tilted] {
+			t.Errorf("%g degrees: %s, findings %v; want built, sheet-tilted %v", c.deg, con.Status, con.Findings, c.tilted)
+			continue
+		}
+		if c.tilted && !strings.Contains(got[0], "listed part 2 lies with its normal "+joints.MM(c.deg)+" degrees off the weld axis") {
+			t.Errorf("%g degrees: %q", c.deg, got[0])
+		}
+	}
+}
