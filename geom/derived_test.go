@@ -92,3 +92,45 @@ func TestPartStats(t *testing.T) {
 		t.Fatalf("box %+v", st[0].Box)
 	}
 }
+
+// TestCollapsedQuad checks a triangle written as a quad repeating a
+// corner (nodes a b c c, common practice where a format or a mesher
+// has quads only): the 3-4-5 right triangle's area 6, normal +z and
+// edges 3 and 5 (hand calculation), not degenerate, no warp, and its
+// zero-length edge no free edge, either in FreeEdges or in
+// FreeEdgeDistance (from its repeated corner the nearest free edge is
+// the hypotenuse, 0 away, and from (1, 1) the legs and the hypotenuse, 1 away). A quad
+// whose repeated nodes are opposite corners, or that repeats two
+// corners, stays degenerate.
+func TestCollapsedQuad(t *testing.T) {
+	m := &Mesh{Parts: []Part{{ID: 1, Thickness: 1}}, ElemStart: []int32{0, 4}, ElemIDs: []int64{1}, ElemPart: []int32{0},
+		NodeIDs: []int64{1, 2, 3}, Coords: []r3.Vec{{}, {X: 3}, {Y: 4}}, Conn: []int32{0, 1, 2, 2}}
+	if err := m.Index(); err != nil {
+		t.Fatal(err)
+	}
+	q := m.ElemQuality(0)
+	if !q.Collapsed || q.Degenerate || q.Warp != 0 || q.MinEdge != 3 || q.MaxEdge != 5 {
+		t.Errorf("quality %+v, want collapsed, not degenerate, no warp, edges 3 to 5", q)
+	}
+	if a, n := m.Area(0), m.Normal(0); math.Abs(a-6) > 1e-12 || r3.Norm(r3.Sub(n, r3.Vec{Z: 1})) > 1e-12 {
+		t.Errorf("area %g normal %v, want 6 and +z", a, n)
+	}
+	if fe := FreeEdges(m, NodeElements(m)); len(fe) != 3 {
+		t.Errorf("%d free edges %v, want the triangle's 3", len(fe), fe)
+	}
+	for _, c := range []struct{ q, want float64 }{{0, 0}, {1, 1}} {
+		p := r3.Vec{X: c.q, Y: c.q}
+		if c.q == 0 {
+			p = r3.Vec{Y: 4}
+		}
+		if d := FreeEdgeDistance(m, []int32{0}, p, 0, 10); math.Abs(d-c.want) > 1e-12 {
+			t.Errorf("free edge distance from %v: %g, want %g", p, d, c.want)
+		}
+	}
+	for name, conn := range map[string][]int32{"opposite corners": {0, 1, 0, 2}, "two corners repeated": {0, 0, 1, 1}} {
+		m.Conn = conn
+		if q := m.ElemQuality(0); q.Collapsed || !q.Degenerate {
+			t.Errorf("%s: quality %+v, want degenerate", name, q)
+		}
+	}
+}

@@ -7,8 +7,9 @@ import (
 )
 
 // FreeEdgeDistance returns the distance from q to the nearest free edge
-// of part pi (an element edge that no other element of the part shares)
-// within radius r, or +Inf when there is none. The edges of second-order
+// of part pi (an element edge that no other element of the part shares;
+// collapsed edges, whose two ends are one node, are left out, as
+// FreeEdges leaves them) within radius r, or +Inf when there is none. The edges of second-order
 // elements are the curves through their midside nodes (Mesh.EdgeDistance). near must hold every
 // element within r of q (it may hold more, in any order), for example the
 // answer of Index.ElemsNear(q, r) or Index.CandidatesNear(q, r).
@@ -34,7 +35,9 @@ func FreeEdgeDistance(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) floa
 			continue
 		}
 		for k := range m.Type(int(e)).Corners() {
-			uses = append(uses, edgeUse{edgeKey(m.ElemEdge(int(e), k)), e, int32(k)})
+			if ed := m.ElemEdge(int(e), k); ed.A != ed.B { // a collapsed edge bounds nothing (FreeEdges)
+				uses = append(uses, edgeUse{edgeKey(ed), e, int32(k)})
+			}
 		}
 	}
 	// Count the uses of each edge in an open-addressing table of at

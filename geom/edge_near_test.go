@@ -16,7 +16,9 @@ func freeEdgeDistanceAll(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) f
 	for _, e := range near {
 		if m.ElemPart[e] == pi {
 			for k := range m.Type(int(e)).Corners() {
-				uses[edgeKey(m.ElemEdge(int(e), k))]++
+				if ed := m.ElemEdge(int(e), k); ed.A != ed.B { // collapsed edges bound nothing
+					uses[edgeKey(ed)]++
+				}
 			}
 		}
 	}
@@ -27,7 +29,7 @@ func freeEdgeDistanceAll(m *Mesh, near []int32, q r3.Vec, pi int32, r float64) f
 		}
 		for k := range m.Type(int(e)).Corners() {
 			ed := m.ElemEdge(int(e), k)
-			if uses[edgeKey(ed)] == 1 {
+			if ed.A != ed.B && uses[edgeKey(ed)] == 1 {
 				if d := m.EdgeDistance(ed, q); d <= r && d < best {
 					best = d
 				}

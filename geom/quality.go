@@ -23,8 +23,16 @@ type Quality struct {
 	// for second-order elements).
 	Area float64
 	// Degenerate is set when an edge has zero length, two corners repeat
-	// a node, or the area is below DegenerateAreaRatio times MaxEdge².
+	// a node, or the area is below DegenerateAreaRatio times MaxEdge²;
+	// a quad collapsed to a triangle (Collapsed) is not degenerate for
+	// its repeated corner alone.
 	Degenerate bool
+	// Collapsed is set for a linear quad two adjacent corners of which
+	// are one node, the others three distinct nodes: a triangle written
+	// as a quad (common practice where a format or a mesher has quads
+	// only; solvers take it as the triangle). Its edges and aspect are
+	// the triangle's; it is degenerate only when the triangle is.
+	Collapsed bool
 }
 
 // DegenerateAreaRatio is the area, as a fraction of the longest edge
@@ -37,14 +45,17 @@ const DegenerateAreaRatio = 1e-6
 func (m *Mesh) ElemQuality(e int) Quality {
 	nodes := m.ElemNodes(e)
 	nc := m.Type(e).Corners()
-	q := Quality{MinEdge: math.Inf(1), Area: m.Area(e)}
+	q := Quality{MinEdge: math.Inf(1), Area: m.Area(e), Collapsed: collapsedQuad(m, e)}
 	for k := 0; k < nc; k++ {
 		a, b := nodes[k], nodes[(k+1)%nc]
+		if q.Collapsed && a == b {
+			continue // the repeated corner of a triangle written as a quad
+		}
 		l := r3.Norm(r3.Sub(m.Coords[b], m.Coords[a]))
 		q.MinEdge = math.Min(q.MinEdge, l)
 		q.MaxEdge = math.Max(q.MaxEdge, l)
 		for j := k + 1; j < nc; j++ {
-			if nodes[j] == nodes[k] {
+			if nodes[j] == nodes[k] && !(q.Collapsed && (j == k+1 || k == 0 && j == nc-1)) {
 				q.Degenerate = true
 			}
 		}
@@ -57,7 +68,7 @@ func (m *Mesh) ElemQuality(e int) Quality {
 	if q.Area < DegenerateAreaRatio*q.MaxEdge*q.MaxEdge {
 		q.Degenerate = true
 	}
-	if nc == 4 && !q.Degenerate {
+	if nc == 4 && !q.Degenerate && !q.Collapsed {
 		p := [4]r3.Vec{m.Coords[nodes[0]], m.Coords[nodes[1]], m.Coords[nodes[2]], m.Coords[nodes[3]]}
 		q.Warp = math.Max(splitAngle(p[0], p[1], p[2], p[3]), splitAngle(p[1], p[2], p[3], p[0]))
 	}
@@ -76,4 +87,21 @@ func splitAngle(a, b, c, d r3.Vec) float64 {
 	}
 	cos := r3.Dot(n1, n2) / (l1 * l2)
 	return math.Acos(math.Max(-1, math.Min(1, cos))) * 180 / math.Pi
+}
+
+// collapsedQuad reports whether element e is a linear quad exactly one
+// pair of adjacent corners of which is one node (a triangle written as
+// a quad).
+func collapsedQuad(m *Mesh, e int) bool {
+	if m.Type(e).Corners() != 4 || m.Type(e).Quadratic() {
+		return false
+	}
+	n := m.ElemNodes(e)
+	same := 0
+	for k := range 4 {
+		if n[k] == n[(k+1)%4] {
+			same++
+		}
+	}
+	return same == 1 && n[0] != n[2] && n[1] != n[3]
 }

@@ -71,6 +71,7 @@ const (
 	CodeThicknessClash = "thickness-mismatch"
 	CodeUnitsSuspect   = "units-suspect" // thicknesses and element sizes implausible for sheet metal in mm
 	CodePatchCapped    = "patch-capped"  // a patch end ties MaxPatchNodes nodes, fewer than its nugget covers
+	CodeSheetTilted    = "sheet-tilted"  // a listed sheet's normal lies beyond the angle limit of the weld axis
 
 	// Codes of the audit of a set of welds (joints/audit), run by check
 	// and after every build.

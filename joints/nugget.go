@@ -45,7 +45,9 @@ func (r NuggetRule) Diameter(t float64) float64 { return float64(r) * math.Sqrt(
 
 // GoverningThickness returns the thickness that sets the nugget size of a
 // stack, following the governing-metal-thickness definition of AWS D8.1M:
-// for two sheets the thinner one, for three or more the second thickest.
+// for two sheets the thinner one, for three the second thickest; for
+// four or more, which the definition does not cover, the second thickest
+// too (our extension).
 // It returns 0 for fewer than two sheets.
 func GoverningThickness(ts []float64) float64 {
 	switch {

@@ -40,11 +40,20 @@ func attach(x *geom.Index, st *joints.Stack, a joints.Attach, diameter float64, 
 // the shape-function weights at the projection point: the corners of a
 // linear element, all the nodes of a second-order one with its quadratic
 // shape functions (some of whose weights are negative, see
-// geom.ShapeWeights).
+// geom.ShapeWeights). A node the element repeats (a quad collapsed to
+// a triangle, geom.Quality.Collapsed) is tied once, with the sum of its
+// corners' weights.
 func attachInterpolated(m *geom.Mesh, s *joints.Sheet) joints.End {
 	nodes := m.ElemNodes(s.Proj.Elem)
-	e := joints.End{Point: s.Proj.Point, NodeIndex: -1, Nodes: slices.Clone(nodes), Weights: make([]float64, len(nodes))}
-	copy(e.Weights, s.Proj.Weights[:len(nodes)])
+	e := joints.End{Point: s.Proj.Point, NodeIndex: -1, Nodes: make([]int32, 0, len(nodes)), Weights: make([]float64, 0, len(nodes))}
+	for k, n := range nodes {
+		if i := slices.Index(e.Nodes, n); i >= 0 {
+			e.Weights[i] += s.Proj.Weights[k]
+			continue
+		}
+		e.Nodes = append(e.Nodes, n)
+		e.Weights = append(e.Weights, s.Proj.Weights[k])
+	}
 	return e
 }
 

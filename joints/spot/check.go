@@ -3,6 +3,7 @@ package spot
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -38,28 +39,62 @@ func checkSheets(m *geom.Mesh, j *joints.Joint, st *joints.Stack, diameter float
 
 // checkStack returns the warnings about a stack that can be built: its
 // thicknesses outside ISO 14373, gaps off contact, the weld too near a
-// sheet's free edge. It sets each sheet's EdgeDistance.
-func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float64, o *joints.BuildOptions) []joints.Finding {
+// sheet's free edge. It sets each sheet's EdgeDistance. unlisted are
+// the sheets of parts a joint listing its parts leaves out
+// (chooseStack).
+func checkStack(x *geom.Index, j *joints.Joint, st *joints.Stack, diameter float64, o *joints.BuildOptions, unlisted []joints.Sheet) []joints.Finding {
 	var fs []joints.Finding
 	if why := joints.OutsideISO14373(st.Thicknesses()); why != "" {
 		fs = append(fs, j.Finding(joints.Warning, joints.CodeThicknessRange, st.Parts(),
 			"stack outside the scope of ISO 14373: "+why))
 	}
-	fs = append(fs, checkGaps(x.Mesh(), st, o, j)...)
+	if len(j.Parts) > 0 {
+		fs = append(fs, checkTilt(x.Mesh(), j, st, o)...)
+	}
+	fs = append(fs, checkGaps(x.Mesh(), st, o, j, unlisted, o.LateralFactor*diameter/2)...)
 	return append(fs, checkEdges(x, j, st, diameter, o)...)
+}
+
+// checkTilt returns a sheet-tilted warning for every sheet of a stack
+// of listed parts whose normal lies beyond the angle limit of the stack
+// axis (the normal of the closest listed sheet): the limit an automatic
+// stack holds its sheets to, here not a reason to leave a listed part
+// out, but a sign that the sheets cross rather than lie on each other
+// at the weld.
+func checkTilt(m *geom.Mesh, j *joints.Joint, st *joints.Stack, o *joints.BuildOptions) []joints.Finding {
+	var fs []joints.Finding
+	for _, s := range st.Sheets {
+		angle := axisAngle(s.Proj.Normal, st.Axis)
+		if !(angle > o.AngleLimit) {
+			continue
+		}
+		msg := fmt.Sprintf("listed part %d lies with its normal %s degrees off the weld axis (limit %s degrees): the sheets cross rather than lie on each other at the weld",
+			s.Part, joints.MM(angle), joints.MM(o.AngleLimit))
+		if q := m.ElemQuality(s.Proj.Elem); q.Warp > o.AngleLimit {
+			msg += fmt.Sprintf("; its element there (id %d) is warped by %s degrees", m.ElemIDs[s.Proj.Elem], joints.MM(q.Warp))
+		}
+		fs = append(fs, j.Finding(joints.Warning, joints.CodeSheetTilted, []int64{s.Part}, msg))
+	}
+	return fs
 }
 
 // checkGaps compares each consecutive gap between mid-surfaces, square
 // to the sheets (joints.SquareGap), with the contact gap and reports
 // those off by more than the allowance. A gap that a reversed normal on
 // one sheet of an outer-surface mesh would bring to contact names that
-// sheet's host element (flippedHint).
-func checkGaps(m *geom.Mesh, st *joints.Stack, o *joints.BuildOptions, j *joints.Joint) []joints.Finding {
+// sheet's host element (flippedHint). A gap that holds sheets of parts
+// the joint does not list, under the weld within limit mm of the axis,
+// names them: the list then leaves out a sheet the weld goes through.
+func checkGaps(m *geom.Mesh, st *joints.Stack, o *joints.BuildOptions, j *joints.Joint, unlisted []joints.Sheet, limit float64) []joints.Finding {
 	var out []joints.Finding
 	for i := 0; i+1 < len(st.Sheets); i++ {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		if f, ok := GapFinding(j, st.Axis, a, b, o); ok {
-			f.Message += flippedHint(m, st.Axis, a, b, o)
+			if between := unlistedBetween(unlisted, a, b, limit); len(between) > 0 {
+				f.Message += fmt.Sprintf("; that is no air: between them under the weld lies %s, which the joint does not list, so the weld goes through a sheet it does not join", partList(between))
+			} else {
+				f.Message += flippedHint(m, st.Axis, a, b, o)
+			}
 			out = append(out, f)
 		}
 	}
@@ -199,4 +234,24 @@ func offSheet(s *joints.Sheet, p r3.Vec) float64 {
 		return 0
 	}
 	return d
+}
+
+// partList names parts for a message: "part 3", "parts 3 and 4",
+// "parts 3, 4 and 5".
+func partList(ps []int64) string {
+	if len(ps) == 1 {
+		return fmt.Sprintf("part %d", ps[0])
+	}
+	var b strings.Builder
+	b.WriteString("parts ")
+	for i, p := range ps {
+		switch {
+		case i == len(ps)-1:
+			b.WriteString(" and ")
+		case i > 0:
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%d", p)
+	}
+	return b.String()
 }

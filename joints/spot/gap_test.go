@@ -356,3 +356,21 @@ func TestSplitSquareToSheets(t *testing.T) {
 		}
 	}
 }
+
+// TestSplitAtLimitWhateverHeight checks that a gap exactly at the split
+// limit, contact plus the sheets' mean thickness, meets it (joined, with
+// gap-open) whatever the height of the weld point along the axis. Three
+// 0.7 mm sheets at z = 0, 0.7 and 2.1: the upper gap is 1.4 mm, contact
+// 0.7 mm plus 0.7 mm (hand calculation). In float64, 2.1 - z and 0.7 - z
+// for a weld at z = 0.021 differ by 1.4000000000000004, which split part
+// 3 off as apart while a weld at z = 0.35 kept it.
+func TestSplitAtLimitWhateverHeight(t *testing.T) {
+	m := plates(plate{Part: 1, T: 0.7, NX: 10, NY: 10, H: 5}, plate{Part: 2, T: 0.7, Z: 0.7, NX: 10, NY: 10, H: 5},
+		plate{Part: 3, T: 0.7, Z: 2.1, NX: 10, NY: 10, H: 5})
+	for _, z := range []float64{0.021, 0.0105, 0.35, 0.5, 0.69} {
+		c := buildOne1(t, m, joints.Joint{ID: "S", Point: r3.Vec{X: 25, Y: 25, Z: z}}, joints.BuildOptions{})
+		if got := c.Stack.Parts(); !slices.Equal(got, []int64{1, 2, 3}) || !slices.Equal(codes(c), []string{joints.CodeGapOpen}) {
+			t.Errorf("weld at z = %g: stack %v findings %v, want parts 1, 2, 3 with gap-open", z, got, c.Findings)
+		}
+	}
+}

@@ -16,6 +16,7 @@ type plate struct {
 	NX, NY    int
 	H         float64
 	Tri       bool
+	Collapsed bool // with Tri: each triangle written as a quad repeating its last corner
 	Surface   geom.Surface
 	FlipOrder bool // reverse node order: normals point to -z
 }
@@ -50,10 +51,14 @@ func plates(ps ...plate) *geom.Mesh {
 			for i := 0; i < p.NX; i++ {
 				n0 := base + int32(j*(p.NX+1)+i)
 				n1, n2, n3 := n0+1, n0+int32(p.NX)+2, n0+int32(p.NX)+1
-				if p.Tri {
+				switch {
+				case p.Tri && p.Collapsed:
+					add(n0, n1, n2, n2)
+					add(n0, n2, n3, n3)
+				case p.Tri:
 					add(n0, n1, n2)
 					add(n0, n2, n3)
-				} else {
+				default:
 					add(n0, n1, n2, n3)
 				}
 			}

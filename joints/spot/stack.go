@@ -18,18 +18,24 @@ import (
 // the automatic choice leaves fewer than two sheets, the finding names
 // the sheets within reach it rejected and why; a sheet under the weld
 // whose host element is degenerate is an error of its own
-// (degenerate-host).
-func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints.Stack, []joints.Finding) {
+// (degenerate-host). For a joint that lists its parts it also returns
+// the sheets of the parts it does not list that lie parallel to the
+// stack's axis (within the angle limit, on sound host elements), placed
+// on that axis: the checks name those that lie between two listed
+// sheets under the weld (unlistedBetween).
+func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints.Stack, []joints.Finding, []joints.Sheet) {
 	m := x.Mesh()
 	cands := candidates(x, j.Point, o.Reach)
 	var (
-		st   joints.Stack
-		fs   []joints.Finding
-		rejs []rejection
+		st       joints.Stack
+		fs       []joints.Finding
+		rejs     []rejection
+		unlisted []joints.Sheet
 	)
 	if len(j.Parts) > 0 {
 		var missing []int64
 		st, missing = listedStack(m, cands, j.Point, j.Parts)
+		unlisted = parallelUnlisted(m, cands, &st, j, o)
 		for _, id := range missing {
 			fs = append(fs, j.Finding(joints.Error, joints.CodePartNotFound, []int64{id},
 				fmt.Sprintf("listed part %d has no element within %s mm of the weld", id, joints.MM(o.Reach))))
@@ -84,13 +90,49 @@ func chooseStack(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) (joints
 		}
 		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, rejectedParts(st.Parts(), rejs), msg))
 	case n == 1 && len(fs) == 0:
-		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(),
-			"fewer than two listed parts found: nothing to join"))
+		msg := "fewer than two listed parts found: nothing to join"
+		if len(j.Parts) == 1 {
+			msg = fmt.Sprintf("the joint lists part %d alone: nothing to join (a spot weld joins two sheets or more)", j.Parts[0])
+		}
+		fs = append(fs, j.Finding(joints.Error, joints.CodeSingleSheet, st.Parts(), msg))
 	case n > 4:
 		fs = append(fs, j.Finding(joints.Warning, joints.CodeStackSize, st.Parts(),
 			fmt.Sprintf("%d sheets in one stack; spot-welded stacks have 2 to 4", n)))
 	}
-	return st, fs
+	return st, fs, unlisted
+}
+
+// parallelUnlisted returns the candidates of parts joint j does not
+// list whose normals lie within the angle limit of listed stack st's
+// axis, on sound host elements, placed on that axis through the weld
+// point.
+func parallelUnlisted(m *geom.Mesh, cands []joints.Sheet, st *joints.Stack, j *joints.Joint, o *joints.BuildOptions) []joints.Sheet {
+	if r3.Norm2(st.Axis) == 0 {
+		return nil
+	}
+	var out []joints.Sheet
+	for _, s := range cands {
+		if slices.Contains(j.Parts, s.Part) || degenerateHost(m, &s) || axisAngle(s.Proj.Normal, st.Axis) > o.AngleLimit {
+			continue
+		}
+		place(m, &s, j.Point, st.Axis)
+		out = append(out, s)
+	}
+	return out
+}
+
+// unlistedBetween returns the parts of the sheets among unlisted that
+// lie under the weld (within limit of the axis, mm) between consecutive
+// sheets a and b of its stack, along the axis.
+func unlistedBetween(unlisted []joints.Sheet, a, b joints.Sheet, limit float64) []int64 {
+	var out []int64
+	for _, s := range unlisted {
+		if s.Position > a.Position && s.Position < b.Position && !offAxis(s.Lateral, limit) {
+			out = append(out, s.Part)
+		}
+	}
+	slices.Sort(out)
+	return out
 }
 
 // candidates returns, for every part with an element within r of p, the
@@ -402,7 +444,10 @@ func listedStack(m *geom.Mesh, cands []joints.Sheet, p r3.Vec, listed []int64) (
 // splitStack keeps, of an automatically found stack, the sheets in
 // contact around the weld: where the gap between two consecutive
 // mid-surfaces, square to the sheets (joints.SquareGap), exceeds contact
-// by more than the average of their thicknesses, the stack is split, and the group holding the weld point
+// by more than the average of their thicknesses (a gap exactly at that
+// limit meets it: it is computed from coordinates, so it is compared
+// with joints.LengthRoundoff allowed, and the same sheets split alike
+// whatever the height of the weld point), the stack is split, and the group holding the weld point
 // (or, failing that, the group nearest to it) is kept when it has two
 // sheets or more. The sheets left out are returned. When no such group
 // exists the stack is kept whole, so its gaps are reported.
@@ -413,7 +458,7 @@ func splitStack(st *joints.Stack) (kept joints.Stack, dropped []joints.Sheet) {
 		a, b := st.Sheets[i], st.Sheets[i+1]
 		contact := (a.Thickness + b.Thickness) / 2
 		gap := joints.SquareGap(b.Position-a.Position, a.Thickness, b.Thickness, a.Proj.Normal, b.Proj.Normal, st.Axis)
-		if gap-contact > contact {
+		if gap-contact > contact+joints.LengthRoundoff {
 			groups = append(groups, st.Sheets[start:i+1])
 			start = i + 1
 		}

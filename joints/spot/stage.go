@@ -52,7 +52,8 @@ type stage struct {
 // firstStage finds a weld's stack and nugget and checks them.
 func firstStage(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) stage {
 	var s stage
-	s.stack, s.findings = chooseStack(x, j, o)
+	var unlisted []joints.Sheet
+	s.stack, s.findings, unlisted = chooseStack(x, j, o)
 	if len(s.stack.Sheets) < 2 {
 		s.stop = true
 		return s
@@ -63,7 +64,7 @@ func firstStage(x *geom.Index, j *joints.Joint, o *joints.BuildOptions) stage {
 		s.stop = true
 		return s
 	}
-	s.findings = append(s.findings, checkStack(x, j, &s.stack, s.diameter, o)...)
+	s.findings = append(s.findings, checkStack(x, j, &s.stack, s.diameter, o, unlisted)...)
 	return s
 }
 
