@@ -608,7 +608,7 @@ func centreline(m *geom.Mesh, samples []sample, edges []sharedEdge, segs []segme
 		sp = next
 	}
 	if !sp.closed {
-		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), lps, wEst, tol), samples, edges, tol)
+		sp = drape(m, densify(extendArcs(sp, 1.5*binLen, tol), lps, wEst, tol), samples, edges, tol, 3*binLen)
 	}
 	if ring {
 		// The fit above finds the middle of the pieces, which round a
@@ -827,6 +827,11 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 		normal   r3.Vec
 		nlo, nhi float64 // extent across the spine of the samples nearest the station
 		clo, chi float64 // extent of the outline's crossings with the station's cross-section
+		// slo and shi: whether the crossing at clo (chi) is with an
+		// outline segment that runs across the spine (steep) rather
+		// than along it: an end of the overlap, cut square or at a
+		// slant.
+		slo, shi bool
 	}
 	bins := make([]bin, nb)
 	for k := range bins {
@@ -878,7 +883,14 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 	}
 	crossing := func(b *bin, x section, c outlineSeg) {
 		if n, ok := x.cross(c, bl); ok && n >= b.nlo-bl && n <= b.nhi+bl {
-			b.clo, b.chi = math.Min(b.clo, n), math.Max(b.chi, n)
+			d := r3.Sub(c.b, c.a)
+			steep := math.Abs(r3.Dot(d, x.t)) < endSlant*r3.Norm(d)
+			if n < b.clo {
+				b.clo, b.slo = n, steep
+			}
+			if n > b.chi {
+				b.chi, b.shi = n, steep
+			}
 		}
 	}
 	for _, c := range cuts {
@@ -918,11 +930,30 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 		}
 		return 0, false
 	}
+	// An open spine's end stations whose cross-section meets the end of
+	// the overlap (an outline segment running across the spine) see
+	// the overlap on one side only where the end is cut at a slant:
+	// the middle of such a cross-section lies off the strip's middle
+	// (by up to half the width), and would pull the spine's end
+	// across, further at every pass. They are left out from each end
+	// up to the first station whose cross-section meets the sides
+	// alone, keeping two stations at least; the spine's straight
+	// extension covers the ends.
+	first, last := 0, nb-1
+	if !sp.closed {
+		cut := func(b bin) bool { return b.area > 0 && (b.slo || b.shi) }
+		for first < last-1 && cut(bins[first]) {
+			first++
+		}
+		for last > first+1 && cut(bins[last]) {
+			last--
+		}
+	}
 	var pts, nrm []r3.Vec
 	moved := 0.0
 	smooth := false // whether a station is placed by its samples
 	for k, b := range bins {
-		if b.area <= 0 {
+		if b.area <= 0 || k < first || k > last {
 			continue
 		}
 		if !keepEnds && !sp.closed && nb >= 4 && (k == 0 || k == nb-1) {
@@ -963,6 +994,14 @@ func refit(sp *spine, samples []sample, ss, ns []float64, cuts []outlineSeg, bin
 	next := makeSpine(pts, nrm, sp.closed)
 	return next, lo + bl/2, moved
 }
+
+// endSlant is the cosine of the angle to the spine above which an
+// outline segment counts as running across it (refit, finish): an end
+// of the overlap, cut square or at a slant of up to 60 degrees from
+// square (the cut 30 degrees or more off the spine's direction). The
+// sides of a strip, a taper, a coarse mesh's chords round a curve run
+// within a few degrees of it.
+const endSlant = 0.866 // cos 30 degrees
 
 // taubin smooths a polyline by one step of G. Taubin's lambda|mu filter
 // (A signal processing approach to fair surface design, SIGGRAPH 1995):

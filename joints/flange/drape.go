@@ -164,9 +164,20 @@ func (d *draper) foot(q r3.Vec) (r3.Vec, r3.Vec, bool) {
 // where the fit's stations, a bin apart, cut the corner through the
 // air: 3.5 mm short over a right-angle bend of a flange 20 mm wide.
 // Points and chords that lie on the surface, or off it only beside its
-// edge or beyond its ends (the spine's extensions), where the closest
-// point lies along the surface, are left as they are.
-func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol float64) *spine {
+// edge or beyond its ends, where the closest point lies along the
+// surface, are left as they are.
+//
+// The spine's extensions past its first and last station (extendArcs'
+// arcs, else the straight lines on along the end segments, sampled
+// every reach/8 out to reach) are laid on the surface too, point by
+// point out to the first that lies beyond the pieces, so that a flange
+// whose sheets bend between its last station and its end (a beam
+// stepping up onto a closing plate) is measured to its end along the
+// sheets: the straight extension ran through the air, 0.1 mm short at
+// each end of the example's flange of 100 and 200, across a bend of 7
+// degrees 2.5 mm before the end, and its mean width, area over length,
+// read 20.019 mm for 20.
+func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol, reach float64) *spine {
 	if sp == nil || sp.closed || len(samples) == 0 || onePlane(m, samples) {
 		return sp
 	}
@@ -178,15 +189,14 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol fl
 		off := math.Abs(r3.Dot(v, n))
 		return off > tol && r3.Norm(r3.Sub(v, r3.Scale(r3.Dot(v, n), n))) <= off
 	}
+	// onIt reports whether point p lies on the surface: its foot f
+	// within tol.
+	onIt := func(p, f r3.Vec) bool { return dist(p, f) <= tol }
 	ns := sp.normals()
-	src := slices.Clone(sp.pts)
-	moved := false
-	// The extensions past the overlap's ends (points before ext0 and
-	// after length-ext1) are not draped: they move with the spine's
-	// first and last point within the overlap, so that they carry it on
-	// as they did.
+	// The points within the overlap (first to last: the extensions are
+	// the points before ext0 and after length-ext1).
 	first, last := -1, -1
-	for i := range src {
+	for i := range sp.pts {
 		if sp.cum[i] >= sp.ext0-1e-9 && sp.cum[i] <= sp.length-sp.ext1+1e-9 {
 			if first < 0 {
 				first = i
@@ -197,19 +207,82 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol fl
 	if first < 0 {
 		return sp
 	}
-	for i := first; i <= last; i++ {
-		p := src[i]
+	core := slices.Clone(sp.pts[first : last+1])
+	coreN := slices.Clone(ns[first : last+1])
+	moved := false
+	for i, p := range core {
 		if f, n, ok := d.foot(p); ok && across(p, f, n) {
-			src[i], ns[i] = f, n
+			core[i], coreN[i] = f, n
 			moved = true
 		}
 	}
-	for i := range first {
-		src[i] = r3.Add(src[i], r3.Sub(src[first], sp.pts[first]))
+	// extension returns the extension beyond core's end (start: before
+	// its first point), outwards, laid on the surface: the spine's own
+	// points there moved with the end point, else points on the
+	// straight line on from the end segment.
+	extension := func(start bool) (pts, nrm []r3.Vec, changed bool) {
+		var own, ownN []r3.Vec
+		end, endN, was := core[len(core)-1], coreN[len(core)-1], sp.pts[last]
+		if start {
+			end, endN, was = core[0], coreN[0], sp.pts[first]
+			for i := first - 1; i >= 0; i-- {
+				own, ownN = append(own, sp.pts[i]), append(ownN, ns[i])
+			}
+		} else {
+			own, ownN = sp.pts[last+1:], ns[last+1:]
+		}
+		shift := r3.Sub(end, was)
+		var dir r3.Vec
+		if len(own) == 0 {
+			if len(core) < 2 || !(reach > 0) {
+				return nil, nil, false
+			}
+			dir = r3.Unit(r3.Sub(core[len(core)-1], core[len(core)-2]))
+			if start {
+				dir = r3.Unit(r3.Sub(core[0], core[1]))
+			}
+			for k := 1; k <= 8; k++ {
+				own = append(own, r3.Add(was, r3.Scale(reach*float64(k)/8, dir)))
+				ownN = append(ownN, endN)
+			}
+		}
+		for k, p := range own {
+			p = r3.Add(p, shift)
+			f, n, ok := d.foot(p)
+			switch {
+			case ok && across(p, f, n):
+				pts, nrm = append(pts, f), append(nrm, n)
+				changed = true
+			case ok && onIt(p, f):
+				pts, nrm = append(pts, p), append(nrm, ownN[k])
+			default:
+				// Beyond the pieces: the rest, and the spine's straight
+				// run on from its last point, carry on.
+				if r3.Norm2(dir) == 0 {
+					// The spine's own points: keep them, moved whole.
+					for kk := k; kk < len(own); kk++ {
+						pts, nrm = append(pts, r3.Add(own[kk], shift)), append(nrm, ownN[kk])
+					}
+				}
+				return pts, nrm, changed
+			}
+		}
+		return pts, nrm, changed
 	}
-	for i := last + 1; i < len(src); i++ {
-		src[i] = r3.Add(src[i], r3.Sub(src[last], sp.pts[last]))
+	pre, preN, preMoved := extension(true)
+	post, postN, postMoved := extension(false)
+	// Straight runs that lie on the surface as they are stay implicit.
+	if first == 0 && !preMoved {
+		pre, preN = nil, nil
 	}
+	if last == len(sp.pts)-1 && !postMoved {
+		post, postN = nil, nil
+	}
+	moved = moved || preMoved || postMoved
+	slices.Reverse(pre)
+	slices.Reverse(preN)
+	src := slices.Concat(pre, core, post)
+	srcN := slices.Concat(preN, coreN, postN)
 	var pts, nrm []r3.Vec
 	var fill func(a, b r3.Vec, depth int)
 	fill = func(a, b r3.Vec, depth int) {
@@ -218,12 +291,17 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol fl
 		}
 		mid := r3.Scale(0.5, r3.Add(a, b))
 		f, n, ok := d.foot(mid)
-		if !ok || !across(mid, f, n) {
+		if !ok {
 			return
 		}
-		// Only a foot between the chord's ends splits it.
+		// Only a foot between the chord's ends splits it, and only one
+		// off the chord across the surface: judged from the middle, or
+		// else from the chord's point nearest to the foot (on a shallow
+		// crease, a few degrees, the middle's foot lies along the
+		// surface from it: the example's step of 7 degrees).
 		ab := r3.Sub(b, a)
-		if t := r3.Dot(r3.Sub(f, a), ab) / r3.Norm2(ab); !(t > 1e-3 && t < 1-1e-3) {
+		t := r3.Dot(r3.Sub(f, a), ab) / r3.Norm2(ab)
+		if !(t > 1e-3 && t < 1-1e-3) || !across(mid, f, n) && !across(r3.Add(a, r3.Scale(t, ab)), f, n) {
 			return
 		}
 		fill(a, f, depth-1)
@@ -232,8 +310,8 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol fl
 		fill(f, b, depth-1)
 	}
 	for i, p := range src {
-		pts, nrm = append(pts, p), append(nrm, ns[i])
-		if i >= first && i < last {
+		pts, nrm = append(pts, p), append(nrm, srcN[i])
+		if i+1 < len(src) {
 			fill(p, src[i+1], drapeDepth)
 		}
 	}
@@ -244,8 +322,11 @@ func drape(m *geom.Mesh, sp *spine, samples []sample, edges []sharedEdge, tol fl
 	if out == nil {
 		return sp
 	}
-	// The extensions keep their lengths: they were moved whole.
-	out.ext0, out.ext1 = out.cum[first], out.length-out.cum[len(out.pts)-1-(len(sp.pts)-1-last)]
+	// The extensions' lengths: to the first and from the last point
+	// within the overlap.
+	s0, _ := out.locate(core[0], 0, 0)
+	s1, _ := out.locate(core[len(core)-1], 0, 0)
+	out.ext0, out.ext1 = s0, out.length-s1
 	return out
 }
 

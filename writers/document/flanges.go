@@ -13,7 +13,7 @@ import (
 // the versioning rule).
 const (
 	FlangesSchema  = "joinery/flanges"
-	FlangesVersion = 1
+	FlangesVersion = 2
 )
 
 // FacingRule states the lateral limit of a facing node pair, for the
