@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
@@ -139,9 +140,11 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 		for i := range conns {
 			k.AddConnector(m, &conns[i])
 		}
+		area := partAreas(m)
 		groups := Groups(k)
+		byArea(groups, area)
 		fs := freeParts(m, k, groups)
-		kin, kinFs := Kinematic(k, groups)
+		kin, kinFs := kinematicSized(k, groups, area)
 		ch <- assembly{append(fs, kinFs...), kin}
 	}()
 	welds, planFs := collectWelds(m, conns, extra, &o)
@@ -156,6 +159,39 @@ func Run(ctx context.Context, m *geom.Mesh, conns []joints.Connector, extra []jo
 	rep.Findings = append(rep.Findings, asm.fs...)
 	rep.Kinematics = asm.kin
 	return rep, ctx.Err()
+}
+
+// partAreas returns the area of every part of m, mm², by part id.
+func partAreas(m *geom.Mesh) map[int64]float64 {
+	sum := make([]float64, len(m.Parts))
+	for e := range m.NumElems() {
+		sum[m.ElemPart[e]] += m.Area(e)
+	}
+	out := make(map[int64]float64, len(m.Parts))
+	for i, p := range m.Parts {
+		out[p.ID] = sum[i]
+	}
+	return out
+}
+
+// byArea orders groups of as many parts by their area, largest first
+// (rounded, areaKey; ties keep Groups' order, by smallest part id), so
+// that of two groups of two parts the larger is the main one whatever
+// the ids.
+func byArea(groups []Group, area map[int64]float64) {
+	total := func(g *Group) float64 {
+		a := 0.0
+		for _, p := range g.Parts {
+			a += area[p]
+		}
+		return areaKey(a)
+	}
+	slices.SortStableFunc(groups, func(a, b Group) int {
+		if len(a.Parts) != len(b.Parts) {
+			return cmp.Compare(len(b.Parts), len(a.Parts))
+		}
+		return cmp.Compare(total(&b), total(&a))
+	})
 }
 
 // collectWelds returns the welds to check, sorted by id: the built spot

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -51,7 +52,16 @@ const MotionTolerance = 1e-5
 // them and the motion. The counts cover the whole assembly: 6
 // rigid-body modes per group not tied to ground, plus every free motion.
 func Kinematic(k *joints.Constraints, groups []Group) (joints.Kinematics, []joints.Finding) {
-	s := newSolver(k, groups)
+	return kinematicSized(k, groups, nil)
+}
+
+// kinematicSized is Kinematic with the parts' areas (mm², by part id;
+// nil or missing: 0), which decide, before the part ids, which part of
+// a group is held and which moves: the largest part is held, and of
+// two parts that move against each other the smaller is reported as
+// moving, so that renumbering the parts does not change the findings.
+func kinematicSized(k *joints.Constraints, groups []Group, area map[int64]float64) (joints.Kinematics, []joints.Finding) {
+	s := newSolver(k, groups, area)
 	s.mergeRigidTies()
 	s.buildEdges()
 	s.chooseRoots()
@@ -72,6 +82,20 @@ func Kinematic(k *joints.Constraints, groups []Group) (joints.Kinematics, []join
 	sortFindings(s.mechFs)
 	sortFindings(s.unresFs)
 	return kin, append(s.mechFs, s.unresFs...)
+}
+
+// areaKey rounds an area to 6 significant digits, so that parts alike
+// but for the rounding of their coordinates tie (and the part ids
+// decide).
+func areaKey(a float64) float64 {
+	if !(a > 0) {
+		return 0
+	}
+	r, err := strconv.ParseFloat(strconv.FormatFloat(a, 'g', 6, 64), 64)
+	if err != nil {
+		return 0
+	}
+	return r
 }
 
 // solver holds the state of the reduction.
@@ -98,7 +122,8 @@ type kcluster struct {
 	alive   bool
 	bodies  []int32
 	nparts  int
-	minPart int64 // math.MaxInt64 without parts
+	area    float64 // of its parts, mm², rounded (areaKey)
+	minPart int64   // math.MaxInt64 without parts
 	ground  bool
 	edges   []int32 // incident edges (dead ones are skipped)
 }
@@ -115,7 +140,7 @@ type kedge struct {
 	rank    int
 }
 
-func newSolver(k *joints.Constraints, groups []Group) *solver {
+func newSolver(k *joints.Constraints, groups []Group, area map[int64]float64) *solver {
 	n := len(k.Bodies)
 	s := &solver{k: k, groups: groups, groupOf: make([]int, n), host: make([]int64, n), uf: newUnionFind(n),
 		cl: make([]kcluster, n), pairs: map[[2]int32]int32{}, root: make([]int32, len(groups)),
@@ -131,6 +156,7 @@ func newSolver(k *joints.Constraints, groups []Group) *solver {
 		switch body.Kind {
 		case joints.PartBody:
 			c.nparts, c.minPart, s.host[b] = 1, body.Part, body.Part
+			c.area = areaKey(area[body.Part])
 		case joints.GroundBody:
 			c.ground = true
 		}
@@ -160,6 +186,7 @@ func (s *solver) joinClusters(a, b int32) (keep, gone int32) {
 	ck, cg := &s.cl[keep], &s.cl[gone]
 	ck.bodies = append(ck.bodies, cg.bodies...)
 	ck.nparts += cg.nparts
+	ck.area = areaKey(ck.area + cg.area)
 	ck.minPart = min(ck.minPart, cg.minPart)
 	ck.ground = ck.ground || cg.ground
 	ck.edges = append(ck.edges, cg.edges...)
@@ -496,6 +523,8 @@ func better(a, b *kcluster, ia, ib int32) bool {
 		return a.ground
 	case a.nparts != b.nparts:
 		return a.nparts > b.nparts
+	case a.area != b.area:
+		return a.area > b.area
 	case a.minPart != b.minPart:
 		return a.minPart < b.minPart
 	}
@@ -508,6 +537,7 @@ type candidate struct {
 	class  int // 0 connector nodes, 1 parts
 	degree int
 	nparts int
+	area   float64
 	key    int64
 }
 
@@ -517,7 +547,7 @@ func (q queue) Len() int { return len(q) }
 func (q queue) Less(i, j int) bool {
 	a, b := q[i], q[j]
 	return cmp.Or(cmp.Compare(a.class, b.class), cmp.Compare(a.degree, b.degree), cmp.Compare(a.nparts, b.nparts),
-		cmp.Compare(a.key, b.key), cmp.Compare(a.c, b.c)) < 0
+		cmp.Compare(a.area, b.area), cmp.Compare(a.key, b.key), cmp.Compare(a.c, b.c)) < 0
 }
 func (q queue) Swap(i, j int) { q[i], q[j] = q[j], q[i] }
 func (q *queue) Push(x any)   { *q = append(*q, x.(candidate)) }
@@ -536,7 +566,7 @@ func (s *solver) candidateOf(c int32) (candidate, bool) {
 		return candidate{}, false
 	}
 	deg := len(s.neighbours(c))
-	cand := candidate{c: c, degree: deg, nparts: cl.nparts, key: cl.minPart}
+	cand := candidate{c: c, degree: deg, nparts: cl.nparts, area: cl.area, key: cl.minPart}
 	if cl.nparts == 0 {
 		cand.key = int64(slices.Min(cl.bodies))
 		return cand, deg >= 1
