@@ -200,6 +200,19 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 	if redo {
 		ws, used = eval(pitch, margin)
 	}
+	// The table's spacing holds between the welds themselves, in a
+	// straight line, as build and check measure it: on a curved flange
+	// the chord between stations is shorter than their spacing along the
+	// centreline, so widen the spacing by the ratio until the chord
+	// meets it (a few rounds: a ring's spacing changes by whole stations).
+	for range 8 {
+		c := chordMin(ws)
+		if !fo.Pitch.Table || c >= need-joints.LengthRoundoff || c <= 0 {
+			break
+		}
+		pitch = used * need / c * (1 + 1e-9)
+		ws, used = eval(pitch, margin)
+	}
 	if len(ws) == 0 {
 		what := fmt.Sprintf("shorter (%s mm) than its two end margins of %s mm", joints.MM(f.Length), joints.MM(margin))
 		if f.Closed {
@@ -239,10 +252,10 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 			placed++
 		}
 	}
-	if worst != nil && placed > 1 && used < need-joints.LengthRoundoff {
+	if apart := math.Min(used, chordMin(ws)); worst != nil && placed > 1 && apart < need-joints.LengthRoundoff {
 		fs = append(fs, flangeFinding(f, joints.Warning, joints.CodePitchShort,
 			fmt.Sprintf("flange %s: welds %s mm apart, below the minimum spacing of %s mm for %d sheets of governing thickness %s mm (resistance welding manufacturers' table, interpolated linearly%s)",
-				f.ID, joints.MM(used), joints.MM(need), len(worst.parts), joints.MM(joints.GoverningThickness(worst.thick)),
+				f.ID, joints.MM(apart), joints.MM(need), len(worst.parts), joints.MM(joints.GoverningThickness(worst.thick)),
 				when(len(worst.parts) >= 3, ", +30 per cent for three sheets"))))
 	}
 	// Edges.
@@ -268,6 +281,34 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 		}
 	}
 	return ws, used, fs
+}
+
+// chordMin returns the least straight-line distance between placed
+// welds of ws next to each other along the flange, and between the last
+// and the first (a ring's seam; an open flange's ends are farther apart
+// unless it nearly closes, where build measures them too), +Inf when
+// fewer than two are placed.
+func chordMin(ws []weld) float64 {
+	least := math.Inf(1)
+	var first, prev *weld
+	n := 0
+	for k := range ws {
+		w := &ws[k]
+		if w.skip != "" {
+			continue
+		}
+		if prev != nil {
+			least = math.Min(least, r3.Norm(r3.Sub(w.point, prev.point)))
+		} else {
+			first = w
+		}
+		prev = w
+		n++
+	}
+	if n > 2 && first != nil {
+		least = math.Min(least, r3.Norm(r3.Sub(prev.point, first.point)))
+	}
+	return least
 }
 
 // nStations returns how many stations stations(l, p, e, closed) gives.
