@@ -29,30 +29,13 @@ type plate struct {
 // plates builds a mesh of plates; node and element ids of part p start
 // at p*100000+1.
 func plates(ps ...plate) *geom.Mesh {
-	m := &geom.Mesh{ElemStart: []int32{0}}
-	for pi, p := range ps {
-		m.Parts = append(m.Parts, geom.Part{ID: p.Part, Name: fmt.Sprintf("plate %d", p.Part), Thickness: p.T})
-		base := int32(len(m.Coords))
-		for j := 0; j <= p.NY; j++ {
-			for i := 0; i <= p.NX; i++ {
-				m.NodeIDs = append(m.NodeIDs, p.Part*100000+int64(len(m.Coords)-int(base))+1)
-				m.Coords = append(m.Coords, r3.Vec{X: p.X0 + float64(i)*p.H, Y: p.Y0 + float64(j)*p.H, Z: p.Z})
-			}
-		}
-		for j := 0; j < p.NY; j++ {
-			for i := 0; i < p.NX; i++ {
-				n0 := base + int32(j*(p.NX+1)+i)
-				m.Conn = append(m.Conn, n0, n0+1, n0+int32(p.NX)+2, n0+int32(p.NX)+1)
-				m.ElemStart = append(m.ElemStart, int32(len(m.Conn)))
-				m.ElemIDs = append(m.ElemIDs, p.Part*100000+int64(len(m.ElemIDs))+1)
-				m.ElemPart = append(m.ElemPart, int32(pi))
-			}
-		}
+	ss := make([]surface, len(ps))
+	for k, p := range ps {
+		ss[k] = surface{Part: p.Part, T: p.T, NU: p.NX, NV: p.NY, name: "plate", At: func(i, j int) r3.Vec {
+			return r3.Vec{X: p.X0 + float64(i)*p.H, Y: p.Y0 + float64(j)*p.H, Z: p.Z}
+		}}
 	}
-	if err := m.Index(); err != nil {
-		panic(err)
-	}
-	return m
+	return surfaces(ss...)
 }
 
 // nodeAt returns the id of part's node at (x, y).

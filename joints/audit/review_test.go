@@ -1,6 +1,7 @@
 package audit
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -23,6 +24,7 @@ type surface struct {
 	T      float64
 	NU, NV int
 	At     func(i, j int) r3.Vec
+	name   string // the parts' names: "<name> <id>", "sheet" when empty
 }
 
 // surfaces builds a mesh of surfaces; node and element ids of part p
@@ -30,7 +32,8 @@ type surface struct {
 func surfaces(ss ...surface) *geom.Mesh {
 	m := &geom.Mesh{ElemStart: []int32{0}}
 	for pi, s := range ss {
-		m.Parts = append(m.Parts, geom.Part{ID: s.Part, Name: fmt.Sprintf("sheet %d", s.Part), Thickness: s.T})
+		name := cmp.Or(s.name, "sheet")
+		m.Parts = append(m.Parts, geom.Part{ID: s.Part, Name: fmt.Sprintf("%s %d", name, s.Part), Thickness: s.T})
 		base := int32(len(m.Coords))
 		for j := 0; j <= s.NV; j++ {
 			for i := 0; i <= s.NU; i++ {
