@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strings"
 	"testing"
@@ -418,5 +419,57 @@ func TestCheckPointsIntoSweep(t *testing.T) {
 	code, _, errs := runCLI(t, "check", exampleJob, "--connectors", sw, "--out", filepath.Join(dir, "c"))
 	if want := "name one of them, as " + filepath.Join(sw, "01-attach=interpolated"); code != exitBadInput || !strings.Contains(errs, want) {
 		t.Errorf("exit %d, %q; want 2 and %q", code, errs, want)
+	}
+}
+
+// A connector's new nodes (the ends it brings) need ids of their own: a
+// connectors.json edited so that an end_node is a node of the mesh, or
+// the new node of another connector, would have a solver tie what the
+// document does not tie; check refuses it as an input error naming the
+// file and line.
+func TestCheckNewNodeClash(t *testing.T) {
+	dir := t.TempDir()
+	m, mesh, parts := benchModel(t, dir)
+	list := filepath.Join(dir, "welds.csv")
+	write(t, list, "id,x,y,z\nW1,20,50,0.5\nW2,60,50,0.5\nW3,100,45,0.5\n")
+	built := filepath.Join(dir, "built")
+	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", built, "--quiet"); code != exitOK {
+		t.Fatalf("build: exit %d: %s", code, errs)
+	}
+	b, err := os.ReadFile(filepath.Join(built, "connectors.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	re := regexp.MustCompile(`"end_node":\s*(\d+)`)
+	ends := re.FindAllSubmatchIndex(b, -1)
+	if len(ends) < 4 {
+		t.Fatalf("%d end nodes in connectors.json", len(ends))
+	}
+	// with returns b with the k-th end_node's id replaced by id.
+	with := func(k int, id string) []byte {
+		e := ends[k]
+		return slices.Concat(b[:e[2]], []byte(id), b[e[3]:])
+	}
+	first := string(b[ends[0][2]:ends[0][3]])
+	for _, tc := range []struct {
+		name string
+		doc  []byte
+		want string
+	}{
+		{"mesh-node.json", with(0, fmt.Sprint(nodeID(t, m, 1, 20, 50))), "is a node of the mesh"},
+		{"twice.json", with(3, first), "is a new node of connector \"W1\" too"},
+	} {
+		path := filepath.Join(dir, tc.name)
+		if err := os.WriteFile(path, tc.doc, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		out := filepath.Join(dir, "out-"+tc.name)
+		code, _, errs := runCLI(t, "check", "--mesh", mesh, "--parts", parts, "--connectors", path, "--out", out)
+		if code != exitBadInput || !strings.Contains(errs, tc.name+":") || !strings.Contains(errs, tc.want) {
+			t.Errorf("%s: exit %d, %q; want 2, the file's line and %q", tc.name, code, errs, tc.want)
+		}
+		if _, err := os.Stat(out); !os.IsNotExist(err) {
+			t.Errorf("%s: output directory written on bad input", tc.name)
+		}
 	}
 }

@@ -59,7 +59,50 @@ func (doc *ConnectorsDoc) ToConnectors(m *geom.Mesh, name string) ([]joints.Conn
 	if i, err := endsOnParts(m, out); err != nil {
 		return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", geom.Excerpt(doc.Connectors[i].ID), err)
 	}
+	if i, err := doc.newNodeClash(m); err != nil {
+		return nil, geom.LineError(name, doc.ConnectorLine(i), "connector %q: %w", geom.Excerpt(doc.Connectors[i].ID), err)
+	}
 	return out, nil
+}
+
+// newNodeClash returns the index of the first connector bringing a new
+// node (a sheet's end_node, a link's end_node marked new) whose id is a
+// node of the mesh or a new node of an earlier connector, and the error
+// saying so: a solver would take the two for one node and tie what the
+// document does not tie.
+func (doc *ConnectorsDoc) newNodeClash(m *geom.Mesh) (int, error) {
+	seen := map[int64]string{}
+	claim := func(id int64, what, conn string) error {
+		if _, ok := m.NodeIndex(id); ok {
+			return fmt.Errorf("%s: new node %d is a node of the mesh; a connector's new nodes need ids of their own", what, id)
+		}
+		if other, ok := seen[id]; ok {
+			return fmt.Errorf("%s: new node %d is a new node of connector %q too", what, id, geom.Excerpt(other))
+		}
+		seen[id] = conn
+		return nil
+	}
+	for i := range doc.Connectors {
+		d := &doc.Connectors[i]
+		if d.State == "not-built" {
+			continue
+		}
+		for si, s := range d.Sheets {
+			if s.EndNode != nil && s.EndPoint != nil {
+				if err := claim(*s.EndNode, fmt.Sprintf("sheet %d", si), d.ID); err != nil {
+					return i, err
+				}
+			}
+		}
+		for _, l := range d.Links {
+			if l.NewNode {
+				if err := claim(l.EndNode, fmt.Sprintf("link %d", l.ID), d.ID); err != nil {
+					return i, err
+				}
+			}
+		}
+	}
+	return 0, nil
 }
 
 // endsOnParts returns the index of the first connector of cs with an
