@@ -282,13 +282,7 @@ func TestCheckBadInput(t *testing.T) {
 // the connectors read.
 func TestCheckReadsOutputSets(t *testing.T) {
 	dir := t.TempDir()
-	_, mesh, parts := benchModel(t, dir)
-	list := filepath.Join(dir, "welds.csv")
-	write(t, list, "id,x,y,z\nW1,20,50,0.5\nW2,60,50,0.5\nW3,100,45,0.5\n")
-	built := filepath.Join(dir, "built")
-	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", built, "--quiet"); code != exitOK {
-		t.Fatalf("build: exit %d: %s", code, errs)
-	}
+	_, mesh, parts, built := threeWelds(t, dir)
 	var ids []string
 	var sets [][]string
 	for i, in := range []string{built, filepath.Join(built, "connectors.json")} {
@@ -429,13 +423,7 @@ func TestCheckPointsIntoSweep(t *testing.T) {
 // file and line.
 func TestCheckNewNodeClash(t *testing.T) {
 	dir := t.TempDir()
-	m, mesh, parts := benchModel(t, dir)
-	list := filepath.Join(dir, "welds.csv")
-	write(t, list, "id,x,y,z\nW1,20,50,0.5\nW2,60,50,0.5\nW3,100,45,0.5\n")
-	built := filepath.Join(dir, "built")
-	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", built, "--quiet"); code != exitOK {
-		t.Fatalf("build: exit %d: %s", code, errs)
-	}
+	m, mesh, parts, built := threeWelds(t, dir)
 	b, err := os.ReadFile(filepath.Join(built, "connectors.json"))
 	if err != nil {
 		t.Fatal(err)
@@ -472,4 +460,19 @@ func TestCheckNewNodeClash(t *testing.T) {
 			t.Errorf("%s: output directory written on bad input", tc.name)
 		}
 	}
+}
+
+// threeWelds writes the bench model and three welds on it into dir and
+// builds them into dir/built, returning the model, its files and the
+// output directory.
+func threeWelds(t *testing.T, dir string) (m *geom.Mesh, mesh, parts, built string) {
+	t.Helper()
+	m, mesh, parts = benchModel(t, dir)
+	list := filepath.Join(dir, "welds.csv")
+	write(t, list, "id,x,y,z\nW1,20,50,0.5\nW2,60,50,0.5\nW3,100,45,0.5\n")
+	built = filepath.Join(dir, "built")
+	if code, _, errs := runCLI(t, "build", "--mesh", mesh, "--parts", parts, "--joints", list, "--out", built, "--quiet"); code != exitOK {
+		t.Fatalf("build: exit %d: %s", code, errs)
+	}
+	return m, mesh, parts, built
 }

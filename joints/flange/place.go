@@ -205,9 +205,9 @@ func (p *placer) flange(i int) ([]weld, float64, []joints.Finding) {
 	// the chord between stations is shorter than their spacing along the
 	// centreline, so widen the spacing by the ratio until the chord
 	// meets it (a few rounds: a ring's spacing changes by whole stations).
-	for range 8 {
+	for k := 0; fo.Pitch.Table && k < 8; k++ {
 		c := chordMin(ws)
-		if !fo.Pitch.Table || c >= need-joints.LengthRoundoff || c <= 0 {
+		if c >= need-joints.LengthRoundoff || c <= 0 {
 			break
 		}
 		pitch = used * need / c * (1 + 1e-9)
