@@ -153,3 +153,50 @@ func (s SkippedCells) Add(o SkippedCells) SkippedCells {
 	}
 	return s
 }
+
+// PolySection is one of the four cell lists of a VTK polydata set, in
+// the order VTK numbers their cells: the vertices first, then the lines,
+// the polygons and the triangle strips, whatever their order in the file
+// (vtkPolyData; VTK file-format documentation, Kitware). Cell data
+// follows the same numbering.
+type PolySection uint8
+
+// The polydata cell lists, in VTK's order.
+const (
+	PolyVerts PolySection = iota
+	PolyLines
+	PolyPolys
+	PolyStrips
+	NumPolySections
+)
+
+// VTKPolyCellType returns the VTK cell type of a cell of n points in
+// polydata section s, as VTK gives it (vtkPolyData::GetCellType): a
+// vertex (1) or, with more points, a poly-vertex (2); a line (3) or a
+// poly-line (4); a triangle (5), a quad (9) or, with more or fewer
+// points, a polygon (7); a triangle strip (6). So a polydata file's
+// triangles and quads are read as shells and its other cells skipped and
+// counted, as in an unstructured grid.
+func VTKPolyCellType(s PolySection, n int) uint8 {
+	switch s {
+	case PolyVerts:
+		if n == 1 {
+			return 1
+		}
+		return 2
+	case PolyLines:
+		if n == 2 {
+			return 3
+		}
+		return 4
+	case PolyPolys:
+		switch n {
+		case 3:
+			return VTKTriangle
+		case 4:
+			return VTKQuad
+		}
+		return 7
+	}
+	return 6
+}

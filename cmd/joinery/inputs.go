@@ -30,7 +30,7 @@ func (o *inputOptions) AddFlags(fs *pflag.FlagSet) {
 // --joints, for commands that read no joint list.
 func (o *inputOptions) AddModelFlags(fs *pflag.FlagSet) {
 	o.flags = fs
-	fs.StringArrayVarP(&o.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu or .jmesh); repeat for several files")
+	fs.StringArrayVarP(&o.meshes, "mesh", "m", nil, "shell mesh file (.vtk, .vtu, .vtp or .jmesh); repeat for several files")
 	fs.StringArrayVarP(&o.parts, "parts", "p", nil, "parts table (.yaml or .csv): thickness, surface, names; given again, a table laid over the first (e.g. the surfaces.yaml of joinery offsets)")
 	fs.BoolVar(&o.renumber, "renumber", false, "offset clashing node and element ids of later mesh files instead of failing")
 	fs.StringVar(&o.partArray, "part-array", geom.DefaultPartArray, "VTK cell array that holds the part ids (gmsh writes CellEntityIds)")

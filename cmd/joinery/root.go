@@ -57,8 +57,8 @@ func newRootCommand(g *globalOptions) *cobra.Command {
 	root := &cobra.Command{
 		Use:   "joinery",
 		Short: "Build and check spot-weld and bolt connectors for shell models of sheet-metal assemblies",
-		Long: `joinery reads shell meshes of sheet-metal parts (VTK legacy .vtk, VTK XML .vtu,
-or joinery's native .jmesh), a parts table and a joint list (spot welds and
+		Long: `joinery reads shell meshes of sheet-metal parts (VTK legacy .vtk, VTK XML .vtu
+and .vtp, or joinery's native .jmesh), a parts table and a joint list (spot welds and
 bolts), finds the sheets each joint joins, and writes connector definitions
 and a connectivity report in joinery's own documented formats.
 

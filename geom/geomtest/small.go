@@ -31,3 +31,14 @@ func Small(file string) *geom.Mesh {
 		Sources:       []geom.Source{{File: file, Skipped: geom.SkippedCells{1: 1}}},
 	}
 }
+
+// SmallPoly returns the mesh the polydata variant of the "small" fixture
+// reads to (testdata/polydata/vtk9_write.py, written by VTK's own
+// writers): Small's mesh, with the vertex, the poly-vertex, the line, the
+// poly-line, the triangle strip and the pentagon of its other cells
+// skipped, each counted under the type VTK gives it (1, 2, 3, 4, 6 and 7).
+func SmallPoly(file string) *geom.Mesh {
+	m := Small(file)
+	m.Sources[0].Skipped = geom.SkippedCells{1: 1, 2: 1, 3: 1, 4: 1, 6: 1, 7: 1}
+	return m
+}

@@ -3,9 +3,10 @@
 // their names, thicknesses, materials and reference surfaces, and merges
 // everything into one geom.Mesh.
 //
-// Supported mesh formats: VTK legacy (.vtk, package geom/vtk), VTK XML
-// unstructured grid (.vtu, package geom/vtu) and Joinery's native text
-// format (.jmesh, package geom/native).
+// Supported mesh formats: VTK legacy (.vtk, an unstructured grid or a
+// polydata set, package geom/vtk), VTK XML unstructured grid and polydata
+// (.vtu and .vtp, package geom/vtu) and Joinery's native text format
+// (.jmesh, package geom/native).
 //
 // The parts table is YAML (.yaml or .yml):
 //

@@ -214,7 +214,7 @@ func TestLoadErrors(t *testing.T) {
 
 func TestReadMeshExtension(t *testing.T) {
 	_, err := ReadMesh("model.stl", geom.ReadOptions{})
-	checkErr(t, err, `model.stl: unknown mesh file type ".stl" (want .vtk, .vtu or .jmesh)`)
+	checkErr(t, err, `model.stl: unknown mesh file type ".stl" (want .vtk, .vtu, .vtp or .jmesh)`)
 	// A directory named without an extension is refused as a directory,
 	// not as a file of an unknown type.
 	dir := t.TempDir()

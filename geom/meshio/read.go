@@ -13,13 +13,15 @@ import (
 )
 
 // ReadMesh reads the mesh in the named file, choosing the reader by the
-// file's extension (in any case): .vtk, .vtu or .jmesh. Any other
+// file's extension (in any case): .vtk (an unstructured grid or a
+// polydata set), .vtu or .vtp (VTK XML unstructured grid or polydata)
+// or .jmesh. Any other
 // extension is an input error.
 func ReadMesh(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
 	case ".vtk":
 		return vtk.ReadFile(path, opt)
-	case ".vtu":
+	case ".vtu", ".vtp":
 		return vtu.ReadFile(path, opt)
 	case ".jmesh":
 		return native.ReadFile(path, opt)
@@ -27,6 +29,6 @@ func ReadMesh(path string, opt geom.ReadOptions) (*geom.Mesh, error) {
 		if err := geom.StatRegular(path); err != nil && !errors.Is(err, fs.ErrNotExist) {
 			return nil, err // a directory says so first
 		}
-		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu or .jmesh)", geom.Excerpt(ext))
+		return nil, geom.FileError(path, "unknown mesh file type %q (want .vtk, .vtu, .vtp or .jmesh)", geom.Excerpt(ext))
 	}
 }

@@ -32,7 +32,7 @@ func TestAgainstVTKLibrary(t *testing.T) {
 		t.Skip("python3-vtk9 not installed: VTK reference reader unavailable")
 	}
 	var files []string
-	for _, pat := range []string{"../../testdata/formats/*.vt[ku]", "../../testdata/vtk/*.vtk", "../../testdata/vtu/*.vtu", "../../examples/*/mesh/*.vtk"} {
+	for _, pat := range []string{"../../testdata/formats/*.vt[ku]", "../../testdata/vtk/*.vtk", "../../testdata/vtu/*.vtu", "../../testdata/polydata/*.vt[kp]", "../../examples/*/mesh/*.vtk"} {
 		m, _ := filepath.Glob(pat)
 		files = append(files, m...)
 	}

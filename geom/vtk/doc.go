@@ -5,7 +5,15 @@
 // Read and ReadFile accept DATASET UNSTRUCTURED_GRID files of versions 2.0
 // to 5.1, ASCII or BINARY (big-endian, as the format specifies), with the
 // classic "CELLS n size" layout (point counts inline) or the 5.x layout
-// ("CELLS nOffsets nConn" followed by OFFSETS and CONNECTIVITY arrays).
+// ("CELLS nOffsets nConn" followed by OFFSETS and CONNECTIVITY arrays),
+// and DATASET POLYDATA files, whose cells come in the sections VERTICES,
+// LINES, POLYGONS and TRIANGLE_STRIPS, each in either layout. A polydata
+// set's cells are numbered as VTK numbers them, the vertices first, then
+// the lines, the polygons and the strips, whatever the order of the
+// sections in the file, and its CELL_DATA follows every section; each
+// cell takes the type VTK gives it (geom.VTKPolyCellType): the polygons
+// of 3 and 4 points are triangles and quads, the rest is skipped and
+// counted.
 // Triangles (cell type 5), quads (9), quadratic triangles (22), quadratic
 // quads (23) and biquadratic quads (28) become elements; other cells are
 // skipped and counted in the mesh's Source (see geom.MeshFromCells for

@@ -13,7 +13,7 @@ import (
 // FuzzRead feeds arbitrary bytes to the reader: it must never panic or
 // hang, every error must be an input error and every mesh consistent.
 func FuzzRead(f *testing.F) {
-	geomtest.AddFiles(f, filepath.Join(formats, "*.vtk"), "../../testdata/vtk/*.vtk")
+	geomtest.AddFiles(f, filepath.Join(formats, "*.vtk"), "../../testdata/vtk/*.vtk", "../../testdata/polydata/*.vtk")
 	f.Add(smallBinary())
 	f.Add(small51Binary())
 	// Hostile inputs of issue 7: a thickness and a coordinate no sheet

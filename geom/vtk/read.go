@@ -115,7 +115,16 @@ type parser struct {
 	ncells  int      // -1 until CELLS or CELL_TYPES
 	cells   bool     // CELLS seen
 	types   bool     // CELL_TYPES seen
-	cs      geom.CellSet
+	sect    string   // the cell section being read, for messages: CELLS, POLYGONS, ...
+	// poly is set in a POLYDATA file, whose cells come in the sections
+	// of polys (by geom.PolySection) instead of CELLS and CELL_TYPES;
+	// sectCells is the cell count of the section being read, cellData
+	// is set once CELL_DATA has been read.
+	poly      bool
+	polys     [geom.NumPolySections]*polySection
+	sectCells int
+	cellData  bool
+	cs        geom.CellSet
 	// partArray is the name of the cell array that holds part ids.
 	partArray string
 	// spans tells where the values of each array of cs start, for
@@ -191,19 +200,28 @@ func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
 	if int(a) >= len(p.spans) || index < 0 {
 		return 0, -1
 	}
+	if p.poly && (a == geom.ArrayConn || a == geom.ArrayOffsets || a == geom.ArrayTypes) {
+		return p.locatePoly(a, index)
+	}
+	return p.locateIn(a, index, p.cs.Offsets32, p.spans, p.classic)
+}
+
+// locateIn is locate for value index of array a of a cell list with
+// offsets offs, its values written where spans say, in the classic
+// CELLS layout when classic is set.
+func (p *parser) locateIn(a geom.CellArray, index int, offs []int32, spans [geom.ArrayThickness + 1]span, classic bool) (int, int64) {
 	k := index
 	switch a {
 	case geom.ArrayPoints:
 		k = 3 * index
 	case geom.ArrayConn, geom.ArrayOffsets:
-		if !p.classic {
+		if !classic {
 			if a == geom.ArrayOffsets {
 				k = index + 1 // OFFSETS starts with the 0 before cell 0
 			}
 			break
 		}
 		// Classic CELLS: per cell its point count, then its points.
-		offs := p.cs.Offsets32
 		if len(offs) < 2 {
 			return 0, -1
 		}
@@ -219,7 +237,7 @@ func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
 		c := sort.Search(len(offs)-1, func(c int) bool { return int(offs[c+1]) > index })
 		k = index + c + 1
 	}
-	sp := p.spans[a]
+	sp := spans[a]
 	if !sp.set {
 		return 0, -1
 	}
@@ -344,10 +362,16 @@ func (p *parser) parse() error {
 		switch kw := p.keyword(0); kw {
 		case "points":
 			err = p.points(off)
-		case "cells":
-			err = p.readCells(off)
-		case "cell_types":
-			err = p.cellTypes(off)
+		case "cells", "cell_types":
+			if p.poly {
+				err = p.errAt(off, "%s in a POLYDATA file: its cells come in VERTICES, LINES, POLYGONS and TRIANGLE_STRIPS", strings.ToUpper(kw))
+			} else if kw == "cells" {
+				err = p.readCells(off)
+			} else {
+				err = p.cellTypes(off)
+			}
+		case "vertices", "lines", "polygons", "triangle_strips":
+			err = p.polySection(off, kw)
 		case "point_data", "cell_data":
 			where, nvals, err = p.attrStart(off, kw)
 		case "field":
@@ -405,8 +429,12 @@ func (p *parser) header() error {
 	if p.keyword(0) != "dataset" {
 		return p.errAt(off, "want a DATASET line, found %q", geom.Excerpt(p.fields[0]))
 	}
-	if ds := p.keyword(1); ds != "unstructured_grid" {
-		return p.errAt(off, "unsupported dataset type %q (want UNSTRUCTURED_GRID)", geom.Excerpt([]byte(ds)))
+	switch ds := p.keyword(1); ds {
+	case "unstructured_grid":
+	case "polydata":
+		p.poly = true
+	default:
+		return p.errAt(off, "unsupported dataset type %q (want UNSTRUCTURED_GRID or POLYDATA)", geom.Excerpt([]byte(ds)))
 	}
 	return nil
 }
@@ -585,6 +613,10 @@ func (p *parser) points(off int) error {
 
 // setCells records the cell count given by CELLS or CELL_TYPES.
 func (p *parser) setCells(off, n int) error {
+	if p.poly {
+		p.sectCells = n
+		return nil
+	}
 	if p.ncells >= 0 && p.ncells != n {
 		return p.errAt(off, "%s: %d cells, but %d before", strings.ToUpper(p.keyword(0)), n, p.ncells)
 	}
@@ -599,6 +631,13 @@ func (p *parser) readCells(off int) error {
 		return p.errAt(off, "a second CELLS section")
 	}
 	p.cells = true
+	p.sect = "CELLS"
+	return p.cellList(off)
+}
+
+// cellList reads the cell list of a CELLS section, or of a POLYDATA
+// section (p.sect names it), into p.cs.Offsets32 and p.cs.Conn32.
+func (p *parser) cellList(off int) error {
 	if p.peekKeyword() == "offsets" {
 		return p.cells5(off)
 	}
@@ -611,16 +650,16 @@ func (p *parser) readCells(off int) error {
 		return err
 	}
 	if size < n {
-		return p.errAt(off, "CELLS: size %d is smaller than the cell count %d", size, n)
+		return p.errAt(off, "%s: size %d is smaller than the cell count %d", p.sect, size, n)
 	}
 	if err := p.setCells(off, n); err != nil {
 		return err
 	}
-	if err := p.need(off, "CELLS", int64(size), dtypes[6]); err != nil {
+	if err := p.need(off, p.sect, int64(size), dtypes[6]); err != nil {
 		return err
 	}
 	if size-n > math.MaxInt32 {
-		return p.errAt(off, "CELLS: %d connectivity entries are more than a mesh can hold (%d)", size-n, math.MaxInt32)
+		return p.errAt(off, "%s: %d connectivity entries are more than a mesh can hold (%d)", p.sect, size-n, math.MaxInt32)
 	}
 	p.cs.Offsets32 = geom.MakeLarge[int32](n + 1)
 	p.cs.Conn32 = geom.MakeLarge[int32](size - n)
@@ -677,7 +716,7 @@ func (p *parser) cellsBinary(n, size int) error {
 		}
 		k := int(int32(binary.BigEndian.Uint32(src[4*r:])))
 		if k < 0 || k > len(conn)-w {
-			return p.errAt(p.pos+4*r, "CELLS: cell %d has %d points, more than the size %d leaves", c, k, size)
+			return p.errAt(p.pos+4*r, "%s: cell %d has %d points, more than the size %d leaves", p.sect, c, k, size)
 		}
 		r++
 		idx := src[4*r : 4*(r+k)]
@@ -685,7 +724,7 @@ func (p *parser) cellsBinary(n, size int) error {
 		for e := range dst {
 			v := int32(binary.BigEndian.Uint32(idx[4*e:]))
 			if np >= 0 && uint64(v) >= uint64(np) {
-				return p.errAt(p.pos+4*(r+e), "CELLS: cell %d references point %d; the file has %d points", c, v, np)
+				return p.errAt(p.pos+4*(r+e), "%s: cell %d references point %d; the file has %d points", p.sect, c, v, np)
 			}
 			dst[e] = v
 		}
@@ -694,7 +733,7 @@ func (p *parser) cellsBinary(n, size int) error {
 		offs[c+1] = int32(w)
 	}
 	if w != len(conn) {
-		return p.errAt(p.pos+4*r, "CELLS: the cells hold %d values, the size says %d", r, size)
+		return p.errAt(p.pos+4*r, "%s: the cells hold %d values, the size says %d", p.sect, r, size)
 	}
 	p.pos += 4 * size
 	return nil
@@ -710,10 +749,10 @@ func (p *parser) cellsASCII(n, size int) error {
 		i = skipSpace(b, i)
 		k, j, ok := scanInt(b, i)
 		if !ok {
-			return p.asciiFail(i, read, size, "CELLS")
+			return p.asciiFail(i, read, size, p.sect)
 		}
 		if k < 0 || k > int64(len(conn)-w) {
-			return p.errAt(i, "CELLS: cell %d has %d points, more than the size %d leaves", c, k, size)
+			return p.errAt(i, "%s: cell %d has %d points, more than the size %d leaves", p.sect, c, k, size)
 		}
 		i = j
 		read++
@@ -721,10 +760,10 @@ func (p *parser) cellsASCII(n, size int) error {
 			i = skipSpace(b, i)
 			v, j, ok := scanInt(b, i)
 			if !ok {
-				return p.asciiFail(i, read, size, "CELLS")
+				return p.asciiFail(i, read, size, p.sect)
 			}
 			if np >= 0 && uint64(v) >= uint64(np) {
-				return p.errAt(i, "CELLS: cell %d references point %d; the file has %d points", c, v, np)
+				return p.errAt(i, "%s: cell %d references point %d; the file has %d points", p.sect, c, v, np)
 			}
 			conn[w] = int32(v)
 			i = j
@@ -733,7 +772,7 @@ func (p *parser) cellsASCII(n, size int) error {
 		offs[c+1] = int32(w)
 	}
 	if w != len(conn) {
-		return p.errAt(i, "CELLS: the cells hold %d values, the size says %d", read, size)
+		return p.errAt(i, "%s: the cells hold %d values, the size says %d", p.sect, read, size)
 	}
 	p.pos = i
 	return nil
@@ -808,7 +847,7 @@ func (p *parser) cells5(off int) error {
 	}
 	if nOff == 0 {
 		if nConn != 0 {
-			return p.errAt(off, "CELLS: no offsets for %d connectivity entries", nConn)
+			return p.errAt(off, "%s: no offsets for %d connectivity entries", p.sect, nConn)
 		}
 		offs = []int64{0}
 	}
@@ -900,6 +939,7 @@ func (p *parser) attrStart(off int, kw string) (attrs, int, error) {
 	if n != max(p.ncells, 0) {
 		return 0, 0, p.errAt(off, "CELL_DATA: %d values for %d cells", n, max(p.ncells, 0))
 	}
+	p.cellData = true
 	return attrCell, n, nil
 }
 
@@ -1071,10 +1111,15 @@ func (p *parser) skipMetadataBlocks() {
 	}
 }
 
-// finish checks that the sections found make a whole unstructured grid.
+// finish checks that the sections found make a whole unstructured grid
+// or polydata set.
 func (p *parser) finish() error {
 	end := len(p.data)
+	if p.poly {
+		p.joinPolys()
+	}
 	switch {
+	case p.poly:
 	case p.cells && !p.types:
 		return p.errAt(end, "CELLS without CELL_TYPES")
 	case p.types && !p.cells:

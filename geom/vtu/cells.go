@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/spatial/r3"
 
@@ -21,6 +22,8 @@ type pieceData struct {
 	elemID  []int64
 	part    []int64
 	thick   []float64
+	// The cells and connectivity entries of each PolyData section.
+	polyCells, polyConn [geom.NumPolySections]int
 }
 
 // cellSet decodes the arrays of every piece and joins the pieces.
@@ -36,7 +39,7 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 	cs := &geom.CellSet{File: p.file, CellArrays: p.cellArrays}
 	p.sizes = make([]pieceSize, len(datas))
 	for i, d := range datas {
-		p.sizes[i] = pieceSize{points: len(d.points), cells: len(d.types), conn: len(d.conn)}
+		p.sizes[i] = pieceSize{points: len(d.points), cells: len(d.types), conn: len(d.conn), polyCells: d.polyCells, polyConn: d.polyConn}
 	}
 	cs.Locate = p.locate
 	if len(datas) == 1 {
@@ -108,7 +111,11 @@ func (p *parser) cellSet() (*geom.CellSet, error) {
 
 // pieceSize is how many points, cells and connectivity entries a piece
 // adds to the CellSet.
-type pieceSize struct{ points, cells, conn int }
+type pieceSize struct {
+	points, cells, conn int
+	// The cells and connectivity entries of each PolyData section.
+	polyCells, polyConn [geom.NumPolySections]int
+}
 
 // locate tells the line where value index of array a of the CellSet is
 // written, when its piece holds that array in ascii format
@@ -149,6 +156,26 @@ func (p *parser) locate(a geom.CellArray, index int) (int, int64) {
 			desc = pc.part
 		case geom.ArrayThickness:
 			desc = pc.thick
+		}
+		if p.poly && (a == geom.ArrayConn || a == geom.ArrayOffsets || a == geom.ArrayTypes) {
+			// The section holding the entry or the cell; a cell's type
+			// follows from its section and count, so it is located at
+			// the cell's offset.
+			desc = nil
+			for k := range geom.NumPolySections {
+				n := sz.polyCells[k]
+				if a == geom.ArrayConn {
+					n = sz.polyConn[k]
+				}
+				if index < n {
+					desc = pc.polyOffs[k]
+					if a == geom.ArrayConn {
+						desc = pc.polyConn[k]
+					}
+					break
+				}
+				index -= n
+			}
 		}
 		if desc == nil || desc.format != formatASCII {
 			return 0, -1
@@ -214,43 +241,23 @@ func (p *parser) decodePiece(pc *piece, idx int) (*pieceData, error) {
 			}
 		}
 	}
-	// Cells: offsets first, as they give the connectivity length.
-	d.offsets = []int64{0}
-	if nc > 0 {
-		for _, c := range []struct {
-			a    *arrayDesc
-			name string
-		}{{pc.offs, "offsets"}, {pc.conn, "connectivity"}, {pc.types, "types"}} {
-			if c.a == nil {
-				return nil, p.errLine(pc.line, "%sPiece has %d cells but no %q array in Cells", where, nc, c.name)
-			}
+	// Cells.
+	if p.poly {
+		if err := p.decodePolys(pc, d, where); err != nil {
+			return nil, err
 		}
+	} else {
 		var err error
-		d.offsets, err = p.intValues(pc.offs, nc, 1, fmt.Sprintf("NumberOfCells=%d", nc), where)
-		if err != nil {
+		if d.offsets, d.conn, err = p.decodeCells(pc.offs, pc.conn, nc, np, "Cells", where); err != nil {
 			return nil, err
 		}
-		prev := int64(0)
-		for c, o := range d.offsets[1:] {
-			if o < prev {
-				return nil, p.errLine(p.valueLine(pc.offs, c), "%soffsets: cell %d ends at %d, before its start %d", where, c, o, prev)
+		if nc > 0 && pc.types == nil {
+			return nil, p.errLine(pc.line, "%sPiece has %d cells but no %q array in Cells", where, nc, "types")
+		}
+		if nc > 0 {
+			if d.types, err = p.typeValues(pc.types, nc, where); err != nil {
+				return nil, err
 			}
-			prev = o
-		}
-		last := d.offsets[nc]
-		if last > math.MaxInt32 {
-			return nil, p.errLine(pc.offs.line, "%soffsets: %d connectivity entries are more than a mesh can hold", where, last)
-		}
-		if d.conn, err = p.intValues(pc.conn, last, 0, fmt.Sprintf("the last offset, %d", last), where); err != nil {
-			return nil, err
-		}
-		for i, v := range d.conn {
-			if v < 0 || v >= np {
-				return nil, p.errLine(p.valueLine(pc.conn, i), "%sconnectivity value %d (cell %d) refers to point %d; the piece has %d points", where, i, cellOf(d.offsets, i), v, np)
-			}
-		}
-		if d.types, err = p.typeValues(pc.types, nc, where); err != nil {
-			return nil, err
 		}
 	}
 	// Data arrays.
@@ -261,21 +268,110 @@ func (p *parser) decodePiece(pc *piece, idx int) (*pieceData, error) {
 		}
 	}
 	if pc.elemID != nil {
-		if d.elemID, err = p.intValues(pc.elemID, nc, 0, fmt.Sprintf("NumberOfCells=%d", nc), where); err != nil {
+		if d.elemID, err = p.intValues(pc.elemID, nc, 0, p.cellsWhy(nc), where); err != nil {
 			return nil, err
 		}
 	}
 	if pc.part != nil {
-		if d.part, err = p.intValues(pc.part, nc, 0, fmt.Sprintf("NumberOfCells=%d", nc), where); err != nil {
+		if d.part, err = p.intValues(pc.part, nc, 0, p.cellsWhy(nc), where); err != nil {
 			return nil, err
 		}
 	}
 	if pc.thick != nil {
-		if d.thick, err = p.floatValues(pc.thick, nc, fmt.Sprintf("NumberOfCells=%d", nc), where); err != nil {
+		if d.thick, err = p.floatValues(pc.thick, nc, p.cellsWhy(nc), where); err != nil {
 			return nil, err
 		}
 	}
 	return d, nil
+}
+
+// decodeCells decodes and checks the offsets and connectivity of nc
+// cells of a piece of np points, held in section sec (Cells, or a
+// PolyData section). The offsets come first, as they give the
+// connectivity length; they are returned with a 0 before cell 0.
+func (p *parser) decodeCells(offs, conn *arrayDesc, nc, np int64, sec, where string) ([]int64, []int64, error) {
+	if nc == 0 {
+		return []int64{0}, nil, nil
+	}
+	label := ""
+	if sec != "Cells" {
+		label = sec + " "
+	}
+	for _, c := range []struct {
+		a    *arrayDesc
+		name string
+	}{{offs, "offsets"}, {conn, "connectivity"}} {
+		if c.a == nil {
+			return nil, nil, p.errLine(p.pieces[len(p.pieces)-1].line, "%sPiece has %d cells but no %q array in %s", where, nc, c.name, sec)
+		}
+	}
+	offsets, err := p.intValues(offs, nc, 1, fmt.Sprintf("%s=%d", cellCountName(sec), nc), where)
+	if err != nil {
+		return nil, nil, err
+	}
+	prev := int64(0)
+	for c, o := range offsets[1:] {
+		if o < prev {
+			return nil, nil, p.errLine(p.valueLine(offs, c), "%s%soffsets: cell %d ends at %d, before its start %d", where, label, c, o, prev)
+		}
+		prev = o
+	}
+	last := offsets[nc]
+	if last > math.MaxInt32 {
+		return nil, nil, p.errLine(offs.line, "%s%soffsets: %d connectivity entries are more than a mesh can hold", where, label, last)
+	}
+	ids, err := p.intValues(conn, last, 0, fmt.Sprintf("the last offset, %d", last), where)
+	if err != nil {
+		return nil, nil, err
+	}
+	for i, v := range ids {
+		if v < 0 || v >= np {
+			return nil, nil, p.errLine(p.valueLine(conn, i), "%s%sconnectivity value %d (cell %d) refers to point %d; the piece has %d points", where, label, i, cellOf(offsets, i), v, np)
+		}
+	}
+	return offsets, ids, nil
+}
+
+// cellCountName names the Piece attribute that counts the cells of
+// section sec.
+func cellCountName(sec string) string {
+	if k := slices.Index(polyNames[:], sec); k >= 0 {
+		return polyCounts[k]
+	}
+	return "NumberOfCells"
+}
+
+// decodePolys decodes the cell sections of a PolyData piece into d as one
+// cell list in VTK's cell order (geom.PolySection: verts, lines, polys,
+// strips), with the cell types VTK gives them (geom.VTKPolyCellType).
+func (p *parser) decodePolys(pc *piece, d *pieceData, where string) error {
+	if pc.nc > math.MaxInt32 {
+		return p.errLine(pc.line, "%s%d cells are more than a mesh can hold", where, pc.nc)
+	}
+	// The lists grow as the sections are decoded, each checked against
+	// the data it has, rather than trusting the counts up front.
+	d.offsets = []int64{0}
+	for k := range geom.NumPolySections {
+		offs, conn, err := p.decodeCells(pc.polyOffs[k], pc.polyConn[k], pc.polyN[k], pc.np, polyNames[k], where)
+		if err != nil {
+			return err
+		}
+		base := int64(len(d.conn))
+		if base+int64(len(conn)) > math.MaxInt32 {
+			return p.errLine(pc.line, "%s%d connectivity entries are more than a mesh can hold", where, base+int64(len(conn)))
+		}
+		if d.conn == nil {
+			d.conn = conn
+		} else {
+			d.conn = append(d.conn, conn...)
+		}
+		for c := 1; c < len(offs); c++ {
+			d.offsets = append(d.offsets, base+offs[c])
+			d.types = append(d.types, geom.VTKPolyCellType(k, int(offs[c]-offs[c-1])))
+		}
+		d.polyCells[k], d.polyConn[k] = len(offs)-1, len(conn)
+	}
+	return nil
 }
 
 // cellOf returns the cell whose connectivity holds entry i.
@@ -356,7 +452,7 @@ func (p *parser) checkType(a *arrayDesc, where string) error {
 
 // typeValues decodes the cell types array of nc cells.
 func (p *parser) typeValues(a *arrayDesc, nc int64, where string) ([]uint8, error) {
-	why := fmt.Sprintf("NumberOfCells=%d", nc)
+	why := p.cellsWhy(nc)
 	if a.format != formatASCII && (a.typ == typeUInt8 || a.typ == typeInt8) && a.ncomp == 1 {
 		b, _, err := p.binaryBytes(a, nc, why, where)
 		if err != nil {
@@ -503,4 +599,13 @@ func (p *parser) pointValues(a *arrayDesc, np int64, where string) ([]r3.Vec, er
 		return nil, p.valueErr(a, err, where)
 	}
 	return pts, nil
+}
+
+// cellsWhy says where a piece's count of nc cells comes from, for
+// messages about the length of a cell array.
+func (p *parser) cellsWhy(nc int64) string {
+	if p.poly {
+		return fmt.Sprintf("%d cells in Verts, Lines, Polys and Strips", nc)
+	}
+	return fmt.Sprintf("NumberOfCells=%d", nc)
 }

@@ -1,5 +1,15 @@
 // Package vtu reads shell meshes from VTK XML unstructured-grid files
-// (.vtu), as described in the VTK file-format documentation (Kitware).
+// (.vtu) and polydata files (.vtp), as described in the VTK file-format
+// documentation (Kitware).
+//
+// A polydata piece holds its cells in four sections, Verts, Lines, Polys
+// and Strips (each with connectivity and offsets, counted by the Piece's
+// NumberOfVerts, NumberOfLines, NumberOfPolys and NumberOfStrips, a count
+// left out being 0); they are read as one cell list in VTK's order, the
+// vertices first, then the lines, the polygons and the strips, whatever
+// their order in the file, and cell data follows the same order. A cell
+// takes the type VTK gives it (geom.VTKPolyCellType): the polygons of 3
+// and 4 points are triangles and quads, the rest is skipped and counted.
 //
 // Every data-array layout of the format is read: ascii, inline binary
 // (base64) and appended data (raw bytes or base64), with UInt32 or UInt64

@@ -11,7 +11,7 @@ import (
 // FuzzRead checks that no input makes Read panic, that every failure is an
 // input error, and that every mesh it returns is consistent.
 func FuzzRead(f *testing.F) {
-	geomtest.AddFiles(f, "../../testdata/formats/small_*.vtu", "../../testdata/vtu/*.vtu")
+	geomtest.AddFiles(f, "../../testdata/formats/small_*.vtu", "../../testdata/vtu/*.vtu", "../../testdata/polydata/*.vtp")
 	f.Add([]byte(errTemplate))
 	// Hostile inputs of issue 7: compressed blocks that declare far more
 	// than the arrays need, or inflate past what they declare, and

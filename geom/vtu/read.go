@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 
 	"github.com/joinery-cae/joinery/geom"
@@ -113,7 +114,20 @@ type piece struct {
 	elemID *arrayDesc
 	part   *arrayDesc
 	thick  *arrayDesc
+	// A PolyData piece's cell sections (by geom.PolySection): their
+	// cell counts (NumberOfVerts, ...), connectivity and offsets.
+	polyN    [geom.NumPolySections]int64
+	polyConn [geom.NumPolySections]*arrayDesc
+	polyOffs [geom.NumPolySections]*arrayDesc
 }
+
+// polyNames are the element names of the PolyData cell sections and
+// the Piece attributes that count their cells, by geom.PolySection
+// (VTK file-format documentation, Kitware).
+var (
+	polyNames  = [geom.NumPolySections]string{"Verts", "Lines", "Polys", "Strips"}
+	polyCounts = [geom.NumPolySections]string{"NumberOfVerts", "NumberOfLines", "NumberOfPolys", "NumberOfStrips"}
+)
 
 // parser walks the XML structure of a .vtu file.
 type parser struct {
@@ -131,6 +145,9 @@ type parser struct {
 	skipped int64
 	lineAdj int
 
+	// poly is set in a PolyData file, whose pieces hold their cells in
+	// Verts, Lines, Polys and Strips instead of Cells.
+	poly       bool
 	bigEndian  bool
 	header64   bool
 	compressor compressor
@@ -151,6 +168,14 @@ type parser struct {
 	// data, once the arrays have been read (whose errors say more about
 	// a truncated file).
 	endErr error
+}
+
+// dataset returns the name of the file's dataset element.
+func (p *parser) dataset() string {
+	if p.poly {
+		return "PolyData"
+	}
+	return "UnstructuredGrid"
 }
 
 // line returns the file line of the decoder's position.
@@ -216,14 +241,14 @@ func (p *parser) parse() error {
 		switch t := tok.(type) {
 		case xml.EndElement: // </VTKFile>
 			if !sawGrid {
-				return p.errLine(p.line(), "no UnstructuredGrid element")
+				return p.errLine(p.line(), "no %s element", p.dataset())
 			}
 			return nil
 		case xml.StartElement:
 			switch t.Name.Local {
-			case "UnstructuredGrid":
+			case p.dataset():
 				if sawGrid {
-					return p.errLine(p.line(), "second UnstructuredGrid element")
+					return p.errLine(p.line(), "second %s element", p.dataset())
 				}
 				sawGrid = true
 				if err := p.grid(); err != nil {
@@ -231,7 +256,7 @@ func (p *parser) parse() error {
 				}
 			case "AppendedData":
 				if !sawGrid {
-					return p.errLine(p.line(), "AppendedData before the UnstructuredGrid element")
+					return p.errLine(p.line(), "AppendedData before the %s element", p.dataset())
 				}
 				return p.appended(t)
 			default:
@@ -298,13 +323,17 @@ func (p *parser) fileAttrs(se xml.StartElement) error {
 			}
 		}
 	}
-	if typ != "UnstructuredGrid" {
-		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid", geom.Excerpt(typ))
+	switch typ {
+	case "UnstructuredGrid":
+	case "PolyData":
+		p.poly = true
+	default:
+		return p.errLine(p.fileLine, "VTKFile type %q: want UnstructuredGrid or PolyData", geom.Excerpt(typ))
 	}
 	return nil
 }
 
-// grid reads the UnstructuredGrid element.
+// grid reads the UnstructuredGrid or PolyData element.
 func (p *parser) grid() error {
 	for {
 		tok, err := p.token()
@@ -314,7 +343,7 @@ func (p *parser) grid() error {
 		switch t := tok.(type) {
 		case xml.EndElement:
 			if len(p.pieces) == 0 {
-				return p.errLine(p.line(), "UnstructuredGrid has no Piece")
+				return p.errLine(p.line(), "%s has no Piece", p.dataset())
 			}
 			return nil
 		case xml.StartElement:
@@ -338,13 +367,20 @@ const maxCount = 1 << 40
 // piece reads a Piece element.
 func (p *parser) piece(se xml.StartElement) error {
 	pc := &piece{line: p.line(), np: -1, nc: -1}
+	if p.poly {
+		// A PolyData piece counts its cells by section; a count left out
+		// is 0 (VTK's XML polydata reader does the same, from memory).
+		pc.nc = 0
+	}
 	for _, a := range se.Attr {
 		var dst *int64
-		switch a.Name.Local {
-		case "NumberOfPoints":
+		switch name := a.Name.Local; {
+		case name == "NumberOfPoints":
 			dst = &pc.np
-		case "NumberOfCells":
+		case name == "NumberOfCells" && !p.poly:
 			dst = &pc.nc
+		case p.poly && slices.Contains(polyCounts[:], name):
+			dst = &pc.polyN[slices.Index(polyCounts[:], name)]
 		default:
 			continue
 		}
@@ -355,7 +391,13 @@ func (p *parser) piece(se xml.StartElement) error {
 		*dst = v
 	}
 	if pc.np < 0 || pc.nc < 0 {
+		if p.poly {
+			return p.errLine(pc.line, "Piece needs NumberOfPoints")
+		}
 		return p.errLine(pc.line, "Piece needs NumberOfPoints and NumberOfCells")
+	}
+	for _, n := range pc.polyN {
+		pc.nc += n
 	}
 	p.pieces = append(p.pieces, pc)
 	for {
@@ -367,9 +409,12 @@ func (p *parser) piece(se xml.StartElement) error {
 		case xml.EndElement:
 			return nil
 		case xml.StartElement:
-			switch t.Name.Local {
-			case "Points", "Cells", "PointData", "CellData":
-				if err := p.section(pc, t.Name.Local); err != nil {
+			switch name := t.Name.Local; {
+			case name == "Points" || name == "PointData" || name == "CellData" ||
+				name == "Cells" && !p.poly || p.poly && slices.Contains(polyNames[:], name):
+				// A Cells element in a PolyData piece is skipped, as VTK
+				// skips it.
+				if err := p.section(pc, name); err != nil {
 					return err
 				}
 			default:
@@ -418,6 +463,14 @@ func (p *parser) section(pc *piece, sec string) error {
 					slot = &pc.offs
 				case "types":
 					slot = &pc.types
+				}
+			case "Verts", "Lines", "Polys", "Strips":
+				k := slices.Index(polyNames[:], sec)
+				switch a.name {
+				case "connectivity":
+					slot = &pc.polyConn[k]
+				case "offsets":
+					slot = &pc.polyOffs[k]
 				}
 			case "PointData":
 				if a.name == "node_id" {

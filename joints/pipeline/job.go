@@ -281,7 +281,7 @@ func LoadJob(path string) (*Job, error) {
 func notJobFile(path string, data []byte) error {
 	kind, flag := "", ""
 	switch strings.ToLower(filepath.Ext(path)) {
-	case ".jmesh", ".vtk", ".vtu":
+	case ".jmesh", ".vtk", ".vtu", ".vtp":
 		kind, flag = "a mesh file", "--mesh (-m)"
 	case ".csv":
 		kind, flag = "a joint list", "--joints (-j)"

@@ -1,7 +1,8 @@
 """Dump a VTK file as JSON with VTK's own readers (python3-vtk9).
 
 Used by meshio's cross-check test: points, cells (type and point ids) and
-the joinery arrays, as VTK itself reads them.
+the joinery arrays, as VTK itself reads them (unstructured grids and
+polydata, legacy and XML).
 """
 import json
 import sys
@@ -12,8 +13,17 @@ import vtk
 def main(path):
     if path.endswith(".vtu"):
         r = vtk.vtkXMLUnstructuredGridReader()
+    elif path.endswith(".vtp"):
+        r = vtk.vtkXMLPolyDataReader()
     else:
-        r = vtk.vtkUnstructuredGridReader()
+        # A legacy file holds an unstructured grid or a polydata set: VTK
+        # has a reader for each.
+        with open(path, "rb") as f:
+            head = f.read(4096).upper()
+        if b"DATASET POLYDATA" in head:
+            r = vtk.vtkPolyDataReader()
+        else:
+            r = vtk.vtkUnstructuredGridReader()
         r.ReadAllScalarsOn()
         r.ReadAllFieldsOn()
     r.SetFileName(path)
