@@ -99,7 +99,7 @@ welds' attachment nodes share an element (the welds stay apart instead of
 acting as a seam); it checks the welds with build's own rules and audits
 them as build does (seams, duplicates, pitch, free parts, mechanisms). It
 writes, in the output directory:
-  flanges.json  the flanges, their facing pairs and welds (schema joinery/flanges, version 1)
+  flanges.json  the flanges, their facing pairs and welds (schema joinery/flanges, version 2)
   joints.csv    the welds placed, as a joint list for build (empty without --pitch)
   flanges.vtk   centrelines, facing pairs and welds, for viewing beside the mesh
   report.json   summary and findings (schema joinery/report, version 2)

@@ -36,6 +36,10 @@ func TestFlangesExampleGolden(t *testing.T) {
 	}
 	validate(t, "flanges.schema.json", filepath.Join(dir, "flanges.json"))
 	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
+	// The report names the run that wrote it (report.schema.json: command).
+	if c := readReport(t, filepath.Join(dir, "report.json")).Command; c != "flanges" {
+		t.Errorf("report.json: command %q, want flanges", c)
+	}
 	doc := readFlanges(t, filepath.Join(dir, "flanges.json"))
 	pairs := map[[2]int64]int{}
 	for _, fl := range doc.Flanges {

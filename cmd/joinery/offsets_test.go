@@ -195,6 +195,10 @@ func TestOffsetsExampleGolden(t *testing.T) {
 	}
 	validate(t, "surfaces.schema.json", filepath.Join(dir, "surfaces.json"))
 	validate(t, "report.schema.json", filepath.Join(dir, "report.json"))
+	// The report names the run that wrote it (report.schema.json: command).
+	if c := readReport(t, filepath.Join(dir, "report.json")).Command; c != "offsets" {
+		t.Errorf("report.json: command %q, want offsets", c)
+	}
 	code, out, _ = runCLI(t, "offsets", exampleJob, "--out", dir, "--json")
 	var js offsetsJSON
 	if code != exitOK || json.Unmarshal([]byte(out), &js) != nil || len(js.Parts) != 4 {

@@ -39,6 +39,49 @@ func readTree(t *testing.T, dir string) map[string][]byte {
 	return out
 }
 
+// A beam shank of another metal names its pair's material by the shank's
+// constants (stiffness.ShankMaterial), and compare.json still meets its
+// schema: on the example the bracket-to-beam pair (200-400) is held by
+// the two bolts alone.
+func TestSweepShankMaterialMeetsSchema(t *testing.T) {
+	skipWithoutExample(t)
+	dir := filepath.Join(t.TempDir(), "sweep")
+	code, out, errs := runCLI(t, "sweep", exampleJob, "--out", dir, "--quiet", "--shank", "beam", "--shank-modulus", "70000",
+		"--vary", "bolt-dofs=tx+ty+tz,tx+ty+tz+rx+ry+rz")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	validate(t, "sweep-compare.schema.json", filepath.Join(dir, "compare.json"))
+	validate(t, "sweep-manifest.schema.json", filepath.Join(dir, "manifest.json"))
+	var doc struct {
+		Pairs []struct {
+			Parts    [2]int64 `json:"parts"`
+			Variants []struct {
+				Material string `json:"material"`
+			} `json:"variants"`
+		} `json:"pairs"`
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "compare.json"))
+	if err != nil || json.Unmarshal(b, &doc) != nil {
+		t.Fatalf("compare.json: %v", err)
+	}
+	found := false
+	for _, p := range doc.Pairs {
+		if p.Parts == [2]int64{200, 400} {
+			for _, v := range p.Variants {
+				// The name of E = 70000 N/mm^2 with steel's nu = 0.3.
+				if v.Material != "E=70000 N/mm^2 nu=0.3" {
+					t.Errorf("pair 200-400: material %q", v.Material)
+				}
+				found = true
+			}
+		}
+	}
+	if !found {
+		t.Error("no pair 200-400 in compare.json")
+	}
+}
+
 func TestSweepExampleGolden(t *testing.T) {
 	skipWithoutExample(t)
 	dir := filepath.Join(t.TempDir(), "sweep")

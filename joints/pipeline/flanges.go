@@ -161,6 +161,7 @@ func Flanges(ctx context.Context, job *Job, s FlangeSettings, env Env) (*Flanges
 	}
 	fl := document.NewFlanges(m, set.Flanges, o, fo, info)
 	rep := document.NewReport(res, info)
+	rep.Command = "flanges"
 	node := func(id int64) ([3]float64, bool) {
 		i, ok := m.NodeIndex(id)
 		if !ok {

@@ -17,7 +17,8 @@ type ReportDoc struct {
 	Version   int    `json:"version"`
 	Generator string `json:"generator"`
 	RunID     string `json:"run_id"`
-	// Command is the run that wrote the report: "build" or "check".
+	// Command is the run that wrote the report: "build" (also each
+	// variant of a sweep), "check", "flanges" or "offsets".
 	Command  string       `json:"command"`
 	Caution  string       `json:"caution"`
 	Units    Units        `json:"units"`

@@ -119,7 +119,9 @@ func NewSurfaces(r *offset.Result, info RunInfo) *SurfacesDoc {
 // NewSurfacesReport converts an inference into a report document of the
 // same shape as a build's: its findings, counted in the summary.
 func NewSurfacesReport(r *offset.Result, info RunInfo) *ReportDoc {
-	return NewReport(&joints.Result{Findings: r.Findings, Options: r.Options}, info)
+	doc := NewReport(&joints.Result{Findings: r.Findings, Options: r.Options}, info)
+	doc.Command = "offsets"
+	return doc
 }
 
 // EncodeSurfaces writes the surfaces document as indented JSON.
