@@ -103,7 +103,6 @@ const (
 	CodeHoleClass       = "hole-class"       // declared hole larger than ISO 273's coarse series for the size
 	CodeWasherSmall     = "washer-small"     // washer smaller than ISO 7089's for the size
 	CodeWasherHole      = "washer-hole"      // washer does not cover the measured hole
-	CodeNoAxis          = "no-axis"          // no sheet near the bolt gives an axis direction
 	CodeShankShort      = "shank-short"      // a beam shank between centres that (nearly) coincide
 	CodeHoleOffCentre   = "hole-off-centre"  // the bolt's point off the centre of a meshed hole
 	CodeHolesMisaligned = "holes-misaligned" // a meshed hole's centre off the axis through the stack's holes by more than the clearance
