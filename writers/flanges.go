@@ -150,8 +150,12 @@ func WriteFlangesSummary(w io.Writer, doc *document.FlangesDoc, rep *document.Re
 	if n := len(doc.Options.Pairs); n > 0 {
 		asked = fmt.Sprintf(" of the %d asked for", n)
 	}
-	ew.printf("flanges     %d on %d part pairs%s (%d open, %d closed; %d congruent, %d projected)\n",
-		len(doc.Flanges), len(pairs), asked, open, closed, congruent, len(doc.Flanges)-congruent)
+	pairWord := "part pairs"
+	if len(pairs) == 1 {
+		pairWord = "part pair"
+	}
+	ew.printf("flanges     %d on %d %s%s (%d open, %d closed; %d congruent, %d projected)\n",
+		len(doc.Flanges), len(pairs), pairWord, asked, open, closed, congruent, len(doc.Flanges)-congruent)
 	ew.printf("facing      %d node pairs\n", facing)
 	if doc.Options.Pitch != nil || doc.Options.PitchFromTable {
 		s := rep.Summary

@@ -222,7 +222,7 @@ func TestFlangesPairs(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if !strings.Contains(out, "flanges     2 on 1 part pairs of the 2 asked for") || !strings.Contains(out, "no-flange 1") {
+	if !strings.Contains(out, "flanges     2 on 1 part pair of the 2 asked for") || !strings.Contains(out, "no-flange 1") {
 		t.Errorf("summary:\n%s", out)
 	}
 }
